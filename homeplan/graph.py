@@ -1,0 +1,288 @@
+"""Which upgrades apply to a home, and what must come before what.
+
+The graph is a plain ``networkx.DiGraph`` whose nodes are candidate projects (data: the
+``Candidate`` record) plus any-of group nodes, and whose edges carry ``kind``:
+
+- ``requires``: hard order, the head cannot be done before the tail (a charger before the car);
+- ``better_before``: soft order worth following (air sealing before sizing a heat pump; the roof
+  before solar when the roof has less life left than the panels);
+- ``any_of``: from an alternative to a group node, and from the group node to the project that
+  needs one of the alternatives (panel upgrade OR service upgrade OR load management OR a
+  lower-power variant, whichever the capacity check finds enough).
+
+References
+----------
+NEC 2023 Articles 220 and 625 for why large new loads may need a capacity remedy;
+common practice, no source: air sealing before heat pump sizing, roof before solar.
+"""
+
+from __future__ import annotations
+
+import difflib
+from dataclasses import dataclass, field
+
+from homeplan import catalog, lifecycle
+from homeplan.errors import PlanRuleError
+from homeplan.plan.model import Plan
+
+FOSSIL = ("gas", "propane", "oil")
+HEATING_KINDS = ("furnace", "boiler", "central_ac", "room_ac", "baseboard")
+CAPACITY_GROUP = "any_of:capacity"
+LOWER_POWER = "lower_power_variants"
+MILESTONE_FOR_FUEL = {"gas": "close_gas", "propane": "remove_propane_tank", "oil": "remove_oil_tank"}
+
+
+@dataclass(frozen=True)
+class Candidate:
+    """A project that applies to this home."""
+
+    id: str
+    kind: str
+    label: str
+    replaces: tuple[str, ...] = ()       # keys of appliances/vehicles it replaces
+    variant: str | None = None           # default variant for this home
+    cautions: tuple[str, ...] = ()
+    milestone: bool = False
+    notes: tuple[str, ...] = field(default_factory=tuple)
+
+
+def _has_ducts(plan: Plan) -> bool:
+    if plan.home.has_ducts is not None:
+        return plan.home.has_ducts
+    return any(a.kind in ("furnace", "central_ac") for a in plan.appliances)
+
+
+def heat_pump_variant(plan: Plan, design_temp_f: float | None) -> str:
+    """Default heat pump variant: ductless without ducts, cold-climate below 5 F design."""
+    if not _has_ducts(plan):
+        return "ductless"
+    if design_temp_f is not None and design_temp_f < 5:
+        return "cold_climate"
+    return "ducted"
+
+
+def candidates(plan: Plan) -> list[Candidate]:
+    """The projects that apply to this home, in a stable order."""
+    kinds = catalog.upgrade_kinds()
+    out: list[Candidate] = []
+
+    def add(cid: str, kind: str, **kw) -> None:
+        k = kinds[kind]
+        label = kw.pop("label", k.label)
+        out.append(Candidate(cid, kind, label, cautions=k.cautions, milestone=k.milestone, **kw))
+
+    apps = plan.appliances
+    heating = [a for a in apps if a.kind in HEATING_KINDS]
+    if heating or not any(a.kind in ("heat_pump", "mini_split") for a in apps):
+        add("heat_pump", "heat_pump", replaces=tuple(a.key for a in heating),
+            variant=heat_pump_variant(plan, plan.home.climate.heating_design_f))
+    for a in apps:
+        fuel = lifecycle.appliance_fuel(a)
+        if a.kind == "water_heater" and lifecycle.appliance_type(a) != "heat_pump":
+            add(_unique(out, "heat_pump_water_heater", a.key), "heat_pump_water_heater",
+                replaces=(a.key,), variant="v240")
+        elif a.kind in ("range", "cooktop") and fuel in FOSSIL:
+            add(_unique(out, "induction_range", a.key), "induction_range", replaces=(a.key,), variant="full")
+        elif a.kind == "dryer" and fuel in FOSSIL:
+            add(_unique(out, "heat_pump_dryer", a.key), "heat_pump_dryer", replaces=(a.key,), variant="v120")
+    ev_ids = []
+    for i, v in enumerate(plan.vehicles):
+        if v.fuel != "electric":
+            key = plan.vehicle_key(i)
+            ev_ids.append(f"ev:{key}")
+            add(f"ev:{key}", "ev", replaces=(key,), label=f"Electric vehicle (replaces {v.name or key})")
+    if ev_ids:
+        add("ev_charger", "ev_charger", variant="a40")
+    roof = plan.home.roof
+    if plan.home.solar is None and not (roof is not None and roof.usable_area_ft2 == 0):
+        add("solar", "solar")
+    if plan.home.battery is None:
+        add("battery", "battery")
+    if plan.home.envelope != "tight":
+        add("envelope", "envelope")
+    if roof is not None and roof.year_installed is not None:
+        o = lifecycle.roof_outlook(roof, plan.first_year, plan.budget.horizon_years)
+        if o.replace_by_year <= plan.first_year + plan.budget.horizon_years + 5:
+            add("roof", "roof", replaces=("roof",))
+    for remedy in ("panel_upgrade", "service_upgrade", "load_management"):
+        add(remedy, remedy)
+    for fuel, milestone in MILESTONE_FOR_FUEL.items():
+        if any(lifecycle.appliance_fuel(a) == fuel for a in apps):
+            add(milestone, milestone)
+    return out
+
+
+def _unique(existing: list[Candidate], base: str, key: str) -> str:
+    ids = {c.id for c in existing}
+    return base if base not in ids else f"{base}:{key}"
+
+
+def build_graph(plan: Plan):
+    """The upgrade graph for this home (see the module docstring for node and edge kinds).
+
+    Raises PlanRuleError for unknown project ids in the plan's choices and for cycles that the
+    user's extra order creates, naming the cycle.
+    """
+    import networkx as nx
+
+    kinds = catalog.upgrade_kinds()
+    cands = candidates(plan)
+    g = nx.DiGraph()
+    for c in cands:
+        g.add_node(c.id, candidate=c, kind="project")
+    ids = {c.id for c in cands}
+    by_kind: dict[str, list[str]] = {}
+    for c in cands:
+        by_kind.setdefault(c.kind, []).append(c.id)
+
+    def edge(a: str, b: str, kind: str, why: str) -> None:
+        if a in ids and b in ids and a != b:
+            g.add_edge(a, b, kind=kind, why=why)
+
+    for c in cands:
+        k = kinds[c.kind]
+        for req in k.requires:
+            for r in by_kind.get(req, []):
+                edge(r, c.id, "requires", f"{kinds[req].label} comes before {k.label.lower()}")
+        for bb in k.better_before:
+            for r in by_kind.get(bb, []):
+                edge(r, c.id, "better_before", f"{kinds[bb].label} is better done before {k.label.lower()}")
+    # battery with existing solar needs no new array
+    if plan.home.solar is not None and "battery" in ids:
+        for u in list(g.predecessors("battery")):
+            if u == "solar":
+                g.remove_edge(u, "battery")
+    # the roof before solar: hard when the roof is near its end, soft when it has less life than panels
+    if "roof" in ids and "solar" in ids and plan.home.roof is not None:
+        o = lifecycle.roof_outlook(plan.home.roof, plan.first_year)
+        left = o.expected_end_year - plan.first_year
+        if left < 10:
+            g.add_edge("roof", "solar", kind="requires",
+                       why=f"the roof has about {left} years left; replace it before adding panels")
+        elif left < kinds["solar"].life_years:
+            g.add_edge("roof", "solar", kind="better_before",
+                       why=f"the roof has about {left} years left, less than the panels' "
+                           f"{kinds['solar'].life_years:.0f}")
+        else:
+            g.remove_edge("roof", "solar") if g.has_edge("roof", "solar") else None
+    # closing a fuel needs every appliance on that fuel replaced
+    for fuel, milestone in MILESTONE_FOR_FUEL.items():
+        if milestone not in ids:
+            continue
+        for c in cands:
+            if c.milestone:
+                continue
+            for key in c.replaces:
+                a = next((x for x in plan.appliances if x.key == key), None)
+                if a is not None and lifecycle.appliance_fuel(a) == fuel:
+                    g.add_edge(c.id, milestone, kind="requires",
+                               why=f"the {a.key.replace('_', ' ')} burns {fuel}")
+    # any-of capacity alternatives for the big new loads
+    remedies = [r for r in ("panel_upgrade", "service_upgrade", "load_management") if r in ids]
+    loads = [c.id for c in cands if kinds[c.kind].capacity_load]
+    if remedies and loads:
+        g.add_node(CAPACITY_GROUP, kind="any_of", label="enough electrical capacity",
+                   alternatives=(*remedies, LOWER_POWER))
+        for r in remedies:
+            g.add_edge(r, CAPACITY_GROUP, kind="any_of", why="one way to make room on the service")
+        for load in loads:
+            g.add_edge(CAPACITY_GROUP, load, kind="any_of",
+                       why="needs room on the service if the load calculation says so")
+    _apply_user_order(g, plan, ids)
+    _check_choice_ids(plan, ids)
+    hard = nx.DiGraph((u, v) for u, v, d in g.edges(data=True) if d["kind"] != "any_of")
+    hard.add_nodes_from(ids)
+    try:
+        cycle = nx.find_cycle(hard)
+    except nx.NetworkXNoCycle:
+        cycle = None
+    if cycle:
+        names = " -> ".join([u for u, _ in cycle] + [cycle[0][0]])
+        raise PlanRuleError(("choices", "require_before"), f"the order makes a cycle: {names}",
+                            "remove one of these entries from choices.require_before")
+    return g
+
+
+def _suggest(name: str, ids: set[str]) -> str:
+    close = difflib.get_close_matches(name, sorted(ids), n=1, cutoff=0.5)
+    return f"did you mean '{close[0]}'?" if close else f"projects for this home: {', '.join(sorted(ids))}"
+
+
+def _apply_user_order(g, plan: Plan, ids: set[str]) -> None:
+    for after, befores in plan.choices.require_before.items():
+        if after not in ids:
+            raise PlanRuleError(("choices", "require_before", after),
+                                f"unknown project '{after}'", _suggest(after, ids))
+        for i, before in enumerate(befores):
+            if before not in ids:
+                raise PlanRuleError(("choices", "require_before", after, i),
+                                    f"unknown project '{before}'", _suggest(before, ids))
+            g.add_edge(before, after, kind="requires", why="your choice")
+
+
+def _check_choice_ids(plan: Plan, ids: set[str]) -> None:
+    for pid in plan.choices.pins:
+        if pid not in ids:
+            raise PlanRuleError(("choices", "pins", pid), f"unknown project '{pid}'", _suggest(pid, ids))
+    for i, pid in enumerate(plan.choices.exclude):
+        if pid not in ids:
+            raise PlanRuleError(("choices", "exclude", i), f"unknown project '{pid}'", _suggest(pid, ids))
+    for pid in plan.options:
+        if pid not in ids:
+            raise PlanRuleError(("options", pid), f"unknown project '{pid}'", _suggest(pid, ids))
+    keys = {a.key for a in plan.appliances}
+    for i, key in enumerate(plan.choices.failed_now):
+        if key not in keys:
+            raise PlanRuleError(("choices", "failed_now", i), f"unknown appliance '{key}'",
+                                _suggest(key, keys))
+    last = plan.first_year + plan.budget.horizon_years - 1
+    for pid, year in plan.choices.pins.items():
+        if not plan.first_year <= year <= last:
+            raise PlanRuleError(("choices", "pins", pid),
+                                f"{pid} is pinned to {year}, outside the plan's years "
+                                f"{plan.first_year}-{last}", "pick a year inside the horizon")
+
+
+def project_nodes(g) -> list[str]:
+    return [n for n, d in g.nodes(data=True) if d.get("kind") == "project"]
+
+
+def layers(g) -> list[list[str]]:
+    """Topological layers of the projects over hard and soft order (any-of groups flattened)."""
+    import networkx as nx
+
+    h = nx.DiGraph()
+    h.add_nodes_from(project_nodes(g))
+    for u, v, d in g.edges(data=True):
+        if d["kind"] in ("requires", "better_before"):
+            h.add_edge(u, v)
+    return [sorted(layer) for layer in nx.topological_generations(h)]
+
+
+def any_of_groups(g) -> dict[str, dict]:
+    """Group node -> {alternatives, needed_by}."""
+    out = {}
+    for n, d in g.nodes(data=True):
+        if d.get("kind") == "any_of":
+            out[n] = {"label": d["label"], "alternatives": list(d["alternatives"]),
+                      "needed_by": sorted(g.successors(n))}
+    return out
+
+
+def to_dot(g) -> str:
+    """Graphviz DOT text of the graph (solid: requires, dashed: better before, dotted: any of)."""
+    style = {"requires": "solid", "better_before": "dashed", "any_of": "dotted"}
+    lines = ["digraph upgrades {", '  rankdir=LR;', '  node [shape=box, fontname="Helvetica"];']
+    for n, d in g.nodes(data=True):
+        label = d["candidate"].label if d.get("kind") == "project" else f"one of: {', '.join(d['alternatives'])}"
+        shape = "" if d.get("kind") == "project" else ", shape=diamond"
+        lines.append(f'  "{_dot_escape(n)}" [label="{_dot_escape(label)}"{shape}];')
+    for u, v, d in g.edges(data=True):
+        lines.append(f'  "{_dot_escape(u)}" -> "{_dot_escape(v)}" [style={style[d["kind"]]}, '
+                     f'tooltip="{_dot_escape(d.get("why", ""))}"];')
+    lines.append("}")
+    return "\n".join(lines) + "\n"
+
+
+def _dot_escape(text: str) -> str:
+    return str(text).replace("\\", "\\\\").replace('"', '\\"').replace("\n", " ")

@@ -1,0 +1,207 @@
+"""End-of-life risk of the home's appliances: a Weibull survival model per appliance.
+
+The scale comes from the catalog's median service life and the shape (wear-out) from the same
+table. Condition shortens life by accelerated ageing: an appliance in "poor" condition ages
+faster by the factor in data/condition_factors.csv.
+
+References
+----------
+W. Weibull (1951), "A statistical distribution function of wide applicability", J. Appl. Mech.
+ASHRAE Handbook - HVAC Applications, "Owning and Operating Costs", service-life table (medians).
+For a Weibull distribution S(t) = exp(-(t/eta)^beta), the median is eta (ln 2)^(1/beta), and the
+conditional survival after age a is S(a + t) / S(a) (any reliability text, e.g. Meeker &
+Escobar, "Statistical Methods for Reliability Data", 1998, ch. 4).
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+
+import numpy as np
+
+from homeplan import catalog
+from homeplan.plan.model import Appliance, Plan, Roof, Vehicle
+
+DEFAULT_FUEL = {
+    "furnace": "gas", "boiler": "gas", "water_heater": "gas", "range": "gas", "cooktop": "gas",
+    "wall_oven": "electric", "dryer": "electric", "central_ac": "electric", "room_ac": "electric",
+    "heat_pump": "electric", "mini_split": "electric", "baseboard": "electric",
+}
+
+
+def weibull_scale(median_years: float, shape: float) -> float:
+    """Scale eta of a Weibull distribution with the given median: eta = median / (ln 2)^(1/beta)."""
+    return median_years / math.log(2.0) ** (1.0 / shape)
+
+
+def survival(age_years: np.ndarray | float, scale: float, shape: float) -> np.ndarray:
+    """S(t) = exp(-(t/eta)^beta): the chance of still working at age t."""
+    t = np.maximum(np.asarray(age_years, dtype=float), 0.0)
+    return np.exp(-((t / scale) ** shape))
+
+
+def yearly_failure_probability(age_years: float, years: int, scale: float, shape: float) -> np.ndarray:
+    """P(fails during future year k | works today), k = 1..years (unconditional on years between).
+
+    Element k-1 is (S(a+k-1) - S(a+k)) / S(a); the elements sum to the cumulative risk.
+    """
+    t = age_years + np.arange(years + 1, dtype=float)
+    s = survival(t, scale, shape) / survival(age_years, scale, shape)
+    return s[:-1] - s[1:]
+
+
+def hazard_by_year(age_years: float, years: int, scale: float, shape: float) -> np.ndarray:
+    """P(fails during future year k | still works at the start of that year)."""
+    t = age_years + np.arange(years + 1, dtype=float)
+    s = survival(t, scale, shape)
+    with np.errstate(invalid="ignore", divide="ignore"):
+        h = 1.0 - s[1:] / s[:-1]
+    return np.nan_to_num(h, nan=1.0)
+
+
+def cumulative_failure_probability(age_years: float, years: int, scale: float, shape: float) -> np.ndarray:
+    """P(has failed by the end of future year k | works today), k = 1..years."""
+    t = age_years + np.arange(1, years + 1, dtype=float)
+    return 1.0 - survival(t, scale, shape) / survival(age_years, scale, shape)
+
+
+def remaining_life_at_risk(age_years: float, risk: float, scale: float, shape: float) -> float:
+    """Years until the conditional failure probability reaches ``risk`` (0-1).
+
+    Solves S(a + r) / S(a) = 1 - risk: a + r = eta ((a/eta)^beta - ln(1 - risk))^(1/beta).
+    With risk = 0.5 this is the conditional median remaining life.
+    """
+    if not 0.0 < risk < 1.0:
+        raise ValueError("risk must be between 0 and 1")
+    a = max(age_years, 0.0)
+    return scale * ((a / scale) ** shape - math.log(1.0 - risk)) ** (1.0 / shape) - a
+
+
+def mean_remaining_life(age_years: float, scale: float, shape: float) -> float:
+    """E[T - a | T > a] = integral of S(a + t) / S(a) dt, by the trapezoid rule on a fine grid."""
+    t = np.linspace(0.0, 6.0 * scale + 1.0, 20001)
+    s = survival(age_years + t, scale, shape) / survival(age_years, scale, shape)
+    return float(np.sum((s[1:] + s[:-1]) * 0.5 * np.diff(t)))
+
+
+@dataclass(frozen=True)
+class LifeOutlook:
+    """Age and end-of-life risk of one appliance, vehicle or roof."""
+
+    key: str
+    label: str
+    kind: str
+    fuel: str
+    install_year: int
+    install_year_assumed: bool
+    age_years: float
+    effective_age_years: float
+    median_life_years: float
+    shape: float
+    source: str
+    expected_end_year: int          # conditional median: more likely than not failed by then
+    mean_remaining_years: float
+    replace_by_year: int            # conditional failure risk reaches the chosen level
+    risk_pct: float
+    first_year: int
+    yearly_failure_pct: tuple[float, ...]   # chance it fails in each future year, given it works today
+    cumulative_failure_pct: tuple[float, ...]
+    failed: bool = False
+
+    @property
+    def fossil(self) -> bool:
+        return self.fuel in ("gas", "propane", "oil", "gasoline", "diesel")
+
+
+def outlook(
+    key: str, label: str, kind: str, fuel: str, type_: str, install_year: int | None,
+    condition: str, today_year: int, years: int = 15, risk_pct: float = 50.0,
+) -> LifeOutlook:
+    """End-of-life outlook from the catalog's service life for this kind, fuel and type."""
+    life = catalog.service_life(kind, fuel, type_)
+    assumed = install_year is None
+    if install_year is None:
+        install_year = int(round(today_year - life.median_life_years / 2))
+    age = max(0.0, float(today_year - install_year))
+    factor = catalog.condition_factors().get(condition, 1.0)
+    failed = condition in ("failing", "failed") or factor <= 0.0
+    eff_age = age / factor if factor > 0 else age
+    scale = weibull_scale(life.median_life_years, life.weibull_shape)
+    if failed:
+        yearly = np.zeros(years)
+        yearly[0] = 1.0
+        cumulative = np.ones(years)
+        end = replace_by = today_year
+        mean_rem = 0.0
+    else:
+        yearly = yearly_failure_probability(eff_age, years, scale, life.weibull_shape)
+        cumulative = cumulative_failure_probability(eff_age, years, scale, life.weibull_shape)
+        rem_med = remaining_life_at_risk(eff_age, 0.5, scale, life.weibull_shape) * factor
+        rem_risk = remaining_life_at_risk(eff_age, risk_pct / 100, scale, life.weibull_shape) * factor
+        end = today_year + int(math.floor(rem_med))
+        replace_by = today_year + int(math.floor(rem_risk))
+        mean_rem = mean_remaining_life(eff_age, scale, life.weibull_shape) * factor
+    return LifeOutlook(
+        key=key, label=label, kind=kind, fuel=fuel, install_year=install_year,
+        install_year_assumed=assumed, age_years=age, effective_age_years=eff_age,
+        median_life_years=life.median_life_years, shape=life.weibull_shape, source=life.source,
+        expected_end_year=end, mean_remaining_years=mean_rem, replace_by_year=replace_by,
+        risk_pct=risk_pct, first_year=today_year,
+        yearly_failure_pct=tuple(float(x) * 100 for x in yearly),
+        cumulative_failure_pct=tuple(float(x) * 100 for x in cumulative), failed=failed,
+    )
+
+
+def appliance_fuel(appliance: Appliance) -> str:
+    return appliance.fuel or DEFAULT_FUEL.get(appliance.kind, "electric")
+
+
+def appliance_type(appliance: Appliance) -> str:
+    if appliance.type:
+        return appliance.type
+    return "storage" if appliance.kind == "water_heater" else ""
+
+
+def appliance_outlook(a: Appliance, today_year: int, years: int = 15, risk_pct: float = 50,
+                      failed_now: bool = False) -> LifeOutlook:
+    label = f"{appliance_fuel(a)} {a.kind.replace('_', ' ')}" if a.kind != "heat_pump" else "heat pump"
+    return outlook(a.key, label, a.kind, appliance_fuel(a), appliance_type(a), a.year_installed,
+                   "failed" if failed_now else a.condition, today_year, years, risk_pct)
+
+
+def vehicle_outlook(v: Vehicle, key: str, today_year: int, years: int = 15,
+                    risk_pct: float = 50) -> LifeOutlook:
+    fuel = "gasoline" if v.fuel in ("gasoline", "hybrid", "plug_in_hybrid") else v.fuel
+    start = v.model_year or v.year_acquired
+    o = outlook(key, v.name or f"{v.fuel} {v.body}", "vehicle", "gasoline", v.body, start, "good",
+                today_year, years, risk_pct)
+    if v.replace_year is not None:  # the owner's plan wins over the statistics
+        o = _replace(o, replace_by_year=v.replace_year, expected_end_year=v.replace_year, fuel=fuel)
+    return _replace(o, fuel=fuel)
+
+
+def roof_outlook(roof: Roof, today_year: int, years: int = 15, risk_pct: float = 50) -> LifeOutlook:
+    return outlook("roof", f"{roof.material.replace('_', ' ')} roof", "roof", "", roof.material,
+                   roof.year_installed, "good", today_year, years, risk_pct)
+
+
+def _replace(o: LifeOutlook, **changes) -> LifeOutlook:
+    from dataclasses import replace
+
+    return replace(o, **changes)
+
+
+def plan_outlooks(plan: Plan, years: int | None = None) -> list[LifeOutlook]:
+    """Outlooks for every appliance, vehicle and the roof, from the plan's first year."""
+    first = plan.first_year
+    years = years or max(plan.budget.horizon_years, 10)
+    risk = plan.choices.replace_at_risk_pct
+    failed = set(plan.choices.failed_now)
+    out = [appliance_outlook(a, first, years, risk, a.key in failed) for a in plan.appliances]
+    for i, v in enumerate(plan.vehicles):
+        if v.fuel != "electric":
+            out.append(vehicle_outlook(v, plan.vehicle_key(i), first, years, risk))
+    if plan.home.roof is not None:
+        out.append(roof_outlook(plan.home.roof, first, years, risk))
+    return out

@@ -1,0 +1,78 @@
+"""Weibull end-of-life model against closed-form values."""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+import pytest
+
+from homeplan import lifecycle
+
+
+def test_scale_gives_the_median():
+    # Weibull median = eta (ln 2)^(1/beta) (closed form): S(median) = 0.5
+    for median, shape in [(18, 3.0), (12, 2.0), (15, 1.0)]:
+        eta = lifecycle.weibull_scale(median, shape)
+        assert float(lifecycle.survival(median, eta, shape)) == pytest.approx(0.5, abs=1e-12)
+
+
+def test_exponential_case_is_memoryless():
+    # beta = 1: constant hazard 1 - exp(-1/eta) every year whatever the age (closed form)
+    eta = lifecycle.weibull_scale(10, 1.0)
+    h = lifecycle.hazard_by_year(7.0, 5, eta, 1.0)
+    np.testing.assert_allclose(h, 1 - math.exp(-1 / eta), rtol=1e-12)
+
+
+def test_yearly_probabilities_closed_form():
+    # Rayleigh (beta = 2), eta = 10, age 10: P(fail in year 1 | alive) = 1 - exp(-(1.1^2 - 1)) = 1 - e^-0.21
+    p = lifecycle.yearly_failure_probability(10.0, 3, 10.0, 2.0)
+    assert p[0] == pytest.approx(1 - math.exp(-0.21), rel=1e-12)
+    # year 2: (S(11) - S(12)) / S(10) = exp(-0.21) - exp(-0.44)
+    assert p[1] == pytest.approx(math.exp(-0.21) - math.exp(-0.44), rel=1e-12)
+    cum = lifecycle.cumulative_failure_probability(10.0, 3, 10.0, 2.0)
+    np.testing.assert_allclose(np.cumsum(p), cum, rtol=1e-12)
+
+
+def test_remaining_life_at_risk_closed_form():
+    # S(a+r)/S(a) = 1 - p  =>  a + r = eta ((a/eta)^b - ln(1-p))^(1/b)
+    eta, b, a = 20.0, 3.0, 15.0
+    r = lifecycle.remaining_life_at_risk(a, 0.5, eta, b)
+    assert float(lifecycle.survival(a + r, eta, b) / lifecycle.survival(a, eta, b)) == pytest.approx(0.5)
+    # new appliance: the conditional median equals the median
+    assert lifecycle.remaining_life_at_risk(0.0, 0.5, eta, b) == pytest.approx(eta * math.log(2) ** (1 / b))
+
+
+def test_mean_remaining_life_of_new_unit_is_weibull_mean():
+    # E[T] = eta * Gamma(1 + 1/beta) (closed form)
+    eta, b = 20.0, 3.0
+    assert lifecycle.mean_remaining_life(0.0, eta, b) == pytest.approx(eta * math.gamma(1 + 1 / b), rel=1e-6)
+
+
+def test_older_appliance_has_higher_near_term_risk():
+    young = lifecycle.outlook("a", "a", "furnace", "gas", "", 2020, "good", 2027)
+    old = lifecycle.outlook("b", "b", "furnace", "gas", "", 2005, "good", 2027)
+    assert old.yearly_failure_pct[0] > young.yearly_failure_pct[0]
+    assert old.replace_by_year < young.replace_by_year
+
+
+def test_failed_appliance_must_go_now():
+    o = lifecycle.outlook("a", "a", "water_heater", "gas", "storage", 2015, "failed", 2027)
+    assert o.replace_by_year == 2027 and o.yearly_failure_pct[0] == 100
+
+
+def test_poor_condition_shortens_life():
+    good = lifecycle.outlook("a", "a", "furnace", "gas", "", 2012, "good", 2027)
+    poor = lifecycle.outlook("a", "a", "furnace", "gas", "", 2012, "poor", 2027)
+    assert poor.expected_end_year < good.expected_end_year
+
+
+def test_catalog_life_matches_sources():
+    from homeplan import catalog
+
+    # ASHRAE service-life table: residential gas furnace median 18 years
+    assert catalog.service_life("furnace", "gas").median_life_years == 18
+    # PNNL FEDS: heat pump water heater 12 years
+    assert catalog.service_life("water_heater", "electric", "heat_pump").median_life_years == 12
+    for row in catalog.service_lives():
+        assert row.source.strip(), row
