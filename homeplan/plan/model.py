@@ -395,7 +395,12 @@ class Choices(Section):
     require_before: dict[str, list[str]] = Field(
         {}, description="Extra order: project id -> projects that must be done first."
     )
-    all_electric_by: Year | None = None
+    all_electric: bool = Field(
+        True, description="Take the home off gas, oil, propane and gasoline within the horizon."
+    )
+    all_electric_by: Year | None = Field(
+        None, description="A firm year for fully electric; the plan is infeasible if it cannot."
+    )
     max_projects_per_year: int | None = Field(None, ge=1, le=20)
     replace_at_risk_pct: float = Field(
         50, gt=0, lt=100, description="Replace an appliance by the year its failure risk reaches this."

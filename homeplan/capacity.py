@@ -1,0 +1,312 @@
+"""Electrical capacity of the home in every state of the roadmap, and the remedy the plan uses.
+
+The loads come from the plan's appliances (defaults in ``data/existing_loads.csv``) or from the
+explicit load list an installer entered; new loads from the upgrade variants in
+``data/upgrades.yaml``. The electrical engine (:mod:`homeplan.electrical`) does the code
+arithmetic; this module only assembles its inputs and turns its answers into scheduling
+constraints and into the breakdowns the views show.
+
+References
+----------
+NEC 2023 (2020 selectable) 220.83 existing dwelling, 220.82 new service, 220.70/750.30 energy
+management, 705.12(B) load-side solar connection, 625.42 EV charging.
+"""
+
+from __future__ import annotations
+
+import csv
+from dataclasses import dataclass, field, replace
+from functools import cache
+
+from homeplan import catalog
+from homeplan.catalog import _data_text
+from homeplan.home_energy import performance
+from homeplan.lifecycle import appliance_fuel, appliance_type
+from homeplan.plan.model import Plan
+from homeplan.result import CapacityRow, CapacityState
+
+LOAD_KINDS = {"general": "appliance", "appliance": "appliance", "range": "range", "dryer": "dryer",
+              "water_heater": "water_heater", "heating": "heating", "cooling": "cooling",
+              "heat_pump": "heat_pump_compressor", "supplemental_heat": "supplemental_heat",
+              "ev_charger": "ev_charger", "motor": "motor", "other": "other"}
+
+
+@cache
+def _existing_table() -> tuple[dict, ...]:
+    return tuple(csv.DictReader(_data_text("existing_loads.csv").splitlines()))
+
+
+def _row(kind: str, fuel: str = "", type_: str = "") -> dict | None:
+    rows = [r for r in _existing_table() if r["kind"] == kind]
+    for r in rows:
+        if r["fuel"] == fuel and r["type"] == type_:
+            return r
+    for r in rows:
+        if r["fuel"] == fuel and not r["type"]:
+            return r
+    for r in rows:
+        if not r["fuel"]:
+            return r
+    return None
+
+
+def existing_loads(plan: Plan) -> list:
+    """The home's fixed loads today, each named after the appliance it belongs to."""
+    from homeplan.electrical.loads import Load
+
+    e = plan.home.electrical
+    if e.loads:
+        return [Load(name=ld.name, va=ld.va, category=LOAD_KINDS[ld.kind or "appliance"],
+                     volts=ld.voltage_v, continuous=ld.continuous, source="entered by you")
+                for ld in e.loads]
+    out = []
+    for a in plan.appliances:
+        fuel = appliance_fuel(a)
+        r = _row(a.kind, fuel, appliance_type(a) if a.kind == "water_heater" else "")
+        if r is None:
+            continue
+        va = None
+        if a.nameplate_va:
+            va = a.nameplate_va
+        elif r["va"]:
+            va = float(r["va"])
+        elif r["va_per_ton"]:
+            tons = (a.capacity_btuh or 36000.0) / 12000.0
+            va = float(r["va_per_ton"]) * tons
+        elif r["va_per_ft2"]:
+            va = float(r["va_per_ft2"]) * plan.home.floor_area_ft2
+        elif a.kind == "furnace" and a.capacity_btuh:
+            va = a.capacity_btuh / 3.41214
+        if not va:
+            continue
+        out.append(Load(name=f"{a.key} ({a.kind.replace('_', ' ')})", va=va, category=r["category"],
+                        volts=int(r["volts"]), continuous=r["continuous"] == "true",
+                        source="your nameplate" if a.nameplate_va else r["source"]))
+        if a.kind == "heat_pump":  # existing heat pumps usually carry strips that can run with them
+            out.append(Load(name=f"{a.key} strips 10 kW", va=10000.0, category="supplemental_heat",
+                            source="electrical reference notes: strip heat 10 kW = 41.7 A (assumed)"))
+    r = _row("dishwasher")
+    out.append(Load(name="dishwasher (assumed)", va=float(r["va"]), category="appliance", volts=120,
+                    source=r["source"]))
+    if any(v.fuel == "electric" for v in plan.vehicles):
+        r = _row("ev_charger", "electric")
+        out.append(Load(name="EV charger (existing)", va=float(r["va"]), category="ev_charger",
+                        continuous=True, source=r["source"]))
+    return out
+
+
+def _names_for(plan: Plan, keys: tuple[str, ...], loads: list) -> tuple[str, ...]:
+    prefixes = tuple(f"{k} " for k in keys)
+    return tuple(ld.name for ld in loads if ld.name.startswith(prefixes))
+
+
+def project_loads(kind: str, variant_id: str | None, size: float, name: str) -> tuple:
+    """The new loads of one project in one variant."""
+    from homeplan.electrical.upgrade_loads import loads_for_upgrade
+
+    k = catalog.upgrade_kinds()[kind]
+    if not k.capacity_load:
+        return ()
+    v = k.variant(variant_id)
+    if v is None:
+        return ()
+    if k.category == "heating":
+        return loads_for_upgrade("heating", name=name, va_per_ton=v.va_per_ton, tons=size,
+                                 strips_kw=v.strips_kw or 0.0, strips_interlocked=v.strips_interlocked)
+    if k.category == "vehicles":
+        return loads_for_upgrade("vehicles", name=name, amps=v.amps)
+    volts = 120 if (v.va or 0) <= 1920 else 240
+    return loads_for_upgrade(k.category, name=name, va=v.va, volts=volts)
+
+
+def _service(plan: Plan):
+    from homeplan.electrical.loads import Service
+
+    e = plan.home.electrical
+    return Service(service_amps=e.service_amps, busbar_amps=e.busbar_amps,
+                   main_breaker_amps=e.main_breaker_amps, volts=e.voltage_v)
+
+
+def _dwelling(plan: Plan):
+    from homeplan.electrical.loads import Dwelling
+
+    e = plan.home.electrical
+    return Dwelling(plan.home.floor_area_ft2, max(e.small_appliance_circuits, 2), max(e.laundry_circuits, 1))
+
+
+def _inverter_amps(ctx, pids: set[str]) -> float:
+    amps = 0.0
+    for pid in pids:
+        d = ctx.details[pid]
+        if d.kind == "solar":
+            amps += d.size / 1.2 * 1000.0 / 240.0  # AC rating at a 1.2 DC/AC ratio (PVWatts default)
+        elif d.kind == "battery":
+            amps += performance()["battery_default_kw"] * d.size / performance()["battery_default_kwh"] * 1000 / 240
+    h = ctx.plan.home
+    if h.solar is not None:
+        amps += (h.solar.inverter_kw or h.solar.size_kw / 1.2) * 1000.0 / 240.0
+    if h.battery is not None:
+        amps += h.battery.power_kw * 1000.0 / 240.0
+    return amps
+
+
+@dataclass
+class CapacityModel:
+    """Linear capacity data for the scheduler plus the remedy behind it."""
+
+    base_headroom: float | None
+    use: dict[str, float] = field(default_factory=dict)
+    provided: dict[str, float] = field(default_factory=dict)
+    prerequisites: list = field(default_factory=list)
+    excluded: set[str] = field(default_factory=set)
+    notes: list[str] = field(default_factory=list)
+    remedy: object | None = None
+    remedy_project: str | None = None
+    ems_setpoint_va: float | None = None
+    solar_connection: str | None = None
+
+
+REMEDY_PROJECTS = ("panel_upgrade", "service_upgrade", "load_management")
+
+
+def capacity_model(ctx) -> CapacityModel:
+    """Choose the cheapest remedy for the end state and express capacity linearly.
+
+    Mutates ``ctx.details`` when the remedy picks a lower-power variant of a project.
+    """
+    from homeplan.electrical.nec220 import nec220_83
+    from homeplan.electrical.remedies import (
+        ProposedLoad,
+        RemedyCosts,
+        ServiceUpgrade,
+        Variant,
+        find_remedy,
+    )
+    from homeplan.projects import with_variant
+
+    plan = ctx.plan
+    edition = plan.home.electrical.code_edition
+    kinds = catalog.upgrade_kinds()
+    dwelling, service = _dwelling(plan), _service(plan)
+    base = existing_loads(plan)
+    today = nec220_83(dwelling, base, service, edition=edition)
+    model = CapacityModel(base_headroom=float(today.headroom_amps))
+    load_pids = [pid for pid, d in ctx.details.items() if kinds[d.kind].capacity_load
+                 and pid not in plan.choices.exclude]
+    proposed = []
+    for pid in load_pids:
+        d = ctx.details[pid]
+        k = kinds[d.kind]
+        fixed = plan.options.get(pid) is not None and plan.options[pid].variant is not None
+        family = [v.id for v in k.variants if v.id != d.variant]
+        if d.kind == "heat_pump":  # only the backup-strip choices change the electrical load
+            family = [v for v in family if v.startswith("ducted") and d.variant.startswith("ducted")]
+        variants = [d.variant] + ([] if fixed else family)
+        vs = []
+        for vid in variants:
+            alt = with_variant(d, plan, ctx.basis, vid) if vid != d.variant else d
+            vs.append(Variant(label=vid, loads=project_loads(d.kind, vid, alt.size, pid),
+                              extra_cost_usd=max(0.0, alt.cost_today_usd - d.cost_today_usd)))
+        proposed.append(ProposedLoad(name=pid, variants=tuple(vs),
+                                     replaces=_names_for(plan, d.candidate.replaces, base)))
+    offered = {pid for pid in REMEDY_PROJECTS if pid in ctx.details and pid not in plan.choices.exclude}
+    p = performance()
+    upgrades = ()
+    if "service_upgrade" in offered and service.service_amps < p["service_upgrade_new_amps"]:
+        upgrades = (ServiceUpgrade(p["service_upgrade_new_amps"], ctx.details["service_upgrade"].cost_today_usd),)
+    costs = RemedyCosts(
+        ems_usd=ctx.details["load_management"].cost_today_usd if "load_management" in offered else None,
+        derate_main_usd=p["derate_main_usd"], supply_side_usd=p["supply_side_usd"],
+        service_upgrades=upgrades, ems_min_setpoint_amps=p["ems_min_setpoint_amps"],
+    )
+    solar_pids = {pid for pid, d in ctx.details.items() if d.kind in ("solar", "battery")
+                  and pid not in plan.choices.exclude}
+    remedy = find_remedy(dwelling, base, service, proposed, costs, inverter_output_amps=_inverter_amps(ctx, solar_pids),
+                         edition=edition)
+    model.remedy = remedy
+    if not remedy.fits:
+        model.notes.append("even the largest remedy on offer does not make every electric load fit the "
+                           "service; the plan keeps the loads that fit (see the power view)")
+    for name, vid in remedy.choices:
+        if name in ctx.details and vid != ctx.details[name].variant:
+            ctx.details[name] = with_variant(ctx.details[name], plan, ctx.basis, vid)
+            model.notes.append(f"{ctx.details[name].label}: {ctx.details[name].variant_label} "
+                               "(a lower-power choice that fits the service)")
+    chosen = None
+    if remedy.service_upgrade is not None:
+        chosen = "service_upgrade"
+    elif remedy.ems is not None:
+        chosen = "load_management"
+        model.ems_setpoint_va = remedy.ems.setpoint_va
+    model.remedy_project = chosen
+    model.excluded = {r for r in REMEDY_PROJECTS if r in ctx.details and r != chosen}
+    if remedy.derated_main_amps:
+        model.solar_connection = f"main breaker derated to {remedy.derated_main_amps:g} A for the solar connection"
+    elif remedy.supply_side:
+        model.solar_connection = "supply-side solar connection"
+    # linear use per load: its amps against today's home, one at a time
+    for pid in load_pids:
+        d = ctx.details[pid]
+        loads = _apply(base, plan, d.candidate.replaces, project_loads(d.kind, d.variant, d.size, pid))
+        after = nec220_83(dwelling, loads, service, edition=edition)
+        model.use[pid] = max(0.0, float(after.amps - today.amps))
+    if chosen == "service_upgrade":
+        model.provided[chosen] = float(remedy.service.limit_amps - service.limit_amps)
+    elif chosen == "load_management":
+        all_loads = list(base)
+        for pid in load_pids:
+            d = ctx.details[pid]
+            all_loads = _apply(all_loads, plan, d.candidate.replaces, project_loads(d.kind, d.variant, d.size, pid))
+        plain = nec220_83(dwelling, all_loads, service, edition=edition)
+        model.provided[chosen] = max(0.0, float(plain.amps - remedy.calc.amps))
+    if chosen is None and remedy.needed is False:
+        model.notes.append("the service carries every planned electric load: no panel or service upgrade needed")
+    return model
+
+
+def _apply(loads: list, plan: Plan, replaces: tuple[str, ...], new: tuple) -> list:
+    gone = set(_names_for(plan, replaces, loads))
+    return [ld for ld in loads if ld.name not in gone] + [replace(ld, existing=False) for ld in new]
+
+
+def state_capacity(ctx, model: CapacityModel, done: set[str], label: str, year: int | None) -> CapacityState:
+    """The exact load calculation of the home with ``done`` projects."""
+    from homeplan.electrical.loads import Ems, Service
+    from homeplan.electrical.nec220 import nec220_82, nec220_83
+
+    plan = ctx.plan
+    edition = plan.home.electrical.code_edition
+    kinds = catalog.upgrade_kinds()
+    dwelling, service = _dwelling(plan), _service(plan)
+    loads = existing_loads(plan)
+    for pid in sorted(done):
+        d = ctx.details.get(pid)
+        if d is None or not kinds[d.kind].capacity_load:
+            continue
+        loads = _apply(loads, plan, d.candidate.replaces, project_loads(d.kind, d.variant, d.size, pid))
+    remedy_note = None
+    ems = None
+    if model.remedy_project and model.remedy_project in done:
+        if model.remedy_project == "service_upgrade" and model.remedy is not None:
+            service = Service(service_amps=model.remedy.service.service_amps,
+                              busbar_amps=model.remedy.service.busbar_amps,
+                              main_breaker_amps=model.remedy.service.service_amps, volts=service.volts)
+            remedy_note = f"service upgraded to {service.service_amps:g} A"
+        elif model.remedy_project == "load_management" and model.ems_setpoint_va:
+            ems = Ems(model.ems_setpoint_va, name="Load management device")
+            loads = [replace(ld, ems_controlled=True) if ld.ems_eligible and not ld.existing else ld
+                     for ld in loads]
+            remedy_note = f"load management holds managed loads to {model.ems_setpoint_va / 240:.0f} A"
+    if ems is not None and not any(ld.ems_controlled for ld in loads):
+        ems = None
+    if remedy_note and "upgraded" in remedy_note:
+        calc = nec220_82(dwelling, loads, service, edition=edition)
+    else:
+        calc = nec220_83(dwelling, loads, service, edition=edition, ems=ems)
+    rows = tuple(CapacityRow(r.load_name, float(r.va), float(r.factor) if r.factor is not None else float("nan"),
+                             float(r.counted_va) if r.counted_va is not None else float("nan"), r.section)
+                 for r in calc.rows)
+    return CapacityState(label=label, year=year, method=calc.method, total_va=float(calc.total_va),
+                         amps=float(calc.amps), service_amps=float(calc.service_amps),
+                         headroom_amps=float(calc.headroom_amps), fits=bool(calc.fits), rows=rows,
+                         remedy=remedy_note, notes=tuple(calc.notes))

@@ -1,0 +1,154 @@
+"""Heat-loss coefficient (UA) and design heating load from a household's own fuel bills.
+
+Two methods, both from the utility-bill ("fuel use") approach: the summer-baseload split and the
+degree-day regression; a floor-area fallback when there are no bills (flagged as estimated).
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+
+from homeplan.energy._data import efficiency
+
+
+@dataclass(frozen=True)
+class Calibration:
+    """Result of a bill calibration. ``estimated`` is True for the floor-area fallback."""
+
+    ua_btuh_f: float
+    design_load_btuh: float
+    baseload_per_day: float
+    heating_fuel_per_yr: float
+    method: str
+    estimated: bool
+    r2: float | None = None
+
+    @property
+    def design_load_kw(self) -> float:
+        """Design heating load in kW (thermal)."""
+        from homeplan.energy.units import btu_to_kwh
+
+        return btu_to_kwh(self.design_load_btuh)
+
+
+def ua_from_heating_fuel(heating_fuel_units: float, btu_per_unit: float, efficiency_frac: float,
+                         hdd65: float, distribution_eff: float = 1.0) -> float:
+    """UA in Btu/h-F from a year's heating fuel: UA = F_h * Btu/unit * eff / (24 * HDD65).
+
+    References
+    ----------
+    ASHRAE Handbook - Fundamentals, ch. 19 "Energy Estimating and Modeling Methods"
+    (degree-day method, Q = 24 UA HDD / efficiency); reference/energy.md worked example.
+    """
+    if hdd65 <= 0:
+        raise ValueError("hdd65 must be positive")
+    delivered_btu = heating_fuel_units * btu_per_unit * efficiency_frac * distribution_eff
+    return delivered_btu / (24.0 * hdd65)
+
+
+def design_heating_load_btuh(ua_btuh_f: float, design_temp_f: float, indoor_f: float = 65.0) -> float:
+    """Design heating load = UA * (T_base - T_99).
+
+    References
+    ----------
+    ACCA Manual J (99 % heating design dry-bulb); reference/energy.md (65 F base; 70 F adds ~8 %).
+    """
+    return ua_btuh_f * max(indoor_f - design_temp_f, 0.0)
+
+
+def split_summer_baseload(use_units: np.ndarray, days: np.ndarray, n_base_months: int = 3
+                          ) -> tuple[float, np.ndarray]:
+    """Baseload per day (mean use/day of the ``n_base_months`` lowest months) and monthly heating.
+
+    References
+    ----------
+    Utility-bill "fuel use" method: B = mean use/day in the lowest summer months;
+    F_h,m = use_m - B * days_m (reference/energy.md).
+    """
+    use = np.asarray(use_units, float)
+    d = np.asarray(days, float)
+    per_day = use / d
+    base = float(np.sort(per_day)[:n_base_months].mean())
+    heating = np.maximum(use - base * d, 0.0)
+    return base, heating
+
+
+def calibrate_summer_baseload(use_units: np.ndarray, days: np.ndarray, hdd65: float,
+                              design_temp_f: float, efficiency_frac: float,
+                              btu_per_unit: float = 100_000.0, n_base_months: int = 3,
+                              distribution_eff: float = 1.0) -> Calibration:
+    """UA and design load by the summer-baseload split of 12 monthly bills.
+
+    References
+    ----------
+    ASHRAE Handbook - Fundamentals, ch. 19 (degree-day method); reference/energy.md.
+    """
+    base, heating = split_summer_baseload(use_units, days, n_base_months)
+    f_h = float(heating.sum())
+    ua = ua_from_heating_fuel(f_h, btu_per_unit, efficiency_frac, hdd65, distribution_eff)
+    return Calibration(ua, design_heating_load_btuh(ua, design_temp_f), base, f_h,
+                       "summer baseload", False)
+
+
+def calibrate_annual(annual_units: float, baseload_units_per_yr: float, hdd65: float,
+                     design_temp_f: float, efficiency_frac: float,
+                     btu_per_unit: float = 100_000.0, distribution_eff: float = 1.0) -> Calibration:
+    """Annual form of the baseload split: F_h = annual - baseload (reference/energy.md check value).
+
+    References
+    ----------
+    reference/energy.md "Heat loss from fuel bills" (F_h = annual - 365 B; UA = Q / (24 HDD65)).
+    """
+    f_h = annual_units - baseload_units_per_yr
+    ua = ua_from_heating_fuel(f_h, btu_per_unit, efficiency_frac, hdd65, distribution_eff)
+    return Calibration(ua, design_heating_load_btuh(ua, design_temp_f),
+                       baseload_units_per_yr / 365.0, f_h, "annual baseload", False)
+
+
+def calibrate_regression(use_units: np.ndarray, days: np.ndarray, hdd65_by_bill: np.ndarray,
+                         design_temp_f: float, efficiency_frac: float,
+                         btu_per_unit: float = 100_000.0, min_hdd_per_day: float = 2.0,
+                         distribution_eff: float = 1.0) -> Calibration:
+    """Degree-day regression: use/day = b0 + b1 * HDD/day over bills with >= ``min_hdd_per_day``.
+
+    UA = b1 * Btu/unit * efficiency / 24. The baseload per day is b0.
+
+    References
+    ----------
+    Fels, M. (1986), "PRISM: an introduction", Energy and Buildings 9:5-18;
+    ASHRAE Guideline 14-2014, change-point models (from memory).
+    """
+    use = np.asarray(use_units, float)
+    d = np.asarray(days, float)
+    hdd = np.asarray(hdd65_by_bill, float)
+    x = hdd / d
+    y = use / d
+    keep = x >= min_hdd_per_day
+    if keep.sum() < 3:
+        raise ValueError("need at least 3 bills with heating degree-days for the regression")
+    b1, b0 = np.polyfit(x[keep], y[keep], 1)
+    pred = b0 + b1 * x[keep]
+    ss_res = float(((y[keep] - pred) ** 2).sum())
+    ss_tot = float(((y[keep] - y[keep].mean()) ** 2).sum())
+    r2 = 1.0 - ss_res / ss_tot if ss_tot > 0 else None
+    ua = float(b1) * btu_per_unit * efficiency_frac * distribution_eff / 24.0
+    heating = float(b1 * hdd.sum())
+    return Calibration(ua, design_heating_load_btuh(ua, design_temp_f), float(b0), heating,
+                       "degree-day regression", False, r2)
+
+
+def calibrate_from_floor_area(floor_area_ft2: float, design_temp_f: float,
+                              vintage: str = "1980_2000") -> Calibration:
+    """Fallback without bills: UA from floor area and a vintage default. Flagged as estimated.
+
+    ``vintage`` is one of ``pre1980``, ``1980_2000``, ``post2000``.
+
+    References
+    ----------
+    Common practice, no source (defaults in data/efficiencies.csv, ``ua_per_ft2_*``).
+    """
+    ua = floor_area_ft2 * efficiency(f"ua_per_ft2_{vintage}")
+    return Calibration(ua, design_heating_load_btuh(ua, design_temp_f), 0.0, float("nan"),
+                       f"floor-area default ({vintage})", True)

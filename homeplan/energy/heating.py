@@ -1,0 +1,296 @@
+"""Space heating and cooling: furnaces/boilers (AFUE), resistance, heat pumps, central AC (SEER2).
+
+Hourly loads come from the degree-hour model: load_btuh = UA * max(T_balance - T_out, 0).
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+
+import numpy as np
+
+from homeplan.energy._data import efficiency
+from homeplan.energy.units import btu_per_kwh, btu_per_unit
+
+#: Fuels a combustion heater or dual-fuel backup can burn.
+COMBUSTION_FUELS = ("natural_gas", "propane", "heating_oil")
+
+
+@dataclass(frozen=True)
+class FurnaceSpec:
+    """Furnace or boiler burning ``fuel`` at ``afue``; ``aux_kwh_per_therm_out`` covers the blower
+    or circulator (electricity per therm of delivered heat; 0 to ignore).
+
+    References
+    ----------
+    DOE 10 CFR 430 Subpart B Appendix N (AFUE test procedure).
+    """
+
+    fuel: str = "natural_gas"
+    afue: float = 0.80
+    aux_kwh_per_therm_out: float = 0.0
+    kind: str = "furnace"
+
+    def __post_init__(self) -> None:
+        if self.fuel not in COMBUSTION_FUELS:
+            raise ValueError(f"furnace fuel must be one of {COMBUSTION_FUELS}, got {self.fuel!r}")
+        if not 0.3 <= self.afue <= 1.0:
+            raise ValueError("afue must be between 0.3 and 1.0")
+
+
+@dataclass(frozen=True)
+class ResistanceHeatSpec:
+    """Electric resistance heat (baseboard, electric furnace); efficiency 1.0 at the point of use."""
+
+    efficiency: float = 1.0
+
+
+@dataclass(frozen=True)
+class HeatPumpSpec:
+    """Air-source heat pump rated at 47/17/5 F (Btu/h and COP), with backup and cut-out.
+
+    ``backup`` is ``"resistance"``, ``"none"`` or a combustion fuel (dual fuel, burned at
+    ``backup_afue``). Below ``switchover_f`` (dual fuel) the heat pump stops and the backup carries
+    the whole load. ``cycling_cd`` is the part-load degradation coefficient (0 for inverter units).
+
+    References
+    ----------
+    DOE 10 CFR 430 Subpart B Appendix M1 (AHRI 210/240-2023) rating points H1 47 F, H3 17 F, H4 5 F.
+    ENERGY STAR cold-climate criterion: COP >= 1.75 and capacity >= 70 % of 47 F rating at 5 F.
+    """
+
+    capacity_47_btuh: float
+    capacity_17_btuh: float
+    capacity_5_btuh: float
+    cop_47: float
+    cop_17: float
+    cop_5: float
+    cutout_f: float = -13.0
+    backup: str = "resistance"
+    backup_afue: float = 1.0
+    switchover_f: float | None = None
+    cycling_cd: float = 0.0
+    seer2: float = 16.0
+
+    def __post_init__(self) -> None:
+        if self.backup not in ("resistance", "none", *COMBUSTION_FUELS):
+            raise ValueError(f"unknown heat pump backup {self.backup!r}")
+        if min(self.cop_47, self.cop_17, self.cop_5) <= 0:
+            raise ValueError("COPs must be positive")
+
+    @classmethod
+    def typical(cls, kind: str, capacity_47_btuh: float, **kw: float | str | None) -> HeatPumpSpec:
+        """A typical ``cold_climate`` or ``single_stage`` unit of ``capacity_47_btuh`` (rating
+        ratios, COPs, cut-out, Cd and SEER2 from data/efficiencies.csv ``hp_<kind>_*``).
+
+        References
+        ----------
+        Typical values from memory (reference/energy.md "Heat pumps").
+        """
+        if kind not in ("cold_climate", "single_stage"):
+            raise ValueError("kind must be cold_climate or single_stage")
+
+        def e(key: str) -> float:
+            return efficiency(f"hp_{kind}_{key}")
+
+        c = capacity_47_btuh
+        kw.setdefault("cutout_f", e("cutout_f"))
+        kw.setdefault("cycling_cd", e("cd"))
+        kw.setdefault("seer2", e("seer2"))
+        return cls(c, e("cap17_frac") * c, e("cap5_frac") * c, e("cop47"), e("cop17"), e("cop5"),
+                   **kw)  # type: ignore[arg-type]
+
+    @classmethod
+    def cold_climate(cls, capacity_47_btuh: float, **kw: float | str | None) -> HeatPumpSpec:
+        """Typical cold-climate variable-speed unit (see :meth:`typical`)."""
+        return cls.typical("cold_climate", capacity_47_btuh, **kw)
+
+    @classmethod
+    def single_stage(cls, capacity_47_btuh: float, **kw: float | str | None) -> HeatPumpSpec:
+        """Typical single-stage unit (see :meth:`typical`)."""
+        return cls.typical("single_stage", capacity_47_btuh, **kw)
+
+
+HeatingSpec = FurnaceSpec | ResistanceHeatSpec | HeatPumpSpec
+
+
+@dataclass(frozen=True)
+class CoolingSpec:
+    """Central air conditioner (or the cooling side of a heat pump) rated by SEER2 (Btu/Wh).
+
+    References
+    ----------
+    DOE 10 CFR 430 Subpart B Appendix M1 (SEER2); RESNET MINHERS Addendum 71 (SEER2 = 0.95 SEER).
+    """
+
+    seer2: float = 13.4
+
+
+def heating_load_btuh(ua_btuh_f: float, temp_f: np.ndarray, balance_f: float = 65.0) -> np.ndarray:
+    """Hourly heating load = UA * max(T_balance - T_out, 0).
+
+    References
+    ----------
+    ASHRAE Handbook - Fundamentals, ch. 19 (variable-base degree-hour method).
+    """
+    return ua_btuh_f * np.maximum(balance_f - temp_f, 0.0)
+
+
+def cooling_load_btuh(ua_btuh_f: float, temp_f: np.ndarray, balance_f: float = 65.0) -> np.ndarray:
+    """Hourly sensible cooling load = UA * max(T_out - T_balance, 0) (degree-hour method).
+
+    References
+    ----------
+    ASHRAE Handbook - Fundamentals, ch. 19 (degree-hour method; no solar or latent gains).
+    """
+    return ua_btuh_f * np.maximum(temp_f - balance_f, 0.0)
+
+
+def _piecewise(temp_f: np.ndarray, v5: float, v17: float, v47: float) -> np.ndarray:
+    """Linear through (5, v5), (17, v17), (47, v47); extrapolated with the end slopes."""
+    t = np.asarray(temp_f, float)
+    low = v5 + (t - 5.0) * (v17 - v5) / 12.0
+    high = v17 + (t - 17.0) * (v47 - v17) / 30.0
+    return np.where(t < 17.0, low, high)
+
+
+def hp_capacity_btuh(spec: HeatPumpSpec, temp_f: np.ndarray) -> np.ndarray:
+    """Maximum heating capacity at outdoor ``temp_f``; zero below the cut-out temperature.
+
+    References
+    ----------
+    DOE 10 CFR 430 Appendix M1 rating points; reference/energy.md hourly model (piecewise linear
+    through 5/17/47 F, 5-17 slope below 5 F, Cap = 0 below cut-out).
+    """
+    cap = np.maximum(_piecewise(temp_f, spec.capacity_5_btuh, spec.capacity_17_btuh,
+                                spec.capacity_47_btuh), 0.0)
+    return np.where(np.asarray(temp_f) < spec.cutout_f, 0.0, cap)
+
+
+def hp_cop(spec: HeatPumpSpec, temp_f: np.ndarray) -> np.ndarray:
+    """Steady-state heating COP at outdoor ``temp_f`` (piecewise linear, clamped at >= 1).
+
+    References
+    ----------
+    DOE 10 CFR 430 Appendix M1 rating points; reference/energy.md hourly model.
+    """
+    return np.maximum(_piecewise(temp_f, spec.cop_5, spec.cop_17, spec.cop_47), 1.0)
+
+
+def balance_point_f(spec: HeatPumpSpec, ua_btuh_f: float, indoor_balance_f: float = 65.0) -> float:
+    """Thermal balance point T*: UA (T_bal - T*) = Cap(T*). Below it backup heat is needed.
+
+    References
+    ----------
+    ASHRAE Handbook - HVAC Systems and Equipment, ch. 49 (heat pump balance point);
+    reference/energy.md.
+    """
+    grid = np.arange(-60.0, indoor_balance_f + 0.005, 0.01)
+    short = heating_load_btuh(ua_btuh_f, grid, indoor_balance_f) - hp_capacity_btuh(spec, grid)
+    ok = short <= 0
+    if not ok.any():
+        return float(indoor_balance_f)
+    return float(grid[np.argmax(ok)])
+
+
+@dataclass(frozen=True, eq=False)
+class HeatingHourly:
+    """Hourly heating energy by carrier (kWh electricity, trade units of the fuel)."""
+
+    electric_kwh: np.ndarray
+    fuel_units: np.ndarray
+    fuel: str | None
+    backup_btuh: np.ndarray
+    delivered_btuh: np.ndarray
+
+    @property
+    def backup_hours(self) -> int:
+        """Hours per year in which backup heat runs."""
+        return int(np.count_nonzero(self.backup_btuh > 1e-9))
+
+
+def heat_pump_hourly(spec: HeatPumpSpec, temp_f: np.ndarray, load_btuh: np.ndarray) -> HeatingHourly:
+    """Hourly heat-pump and backup energy for a heating load.
+
+    Q_hp = min(Load, Cap(T)); backup = Load - Q_hp; kWh = Q_hp / (COP PLF 3412.14) + resistance
+    backup / 3412.14, or dual-fuel backup / (AFUE Btu/unit). PLF = 1 - Cd (1 - PLR).
+
+    References
+    ----------
+    reference/energy.md "Heat pumps" (hourly model); AHRI 210/240 part-load factor
+    PLF = 1 - Cd (1 - PLR).
+    """
+    kbtu = btu_per_kwh()
+    cap = hp_capacity_btuh(spec, temp_f)
+    if spec.switchover_f is not None:
+        cap = np.where(np.asarray(temp_f) < spec.switchover_f, 0.0, cap)
+    q_hp = np.minimum(load_btuh, cap)
+    backup = load_btuh - q_hp
+    cop = hp_cop(spec, temp_f)
+    if spec.cycling_cd > 0:
+        plr = np.divide(q_hp, cap, out=np.zeros_like(q_hp), where=cap > 0)
+        cop = cop * (1.0 - spec.cycling_cd * (1.0 - plr))
+        cop = np.maximum(cop, 0.5)
+    elec = q_hp / (cop * kbtu)
+    fuel_units = np.zeros_like(load_btuh)
+    fuel: str | None = None
+    if spec.backup == "resistance":
+        elec = elec + backup / kbtu
+    elif spec.backup in COMBUSTION_FUELS:
+        fuel = spec.backup
+        fuel_units = backup / (spec.backup_afue * btu_per_unit(fuel))
+    else:  # no backup: unmet load
+        backup = np.zeros_like(backup)
+    return HeatingHourly(elec, fuel_units, fuel, backup, q_hp + backup)
+
+
+def heating_hourly(spec: HeatingSpec, temp_f: np.ndarray, load_btuh: np.ndarray) -> HeatingHourly:
+    """Hourly energy of any heating system for a heating load.
+
+    References
+    ----------
+    DOE 10 CFR 430 Appendix N (AFUE): fuel = load / (AFUE * Btu/unit);
+    resistance: kWh = load / 3412.14; heat pumps: :func:`heat_pump_hourly`.
+    """
+    zero = np.zeros_like(load_btuh)
+    if isinstance(spec, HeatPumpSpec):
+        return heat_pump_hourly(spec, temp_f, load_btuh)
+    if isinstance(spec, ResistanceHeatSpec):
+        return HeatingHourly(load_btuh / (spec.efficiency * btu_per_kwh()), zero, None, zero, load_btuh)
+    if isinstance(spec, FurnaceSpec):
+        units = load_btuh / (spec.afue * btu_per_unit(spec.fuel))
+        aux = load_btuh / 1e5 * spec.aux_kwh_per_therm_out
+        return HeatingHourly(aux, units, spec.fuel, zero, load_btuh)
+    raise TypeError(f"unknown heating spec {type(spec).__name__}")
+
+
+def cooling_kwh(seer2: float, load_btuh: np.ndarray) -> np.ndarray:
+    """Cooling electricity: kWh = load (Btu) / (SEER2 * 1000) (seasonal average efficiency).
+
+    References
+    ----------
+    DOE 10 CFR 430 Appendix M1: SEER2 in Btu per Wh; cooling COP = SEER / 3.412.
+    """
+    return load_btuh / (seer2 * 1000.0)
+
+
+def size_heat_pump(design_load_btuh: float, design_temp_f: float, kind: str = "cold_climate",
+                   coverage: float = 1.0, step_btuh: float = 6000.0, **kw: float | str | None
+                   ) -> HeatPumpSpec:
+    """Smallest heat pump (in ``step_btuh`` = 0.5 ton steps of 47 F capacity) whose capacity at the
+    design temperature covers ``coverage`` x the design load.
+
+    References
+    ----------
+    ACCA Manual S (equipment selection at the design condition); NEEP cold-climate air-source heat
+    pump sizing guidance (size to the heating load at design, from memory).
+    """
+    unit = HeatPumpSpec.typical(kind, 1.0, **kw)
+    cap_at_design = float(hp_capacity_btuh(unit, np.array([design_temp_f]))[0])
+    if cap_at_design <= 0:
+        # Design temperature below cut-out: size to the cut-out temperature instead.
+        cap_at_design = float(hp_capacity_btuh(unit, np.array([unit.cutout_f]))[0])
+    need = coverage * design_load_btuh / max(cap_at_design, 1e-6)
+    nominal = max(step_btuh, math.ceil(need / step_btuh - 1e-9) * step_btuh)
+    return HeatPumpSpec.typical(kind, nominal, **kw)

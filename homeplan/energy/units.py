@@ -1,0 +1,81 @@
+"""Unit conversions used at the edges of the energy engine.
+
+References
+----------
+NIST SP 811, Guide for the Use of the International System of Units (Btu, therm, kWh).
+EIA, "Energy units and calculators" (fuel heat contents). EPA fuel economy label (33.7 kWh/gal).
+"""
+
+from __future__ import annotations
+
+from typing import TypeVar
+
+import numpy as np
+
+from homeplan.energy._data import constant
+
+T = TypeVar("T", float, np.ndarray)
+
+#: Trade unit of each fuel handled by the engine.
+FUEL_UNITS: dict[str, str] = {
+    "electricity": "kWh",
+    "natural_gas": "therm",
+    "propane": "gal",
+    "heating_oil": "gal",
+    "gasoline": "gal",
+    "diesel": "gal",
+}
+
+_BTU_KEYS = {
+    "electricity": "btu_per_kwh",
+    "natural_gas": "btu_per_therm",
+    "propane": "btu_per_gallon_propane",
+    "heating_oil": "btu_per_gallon_heating_oil",
+    "gasoline": "btu_per_gallon_gasoline",
+    "diesel": "btu_per_gallon_diesel",
+}
+
+
+def c_to_f(temp_c: T) -> T:
+    """Celsius to Fahrenheit."""
+    return temp_c * 1.8 + 32.0
+
+
+def f_to_c(temp_f: T) -> T:
+    """Fahrenheit to Celsius."""
+    return (temp_f - 32.0) / 1.8
+
+
+def btu_per_kwh() -> float:
+    """Btu in one kWh (International Table Btu)."""
+    return constant("btu_per_kwh")
+
+
+def btu_per_unit(fuel: str) -> float:
+    """Heat content of one trade unit of ``fuel`` (kWh, therm or gallon) in Btu.
+
+    References
+    ----------
+    EIA "Energy units and calculators"; EPA 33.7 kWh per gallon gasoline equivalent.
+    """
+    return constant(_BTU_KEYS[fuel])
+
+
+def kwh_to_btu(kwh: T) -> T:
+    """kWh to Btu."""
+    return kwh * btu_per_kwh()
+
+
+def btu_to_kwh(btu: T) -> T:
+    """Btu to kWh."""
+    return btu / btu_per_kwh()
+
+
+def therm_to_kwh(therm: T) -> T:
+    """therm to kWh (1 therm = 100,000 Btu)."""
+    return therm * constant("btu_per_therm") / btu_per_kwh()
+
+
+def ccf_to_therm(ccf: T, therm_per_ccf: float | None = None) -> T:
+    """Hundred cubic feet of natural gas to therms (the bill prints the local factor)."""
+    return ccf * (constant("therm_per_ccf") if therm_per_ccf is None else therm_per_ccf)

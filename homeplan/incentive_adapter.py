@@ -1,0 +1,163 @@
+"""Incentive programs for one plan: where they come from and what they pay.
+
+Programs are data: the plan's own ``incentives:`` list plus every file named in
+``incentive_files:`` (paths relative to the plan file). Nothing is applied that the plan does
+not list, so a plan for a real home never picks up the invented demo programs.
+
+The scheduler gets per-project, per-year estimates (each purchase on its own); the roadmap gets
+the exact evaluation of all chosen purchases together (shared yearly caps, lifetime caps,
+stacking, tax liability and carryforward), by :mod:`homeplan.money.incentives`.
+"""
+
+from __future__ import annotations
+
+import datetime as dt
+from dataclasses import dataclass
+from pathlib import Path
+
+from homeplan.errors import PlanRuleError
+from homeplan.lifecycle import appliance_fuel
+from homeplan.result import ProgramUse
+
+MONEY_KIND = {"close_gas": "gas_closure"}
+INSTALL_MONTH_DAY = (3, 1)
+"""Purchases are dated 1 March of their year: quotes in the winter, installation in spring."""
+
+
+@dataclass(frozen=True)
+class AwardLine:
+    program: str
+    amount_usd: float
+    arrives: dt.date
+    kind: str
+
+    @property
+    def arrival_year(self) -> int:
+        return self.arrives.year
+
+
+def _install_date(year: int) -> dt.date:
+    return dt.date(year, *INSTALL_MONTH_DAY)
+
+
+def load_programs(plan, base_dir: Path | None) -> tuple:
+    """Parse the plan's programs and its incentive files; errors point at the plan key."""
+    from homeplan.money.incentives import IncentiveDataError, parse_catalog, read_catalog
+
+    programs = []
+    if plan.incentives:
+        try:
+            programs.extend(parse_catalog(list(plan.incentives)))
+        except IncentiveDataError as exc:
+            raise PlanRuleError(("incentives",), str(exc), "see docs/plan-format.md#incentives") from None
+    for i, name in enumerate(plan.incentive_files):
+        path = Path(name)
+        if not path.is_absolute() and base_dir is not None:
+            path = base_dir / path
+        if not path.exists():
+            raise PlanRuleError(("incentive_files", i), f"incentive file not found: {path}",
+                                "give a path relative to the plan file")
+        try:
+            programs.extend(read_catalog(path))
+        except IncentiveDataError as exc:
+            raise PlanRuleError(("incentive_files", i), f"{path.name}: {exc}",
+                                "fix the program record named in the message") from None
+    seen: set[str] = set()
+    for p in programs:
+        if p.id in seen:
+            raise PlanRuleError(("incentives",), f"two incentive programs share the id '{p.id}'",
+                                "give each program its own id")
+        seen.add(p.id)
+    return tuple(programs)
+
+
+class IncentiveModel:
+    """Incentive estimates and exact evaluation for one plan."""
+
+    def __init__(self, ctx, programs: tuple):
+        from homeplan.money.incentives import Household
+
+        self.ctx = ctx
+        self.programs = programs
+        h = ctx.plan.household
+        self.household = Household(ami_pct=h.ami_pct, tax_liability_usd=h.federal_tax_liability_usd,
+                                   state_tax_liability_usd=h.state_tax_liability_usd)
+        self._estimates: dict[str, dict] = {}
+
+    @classmethod
+    def for_context(cls, ctx) -> IncentiveModel:
+        cached = getattr(ctx, "_incentives", None)
+        if cached is None:
+            cached = cls(ctx, load_programs(ctx.plan, ctx.base_dir))
+            ctx._incentives = cached
+        return cached
+
+    def purchase(self, pid: str, year: int, cost_usd: float):
+        from homeplan.money.incentives import Purchase
+
+        d = self.ctx.details[pid]
+        keys = set(d.candidate.replaces)
+        fuels = {appliance_fuel(a) for a in self.ctx.plan.appliances if a.key in keys}
+        return Purchase(
+            project_id=pid, kind=MONEY_KIND.get(d.kind, d.kind), cost_usd=cost_usd,
+            installed_on=_install_date(year),
+            panel_amps=200.0 if d.kind in ("panel_upgrade", "service_upgrade") else None,
+            size_kw=d.size if d.kind == "solar" else None,
+            size_kwh=d.size if d.kind == "battery" else None,
+            fuel_switch=bool(fuels & {"gas", "propane", "oil"}),
+        )
+
+    def estimate(self, pid: str, year: int, cost_usd: float) -> tuple[float, float]:
+        """(point-of-sale, later) incentives of one purchase alone in ``year``."""
+        if not self.programs:
+            return 0.0, 0.0
+        from homeplan.money.incentives import PROJECT_KINDS, incentives_by_install_year
+
+        key = MONEY_KIND.get(self.ctx.details[pid].kind, self.ctx.details[pid].kind)
+        if key not in PROJECT_KINDS:
+            return 0.0, 0.0
+        table = self._estimates.get(pid)
+        if table is None or year not in table:
+            from homeplan.plan_schedule import cost_in_year
+
+            costs = {y: cost_in_year(self.ctx, pid, y) for y in self.ctx.years}
+            table = incentives_by_install_year(self.purchase(pid, self.ctx.first_year, costs[self.ctx.first_year]),
+                                               costs, self.programs, self.household)
+            self._estimates[pid] = table
+        ye = table[year]
+        scale = cost_usd / ye.cost_usd if ye.cost_usd else 1.0
+        return ye.point_of_sale_usd * min(scale, 1.0), ye.later_usd * min(scale, 1.0)
+
+    def exact(self, done: dict[str, int], costs: dict[str, float]) -> dict[str, list[AwardLine]]:
+        """Every award of the chosen purchases evaluated together, by project id."""
+        self.last_result = None
+        if not self.programs or not done:
+            return {}
+        from homeplan.money.incentives import PROJECT_KINDS, evaluate
+
+        items = [self.purchase(p, y, costs[p]) for p, y in sorted(done.items(), key=lambda kv: (kv[1], kv[0]))
+                 if MONEY_KIND.get(self.ctx.details[p].kind, self.ctx.details[p].kind) in PROJECT_KINDS]
+        result = evaluate(items, self.programs, self.household)
+        self.last_result = result
+        names = {p.id: p.name for p in self.programs}
+        out: dict[str, list[AwardLine]] = {}
+        for a in result.awards:
+            if a.paid_usd <= 0:
+                continue
+            kind = ("point_of_sale" if a.at_point_of_sale else
+                    "tax_credit" if a.program_kind.startswith("tax_credit") else "rebate")
+            for pay in a.payments:
+                if pay.amount_usd > 0:
+                    out.setdefault(a.project_id, []).append(
+                        AwardLine(names.get(a.program_id, a.program_id), round(pay.amount_usd, 2), pay.on, kind))
+        return out
+
+    def uses(self, awards: dict) -> tuple[ProgramUse, ...]:
+        """What each program pays in the plan, with its caps in words and its end date."""
+        result = getattr(self, "last_result", None)
+        if result is None or not self.programs:
+            return ()
+        from homeplan.money.incentives import program_totals
+
+        return tuple(ProgramUse(t.program_id, t.name, t.kind, dict(t.paid_by_year), t.caps_note, t.ends)
+                     for t in program_totals(result, self.programs))

@@ -1,0 +1,10 @@
+"""Money: incentive programs as data, costs over time, and household finance.
+
+Modules
+-------
+incentives  incentive programs (records parsed from YAML-like dicts) and their evaluation
+costs       base costs (ranges or quotes, sized), inflation, Wright's-law learning, fuel prices
+finance     loans, NPV, IRR, payback, yearly household cash flows, levelised cost of energy
+
+Everything here is a pure function or a small frozen dataclass; amounts are USD.
+"""

@@ -1,0 +1,267 @@
+"""Turn a home's projects into the abstract scheduling problem, solve it, refine once.
+
+Per project and year the scheduler gets (see :mod:`homeplan.schedule.problem`):
+
+- ``cost_usd[t]``: installed cost in year t (catalog or quote, changed by inflation or a
+  learning curve) minus the point-of-sale incentives of that year;
+- ``value_usd[t]``: present value at the first year of the bill savings over the equipment's
+  life if installed at the start of year t (each fuel's price escalating at its own rate), plus
+  the later rebates and tax credits, discounted to when they arrive;
+- ``undone_penalty_usd[t]``: for projects that replace an appliance (or a roof), the chance it
+  fails in year t times the cost of an emergency like-for-like replacement - the cost of being
+  caught by a failure, which also locks in another appliance lifetime of the old fuel;
+- ``savings_usd[t]``: the year-t bill savings, for "add bill savings to later budgets";
+- ``emissions_kg[t]``: CO2 saved from year t to the end of the horizon.
+
+References
+----------
+NIST Handbook 135 (life-cycle cost: present value of escalating energy savings);
+Weibull end-of-life risk from :mod:`homeplan.lifecycle`.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+from homeplan import catalog
+from homeplan.graph import MILESTONE_FOR_FUEL
+from homeplan.pipeline import Context, discount, fossil_projects, lfl_cost, prerequisites_closure
+from homeplan.schedule.problem import Prerequisite, Problem, Project, Target
+
+
+@dataclass
+class Coefficients:
+    cost_usd: list[float]
+    pos_incentive_usd: list[float]
+    later_incentive_usd: list[float]
+    savings_by_fuel: dict[str, float]      # annual, today's prices
+    emissions_saved_kg: float              # per year
+
+
+@dataclass
+class ScheduleOutcome:
+    problem: Problem
+    solution: object                       # homeplan.schedule.milp.Solution
+    coefficients: dict[str, Coefficients]
+    reasons: dict[str, tuple[str, ...]] = field(default_factory=dict)
+    infeasibility: str | None = None
+    passes: int = 1
+    capacity: object | None = None
+
+
+def cost_in_year(ctx: Context, pid: str, year: int) -> float:
+    from homeplan.money.costs import cost_in_year as grow
+    from homeplan.money.costs import cost_trend_from_record
+
+    d = ctx.details[pid]
+    trend = cost_trend_from_record(d.cost_change, ctx.plan.prices.inflation_pct)
+    return grow(d.cost_today_usd, ctx.first_year, year, trend)
+
+
+def coefficients(ctx: Context, pid: str, before: set[str], incentives) -> Coefficients:
+    """Coefficients of one project measured against the home with ``before`` done."""
+    context = set(before) | prerequisites_closure(ctx.g, pid)
+    context.discard(pid)
+    e0 = ctx.energy(frozenset(context))
+    e1 = ctx.energy(frozenset(context | {pid}))
+    fuels = set(e0.bills_usd) | set(e1.bills_usd)
+    savings = {f: e0.bills_usd.get(f, 0.0) - e1.bills_usd.get(f, 0.0) for f in fuels}
+    costs, pos, later = [], [], []
+    for year in ctx.years:
+        c = cost_in_year(ctx, pid, year)
+        p, lt = incentives.estimate(pid, year, c)
+        costs.append(c)
+        pos.append(p)
+        later.append(lt)
+    return Coefficients(costs, pos, later, savings, e0.emissions_kg - e1.emissions_kg)
+
+
+def _value(ctx: Context, co: Coefficients, t: int, life: float) -> float:
+    """Present value at the first year of a project installed at the start of year index t.
+
+    Bill savings count for the years of the horizon it runs (each fuel escalating at its own
+    rate); the equipment still has value at the end of the horizon, counted as its remaining
+    share of what the household paid (straight-line over its life, NIST Handbook 135); later
+    rebates and tax credits count in the year after installation.
+    """
+    rate = ctx.plan.budget.discount_rate_pct
+    T = len(ctx.years)
+    total = 0.0
+    for k in range(t, T):
+        df = discount(rate, k)
+        for fuel, s in co.savings_by_fuel.items():
+            total += s * (1.0 + ctx.escalation(fuel)) ** k * df
+    paid = co.cost_usd[t] - co.pos_incentive_usd[t] - co.later_incentive_usd[t]
+    remaining = max(0.0, 1.0 - (T - t) / max(life, 1.0))
+    return total + co.later_incentive_usd[t] * discount(rate, t + 1) + paid * remaining * discount(rate, T)
+
+
+def build_problem(ctx: Context, co: dict[str, Coefficients], capacity, implicit_target: bool = True,
+                  delay: int | None = 0) -> Problem:
+    """The scheduling problem. ``delay``: years allowed past each appliance's replace-by year
+    (None: no replace-by windows)."""
+    plan = ctx.plan
+    years = ctx.years
+    T = len(years)
+    inflation = plan.prices.inflation_pct / 100.0
+    projects = []
+    for pid, d in ctx.details.items():
+        c = co[pid]
+        life = d.life_years
+        value = [_value(ctx, c, t, life) for t in range(T)]
+        savings = [sum(s * (1 + ctx.escalation(f)) ** t for f, s in c.savings_by_fuel.items())
+                   for t in range(T)]
+        emissions = [c.emissions_saved_kg * (T - t) for t in range(T)]
+        penalty = [0.0] * T
+        cumulative = [0.0] * T
+        item = ""
+        for key in d.candidate.replaces:
+            o = ctx.outlooks.get(key)
+            if o is None or o.kind == "vehicle":
+                continue
+            cost_lfl = lfl_cost(ctx, key) if key != "roof" else d.cost_today_usd
+            for t in range(T):
+                p_fail = o.yearly_failure_pct[t] / 100.0 if t < len(o.yearly_failure_pct) else 0.0
+                penalty[t] += p_fail * cost_lfl * (1 + inflation) ** t
+            if not item or (o.cumulative_failure_pct[0] > cumulative[0] * 100):
+                item = f"the {o.label}"
+                cumulative = [x / 100.0 for x in o.cumulative_failure_pct[:T]]
+                cumulative += [cumulative[-1] if cumulative else 0.0] * (T - len(cumulative))
+        latest = None
+        if delay is not None and pid not in plan.choices.pins:
+            ends = [ctx.outlooks[k].replace_by_year for k in d.candidate.replaces
+                    if k in ctx.outlooks and ctx.outlooks[k].kind != "vehicle"]
+            if ends:
+                latest = max(min(ends), ctx.first_year) + delay
+                latest = latest if latest < years[-1] else None
+        earliest = None
+        if d.kind == "ev":
+            veh = plan.vehicles[[plan.vehicle_key(i) for i in range(len(plan.vehicles))].index(d.candidate.replaces[0])]
+            if veh.replace_year is not None and pid not in plan.choices.pins:
+                earliest = max(veh.replace_year, ctx.first_year)
+        projects.append(Project(
+            id=pid, label=d.label, cost_usd=[c.cost_usd[t] - c.pos_incentive_usd[t] for t in range(T)],
+            value_usd=value, emissions_kg=emissions, savings_usd=savings,
+            undone_penalty_usd=penalty, excluded=pid in plan.choices.exclude or pid in capacity.excluded,
+            earliest_year=earliest, latest_year=latest, pinned_year=plan.choices.pins.get(pid),
+            window_reason=(f"{item or 'the old one'} reaches {plan.choices.replace_at_risk_pct:.0f} % "
+                           "failure risk") if latest else "",
+            capacity_use=capacity.use.get(pid, 0.0), capacity_provided=capacity.provided.get(pid, 0.0),
+            failure_item=item, failure_prob_by_year=cumulative if item else (),
+        ))
+    prereqs = []
+    for u, v, data in ctx.g.edges(data=True):
+        if data["kind"] == "requires" and u in ctx.details and v in ctx.details:
+            prereqs.append(Prerequisite(project=v, requires_any=(u,), label=data.get("why", "")))
+    prereqs.extend(capacity.prerequisites)
+    targets = []
+    by = plan.choices.all_electric_by
+    if by is None and plan.choices.all_electric and implicit_target:
+        by = years[-1]
+    if by is not None:
+        ids = tuple(p for p in fossil_projects(ctx)
+                    if p not in plan.choices.exclude and _reachable(ctx, p, by))
+        if ids:
+            targets.append(Target(ids, by, "fully electric"))
+    objective = {"npv": "max_npv", "emissions": "min_emissions", "gas_off_early": "earliest_gas_closure",
+                 "out_of_pocket": "min_out_of_pocket"}[plan.choices.objective]
+    objective_project = None
+    if objective == "earliest_gas_closure":
+        objective_project = next((m for m in MILESTONE_FOR_FUEL.values() if m in ctx.details), None)
+        if objective_project is None:
+            objective = "max_npv"
+            ctx.notes.append("objective 'gas_off_early': this home burns no gas, oil or propane; "
+                             "using best net present value instead")
+    b = plan.budget
+    budget = [float((b.by_year or {}).get(y, b.usd_per_year)) for y in years]
+    loan_limit = sum(loan.amount_usd for loan in b.loans)
+    first_loan = b.loans[0] if b.loans else None
+    return Problem(
+        first_year=ctx.first_year, budget_usd=budget, projects=tuple(projects), carryover=b.carryover,
+        discount_rate=b.discount_rate_pct / 100.0, loan_limit_usd=loan_limit,
+        loan_rate=(first_loan.rate_pct / 100.0) if first_loan else 0.0,
+        loan_term_years=first_loan.term_years if first_loan else 10,
+        savings_to_budget=b.add_bill_savings, prerequisites=tuple(prereqs),
+        capacity_base=capacity.base_headroom, max_per_year=plan.choices.max_projects_per_year,
+        targets=tuple(targets), objective=objective, objective_project=objective_project,
+    )
+
+
+def _reachable(ctx: Context, pid: str, by: int) -> bool:
+    """A car the owner will not replace before ``by`` is not part of the all-electric target."""
+    d = ctx.details[pid]
+    if d.kind != "ev" or pid in ctx.plan.choices.pins:
+        return True
+    keys = [ctx.plan.vehicle_key(i) for i in range(len(ctx.plan.vehicles))]
+    veh = ctx.plan.vehicles[keys.index(d.candidate.replaces[0])]
+    return veh.replace_year is None or veh.replace_year <= by
+
+
+def schedule(ctx: Context) -> ScheduleOutcome:
+    """Solve, refine the project values in the order found, solve again."""
+    from homeplan.capacity import capacity_model
+    from homeplan.incentive_adapter import IncentiveModel
+    from homeplan.schedule.explain import diagnose_infeasible, explain
+    from homeplan.schedule.milp import solve
+
+    incentives = IncentiveModel.for_context(ctx)
+    capacity = capacity_model(ctx)
+    for note in capacity.notes:
+        ctx.notes.append(note)
+    co = {pid: coefficients(ctx, pid, set(), incentives) for pid in ctx.details}
+    implicit = ctx.plan.choices.all_electric_by is None and ctx.plan.choices.all_electric
+    problem, solution, delay = _solve_relaxing(ctx, co, capacity, implicit)
+    if not solution.feasible and implicit and problem.targets:
+        why = diagnose_infeasible(problem)
+        ctx.notes.append(f"fully electric by {ctx.years[-1]} is out of reach: {why} This plan does "
+                         "the most it can within the budget.")
+        implicit = False
+        problem, solution, delay = _solve_relaxing(ctx, co, capacity, implicit)
+    passes = 1
+    if solution.feasible:
+        done = solution.done()
+        order = sorted(done, key=lambda p: (done[p], _order_key(ctx, p)))
+        co2 = {}
+        for pid in ctx.details:
+            before = {q for q in order[:order.index(pid)]} if pid in done else set(done)
+            co2[pid] = coefficients(ctx, pid, before, incentives)
+        problem2 = build_problem(ctx, co2, capacity, implicit_target=implicit, delay=delay)
+        solution2 = solve(problem2)
+        if solution2.feasible:
+            problem, solution, co, passes = problem2, solution2, co2, 2
+    if not solution.feasible:
+        return ScheduleOutcome(problem, solution, co, infeasibility=diagnose_infeasible(problem),
+                               passes=passes, capacity=capacity)
+    return ScheduleOutcome(problem, solution, co, reasons=explain(problem, solution), passes=passes,
+                           capacity=capacity)
+
+
+def _solve_relaxing(ctx: Context, co, capacity, implicit: bool):
+    """Solve with the replace-by windows; if the budget cannot meet them, allow the fewest
+    extra years that make it feasible, and finally drop the windows."""
+    from homeplan.schedule.milp import solve
+
+    delays: list[int | None] = list(range(0, len(ctx.years))) + [None]
+    for delay in delays:
+        problem = build_problem(ctx, co, capacity, implicit_target=implicit, delay=delay)
+        solution = solve(problem)
+        if solution.feasible:
+            if delay:
+                ctx.notes.append(f"the budget cannot replace every appliance by its replace-by year; "
+                                 f"the plan allows up to {delay} more year(s)")
+            elif delay is None:
+                ctx.notes.append("the budget cannot replace the appliances before their likely "
+                                 "failure; the plan accepts the risk")
+            return problem, solution, delay
+        if not any(p.latest_year for p in problem.projects):
+            break
+    return problem, solution, None
+
+
+def _order_key(ctx: Context, pid: str) -> int:
+    from homeplan.pipeline import _APPLY_ORDER
+
+    kind = ctx.details[pid].kind
+    if catalog.upgrade_kinds()[kind].capacity_remedy:
+        return -1
+    return _APPLY_ORDER.get(kind, 50)

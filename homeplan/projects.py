@@ -1,0 +1,160 @@
+"""Each candidate project made concrete for this home: variant, size, cost today and over time.
+
+Sizes come from the home (heat pump tons from the design heating load, solar kW from the
+electrified annual use and the roof area, roof area from the floor plan); costs from the
+catalog range at the plan's cost level, or from the user's contractor quote.
+
+References
+----------
+ACCA Manual S for heat pump selection (via :func:`homeplan.home_energy.heat_pump_tons`);
+cost ranges and learning rates with their sources in ``homeplan/data/upgrades.yaml``.
+"""
+
+from __future__ import annotations
+
+import csv
+import math
+from dataclasses import dataclass
+from functools import cache
+
+from homeplan import catalog
+from homeplan.catalog import _data_text
+from homeplan.graph import Candidate
+from homeplan.home_energy import HomeBasis, heat_pump_tons, performance
+from homeplan.lifecycle import appliance_fuel
+from homeplan.plan.model import Plan
+
+
+@dataclass(frozen=True)
+class LikeForLike:
+    kind: str
+    fuel: str
+    cost: dict[str, float]
+    source: str
+
+
+@cache
+def like_for_like_table() -> tuple[LikeForLike, ...]:
+    rows = csv.DictReader(_data_text("like_for_like.csv").splitlines())
+    return tuple(LikeForLike(r["kind"], r["fuel"], {"low": float(r["low_usd"]), "typical": float(r["typical_usd"]),
+                                                     "high": float(r["high_usd"])}, r["source"]) for r in rows)
+
+
+def like_for_like_cost(kind: str, fuel: str, level: str = "typical") -> float:
+    """Today's cost of replacing an appliance with the same kind on the same fuel."""
+    for row in like_for_like_table():
+        if row.kind == kind and row.fuel == fuel:
+            return row.cost[level]
+    return 0.0
+
+
+@dataclass(frozen=True)
+class ProjectDetail:
+    """A candidate with its variant, size and today's cost."""
+
+    candidate: Candidate
+    variant: str | None
+    variant_label: str
+    size: float
+    size_unit: str
+    cost_today_usd: float
+    cost_source: str
+    life_years: float
+    cost_change: dict
+    quoted: bool = False
+
+    @property
+    def id(self) -> str:
+        return self.candidate.id
+
+    @property
+    def kind(self) -> str:
+        return self.candidate.kind
+
+    @property
+    def label(self) -> str:
+        return self.candidate.label
+
+    def size_text(self) -> str:
+        unit = {"ton": "t", "kw": "kW", "kwh": "kWh", "ft2": "ft2"}.get(self.size_unit, "")
+        if not unit:
+            return ""
+        return f"{self.size:g} {unit}" if self.size_unit != "ft2" else f"{self.size:,.0f} ft2"
+
+
+def roof_area_ft2(plan: Plan) -> float:
+    """Roof surface from the footprint and the pitch: floor area / stories / cos(tilt)."""
+    roof = plan.home.roof
+    tilt = roof.tilt_deg if roof else 22.6
+    return plan.home.floor_area_ft2 / plan.home.stories / math.cos(math.radians(min(tilt, 60.0)))
+
+
+def solar_size_kw(plan: Plan, annual_load_kwh: float, specific_yield: float) -> float:
+    """Array size covering the electrified home's annual use, limited by the usable roof.
+
+    References
+    ----------
+    Common practice, no source: size to about 100 % of annual use (data/equipment_performance.csv);
+    about 60 ft2 of roof per kW.
+    """
+    p = performance()
+    want = p["solar_target_coverage"] * annual_load_kwh / max(specific_yield, 1.0)
+    roof = plan.home.roof
+    area = roof.usable_area_ft2 if roof and roof.usable_area_ft2 is not None else roof_area_ft2(plan) * 0.4
+    fit = area * (1 - (roof.shading_pct if roof else 0) / 100) / p["solar_ft2_per_kw"]
+    return float(max(1.0, round(min(want, fit) * 2) / 2))
+
+
+def detail(plan: Plan, c: Candidate, basis: HomeBasis, electrified_kwh: float,
+           specific_yield: float) -> ProjectDetail:
+    kinds = catalog.upgrade_kinds()
+    k = kinds[c.kind]
+    opt = plan.options.get(c.id)
+    variant_id = (opt.variant if opt and opt.variant else None) or c.variant
+    v = k.variant(variant_id) if k.variants else None
+    if k.variants and v is None:
+        v = k.variants[0]
+    design_f = float(basis.weather.heating_design_f)
+    size = 1.0
+    if opt and opt.size:
+        size = opt.size
+    elif c.kind == "heat_pump":
+        size = heat_pump_tons(basis.design_load_btuh, design_f, v.id if v else None)
+    elif c.kind == "solar":
+        size = solar_size_kw(plan, electrified_kwh, specific_yield)
+    elif c.kind == "battery":
+        size = performance()["battery_default_kwh"]
+    elif c.kind == "roof":
+        size = roof_area_ft2(plan)
+    level = plan.prices.cost_level
+    if opt and opt.cost_usd is not None:
+        cost = opt.cost_usd
+        who = ", ".join(x for x in (opt.contractor, str(opt.quote_date) if opt.quote_date else None) if x)
+        source = f"your quote ({who})" if who else "your quote"
+        quoted = True
+    else:
+        per = k.cost.level(level)
+        units = size if k.cost.per in ("ton", "kw", "kwh", "ft2") else 1.0
+        cost = per * units * (v.cost_factor if v else 1.0)
+        source = f"catalog {level} estimate: {k.cost.source}"
+        quoted = False
+    return ProjectDetail(
+        candidate=c, variant=v.id if v else None, variant_label=v.label if v else "",
+        size=float(size), size_unit=k.size_unit, cost_today_usd=float(round(cost, 2)),
+        cost_source=source, life_years=k.life_years, cost_change=dict(k.cost_change), quoted=quoted,
+    )
+
+
+def with_variant(d: ProjectDetail, plan: Plan, basis: HomeBasis, variant: str) -> ProjectDetail:
+    """The same project with another variant (a lower-power one chosen by the capacity remedy)."""
+    from dataclasses import replace
+
+    c = replace(d.candidate, variant=variant)
+    if plan.options.get(d.id) and plan.options[d.id].variant:
+        return d  # the user chose the equipment; the remedy must work around it
+    return detail(plan, c, basis, 0.0, 1.0) if d.kind not in ("solar",) else d
+
+
+def replaced_fuels(plan: Plan, c: Candidate) -> set[str]:
+    keys = set(c.replaces)
+    return {appliance_fuel(a) for a in plan.appliances if a.key in keys}

@@ -1,0 +1,412 @@
+"""Mixed-integer model of a :class:`~homeplan.schedule.problem.Problem`, solved with HiGHS
+through ``scipy.optimize.milp``, behind the small :class:`Solver` protocol.
+
+Formulation (``P`` projects, ``T`` years, ``G`` capped incentive groups; indices as in
+``problem.py``; ``D[p,t] = sum_{s<=t} x[p,s]`` is "done by t", a linear expression)
+
+Variables
+    ``x[p,t]`` binary: project p is done in year t. Years outside the project's window, beyond a
+    target year, other than its pinned year, or all years of an excluded project get upper
+    bound 0.
+    ``z[g,t]`` continuous in ``[0, cap_g]``: capped incentive earned by group g in year t.
+    ``L[t]`` continuous in ``[0, loan_limit]``: loan principal borrowed in year t (only when
+    ``loan_limit_usd > 0``).
+
+Constraints (each a block of rows in one sparse matrix)
+    assignment   ``sum_t x[p,t] <= 1``; ``>= 1`` when the project is mandatory, pinned, in a
+                 target, or the objective project of ``earliest_gas_closure``.
+    exclusive    ``sum_{p in group} sum_t x[p,t] <= 1`` (``== 1`` when ``exactly_one``).
+    budget       with carryover, for every y: ``sum_{t<=y} (spend_t + repay_t - savings_t
+                 - incentive_in_t - L_t) <= sum_{t<=y} budget_t``; without carryover the same
+                 for each single year. ``spend_t = sum_p cost[p,t] x[p,t]``;
+                 ``savings_t = sum_p savings[p,t] sum_{s<t} x[p,s]`` (if ``savings_to_budget``);
+                 ``incentive_in_t = sum_g z[g, t - lag_g]`` (groups with ``adds_to_budget``);
+                 ``repay_t = a sum_{1 <= t-s <= n} L[s]`` (annuity factor a, term n).
+    loan limit   ``sum_t L[t] <= loan_limit_usd``.
+    incentive    ``z[g,t] <= sum_p rate[g,p] cost[p,t] x[p,t]`` (with ``z <= cap`` as a bound,
+                 ``z = min(rate * cost, cap)`` at the optimum whenever z has value).
+    prerequisite for each rule and t: ``D[A,t] <= sum_{B in any-of} D[B,t]`` (``D[B,t-1]``
+                 when strict). This "done by" form is tighter in the LP relaxation than
+                 ``x[A,t] <= sum_B D[B,t]`` and gives the same integer solutions.
+    capacity     for each t: ``sum_p (use_p - provided_p) D[p,t] <= capacity_base``.
+    per year     for each t: ``sum_p x[p,t] <= max_per_year``.
+
+Objective (milp minimises; constants are added back when reporting)
+    max_npv            ``-NPV`` with NPV as in ``problem.py``; the end-of-life term
+                       ``-sum_t (1 - D[p,t]) pen[p,t] df[t]`` becomes the constant
+                       ``-sum pen df`` plus ``sum_{t>=s} pen[p,t] df[t]`` on each ``x[p,s]``.
+    min_emissions      ``-sum x[p,t] emissions_kg[p,t]``.
+    min_out_of_pocket  nominal spend + penalties + loan interest - incentives - bill savings.
+    earliest_gas_closure  two solves: minimise ``sum_t t x[q,t]`` for the objective project q,
+                       then fix ``x[q,t] = 0`` for later years and maximise NPV.
+
+References
+----------
+HiGHS MILP solver: Huangfu & Hall, "Parallelizing the dual revised simplex method", Math. Prog.
+Comp. 10 (2018); scipy.optimize.milp documentation (scipy 1.17).
+"""
+
+from __future__ import annotations
+
+import time
+from dataclasses import dataclass, field
+from typing import Any, Protocol
+
+import numpy as np
+
+from homeplan.schedule.problem import Problem
+
+
+@dataclass(frozen=True)
+class Solution:
+    """Result of a solve.
+
+    ``status``: ``optimal``; ``time_limit`` (a feasible plan, maybe not optimal);
+    ``infeasible``; ``no_solution`` (limit reached before any feasible plan); ``error``.
+    ``years``: calendar year per project id, or ``None`` (not done). ``objective_value`` is in
+    the objective's natural sense (NPV USD, kg saved, calendar year, out-of-pocket USD);
+    ``npv_usd`` is the NPV of the plan under the linear model (all objectives).
+    """
+
+    status: str
+    years: dict[str, int | None] = field(default_factory=dict)
+    objective_value: float | None = None
+    npv_usd: float | None = None
+    solve_time_s: float = 0.0
+    mip_gap: float | None = None
+    loans_usd: tuple[float, ...] = ()
+    incentives_usd: dict[str, tuple[float, ...]] = field(default_factory=dict)
+    solver: str = ""
+    message: str = ""
+
+    @property
+    def feasible(self) -> bool:
+        return self.status in ("optimal", "time_limit")
+
+    def done(self) -> dict[str, int]:
+        """Only the projects that are done, by id."""
+        return {k: v for k, v in self.years.items() if v is not None}
+
+
+class Solver(Protocol):
+    """Anything that can solve a :class:`Problem`."""
+
+    def solve(self, problem: Problem) -> Solution: ...
+
+
+@dataclass(frozen=True)
+class _Model:
+    c: np.ndarray
+    const: float
+    integrality: np.ndarray
+    lb: np.ndarray
+    ub: np.ndarray
+    a_matrix: Any  # scipy.sparse matrix
+    row_lb: np.ndarray
+    row_ub: np.ndarray
+    n_x: int
+    n_z: int
+    n_l: int
+
+
+class _Rows:
+    """Accumulates sparse rows."""
+
+    def __init__(self) -> None:
+        self.rows: list[int] = []
+        self.cols: list[int] = []
+        self.vals: list[float] = []
+        self.lb: list[float] = []
+        self.ub: list[float] = []
+
+    def add(self, coefs: dict[int, float], lb: float, ub: float) -> None:
+        r = len(self.lb)
+        for col, v in coefs.items():
+            if v != 0.0:
+                self.rows.append(r)
+                self.cols.append(col)
+                self.vals.append(v)
+        self.lb.append(lb)
+        self.ub.append(ub)
+
+
+def _objective(pr: Problem, kind: str) -> tuple[np.ndarray, np.ndarray, np.ndarray, float]:
+    """Cost vectors (x as [P,T], z as [G,T], L as [T]) and constant, to be minimised."""
+    np_, nt, ng = len(pr.projects), pr.n_years, len(pr.incentive_groups)
+    cost = pr.matrix("cost_usd")
+    pen = pr.matrix("undone_penalty_usd")
+    cx = np.zeros((np_, nt))
+    cz = np.zeros((ng, nt))
+    cl = np.zeros(nt)
+    const = 0.0
+    if kind == "max_npv":
+        max_lag = max((ig.arrives_after_years for ig in pr.incentive_groups), default=0)
+        df = pr.discount_factors(extra_years=max_lag + 1)
+        dfh = df[:nt]
+        pen_d = pen * dfh[None, :]
+        tail = np.cumsum(pen_d[:, ::-1], axis=1)[:, ::-1]  # sum_{t>=s}
+        cx = -(pr.matrix("value_usd") - cost * dfh[None, :] + tail)
+        const = -float(pen_d.sum())  # NPV constant; minimised objective is -NPV
+        for g, ig in enumerate(pr.incentive_groups):
+            lag = ig.arrives_after_years
+            cz[g] = -df[lag : lag + nt]
+        cl = pr.loan_npv_cost_per_usd()
+        return cx, cz, cl, -const
+    if kind == "min_emissions":
+        return -pr.matrix("emissions_kg"), cz, cl, 0.0
+    if kind == "min_out_of_pocket":
+        tail = np.cumsum(pen[:, ::-1], axis=1)[:, ::-1]
+        sav = pr.matrix("savings_usd")
+        sav_after = np.cumsum(sav[:, ::-1], axis=1)[:, ::-1] - sav  # sum_{t>s}
+        cx = cost - tail - sav_after
+        cz[:] = -1.0
+        cl[:] = pr.loan_interest_per_usd()
+        return cx, cz, cl, float(pen.sum())
+    if kind == "earliest":
+        q = pr.index(pr.objective_project)  # type: ignore[arg-type]
+        cx[q] = np.arange(nt, dtype=float)
+        return cx, cz, cl, 0.0
+    raise ValueError(kind)
+
+
+def build_model(
+    pr: Problem, kind: str | None = None, latest_index: dict[int, int] | None = None
+) -> _Model:
+    """Build the sparse model (see module docstring). ``kind`` overrides the objective
+    (``earliest`` = stage one of earliest closure); ``latest_index`` caps a project's year."""
+    from scipy import sparse
+
+    kind = kind or ("max_npv" if pr.objective == "earliest_gas_closure" else pr.objective)
+    np_, nt, ng = len(pr.projects), pr.n_years, len(pr.incentive_groups)
+    n_x, n_z = np_ * nt, ng * nt
+    n_l = nt if pr.loan_limit_usd > 0 else 0
+    n_c = nt if pr.carryover else 0
+    n = n_x + n_z + n_l + n_c
+
+    def di(p: int, t: int) -> int:
+        return p * nt + t
+
+    def zi(g: int, t: int) -> int:
+        return n_x + g * nt + t
+
+    def li(t: int) -> int:
+        return n_x + n_z + t
+
+    def ci(t: int) -> int:
+        return n_x + n_z + n_l + t
+
+    def add_x(coefs: dict[int, float], p: int, t: int, v: float) -> None:
+        """Add ``v * x[p,t] = v * (D[p,t] - D[p,t-1])``."""
+        coefs[di(p, t)] = coefs.get(di(p, t), 0.0) + v
+        if t > 0:
+            coefs[di(p, t - 1)] = coefs.get(di(p, t - 1), 0.0) - v
+
+    def add_d(coefs: dict[int, float], p: int, t: int, v: float) -> None:
+        if t >= 0:
+            coefs[di(p, t)] = coefs.get(di(p, t), 0.0) + v
+
+    lb = np.zeros(n)
+    ub = np.ones(n)
+    ub[n_x:] = np.inf
+    rows = _Rows()
+    inf = np.inf
+    last = nt - 1
+    # done-by variables: monotone in t, closed before the window, frozen after it
+    for p in range(np_):
+        allowed = sorted(pr.allowed_years(p))
+        if latest_index and p in latest_index:
+            allowed = [t for t in allowed if t <= latest_index[p]]
+        if not allowed:
+            ub[di(p, 0) : di(p, 0) + nt] = 0.0
+        else:
+            lo, hi = allowed[0], allowed[-1]
+            ub[di(p, 0) : di(p, lo)] = 0.0
+            for t in range(1, nt):
+                if t > hi:
+                    rows.add({di(p, t): 1.0, di(p, t - 1): -1.0}, 0.0, 0.0)
+                elif t > lo:
+                    rows.add({di(p, t - 1): 1.0, di(p, t): -1.0}, -inf, 0.0)
+        if pr.must_do(p):
+            rows.add({di(p, last): 1.0}, 1.0, inf)
+    for g, ig in enumerate(pr.incentive_groups):
+        ub[zi(g, 0) : zi(g, 0) + nt] = ig.cap_usd_per_year
+    if n_l:
+        ub[li(0) : li(0) + nt] = pr.loan_limit_usd
+    integrality = np.zeros(n)
+    integrality[:n_x] = 1
+
+    # exclusive groups
+    for gx in pr.exclusive_groups:
+        coefs = {di(pr.index(m), last): 1.0 for m in gx.members}
+        rows.add(coefs, 1.0 if gx.exactly_one else -inf, 1.0)
+    # budget: c[t] - c[t-1] + spend + repay - savings - incentives - L <= budget
+    cost = pr.matrix("cost_usd")
+    sav = pr.matrix("savings_usd")
+    a = pr.annuity_factor()
+    for t in range(nt):
+        coefs: dict[int, float] = {}
+        for p in range(np_):
+            if cost[p, t]:
+                add_x(coefs, p, t, cost[p, t])
+            if pr.savings_to_budget and sav[p, t]:
+                add_d(coefs, p, t - 1, -sav[p, t])
+        for g, ig in enumerate(pr.incentive_groups):
+            s = t - ig.arrives_after_years
+            if ig.adds_to_budget and s >= 0:
+                coefs[zi(g, s)] = coefs.get(zi(g, s), 0.0) - 1.0
+        if n_l:
+            coefs[li(t)] = -1.0
+            for s in range(max(0, t - pr.loan_term_years), t):
+                coefs[li(s)] = coefs.get(li(s), 0.0) + a
+        if n_c:
+            coefs[ci(t)] = 1.0
+            if t > 0:
+                coefs[ci(t - 1)] = -1.0
+        rows.add(coefs, -inf, pr.budget_usd[t])
+    if n_l:
+        rows.add({li(t): 1.0 for t in range(nt)}, -inf, pr.loan_limit_usd)
+    # capped incentives: z[g,t] <= sum_p rate cost x
+    for g, ig in enumerate(pr.incentive_groups):
+        for t in range(nt):
+            coefs = {zi(g, t): 1.0}
+            for pid, rate in ig.rates:
+                add_x(coefs, pr.index(pid), t, -rate * cost[pr.index(pid), t])
+            rows.add(coefs, -inf, 0.0)
+    # prerequisites / any-of: D[A,t] <= sum_B D[B,t] (D[B,t-1] when strict)
+    for r in pr.prerequisites:
+        pa = pr.index(r.project)
+        for t in range(nt):
+            if ub[di(pa, t)] == 0.0:
+                continue
+            coefs = {di(pa, t): 1.0}
+            for b in r.requires_any:
+                add_d(coefs, pr.index(b), t - 1 if r.strict else t, -1.0)
+            rows.add(coefs, -inf, 0.0)
+    # capacity in every year's state
+    if pr.capacity_base is not None:
+        net = [p.capacity_use - p.capacity_provided for p in pr.projects]
+        for t in range(nt):
+            coefs = {di(p, t): net[p] for p in range(np_) if net[p]}
+            rows.add(coefs, -inf, pr.capacity_base)
+    # max per year
+    if pr.max_per_year is not None:
+        for t in range(nt):
+            coefs = {}
+            for p in range(np_):
+                add_x(coefs, p, t, 1.0)
+            rows.add(coefs, -inf, float(pr.max_per_year))
+
+    a_matrix = sparse.csr_array(
+        (rows.vals, (rows.rows, rows.cols)), shape=(len(rows.lb), n), dtype=float
+    )
+    cx, cz, cl, const = _objective(pr, kind)
+    # x[p,t] = D[p,t] - D[p,t-1]  =>  cost on D[p,t] is cx[p,t] - cx[p,t+1]
+    cd = cx - np.concatenate([cx[:, 1:], np.zeros((np_, 1))], axis=1)
+    c = np.concatenate([cd.ravel(), cz.ravel(), cl[:n_l], np.zeros(n_c)])
+    return _Model(
+        c, const, integrality, lb, ub, a_matrix, np.array(rows.lb), np.array(rows.ub), n_x, n_z, n_l
+    )
+
+
+@dataclass(frozen=True)
+class MilpSolver:
+    """HiGHS via ``scipy.optimize.milp``. ``mip_rel_gap`` 0 asks for a proven optimum."""
+
+    time_limit_s: float = 30.0
+    mip_rel_gap: float = 1e-7
+    presolve: bool = True
+
+    def _run(self, model: _Model, time_limit_s: float) -> tuple[Any, float]:
+        from scipy.optimize import Bounds, LinearConstraint, milp
+
+        t0 = time.perf_counter()
+        constraints = (
+            [LinearConstraint(model.a_matrix, model.row_lb, model.row_ub)]
+            if model.a_matrix.shape[0]
+            else []
+        )
+        res = milp(
+            model.c,
+            integrality=model.integrality,
+            bounds=Bounds(model.lb, model.ub),
+            constraints=constraints,
+            options={
+                "time_limit": max(time_limit_s, 1e-3),
+                "mip_rel_gap": self.mip_rel_gap,
+                "presolve": self.presolve,
+                "disp": False,
+            },
+        )
+        return res, time.perf_counter() - t0
+
+    def solve(self, problem: Problem) -> Solution:
+        pr = problem
+        started = time.perf_counter()
+        latest: dict[int, int] | None = None
+        first_value: float | None = None
+        if pr.objective == "earliest_gas_closure":
+            m1 = build_model(pr, "earliest")
+            res1, _ = self._run(m1, self.time_limit_s)
+            if res1.x is None:
+                return self._failed(res1, time.perf_counter() - started)
+            q = pr.index(pr.objective_project)  # type: ignore[arg-type]
+            dq = res1.x[q * pr.n_years : (q + 1) * pr.n_years]
+            t_star = int(np.argmax(dq > 0.5))
+            latest = {q: t_star}
+            first_value = float(pr.first_year + t_star)
+        model = build_model(pr, None, latest)
+        remaining = self.time_limit_s - (time.perf_counter() - started)
+        res, _ = self._run(model, remaining)
+        elapsed = time.perf_counter() - started
+        if res.x is None:
+            return self._failed(res, elapsed)
+        return self._solution(pr, model, res, elapsed, first_value)
+
+    def _failed(self, res: Any, elapsed: float) -> Solution:
+        status = {2: "infeasible", 1: "no_solution"}.get(int(res.status), "error")
+        return Solution(status, solve_time_s=elapsed, solver="highs", message=str(res.message))
+
+    def _solution(
+        self, pr: Problem, model: _Model, res: Any, elapsed: float, first_value: float | None
+    ) -> Solution:
+        nt = pr.n_years
+        xs = res.x[: model.n_x].reshape(len(pr.projects), nt) > 0.5  # done-by D[p,t]
+        years: dict[str, int | None] = {}
+        for p, proj in enumerate(pr.projects):
+            hit = np.flatnonzero(xs[p])
+            years[proj.id] = int(pr.first_year + hit[0]) if hit.size else None
+        zs = res.x[model.n_x : model.n_x + model.n_z].reshape(len(pr.incentive_groups), nt)
+        loans = res.x[model.n_x + model.n_z : model.n_x + model.n_z + nt] if model.n_l else np.zeros(nt)
+        value = float(res.fun) + model.const
+        kind_npv = pr.objective in ("max_npv", "earliest_gas_closure")
+        npv = -value if kind_npv else None
+        if pr.objective in ("max_npv", "min_emissions"):
+            objective_value = -value
+        elif pr.objective == "min_out_of_pocket":
+            objective_value = value
+        else:
+            objective_value = first_value
+        if npv is None:
+            from homeplan.schedule.problem import evaluate
+
+            npv = evaluate(pr, years).npv_usd
+        gap = getattr(res, "mip_gap", None)
+        return Solution(
+            status="optimal" if int(res.status) == 0 else "time_limit",
+            years=years,
+            objective_value=objective_value,
+            npv_usd=npv,
+            solve_time_s=elapsed,
+            mip_gap=None if gap is None else float(gap),
+            loans_usd=tuple(float(v) for v in loans),
+            incentives_usd={
+                ig.id: tuple(float(v) for v in zs[g]) for g, ig in enumerate(pr.incentive_groups)
+            },
+            solver="highs",
+            message=str(res.message),
+        )
+
+
+def solve(problem: Problem, solver: Solver | None = None) -> Solution:
+    """Solve ``problem`` with ``solver`` (default :class:`MilpSolver`)."""
+    return (solver or MilpSolver()).solve(problem)

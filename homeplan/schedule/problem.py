@@ -1,0 +1,579 @@
+"""The abstract scheduling problem and its exact evaluator.
+
+A :class:`Problem` is independent of homes: it holds candidate projects with per-year numbers
+(computed by the lead's adapter from the energy, money and electrical engines), yearly budgets and
+the constraint families below. Solvers (``milp.py``, ``bruteforce.py``) place each project in one
+year of the horizon or leave it out. :func:`evaluate` / :func:`evaluate_batch` compute, for any
+placement, every constraint violation and every objective value *exactly as the MILP models them*;
+the brute-force solver and the tests use them.
+
+Indexing: ``T = len(budget_usd)`` years, index ``t = 0..T-1`` is calendar year ``first_year + t``.
+A placement is an integer per project: the year index, or ``-1`` for "not done". All calendar
+years in the public fields (``earliest_year``, ``pinned_year``, ``Target.by_year``) are calendar
+years, not indices.
+
+Semantics (shared by every solver):
+
+- *done by t*: ``D[p,t] = 1`` if project p is done in a year ``<= t``.
+- *spend*: ``spend[t] = sum_p cost_usd[p][t] * x[p,t]`` (costs after point-of-sale incentives).
+- *money in* at t: ``budget_usd[t]``, plus (``savings_to_budget``) ``savings_usd[p][t]`` of every
+  project done strictly before t, plus capped incentives of groups with ``adds_to_budget`` earned
+  ``arrives_after_years`` earlier, plus loan principal ``L[t]`` minus repayments of earlier loans
+  (annuity ``loan_rate`` over ``loan_term_years``, first payment the year after borrowing).
+- *budget*: with ``carryover`` every prefix ``sum_{t<=y} (money in - spend) >= 0``; without it
+  every year on its own (unspent money is lost). Total borrowing ``sum_t L[t] <= loan_limit_usd``.
+- *end of life*: ``undone_penalty_usd[p][t]`` (expected emergency cost in year t) is paid for
+  each year t in which p is not yet done (``1 - D[p,t]``); doing p in year t avoids year t's risk.
+- *capped incentives*: group g earns ``min(cap_usd_per_year, sum_p rate_p * cost[p,t] x[p,t])``
+  in year t (so two capped items in two years can earn two caps).
+- *NPV* (objective ``max_npv``), discount factor ``df[t] = (1 + discount_rate) ** -t``::
+
+      sum_p,t x[p,t] (value_usd[p][t] - cost_usd[p][t] df[t])
+      + sum_g,t earned[g,t] df[t + arrives_after_years]
+      - sum_p,t (1 - D[p,t]) undone_penalty_usd[p][t] df[t]
+      - sum_t L[t] df[t] K,   K = max(0, PV at discount_rate of one dollar's repayments - 1)
+
+  ``value_usd`` is already a present value (the lead's engines discount benefits).
+- *emissions* (``min_emissions``): maximise ``sum x[p,t] emissions_kg[p][t]`` (lifetime kg saved).
+- *out of pocket* (``min_out_of_pocket``), nominal, within the horizon: spend + penalties +
+  loan interest (``L * (n a - 1)``) - capped incentives earned - bill savings ``savings_usd[p][t]``
+  of years after completion.
+- *earliest closure* (``earliest_gas_closure``): ``objective_project`` must be done; minimise its
+  year, then (lexicographically) maximise NPV.
+
+Loans: for a fixed placement the cheapest feasible borrowing is "just in time" (borrow only the
+shortfall, in the year it occurs): borrowing later never raises any prefix of repayments and
+every cost coefficient ``df[t] K`` is non-increasing in t. :func:`evaluate_batch` uses that rule;
+the MILP chooses ``L`` freely and must reach the same optimum (the tests check it).
+
+References
+----------
+Annuity payment ``a = r / (1 - (1 + r) ** -n)``: standard loan amortisation formula (e.g. Brealey,
+Myers & Allen, *Principles of Corporate Finance*, ch. 2).
+"""
+
+from __future__ import annotations
+
+import dataclasses
+from collections.abc import Iterable, Mapping, Sequence
+from dataclasses import dataclass, field
+
+import numpy as np
+
+OBJECTIVES = ("max_npv", "min_emissions", "earliest_gas_closure", "min_out_of_pocket")
+TOL_USD = 1e-6
+"""Absolute tolerance for money comparisons in :func:`evaluate_batch` (scaled by magnitude)."""
+
+
+def _floats(values: Iterable[float] | None) -> tuple[float, ...]:
+    return tuple(float(v) for v in values) if values is not None else ()
+
+
+@dataclass(frozen=True)
+class Project:
+    """One candidate project. Per-year tuples have one entry per horizon year (empty = zeros).
+
+    - ``cost_usd[t]``: price if done in year t, after point-of-sale incentives (nominal USD).
+    - ``value_usd[t]``: present value (at ``first_year``) of all benefits if done in year t.
+    - ``emissions_kg[t]``: lifetime CO2e saved if done in year t.
+    - ``savings_usd[t]``: bill savings realised in year t if done in an earlier year.
+    - ``undone_penalty_usd[t]``: expected cost in year t if not done by year t (end of life).
+    - ``mandatory``: must be done in some year. ``excluded``: must not be done.
+    - ``earliest_year`` / ``latest_year``: calendar window (incentive windows); ``pinned_year``.
+    - ``capacity_use`` / ``capacity_provided``: e.g. amps added to / freed on the service
+      (see ``Problem.capacity_base``).
+    - For explanations only: ``failure_item`` ("the water heater") with
+      ``failure_prob_by_year[t]`` (cumulative failure probability by the end of year t) and
+      ``window_reason`` ("the rebate ends").
+    """
+
+    id: str
+    cost_usd: tuple[float, ...]
+    label: str = ""
+    value_usd: tuple[float, ...] = ()
+    emissions_kg: tuple[float, ...] = ()
+    savings_usd: tuple[float, ...] = ()
+    undone_penalty_usd: tuple[float, ...] = ()
+    mandatory: bool = False
+    excluded: bool = False
+    earliest_year: int | None = None
+    latest_year: int | None = None
+    pinned_year: int | None = None
+    capacity_use: float = 0.0
+    capacity_provided: float = 0.0
+    failure_item: str = ""
+    failure_prob_by_year: tuple[float, ...] = ()
+    window_reason: str = ""
+
+    def __post_init__(self) -> None:
+        for name in (
+            "cost_usd",
+            "value_usd",
+            "emissions_kg",
+            "savings_usd",
+            "undone_penalty_usd",
+            "failure_prob_by_year",
+        ):
+            object.__setattr__(self, name, _floats(getattr(self, name)))
+
+    @property
+    def name(self) -> str:
+        return self.label or self.id
+
+
+@dataclass(frozen=True)
+class Prerequisite:
+    """``project`` may only be done once at least one of ``requires_any`` is done: in the same
+    or an earlier year, or (``strict``) an earlier year. One element = a plain prerequisite;
+    several = an any-of group (panel upgrade OR load management)."""
+
+    project: str
+    requires_any: tuple[str, ...]
+    strict: bool = False
+    label: str = ""
+
+    def __post_init__(self) -> None:
+        reqs = (self.requires_any,) if isinstance(self.requires_any, str) else self.requires_any
+        object.__setattr__(self, "requires_any", tuple(reqs))
+
+
+@dataclass(frozen=True)
+class ExclusiveGroup:
+    """At most one of ``members`` is done (variants of one project); exactly one if
+    ``exactly_one``."""
+
+    members: tuple[str, ...]
+    exactly_one: bool = False
+    label: str = ""
+
+    def __post_init__(self) -> None:
+        object.__setattr__(self, "members", tuple(self.members))
+
+
+@dataclass(frozen=True)
+class IncentiveGroup:
+    """An incentive with a yearly cap, e.g. a tax credit of 30 % up to $2,000 a year.
+
+    ``rates`` maps project id -> share of its cost earned. Earned in year t:
+    ``min(cap_usd_per_year, sum_p rate_p cost[p,t] x[p,t])``; the money arrives
+    ``arrives_after_years`` later and, if ``adds_to_budget``, adds to that year's budget.
+    """
+
+    id: str
+    rates: tuple[tuple[str, float], ...]
+    cap_usd_per_year: float
+    arrives_after_years: int = 1
+    adds_to_budget: bool = False
+    name: str = ""
+
+    def __post_init__(self) -> None:
+        rates = self.rates.items() if isinstance(self.rates, Mapping) else self.rates
+        object.__setattr__(self, "rates", tuple((str(k), float(v)) for k, v in rates))
+
+
+@dataclass(frozen=True)
+class Target:
+    """Every project in ``project_ids`` done by calendar year ``by_year`` (e.g. fully electric)."""
+
+    project_ids: tuple[str, ...]
+    by_year: int
+    label: str = "fully electric"
+
+    def __post_init__(self) -> None:
+        object.__setattr__(self, "project_ids", tuple(self.project_ids))
+
+
+@dataclass(frozen=True)
+class Problem:
+    """A scheduling problem over ``T = len(budget_usd)`` years starting at ``first_year``.
+
+    See the module docstring for the exact meaning of every field. ``capacity_base`` ``None``
+    means no capacity constraint; ``max_per_year`` ``None`` means no limit; ``loan_limit_usd``
+    0 means no loans.
+    """
+
+    first_year: int
+    budget_usd: tuple[float, ...]
+    projects: tuple[Project, ...]
+    carryover: bool = True
+    discount_rate: float = 0.0
+    loan_limit_usd: float = 0.0
+    loan_rate: float = 0.0
+    loan_term_years: int = 10
+    savings_to_budget: bool = False
+    prerequisites: tuple[Prerequisite, ...] = ()
+    exclusive_groups: tuple[ExclusiveGroup, ...] = ()
+    capacity_base: float | None = None
+    max_per_year: int | None = None
+    incentive_groups: tuple[IncentiveGroup, ...] = ()
+    targets: tuple[Target, ...] = ()
+    objective: str = "max_npv"
+    objective_project: str | None = None
+
+    def __post_init__(self) -> None:
+        object.__setattr__(self, "budget_usd", _floats(self.budget_usd))
+        for name in ("projects", "prerequisites", "exclusive_groups", "incentive_groups", "targets"):
+            object.__setattr__(self, name, tuple(getattr(self, name)))
+        self.validate()
+
+    # -- basic facts ---------------------------------------------------------------------
+    @property
+    def n_years(self) -> int:
+        return len(self.budget_usd)
+
+    @property
+    def years(self) -> tuple[int, ...]:
+        return tuple(range(self.first_year, self.first_year + self.n_years))
+
+    @property
+    def ids(self) -> tuple[str, ...]:
+        return tuple(p.id for p in self.projects)
+
+    def index(self, project_id: str) -> int:
+        return self.ids.index(project_id)
+
+    def project(self, project_id: str) -> Project:
+        return self.projects[self.index(project_id)]
+
+    def validate(self) -> None:
+        """Raise ``ValueError`` for malformed data (not for infeasible requests)."""
+        n = self.n_years
+        if n < 1:
+            raise ValueError("the horizon needs at least one year (budget_usd is empty)")
+        if self.objective not in OBJECTIVES:
+            raise ValueError(f"unknown objective {self.objective!r}; choose one of {OBJECTIVES}")
+        ids = self.ids
+        if len(set(ids)) != len(ids):
+            raise ValueError("project ids must be unique")
+        for p in self.projects:
+            for name in ("cost_usd", "value_usd", "emissions_kg", "savings_usd", "undone_penalty_usd"):
+                values = getattr(p, name)
+                if values and len(values) != n:
+                    raise ValueError(f"{p.id}.{name} has {len(values)} values, expected {n}")
+            if len(p.cost_usd) != n:
+                raise ValueError(f"{p.id}.cost_usd has {len(p.cost_usd)} values, expected {n}")
+        known = set(ids)
+        refs: list[str] = []
+        for r in self.prerequisites:
+            refs += [r.project, *r.requires_any]
+        for g in self.exclusive_groups:
+            refs += list(g.members)
+        for ig in self.incentive_groups:
+            refs += [k for k, _ in ig.rates]
+        for tg in self.targets:
+            refs += list(tg.project_ids)
+        if self.objective_project is not None:
+            refs.append(self.objective_project)
+        unknown = sorted(set(refs) - known)
+        if unknown:
+            raise ValueError(f"unknown project ids referenced: {unknown}")
+        if self.objective == "earliest_gas_closure" and self.objective_project is None:
+            raise ValueError("objective earliest_gas_closure needs objective_project")
+        if self.loan_limit_usd > 0 and self.loan_term_years < 1:
+            raise ValueError("loan_term_years must be >= 1")
+
+    def replace(self, **changes: object) -> Problem:
+        return dataclasses.replace(self, **changes)  # type: ignore[arg-type]
+
+    # -- arrays --------------------------------------------------------------------------
+    def matrix(self, name: str) -> np.ndarray:
+        """``[P, T]`` array of a per-year project field (zeros where empty)."""
+        out = np.zeros((len(self.projects), self.n_years))
+        for i, p in enumerate(self.projects):
+            values = getattr(p, name)
+            if values:
+                out[i] = values
+        return out
+
+    def discount_factors(self, extra_years: int = 0) -> np.ndarray:
+        t = np.arange(self.n_years + extra_years, dtype=float)
+        return (1.0 + self.discount_rate) ** -t
+
+    def annuity_factor(self) -> float:
+        """Yearly repayment per dollar borrowed (``a = r / (1 - (1 + r)^-n)``, ``1/n`` at r=0)."""
+        r, n = self.loan_rate, max(self.loan_term_years, 1)
+        return 1.0 / n if r == 0 else r / (1.0 - (1.0 + r) ** -n)
+
+    def loan_npv_cost_per_usd(self) -> np.ndarray:
+        """``df[t] * K`` per dollar borrowed in year t (see module docstring), length T."""
+        a, n = self.annuity_factor(), self.loan_term_years
+        k = sum(a * (1.0 + self.discount_rate) ** -j for j in range(1, n + 1)) - 1.0
+        return self.discount_factors() * max(k, 0.0)
+
+    def loan_interest_per_usd(self) -> float:
+        """Nominal interest paid per dollar borrowed (``n a - 1``)."""
+        return self.loan_term_years * self.annuity_factor() - 1.0
+
+    def allowed_years(self, i: int) -> tuple[int, ...]:
+        """Year indices project i may be done in (windows, pins, exclusions, targets)."""
+        p = self.projects[i]
+        if p.excluded:
+            return ()
+        lo, hi = 0, self.n_years - 1
+        if p.earliest_year is not None:
+            lo = max(lo, p.earliest_year - self.first_year)
+        if p.latest_year is not None:
+            hi = min(hi, p.latest_year - self.first_year)
+        for tg in self.targets:
+            if p.id in tg.project_ids:
+                hi = min(hi, tg.by_year - self.first_year)
+        if p.pinned_year is not None:
+            t = p.pinned_year - self.first_year
+            return (t,) if lo <= t <= hi else ()
+        return tuple(range(lo, hi + 1))
+
+    def must_do(self, i: int) -> bool:
+        p = self.projects[i]
+        if p.mandatory or p.pinned_year is not None:
+            return True
+        if self.objective == "earliest_gas_closure" and p.id == self.objective_project:
+            return True
+        return any(p.id in tg.project_ids for tg in self.targets)
+
+
+@dataclass(frozen=True)
+class Evaluation:
+    """Exact evaluation of one placement. ``violations`` names each violated constraint family
+    (empty = feasible). ``loans_usd`` is the just-in-time borrowing per year."""
+
+    years: dict[str, int | None]
+    violations: tuple[str, ...]
+    npv_usd: float
+    emissions_saved_kg: float
+    out_of_pocket_usd: float
+    objective_value: float
+    loans_usd: tuple[float, ...] = ()
+    incentives_usd: dict[str, tuple[float, ...]] = field(default_factory=dict)
+    money_left_usd: tuple[float, ...] = ()
+
+    @property
+    def feasible(self) -> bool:
+        return not self.violations
+
+
+FAMILIES = (
+    "window",
+    "pin",
+    "exclusion",
+    "mandatory",
+    "budget",
+    "prerequisite",
+    "exclusive",
+    "capacity",
+    "max_per_year",
+    "target",
+    "objective_project",
+)
+
+
+def evaluate_batch(problem: Problem, placements: np.ndarray) -> dict[str, np.ndarray]:
+    """Evaluate ``N`` placements at once. ``placements`` is ``[N, P]`` of year indices (-1 = not
+    done). Returns arrays of length N: one boolean per constraint family in :data:`FAMILIES`
+    (True = violated), ``feasible``, ``npv_usd``, ``emissions_kg``, ``out_of_pocket_usd``,
+    ``year_index`` (of ``objective_project``, or -1), ``loans_usd`` ``[N, T]``,
+    ``money_left_usd`` ``[N, T]`` (carry after each year, or unspent money without carryover)
+    and ``incentives_usd`` ``[N, G, T]``.
+    """
+    pr = problem
+    y = np.asarray(placements, dtype=np.int64)
+    if y.ndim == 1:
+        y = y[None, :]
+    n, np_ = y.shape
+    nt = pr.n_years
+    t_idx = np.arange(nt)
+    x = (y[:, :, None] == t_idx[None, None, :]).astype(float)  # [N,P,T]
+    done_by = ((y[:, :, None] >= 0) & (y[:, :, None] <= t_idx[None, None, :])).astype(float)
+    done = y >= 0
+    cost = pr.matrix("cost_usd")
+    scale = 1.0 + float(np.abs(cost).sum()) + float(np.abs(pr.budget_usd).sum())
+    tol = TOL_USD * scale
+    out: dict[str, np.ndarray] = {}
+
+    # windows, pins, exclusions, mandatory
+    win = np.zeros(n, bool)
+    pin = np.zeros(n, bool)
+    exc = np.zeros(n, bool)
+    man = np.zeros(n, bool)
+    for i, p in enumerate(pr.projects):
+        yi = y[:, i]
+        lo = (p.earliest_year - pr.first_year) if p.earliest_year is not None else 0
+        hi = (p.latest_year - pr.first_year) if p.latest_year is not None else nt - 1
+        hi = min(hi, nt - 1)
+        win |= done[:, i] & ((yi < lo) | (yi > hi))
+        win |= yi >= nt
+        if p.pinned_year is not None:
+            pin |= yi != p.pinned_year - pr.first_year
+        if p.excluded:
+            exc |= done[:, i]
+        if p.mandatory:
+            man |= ~done[:, i]
+    out.update(window=win, pin=pin, exclusion=exc, mandatory=man)
+
+    # capped incentives
+    groups = pr.incentive_groups
+    earned = np.zeros((n, len(groups), nt))
+    for g, ig in enumerate(groups):
+        base = np.zeros((n, nt))
+        for pid, rate in ig.rates:
+            i = pr.index(pid)
+            base += rate * cost[i][None, :] * x[:, i, :]
+        earned[:, g, :] = np.minimum(base, ig.cap_usd_per_year)
+    out["incentives_usd"] = earned
+
+    # money in and budget with just-in-time loans
+    spend = np.einsum("npt,pt->nt", x, cost)
+    savings = pr.matrix("savings_usd")
+    done_before = np.concatenate([np.zeros((n, np_, 1)), done_by[:, :, :-1]], axis=2)
+    savings_in = np.einsum("npt,pt->nt", done_before, savings)
+    money_in = np.tile(np.asarray(pr.budget_usd), (n, 1))
+    if pr.savings_to_budget:
+        money_in = money_in + savings_in
+    for g, ig in enumerate(groups):
+        if ig.adds_to_budget:
+            lag = ig.arrives_after_years
+            if lag < nt:
+                money_in[:, lag:] += earned[:, g, : nt - lag]
+    a = pr.annuity_factor()
+    repay = np.zeros((n, nt + pr.loan_term_years + 1))
+    loans = np.zeros((n, nt))
+    left = np.zeros((n, nt))
+    carry = np.zeros(n)
+    for t in range(nt):
+        avail = money_in[:, t] - repay[:, t] + (carry if pr.carryover else 0.0)
+        short = spend[:, t] - avail
+        borrow = np.where(short > tol, short, 0.0)
+        loans[:, t] = borrow
+        for k in range(1, pr.loan_term_years + 1):
+            repay[:, t + k] += a * borrow
+        left[:, t] = avail + borrow - spend[:, t]
+        carry = left[:, t]
+    out["budget"] = loans.sum(axis=1) > pr.loan_limit_usd + tol
+    out["loans_usd"] = loans
+    out["money_left_usd"] = left
+
+    # prerequisites and any-of groups
+    pre = np.zeros(n, bool)
+    for r in pr.prerequisites:
+        ia = pr.index(r.project)
+        ya = y[:, ia]
+        ok = np.zeros(n, bool)
+        for b in r.requires_any:
+            yb = y[:, pr.index(b)]
+            ok |= (yb >= 0) & ((yb < ya) if r.strict else (yb <= ya))
+        pre |= (ya >= 0) & ~ok
+    out["prerequisite"] = pre
+
+    # exclusive groups
+    ex = np.zeros(n, bool)
+    for gx in pr.exclusive_groups:
+        count = sum(done[:, pr.index(m)].astype(int) for m in gx.members)
+        ex |= (count != 1) if gx.exactly_one else (count > 1)
+    out["exclusive"] = ex
+
+    # capacity
+    if pr.capacity_base is not None:
+        net = np.array([p.capacity_use - p.capacity_provided for p in pr.projects])
+        used = np.einsum("npt,p->nt", done_by, net)
+        cap_tol = 1e-9 * (1.0 + abs(pr.capacity_base) + float(np.abs(net).sum()))
+        out["capacity"] = (used > pr.capacity_base + cap_tol).any(axis=1)
+    else:
+        out["capacity"] = np.zeros(n, bool)
+
+    # max per year
+    if pr.max_per_year is not None:
+        out["max_per_year"] = (x.sum(axis=1) > pr.max_per_year).any(axis=1)
+    else:
+        out["max_per_year"] = np.zeros(n, bool)
+
+    # targets
+    tg_bad = np.zeros(n, bool)
+    for tg in pr.targets:
+        by = tg.by_year - pr.first_year
+        for pid in tg.project_ids:
+            yi = y[:, pr.index(pid)]
+            tg_bad |= (yi < 0) | (yi > by)
+    out["target"] = tg_bad
+
+    # objective project
+    if pr.objective_project is not None:
+        yo = y[:, pr.index(pr.objective_project)]
+        out["year_index"] = yo
+        out["objective_project"] = (yo < 0) if pr.objective == "earliest_gas_closure" else np.zeros(n, bool)
+    else:
+        out["year_index"] = np.full(n, -1)
+        out["objective_project"] = np.zeros(n, bool)
+
+    feasible = np.ones(n, bool)
+    for fam in FAMILIES:
+        feasible &= ~out[fam]
+    out["feasible"] = feasible
+
+    # objective values
+    max_lag = max((ig.arrives_after_years for ig in groups), default=0)
+    df = pr.discount_factors(extra_years=max_lag + 1)
+    dfh = df[:nt]
+    value = pr.matrix("value_usd")
+    pen = pr.matrix("undone_penalty_usd")
+    npv = np.einsum("npt,pt->n", x, value - cost * dfh[None, :])
+    npv -= np.einsum("npt,pt->n", 1.0 - done_by, pen * dfh[None, :])
+    for g, ig in enumerate(groups):
+        lag = ig.arrives_after_years
+        npv += earned[:, g, :] @ df[lag : lag + nt]
+    npv -= loans @ pr.loan_npv_cost_per_usd()
+    out["npv_usd"] = npv
+    out["emissions_kg"] = np.einsum("npt,pt->n", x, pr.matrix("emissions_kg"))
+    oop = spend.sum(axis=1) + np.einsum("npt,pt->n", 1.0 - done_by, pen)
+    oop += loans.sum(axis=1) * pr.loan_interest_per_usd()
+    oop -= earned.sum(axis=(1, 2))
+    oop -= savings_in.sum(axis=1)
+    out["out_of_pocket_usd"] = oop
+    return out
+
+
+def objective_of(problem: Problem, ev: Mapping[str, np.ndarray]) -> np.ndarray:
+    """The objective value in its natural sense: NPV USD (higher is better), kg saved (higher),
+    calendar year of ``objective_project`` (lower), out-of-pocket USD (lower)."""
+    obj = problem.objective
+    if obj == "max_npv":
+        return ev["npv_usd"]
+    if obj == "min_emissions":
+        return ev["emissions_kg"]
+    if obj == "min_out_of_pocket":
+        return ev["out_of_pocket_usd"]
+    return ev["year_index"].astype(float) + problem.first_year
+
+
+def placement_of(problem: Problem, years: Mapping[str, int | None]) -> np.ndarray:
+    """Calendar years by project id -> ``[P]`` array of year indices (-1 = not done)."""
+    return np.array(
+        [
+            -1 if years.get(pid) is None else int(years[pid]) - problem.first_year  # type: ignore[operator]
+            for pid in problem.ids
+        ],
+        dtype=np.int64,
+    )
+
+
+def evaluate(problem: Problem, years: Mapping[str, int | None]) -> Evaluation:
+    """Evaluate one placement given as calendar year (or None) per project id."""
+    ev = evaluate_batch(problem, placement_of(problem, years)[None, :])
+    violations = tuple(f for f in FAMILIES if ev[f][0])
+    return Evaluation(
+        years={pid: years.get(pid) for pid in problem.ids},
+        violations=violations,
+        npv_usd=float(ev["npv_usd"][0]),
+        emissions_saved_kg=float(ev["emissions_kg"][0]),
+        out_of_pocket_usd=float(ev["out_of_pocket_usd"][0]),
+        objective_value=float(objective_of(problem, ev)[0]),
+        loans_usd=tuple(float(v) for v in ev["loans_usd"][0]),
+        incentives_usd={
+            ig.id: tuple(float(v) for v in ev["incentives_usd"][0, g])
+            for g, ig in enumerate(problem.incentive_groups)
+        },
+        money_left_usd=tuple(float(v) for v in ev["money_left_usd"][0]),
+    )
+
+
+def years_from_sequence(problem: Problem, values: Sequence[int | None]) -> dict[str, int | None]:
+    """Helper: list of calendar years (or None) in project order -> dict by id."""
+    return dict(zip(problem.ids, values, strict=True))
