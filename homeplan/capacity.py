@@ -162,6 +162,7 @@ class CapacityModel:
     notes: list[str] = field(default_factory=list)
     remedy: object | None = None
     remedy_project: str | None = None
+    variant_notes: dict[str, str] = field(default_factory=dict)
     ems_setpoint_va: float | None = None
     solar_connection: str | None = None
 
@@ -230,8 +231,8 @@ def capacity_model(ctx) -> CapacityModel:
     for name, vid in remedy.choices:
         if name in ctx.details and vid != ctx.details[name].variant:
             ctx.details[name] = with_variant(ctx.details[name], plan, ctx.basis, vid)
-            model.notes.append(f"{ctx.details[name].label}: {ctx.details[name].variant_label} "
-                               "(a lower-power choice that fits the service)")
+            model.variant_notes[name] = (f"{ctx.details[name].variant_label}: a lower-power choice that "
+                                         f"fits the {service.service_amps:g} A service")
     chosen = None
     if remedy.service_upgrade is not None:
         chosen = "service_upgrade"
@@ -240,10 +241,18 @@ def capacity_model(ctx) -> CapacityModel:
         model.ems_setpoint_va = remedy.ems.setpoint_va
     model.remedy_project = chosen
     model.excluded = {r for r in REMEDY_PROJECTS if r in ctx.details and r != chosen}
+    extra = 0.0
     if remedy.derated_main_amps:
         model.solar_connection = f"main breaker derated to {remedy.derated_main_amps:g} A for the solar connection"
+        extra = p["derate_main_usd"]
     elif remedy.supply_side:
-        model.solar_connection = "supply-side solar connection"
+        model.solar_connection = "supply-side solar connection (the panel's busbar cannot take the backfeed)"
+        extra = p["supply_side_usd"]
+    if extra and "solar" in ctx.details and not ctx.details["solar"].quoted:
+        d = ctx.details["solar"]
+        ctx.details["solar"] = replace(d, cost_today_usd=d.cost_today_usd + extra,
+                                       cost_source=f"{d.cost_source}; plus {model.solar_connection}")
+        model.variant_notes["solar"] = model.solar_connection
     # linear use per load: its amps against today's home, one at a time
     for pid in load_pids:
         d = ctx.details[pid]
@@ -279,11 +288,11 @@ def state_capacity(ctx, model: CapacityModel, done: set[str], label: str, year: 
     kinds = catalog.upgrade_kinds()
     dwelling, service = _dwelling(plan), _service(plan)
     loads = existing_loads(plan)
-    for pid in sorted(done):
+    for pid in sorted(done, key=lambda p: ctx.details[p].kind if p in ctx.details else p):
         d = ctx.details.get(pid)
         if d is None or not kinds[d.kind].capacity_load:
             continue
-        loads = _apply(loads, plan, d.candidate.replaces, project_loads(d.kind, d.variant, d.size, pid))
+        loads = _apply(loads, plan, d.candidate.replaces, project_loads(d.kind, d.variant, d.size, d.label))
     remedy_note = None
     ems = None
     if model.remedy_project and model.remedy_project in done:

@@ -1,7 +1,204 @@
-"""Registration of the commands that use the engines (capacity, costs, plan, print, ...)."""
+"""Commands that run the engines: plan, capacity, costs (and the report and app commands).
+
+Each command loads the plan, runs :func:`homeplan.pipeline.plan_roadmap` once and prints a view
+of the result; heavy modules are imported inside the functions.
+"""
 
 from __future__ import annotations
+
+import json
+import sys
+
+from homeplan.errors import PlanRuleError
+
+
+def load_and_plan(path: str, overrides: dict | None = None):
+    """Load a plan file, apply command-line overrides, run the pipeline.
+
+    Rule errors from the core are located in the user's file (exit code 2 at the CLI).
+    """
+    from homeplan.cli import located
+    from homeplan.pipeline import plan_roadmap
+    from homeplan.plan.load import load_plan, validate_document
+    from homeplan.plan.save import set_in
+
+    loaded = load_plan(path)
+    plan = loaded.plan
+    if overrides:
+        import copy
+
+        doc = copy.deepcopy(loaded.document)
+        for loc, value in overrides.items():
+            set_in(doc, loc, value)
+        plan, _ = validate_document(doc, str(loaded.path))
+    try:
+        result = plan_roadmap(plan, base_dir=loaded.path.parent)
+    except PlanRuleError as err:
+        raise located(loaded, err) from None
+    return loaded, result
+
+
+def _overrides(args) -> dict:
+    out = {}
+    if getattr(args, "budget", None) is not None:
+        out[("budget", "usd_per_year")] = args.budget
+    if getattr(args, "objective", None):
+        out[("choices", "objective")] = args.objective
+    if getattr(args, "horizon", None):
+        out[("budget", "horizon_years")] = args.horizon
+    return out
+
+
+def cmd_plan(args) -> int:
+    from homeplan.report.table import text_table, usd
+
+    loaded, result = load_and_plan(args.file, _overrides(args))
+    rm = result.roadmap
+    if args.json:
+        data = rm.to_dict()
+        data["warnings"] = list(result.warnings)
+        print(json.dumps(data, indent=2))
+        return 0
+    print(f"Roadmap for {rm.plan_name}, {rm.first_year}-{rm.last_year} "
+          f"(objective: {rm.objective.replace('_', ' ')}). Planning estimates.\n")
+    if rm.status != "ok":
+        print(f"No plan meets every requirement: {rm.infeasibility}")
+        return 1
+    rows = []
+    for s in rm.steps:
+        what = s.label + (f" ({s.variant})" if s.variant else "") + (f", {s.size}" if s.size else "")
+        rows.append([s.year, what, usd(s.cost_usd, 10), usd(s.incentives_usd, 10), usd(s.net_cost_usd, 10),
+                     "; ".join(s.reasons)])
+    print(text_table(["year", "step", "cost", "incentives", "net", "why this year"], rows, "llrrrl"))
+    print()
+    rows = []
+    for y in rm.years:
+        rows.append([y.year, usd(y.spend_usd, 10), usd(y.incentives_usd, 10), usd(y.loan_payments_usd, 10),
+                     usd(y.total_bills_usd, 10), usd(y.bill_savings_usd, 10), f"{y.emissions_kg / 1000:.1f} t",
+                     f"{y.service_headroom_amps:.0f} A"])
+    print(text_table(["year", "spend", "incentives in", "loan payments", "energy bills", "bill savings",
+                      "CO2", "service headroom"], rows, "lrrrrrrr"))
+    print()
+    for m in rm.milestones:
+        print(f"  {m.year}: {m.label}")
+    print(f"\nNet present value against doing nothing: {usd(rm.npv_usd, 10)} "
+          f"(discount rate {loaded.plan.budget.discount_rate_pct:g} %)")
+    for b in rm.baselines:
+        print(f"  {b.name}: {usd(b.npv_usd, 10)}")
+    for w in result.warnings:
+        print(f"note: {w}")
+    print()
+    for c in rm.cautions:
+        print(f"caution: {c}")
+    return 0
+
+
+def cmd_capacity(args) -> int:
+    loaded, result = load_and_plan(args.file)
+    if args.json:
+        from dataclasses import asdict
+
+        print(json.dumps([_finite(asdict(s)) for s in result.capacity], indent=2))
+        return 0
+    from homeplan import catalog
+    from homeplan.report.table import text_table
+
+    for s in result.capacity:
+        print(f"== {s.label}: {s.method}")
+        rows = [[r.name, f"{r.va:,.0f}", "" if r.factor != r.factor else f"{r.factor:.0%}",
+                 "" if r.counted_va != r.counted_va else f"{r.counted_va:,.0f}", r.section] for r in s.rows]
+        print(text_table(["load", "VA", "factor", "counted VA", "section"], rows, "lrrrl"))
+        verdict = "fits" if s.fits else "DOES NOT FIT"
+        print(f"total {s.total_va:,.0f} VA = {s.amps:.1f} A on a {s.service_amps:.0f} A service: "
+              f"{verdict}, headroom {s.headroom_amps:.1f} A" + (f" ({s.remedy})" if s.remedy else ""))
+        for n in s.notes:
+            print(f"note: {n}")
+        print()
+    print(f"caution: {catalog.cautions()['electrical']}")
+    print(f"caution: {catalog.cautions()['planning']}")
+    return 0
+
+
+def cmd_costs(args) -> int:
+    from homeplan.report.table import text_table, usd
+
+    loaded, result = load_and_plan(args.file)
+    rm = result.roadmap
+    planned = {s.project_id: s for s in rm.steps}
+    if args.json:
+        data = {
+            "projects": [
+                {"id": p.id, "label": p.label, "variant": p.variant, "size": p.size, "size_unit": p.size_unit,
+                 "cost_today_usd": p.cost_usd, "cost_source": p.cost_source,
+                 "planned": planned[p.id].to_dict() if p.id in planned else None}
+                for p in result.projects
+            ],
+            "years": [y.to_dict() for y in rm.years],
+            "programs": [{"id": u.program_id, "name": u.name, "kind": u.kind,
+                          "paid_by_year": {str(k): v for k, v in u.paid_by_year.items()},
+                          "caps": u.caps_note, "ends": u.ends} for u in result.programs],
+        }
+        print(json.dumps(_finite(data), indent=2))
+        return 0
+    rows = []
+    for p in result.projects:
+        s = planned.get(p.id)
+        rows.append([p.label, usd(p.cost_usd, 10), s.year if s else "-", usd(s.cost_usd, 10) if s else "",
+                     usd(s.incentives_usd, 10) if s else "", usd(s.net_cost_usd, 10) if s else "",
+                     p.cost_source[:60]])
+    print("Costs today and in the planned year (before and after incentives). Planning estimates.\n")
+    print(text_table(["project", "cost today", "year", "cost then", "incentives", "net", "cost from"],
+                     rows, "lrrrrrl"))
+    print()
+    rows = [[y.year, usd(y.spend_usd, 10), usd(y.incentives_usd, 10), usd(y.net_usd, 10),
+             usd(y.loan_payments_usd, 10), usd(y.bill_savings_usd, 10), usd(y.cumulative_usd, 10)] for y in rm.years]
+    print(text_table(["year", "spend", "incentives in", "net", "loan payments", "bill savings", "cumulative"],
+                     rows, "lrrrrrr"))
+    if result.programs:
+        print("\nIncentive programs used:")
+        for u in result.programs:
+            paid = ", ".join(f"{y}: {usd(v, 10)}" for y, v in u.paid_by_year.items())
+            print(f"  {u.name} ({u.kind.replace('_', ' ')}): {paid}" + (f"; ends {u.ends}" if u.ends else ""))
+    return 0
+
+
+def _finite(data):
+    """JSON cannot hold NaN: turn it into null."""
+    if isinstance(data, dict):
+        return {k: _finite(v) for k, v in data.items()}
+    if isinstance(data, list | tuple):
+        return [_finite(v) for v in data]
+    if isinstance(data, float) and data != data:
+        return None
+    return data
 
 
 def register(command) -> None:
     """Add engine commands to the CLI; each imports its engine inside its function."""
+    sp = command("plan", cmd_plan, "compute the year-by-year roadmap and print it")
+    sp.add_argument("--json", action="store_true", help="print the roadmap as JSON (docs/roadmap-json.md)")
+    sp.add_argument("--budget", type=float, help="override the yearly budget (USD)")
+    sp.add_argument("--horizon", type=int, help="override the number of years")
+    sp.add_argument("--objective", choices=["npv", "emissions", "gas_off_early", "out_of_pocket"],
+                    help="override the objective")
+    sp = command("capacity", cmd_capacity, "electrical load calculation today and after each roadmap step")
+    sp.add_argument("--json", action="store_true", help="print JSON")
+    sp = command("costs", cmd_costs, "costs, incentives and net cost of each project by year")
+    sp.add_argument("--json", action="store_true", help="print JSON")
+    sp = command("open", cmd_open, "open the plan in the terminal app (explore, edit, re-plan)")
+    try:
+        from homeplan.report import commands as report_commands
+    except ImportError:  # pragma: no cover - the report package is part of homeplan
+        return
+    report_commands.register(command)
+
+
+def cmd_open(args) -> int:
+    """Open the terminal app; textual is imported only here."""
+    from homeplan.tui.command import cmd_open as run_app
+
+    return run_app(args)
+
+
+if __name__ == "__main__":  # pragma: no cover
+    sys.exit(1)

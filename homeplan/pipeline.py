@@ -264,6 +264,36 @@ def lfl_cost(ctx: Context, key: str) -> float:
     return like_for_like_cost(a.kind, lifecycle.appliance_fuel(a), ctx.plan.prices.cost_level)
 
 
+def breakdown_cost(ctx: Context, key: str, t: int, item_cost_usd: float | None = None) -> float:
+    """Expected cost in year index t of the item ``key`` breaking that year (year-t dollars).
+
+    The chance it fails in that year (given it works today, Weibull) times an emergency
+    like-for-like replacement, less the share of that replacement still unused at the end of
+    the horizon (straight-line, NIST Handbook 135). The same figure is the scheduler's penalty
+    for leaving the item in place and the roadmap's expected breakdown cost, so the two agree.
+    """
+    o = ctx.outlooks.get(key)
+    if o is None or o.kind == "vehicle" or t >= len(o.yearly_failure_pct):
+        return 0.0
+    T = len(ctx.years)
+    cost = (item_cost_usd if item_cost_usd is not None else lfl_cost(ctx, key))
+    cost *= (1 + ctx.plan.prices.inflation_pct / 100.0) ** t
+    rate = ctx.plan.budget.discount_rate_pct
+    unused = max(0.0, 1.0 - (T - t) / max(o.median_life_years, 1.0))
+    return o.yearly_failure_pct[t] / 100.0 * cost * (1.0 - unused * discount(rate, T) / discount(rate, t))
+
+
+def replaceable_items(ctx: Context) -> dict[str, tuple[str, float | None]]:
+    """Item key -> (project that replaces it, item cost override) for every appliance or roof a
+    candidate project replaces."""
+    out: dict[str, tuple[str, float | None]] = {}
+    for pid, d in ctx.details.items():
+        for key in d.candidate.replaces:
+            if key in ctx.outlooks and ctx.outlooks[key].kind != "vehicle":
+                out[key] = (pid, d.cost_today_usd if key == "roof" else None)
+    return out
+
+
 def discount(rate_pct: float, t: float) -> float:
     return (1.0 + rate_pct / 100.0) ** -t
 

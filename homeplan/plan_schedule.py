@@ -25,7 +25,13 @@ from dataclasses import dataclass, field
 
 from homeplan import catalog
 from homeplan.graph import MILESTONE_FOR_FUEL
-from homeplan.pipeline import Context, discount, fossil_projects, lfl_cost, prerequisites_closure
+from homeplan.pipeline import (
+    Context,
+    breakdown_cost,
+    discount,
+    fossil_projects,
+    prerequisites_closure,
+)
 from homeplan.schedule.problem import Prerequisite, Problem, Project, Target
 
 
@@ -103,7 +109,6 @@ def build_problem(ctx: Context, co: dict[str, Coefficients], capacity, implicit_
     plan = ctx.plan
     years = ctx.years
     T = len(years)
-    inflation = plan.prices.inflation_pct / 100.0
     projects = []
     for pid, d in ctx.details.items():
         c = co[pid]
@@ -119,10 +124,6 @@ def build_problem(ctx: Context, co: dict[str, Coefficients], capacity, implicit_
             o = ctx.outlooks.get(key)
             if o is None or o.kind == "vehicle":
                 continue
-            cost_lfl = lfl_cost(ctx, key) if key != "roof" else d.cost_today_usd
-            for t in range(T):
-                p_fail = o.yearly_failure_pct[t] / 100.0 if t < len(o.yearly_failure_pct) else 0.0
-                penalty[t] += p_fail * cost_lfl * (1 + inflation) ** t
             if not item or (o.cumulative_failure_pct[0] > cumulative[0] * 100):
                 item = f"the {o.label}"
                 cumulative = [x / 100.0 for x in o.cumulative_failure_pct[:T]]
@@ -154,6 +155,9 @@ def build_problem(ctx: Context, co: dict[str, Coefficients], capacity, implicit_
         if data["kind"] == "requires" and u in ctx.details and v in ctx.details:
             prereqs.append(Prerequisite(project=v, requires_any=(u,), label=data.get("why", "")))
     prereqs.extend(capacity.prerequisites)
+    extra, extra_prereqs = breakdown_projects(ctx, excluded_lfl=bool(targets_for(ctx, implicit_target)))
+    projects.extend(extra)
+    prereqs.extend(extra_prereqs)
     targets = []
     by = plan.choices.all_electric_by
     if by is None and plan.choices.all_electric and implicit_target:
@@ -185,6 +189,54 @@ def build_problem(ctx: Context, co: dict[str, Coefficients], capacity, implicit_
         capacity_base=capacity.base_headroom, max_per_year=plan.choices.max_projects_per_year,
         targets=tuple(targets), objective=objective, objective_project=objective_project,
     )
+
+
+LFL_PREFIX = "like_for_like:"
+COVER_PREFIX = "covered:"
+
+
+def targets_for(ctx: Context, implicit_target: bool) -> int | None:
+    by = ctx.plan.choices.all_electric_by
+    if by is None and ctx.plan.choices.all_electric and implicit_target:
+        by = ctx.years[-1]
+    return by
+
+
+def breakdown_projects(ctx: Context, excluded_lfl: bool = False) -> tuple[list[Project], list[Prerequisite]]:
+    """Projects that model what happens to an old appliance or roof while it stays in place.
+
+    For each item a project would replace: a "covered" marker that costs nothing, carries the
+    item's expected breakdown cost for every year it is not yet done, and can only be done once
+    the item is replaced - by its upgrade, or by a like-for-like replacement, which is offered
+    as a project of its own (so that keeping the old fuel a while longer is priced fairly). With
+    an all-electric target the like-for-like choice is not offered for combustion appliances.
+    """
+    from homeplan.pipeline import lfl_cost, replaceable_items
+
+    T = len(ctx.years)
+    rate = ctx.plan.budget.discount_rate_pct
+    infl = ctx.plan.prices.inflation_pct / 100.0
+    projects: list[Project] = []
+    prereqs: list[Prerequisite] = []
+    for key, (pid, item_cost) in replaceable_items(ctx).items():
+        o = ctx.outlooks[key]
+        alternatives = [pid]
+        today = lfl_cost(ctx, key)
+        fossil = o.fuel in ("gas", "propane", "oil")
+        if key != "roof" and today > 0 and not (excluded_lfl and fossil):
+            lid = f"{LFL_PREFIX}{key}"
+            costs = [today * (1 + infl) ** t for t in range(T)]
+            salvage = [c * max(0.0, 1 - (T - t) / o.median_life_years) * discount(rate, T)
+                       for t, c in enumerate(costs)]
+            projects.append(Project(id=lid, label=f"Replace the {o.label} like-for-like", cost_usd=costs,
+                                    value_usd=salvage, excluded=pid in ctx.plan.choices.pins))
+            alternatives.append(lid)
+        penalty = [breakdown_cost(ctx, key, t, item_cost) for t in range(T)]
+        cid = f"{COVER_PREFIX}{key}"
+        projects.append(Project(id=cid, label=f"{o.label} replaced", cost_usd=[0.0] * T,
+                                undone_penalty_usd=penalty))
+        prereqs.append(Prerequisite(project=cid, requires_any=tuple(alternatives)))
+    return projects, prereqs
 
 
 def _reachable(ctx: Context, pid: str, by: int) -> bool:
@@ -219,7 +271,7 @@ def schedule(ctx: Context) -> ScheduleOutcome:
         problem, solution, delay = _solve_relaxing(ctx, co, capacity, implicit)
     passes = 1
     if solution.feasible:
-        done = solution.done()
+        done = {p: y for p, y in solution.done().items() if p in ctx.details}
         order = sorted(done, key=lambda p: (done[p], _order_key(ctx, p)))
         co2 = {}
         for pid in ctx.details:

@@ -19,8 +19,16 @@ from __future__ import annotations
 
 from homeplan import catalog
 from homeplan.graph import MILESTONE_FOR_FUEL
-from homeplan.pipeline import Context, discount, fossil_projects, lfl_cost, project_infos
-from homeplan.plan_schedule import ScheduleOutcome, cost_in_year
+from homeplan.pipeline import (
+    Context,
+    breakdown_cost,
+    discount,
+    fossil_projects,
+    lfl_cost,
+    project_infos,
+    replaceable_items,
+)
+from homeplan.plan_schedule import LFL_PREFIX, ScheduleOutcome, cost_in_year
 from homeplan.result import PlanResult
 from homeplan.schedule.roadmap import Baseline, IncentiveLine, Milestone, Roadmap, Step, YearTotals
 
@@ -67,18 +75,22 @@ def build_result(ctx: Context, outcome: ScheduleOutcome) -> PlanResult:
         today_cap = state_capacity(ctx, cap_model, set(), "today", None)
         return PlanResult(plan, roadmap, outlooks, infos, (today_cap,), base_energy.summary,
                           base_energy.summary, warnings=tuple(ctx.notes))
-    done = sol.done()
+    solved = sol.done()
+    done = {p: y for p, y in solved.items() if p in ctx.details}
+    lfl = {p: y for p, y in solved.items() if p.startswith(LFL_PREFIX)}
     by_year = _state_by_year(ctx, done)
     incentives = IncentiveModel.for_context(ctx)
     costs = {p: cost_in_year(ctx, p, y) for p, y in done.items()}
     awards = incentives.exact(done, costs)
     # steps
-    steps = []
+    steps = [lfl_step(ctx, outcome, pid, year) for pid, year in lfl.items()]
     for pid, year in sorted(done.items(), key=lambda kv: (kv[1], kv[0])):
         d = ctx.details[pid]
         lines = tuple(IncentiveLine(a.program, a.amount_usd, a.arrives, a.kind) for a in awards.get(pid, ()))
         cost = costs[pid]
         extra_reasons = list(outcome.reasons.get(pid, ()))
+        if pid in cap_model.variant_notes:
+            extra_reasons.append(cap_model.variant_notes[pid])
         steps.append(Step(
             project_id=pid, label=d.label, year=year, variant=d.variant_label, size=d.size_text(),
             cost_usd=round(cost, 2), incentives=lines,
@@ -97,6 +109,7 @@ def build_result(ctx: Context, outcome: ScheduleOutcome) -> PlanResult:
         bills = _bills_in_year(ctx, state.bills_usd, t)
         base_bills = _bills_in_year(ctx, base_energy.bills_usd, t)
         spend = sum(c for p, c in costs.items() if done[p] == year)
+        spend += sum(s.cost_usd for s in steps if s.year == year and s.project_id in lfl)
         inc_in = sum(a.amount_usd for lst in awards.values() for a in lst if a.arrival_year == year)
         pay = loans["payments"].get(year, 0.0)
         borrowed = loans["borrowed"].get(year, 0.0)
@@ -119,7 +132,8 @@ def build_result(ctx: Context, outcome: ScheduleOutcome) -> PlanResult:
     owed = sum(p * discount(rate, y - ctx.first_year) for y, p in loans["payments"].items() if y > ctx.years[-1])
     paid = {p: costs[p] - sum(a.amount_usd for a in awards.get(p, ())) for p in done}
     salvage = sum(_salvage(ctx, p, done[p], paid[p]) for p in done) * discount(rate, T)
-    npv += late - owed + salvage
+    salvage += sum(outcome.problem.project(p).value_usd[y - ctx.first_year] for p, y in lfl.items())
+    npv += late - owed + salvage - expected_breakdowns(ctx, {**done, **lfl})
     _ = base_bills_total
     baselines = (do_nothing(ctx, base_energy), like_for_like(ctx, base_energy))
     milestones = milestones_of(ctx, done)
@@ -138,9 +152,11 @@ def build_result(ctx: Context, outcome: ScheduleOutcome) -> PlanResult:
     seen = set()
     for year in ctx.years:
         state = frozenset(by_year[year])
-        if state and state not in seen and any(done[p] == year for p in state):
+        changed = [p for p in state if done[p] == year and (
+            catalog.upgrade_kinds()[ctx.details[p].kind].capacity_load or p == cap_model.remedy_project)]
+        if state and state not in seen and changed:
             seen.add(state)
-            names = ", ".join(ctx.details[p].label for p in sorted(state) if done[p] == year)
+            names = ", ".join(ctx.details[p].label for p in sorted(changed))
             capacity.append(state_capacity(ctx, cap_model, set(state), f"{year}: after {names}", year))
     final = frozenset(done)
     after = ctx.energy(final, "after the plan").summary
@@ -172,6 +188,32 @@ def loan_flows(ctx: Context, outcome: ScheduleOutcome, costs: dict, awards: dict
     return {"borrowed": borrowed, "payments": payments}
 
 
+def lfl_step(ctx: Context, outcome: ScheduleOutcome, pid: str, year: int) -> Step:
+    """A like-for-like replacement the optimiser chose (the old fuel stays a while longer)."""
+    pr = outcome.problem.project(pid)
+    cost = pr.cost_usd[year - ctx.first_year]
+    reasons = outcome.reasons.get(pid, ()) + (
+        "a like-for-like replacement costs less than the upgrade over the plan's years",)
+    key = pid[len(LFL_PREFIX):]
+    cautions = catalog.cautions()
+    a = next((x for x in ctx.plan.appliances if x.key == key), None)
+    notes = (cautions["combustion_removal"],) if a is not None and (a.fuel or "gas") != "electric" else ()
+    return Step(project_id=pid, label=pr.label, year=year, cost_usd=round(cost, 2), net_cost_usd=round(cost, 2),
+                reasons=tuple(dict.fromkeys(reasons)), cautions=notes)
+
+
+def expected_breakdowns(ctx: Context, done: dict[str, int]) -> float:
+    """Present value of the expected emergency replacements of the items the plan leaves in
+    place, for each year before the project that replaces them (see ``breakdown_cost``)."""
+    rate = ctx.plan.budget.discount_rate_pct
+    total = 0.0
+    for key, (pid, cost) in replaceable_items(ctx).items():
+        years = [done[p] for p in (pid, f"{LFL_PREFIX}{key}") if p in done]
+        until = min(years) - ctx.first_year if years else len(ctx.years)
+        total += sum(breakdown_cost(ctx, key, t, cost) * discount(rate, t) for t in range(until))
+    return total
+
+
 def do_nothing(ctx: Context, base_energy) -> Baseline:
     years = []
     cumulative = 0.0
@@ -183,7 +225,8 @@ def do_nothing(ctx: Context, base_energy) -> Baseline:
                                 emissions_kg=round(base_energy.emissions_kg, 1),
                                 peak_kw=round(base_energy.peak_kw, 2),
                                 energy={k: round(v, 1) for k, v in base_energy.units.items()}))
-    return Baseline("do nothing", tuple(years), 0.0)
+    return Baseline("do nothing (pay for breakdowns as they come)", tuple(years),
+                    round(-expected_breakdowns(ctx, {}), 2))
 
 
 def like_for_like(ctx: Context, base_energy) -> Baseline:
@@ -191,17 +234,18 @@ def like_for_like(ctx: Context, base_energy) -> Baseline:
     rate = ctx.plan.budget.discount_rate_pct
     infl = ctx.plan.prices.inflation_pct / 100.0
     spend: dict[int, float] = {}
+    breakdowns_before: dict[str, int] = {}
     salvage = 0.0
     end = ctx.first_year + len(ctx.years)
-    for o in ctx.outlooks.values():
-        if o.kind in ("vehicle", "roof"):
-            continue
+    for key, (_pid, item_cost) in replaceable_items(ctx).items():
+        o = ctx.outlooks[key]
         y = max(o.expected_end_year, ctx.first_year)
+        breakdowns_before[key] = y
         if y < end:
-            c = lfl_cost(ctx, o.key) * (1 + infl) ** (y - ctx.first_year)
+            today = item_cost if item_cost is not None else lfl_cost(ctx, key)
+            c = today * (1 + infl) ** (y - ctx.first_year)
             spend[y] = spend.get(y, 0.0) + c
-            life = o.median_life_years
-            salvage += max(0.0, c * (1 - (end - y) / life))
+            salvage += max(0.0, c * (1 - (end - y) / o.median_life_years))
     years = []
     cumulative = 0.0
     npv = 0.0
@@ -217,6 +261,9 @@ def like_for_like(ctx: Context, base_energy) -> Baseline:
                                 peak_kw=round(base_energy.peak_kw, 2),
                                 energy={k: round(v, 1) for k, v in base_energy.units.items()}))
     npv += salvage * discount(rate, len(ctx.years))
+    for key, (_pid, item_cost) in replaceable_items(ctx).items():
+        until = min(breakdowns_before[key], end) - ctx.first_year
+        npv -= sum(breakdown_cost(ctx, key, t, item_cost) * discount(rate, t) for t in range(until))
     return Baseline("replace like-for-like when it breaks", tuple(years), round(npv, 2))
 
 

@@ -49,6 +49,7 @@ from __future__ import annotations
 
 import datetime as dt
 import math
+import re
 from collections.abc import Iterable, Mapping, Sequence
 from dataclasses import dataclass, field
 from pathlib import Path
@@ -81,7 +82,9 @@ PROJECT_KINDS: frozenset[str] = frozenset(
 ``wiring`` and ``energy_audit`` (items some programs pay for separately)."""
 
 KIND_ALIASES: Mapping[str, str] = MappingProxyType({"gas_closure": "close_gas"})
-"""Other names accepted in catalogs, mapped to the project kind."""
+"""Other names accepted in catalogs and purchases, mapped to the project kind."""
+
+PROJECT_KINDS = PROJECT_KINDS | frozenset(KIND_ALIASES)
 
 PROGRAM_KINDS: tuple[str, ...] = (
     "point_of_sale_rebate",
@@ -101,18 +104,30 @@ PANEL_KINDS: frozenset[str] = frozenset({"panel_upgrade", "service_upgrade"})
 class IncentiveDataError(ValueError):
     """An incentive program record is invalid.
 
-    Attributes ``program_id`` and ``field`` (a dotted path such as ``tiers[1].ami_min_pct``)
-    let a loader point at the line and column of the offending value.
+    Attributes ``program_id`` and ``field`` (a dotted path such as ``tiers[1].ami_min_pct``),
+    ``index`` (position of the record in the catalog list, set by :func:`parse_catalog`) and
+    :attr:`keys` let a loader point at the line and column of the offending value.
     """
 
-    def __init__(self, program_id: str, field_path: str, problem: str, fix: str) -> None:
+    def __init__(
+        self, program_id: str, field_path: str, problem: str, fix: str, index: int | None = None
+    ) -> None:
         self.program_id = program_id
         self.field = field_path
         self.problem = problem
         self.fix = fix
+        self.index = index
         super().__init__(
             f"incentive program '{program_id}', field '{field_path}': {problem}. Fix: {fix}."
         )
+
+    @property
+    def keys(self) -> tuple[str | int, ...]:
+        """Key path inside the catalog list: (index, "tiers", 1, "ami_min_pct")."""
+        parts: list[str | int] = [] if self.index is None else [self.index]
+        for token in re.findall(r"[^.\[\]]+|\[\d+\]", self.field):
+            parts.append(int(token[1:-1]) if token.startswith("[") else token)
+        return tuple(parts)
 
 
 # --------------------------------------------------------------------------- records
@@ -234,6 +249,7 @@ class Purchase:
     fuel_switch: bool = False
 
     def __post_init__(self) -> None:
+        object.__setattr__(self, "kind", KIND_ALIASES.get(self.kind, self.kind))
         if self.cost_usd < 0:
             raise ValueError(f"purchase {self.project_id!r}: cost_usd cannot be negative")
 
@@ -735,11 +751,16 @@ def parse_catalog(raw: Mapping[str, Any] | Sequence[Mapping[str, Any]]) -> tuple
         )
     programs: list[Program] = []
     seen: set[str] = set()
-    for rec in records:
-        prog = parse_program(rec)
+    for index, rec in enumerate(records):
+        try:
+            prog = parse_program(rec)
+        except IncentiveDataError as exc:
+            raise IncentiveDataError(
+                exc.program_id, exc.field, exc.problem, exc.fix, index=index
+            ) from None
         if prog.id in seen:
             raise IncentiveDataError(
-                prog.id, "id", "the id is used twice", "give each program its own id"
+                prog.id, "id", "the id is used twice", "give each program its own id", index=index
             )
         seen.add(prog.id)
         programs.append(prog)

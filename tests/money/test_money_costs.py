@@ -1,0 +1,140 @@
+"""Costs over time: Wright's law, inflation, sized base costs and fuel price paths."""
+
+from __future__ import annotations
+
+import math
+from pathlib import Path
+
+import numpy_financial as npf
+import pytest
+
+from homeplan.money.costs import (
+    CostRange,
+    CostTrend,
+    PriceEscalation,
+    base_cost_usd,
+    cost_in_year,
+    cost_range_from_record,
+    cost_trend_from_record,
+    doublings_per_year,
+    learning_annual_change_pct,
+    price_path,
+    wright_cost_factor,
+)
+
+
+def test_wright_three_doublings_at_20_pct() -> None:
+    # common practice, no source (money.md / issue 5): three doublings at 20 % -> 0.512
+    assert wright_cost_factor(20, 3) == pytest.approx(0.512)
+
+
+def test_learning_equivalent_annual_rate() -> None:
+    # Wright's law definition: when cumulative production doubles every year (100 % growth),
+    # cost falls by the learning rate each year
+    assert learning_annual_change_pct(20, 100) == pytest.approx(-20.0)
+    # consistency with the definition: the time to double cumulative production at 25 %/yr is
+    # ln 2 / ln 1.25 years, and over that time cost must fall to (1 - 0.21) (21 % per doubling,
+    # battery default in issue 5, common practice, no source)
+    yearly = 1 + learning_annual_change_pct(21, 25) / 100
+    years_to_double = math.log(2) / math.log(1.25)
+    assert yearly**years_to_double == pytest.approx(0.79)
+    assert doublings_per_year(0) == 0
+
+
+def test_cost_in_year_pure_inflation_matches_numpy_financial() -> None:
+    trend = CostTrend(inflation_pct=3.0)
+    # numpy-financial fv: 14,000 compounding 3 % for 7 years
+    expected = npf.fv(0.03, 7, 0, -14_000)
+    assert cost_in_year(14_000, 2025, 2032, trend) == pytest.approx(expected)
+    # and back in time
+    assert cost_in_year(14_000, 2025, 2023, trend) == pytest.approx(npf.pv(0.03, 2, 0, -14_000))
+
+
+def test_cost_in_year_learning_and_soft_costs() -> None:
+    # 100 % growth -> one doubling a year; 3 years at 20 % -> 0.512 (common practice, no source)
+    hardware = CostTrend(inflation_pct=0.0, learning_rate_pct=20, deployment_growth_pct=100)
+    assert cost_in_year(10_000, 2025, 2028, hardware) == pytest.approx(5_120)
+    # half the cost is soft cost that does not learn: 0.5 x 0.512 + 0.5 = 0.756
+    half = CostTrend(
+        inflation_pct=0.0, learning_rate_pct=20, deployment_growth_pct=100, learning_share=0.5
+    )
+    assert cost_in_year(10_000, 2025, 2028, half) == pytest.approx(7_560)
+    # nominal = real x inflation (numpy-financial fv for the inflation part)
+    nominal = CostTrend(inflation_pct=2.5, learning_rate_pct=20, deployment_growth_pct=100)
+    assert cost_in_year(10_000, 2025, 2028, nominal) == pytest.approx(npf.fv(0.025, 3, 0, -5_120))
+
+
+def test_base_cost_sized_and_quote() -> None:
+    solar = CostRange("kw", 2_500, 4_200, 5_000, source="LBNL Tracking the Sun 2024")
+    # money.md: LBNL 2023 median $4.20/W and median system 7.4 kW -> $31,080
+    assert base_cost_usd(solar, 7.4) == pytest.approx(31_080)
+    # money.md low $2.5/W
+    assert base_cost_usd(solar, 7.4, "low") == pytest.approx(18_500)
+    # a contractor quote wins over the range
+    assert base_cost_usd(solar, 7.4, quote_usd=27_000) == 27_000
+    minisplit = CostRange("each", 2_500, 3_750, 5_000, fixed_usd=5_000)
+    # money.md: single zone $5k typical, + $2.5-5k per extra head -> 2 extra heads typical 12,500
+    assert base_cost_usd(minisplit, 2) == pytest.approx(12_500)
+    with pytest.raises(ValueError, match="low <= typical <= high"):
+        CostRange("kw", 5, 4, 6)
+    with pytest.raises(ValueError, match="unknown size unit"):
+        CostRange("acre", 1, 2, 3)
+
+
+def test_price_path_escalation_and_fossil_scenario() -> None:
+    cpi = PriceEscalation(cpi_pct=3.0)
+    # money.md: EIA 2023 residential 15.98 c/kWh, escalated at CPI (numpy-financial fv)
+    path = price_path(0.1598, "electricity", 2023, [2023, 2030], cpi)
+    assert path[0] == pytest.approx(0.1598)
+    assert path[1] == pytest.approx(npf.fv(0.03, 7, 0, -0.1598))
+    high = PriceEscalation(cpi_pct=3.0, fossil_extra_pct=2.0)
+    gas = price_path(1.42, "natural_gas", 2023, [2033], high)[0]
+    assert gas == pytest.approx(npf.fv(0.05, 10, 0, -1.42))  # money.md: ~$1.42/therm in 2022-23
+    # electricity is not a fossil fuel: no extra escalation
+    assert price_path(0.1598, "electricity", 2023, [2030], high)[0] == pytest.approx(path[1])
+
+
+def test_price_path_volatility_repeatable_and_centred() -> None:
+    years = list(range(2025, 2036))
+    vol = PriceEscalation(cpi_pct=3.0, fossil_volatility_pct=20, seed=7)
+    a = price_path(1.4, "natural_gas", 2025, years, vol)
+    b = price_path(1.4, "natural_gas", 2025, years, vol)
+    assert a == b  # same seed, same scenario
+    c = price_path(
+        1.4, "natural_gas", 2025, years, PriceEscalation(3.0, fossil_volatility_pct=20, seed=8)
+    )
+    assert a != c
+    assert price_path(0.17, "electricity", 2025, years, vol) == pytest.approx(
+        price_path(0.17, "electricity", 2025, years, PriceEscalation(3.0))
+    )
+    # lognormal shocks with drift -sigma^2/2 keep the expected price on the escalation path
+    # (E[exp(N(-s^2/2, s^2))] = 1); mean over 4,000 scenarios of the 10th year
+    finals = [
+        price_path(
+            1.0, "propane", 2025, [2035], PriceEscalation(0.0, fossil_volatility_pct=20, seed=s)
+        )[0]
+        for s in range(4_000)
+    ]
+    assert sum(finals) / len(finals) == pytest.approx(1.0, rel=0.05)
+
+
+def test_catalog_records() -> None:
+    from ruamel.yaml import YAML
+
+    path = Path(__file__).resolve().parents[2] / "homeplan" / "data" / "upgrades.yaml"
+    upgrades = YAML(typ="safe").load(path.read_text(encoding="utf-8"))
+    for rec in upgrades.values():
+        if "cost" in rec:
+            rng = cost_range_from_record(rec["cost"])
+            assert rng.low_usd <= rng.typical_usd <= rng.high_usd
+            cost_trend_from_record(rec.get("cost_change"), 2.5)
+    # a learning record: 20 %/doubling at 100 %/yr growth, no inflation -> 0.512 after 3 years
+    # (common practice, no source)
+    trend = cost_trend_from_record(
+        {"kind": "learning", "learning_rate_pct": 20, "growth_pct_per_year": 100}, 0.0
+    )
+    assert cost_in_year(1.0, 2025, 2028, trend) == pytest.approx(0.512)
+    # a cold-climate variant factor of 1.25 on a 3-ton typical ducted heat pump (5,300 $/ton):
+    # money.md cold-climate ducted 18-22k typical
+    rng = CostRange("ton", 3_000, 5_300, 8_300)
+    assert 18_000 <= base_cost_usd(rng, 3, cost_factor=1.25) <= 22_000
