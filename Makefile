@@ -21,7 +21,7 @@ demo: $(STAMP)
 	$(BIN)/homeplan lifecycle $(SAMPLE)
 
 test: $(STAMP)
-	$(BIN)/python -m pytest
+	$(BIN)/python -m pytest -q
 
 bench: $(STAMP)
 	@for f in benchmarks/bench_*.py; do echo "== $$f"; $(BIN)/python $$f || exit 1; done

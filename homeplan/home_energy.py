@@ -518,6 +518,29 @@ def heat_pump_tons(design_load_btuh: float, design_temp_f: float, variant: str |
     return float(min(max(math.ceil(tons * 2) / 2, 1.5), 5.0))
 
 
+def _with_quoted_ratings(hp, opt):
+    """Apply the ratings of the quoted equipment (plan options) to a catalog heat pump.
+
+    HSPF2 scales the COP curve (seasonal COP = HSPF / 3.412, energy reference notes); a COP or a
+    capacity at 5 F from the equipment's data sheet replaces the 5 F rating point.
+    """
+    if opt is None:
+        return hp
+    changes = {}
+    if opt.hspf2:
+        # seasonal COP of the catalog curve, approximated by the mean of its 47 F and 17 F points
+        seasonal_cop = (hp.cop_47 + hp.cop_17) / 2.0
+        k = (opt.hspf2 / 3.412) / seasonal_cop
+        changes.update(cop_47=hp.cop_47 * k, cop_17=hp.cop_17 * k, cop_5=max(1.0, hp.cop_5 * k))
+    if opt.cop_5f:
+        changes["cop_5"] = opt.cop_5f
+    if opt.capacity_5f_pct:
+        changes["capacity_5_btuh"] = hp.capacity_47_btuh * opt.capacity_5f_pct / 100.0
+    if opt.seer2:
+        changes["seer2"] = opt.seer2
+    return replace(hp, **changes) if changes else hp
+
+
 def state_spec(basis: HomeBasis, plan: Plan, done: Iterable[Choice], label: str = ""):
     """The home's energy spec after the projects in ``done``."""
     from homeplan.energy.appliances import CookingSpec, DryerSpec
@@ -540,9 +563,12 @@ def state_spec(basis: HomeBasis, plan: Plan, done: Iterable[Choice], label: str 
             v = kinds["heat_pump"].variant(c.variant)
             strips = (v.strips_kw or 0.0) if v else 0.0
             hp = heat_pump_spec(c.variant, c.size, strips, float(basis.weather.heating_design_f))
+            hp = _with_quoted_ratings(hp, plan.options.get(c.project_id))
             spec = with_heat_pump(spec, hp)
         elif k == "heat_pump_water_heater":
             uef = p["hpwh_120v_uef"] if c.variant == "v120" else p["hpwh_240v_uef"]
+            opt = plan.options.get(c.project_id)
+            uef = opt.uef if opt is not None and opt.uef else uef
             spec = replace(spec, water_heater=WaterHeaterSpec.heat_pump(uef))
         elif k == "induction_range":
             useful = spec.cooking.useful_kwh if spec.cooking else None

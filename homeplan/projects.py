@@ -111,6 +111,8 @@ def detail(plan: Plan, c: Candidate, basis: HomeBasis, electrified_kwh: float,
     k = kinds[c.kind]
     opt = plan.options.get(c.id)
     variant_id = (opt.variant if opt and opt.variant else None) or c.variant
+    if opt and opt.amps and c.kind == "ev_charger":
+        variant_id = f"a{opt.amps:g}" if f"a{opt.amps:g}" in {v.id for v in k.variants} else variant_id
     v = k.variant(variant_id) if k.variants else None
     if k.variants and v is None:
         v = k.variants[0]

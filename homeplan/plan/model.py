@@ -354,8 +354,6 @@ class Loan(Section):
     amount_usd: Money
     rate_pct: float = Field(ge=0, le=40)
     term_years: int = Field(ge=1, le=40)
-    available_from_year: Year | None = None
-    projects: list[str] | None = Field(None, description="Project ids it may pay for (all if empty).")
 
 
 class Budget(Section):

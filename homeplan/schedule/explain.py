@@ -138,7 +138,7 @@ def explain(problem: Problem, solution: Solution) -> dict[str, tuple[str, ...]]:
             reasons[p.id] = _why_not_done(problem, years, i)
             continue
         if p.pinned_year is not None:
-            reasons[p.id] = (f"pinned by you to {y}",)
+            reasons[p.id] = (p.pin_reason or f"pinned by you to {y}",)
             continue
         out = _why_not_earlier(problem, years, i, y) + _why_not_later(problem, i, y)
         if not out and y == problem.first_year:
@@ -204,6 +204,10 @@ def _structural_conflicts(problem: Problem) -> list[str]:
                 out.append(f"{p.name} is pinned to {p.pinned_year}, after its window closes ({p.latest_year})")
         elif problem.must_do(i) and not problem.allowed_years(i):
             out.append(f"{p.name} is required but has no year it can be done in")
+    for g in problem.exclusive_groups:
+        required = [problem.project(m).name for m in g.members if problem.must_do(problem.index(m))]
+        if len(required) > 1:
+            out.append(f"only one of {', '.join(required)} may be done, but all are required")
     return out
 
 
@@ -320,6 +324,8 @@ def diagnose(problem: Problem, solver: Solver | None = None) -> Diagnosis:
                 for t in base.targets:
                     fixes.append(f"move the '{t.label}' target from {t.by_year} to {min(t.by_year + k, last)}")
                 break
+        else:
+            fixes.append("drop the target (no year within the horizon works)")
     for name in blocking:
         if name not in ("budget", "target"):
             fixes.append(f"relax {_NAMES[name]}")

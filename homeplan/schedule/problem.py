@@ -32,6 +32,7 @@ Semantics (shared by every solver):
       + sum_g,t earned[g,t] df[t + arrives_after_years]
       - sum_p,t (1 - D[p,t]) undone_penalty_usd[p][t] df[t]
       - sum_t L[t] df[t] K,   K = max(0, PV at discount_rate of one dollar's repayments - 1)
+      + sum_i,t D[a_i,t] D[b_i,t] interaction_value_usd[i][t]
 
   ``value_usd`` is already a present value (the lead's engines discount benefits).
 - *emissions* (``min_emissions``): maximise ``sum x[p,t] emissions_kg[p][t]`` (lifetime kg saved).
@@ -84,7 +85,8 @@ class Project:
       (see ``Problem.capacity_base``).
     - For explanations only: ``failure_item`` ("the water heater") with
       ``failure_prob_by_year[t]`` (cumulative failure probability by the end of year t) and
-      ``window_reason`` ("the rebate ends").
+      ``window_reason`` ("the rebate ends"), ``pin_reason`` (replaces "pinned by you to Y",
+      e.g. "it failed: replaced in 2026").
     """
 
     id: str
@@ -104,6 +106,7 @@ class Project:
     failure_item: str = ""
     failure_prob_by_year: tuple[float, ...] = ()
     window_reason: str = ""
+    pin_reason: str = ""
 
     def __post_init__(self) -> None:
         for name in (
@@ -172,6 +175,21 @@ class IncentiveGroup:
 
 
 @dataclass(frozen=True)
+class Interaction:
+    """Extra present value ``value_usd[t]`` in each year t in which *both* projects are done
+    (by t): positive for synergy (solar is worth more once the heat pump and EV exist), negative
+    for overlap (insulation lowers the heat pump's savings). Enters the NPV only."""
+
+    a: str
+    b: str
+    value_usd: tuple[float, ...]
+    label: str = ""
+
+    def __post_init__(self) -> None:
+        object.__setattr__(self, "value_usd", _floats(self.value_usd))
+
+
+@dataclass(frozen=True)
 class Target:
     """Every project in ``project_ids`` done by calendar year ``by_year`` (e.g. fully electric)."""
 
@@ -207,12 +225,20 @@ class Problem:
     max_per_year: int | None = None
     incentive_groups: tuple[IncentiveGroup, ...] = ()
     targets: tuple[Target, ...] = ()
+    interactions: tuple[Interaction, ...] = ()
     objective: str = "max_npv"
     objective_project: str | None = None
 
     def __post_init__(self) -> None:
         object.__setattr__(self, "budget_usd", _floats(self.budget_usd))
-        for name in ("projects", "prerequisites", "exclusive_groups", "incentive_groups", "targets"):
+        for name in (
+            "projects",
+            "prerequisites",
+            "exclusive_groups",
+            "incentive_groups",
+            "targets",
+            "interactions",
+        ):
             object.__setattr__(self, name, tuple(getattr(self, name)))
         self.validate()
 
@@ -262,6 +288,10 @@ class Problem:
             refs += [k for k, _ in ig.rates]
         for tg in self.targets:
             refs += list(tg.project_ids)
+        for it in self.interactions:
+            refs += [it.a, it.b]
+            if len(it.value_usd) != n:
+                raise ValueError(f"interaction {it.a}+{it.b} has {len(it.value_usd)} values, expected {n}")
         if self.objective_project is not None:
             refs.append(self.objective_project)
         unknown = sorted(set(refs) - known)
@@ -274,6 +304,17 @@ class Problem:
 
     def replace(self, **changes: object) -> Problem:
         return dataclasses.replace(self, **changes)  # type: ignore[arg-type]
+
+    def with_project(self, project_id: str, **changes: object) -> Problem:
+        """A copy with one project's fields changed, e.g. ``with_project("hpwh",
+        pinned_year=2026, pin_reason="it failed: replaced now")`` for "what if X fails now"."""
+        i = self.index(project_id)
+        projects = list(self.projects)
+        projects[i] = dataclasses.replace(projects[i], **changes)  # type: ignore[arg-type]
+        return self.replace(projects=tuple(projects))
+
+    def with_extra_budget(self, extra_usd_per_year: float) -> Problem:
+        return self.replace(budget_usd=tuple(b + extra_usd_per_year for b in self.budget_usd))
 
     # -- arrays --------------------------------------------------------------------------
     def matrix(self, name: str) -> np.ndarray:
@@ -520,6 +561,9 @@ def evaluate_batch(problem: Problem, placements: np.ndarray) -> dict[str, np.nda
         lag = ig.arrives_after_years
         npv += earned[:, g, :] @ df[lag : lag + nt]
     npv -= loans @ pr.loan_npv_cost_per_usd()
+    for it in pr.interactions:
+        both = done_by[:, pr.index(it.a), :] * done_by[:, pr.index(it.b), :]
+        npv += both @ np.asarray(it.value_usd)
     out["npv_usd"] = npv
     out["emissions_kg"] = np.einsum("npt,pt->n", x, pr.matrix("emissions_kg"))
     oop = spend.sum(axis=1) + np.einsum("npt,pt->n", 1.0 - done_by, pen)

@@ -27,7 +27,7 @@ from homeplan.money.incentives import (
 
 ROOT = Path(__file__).resolve().parents[2]
 FEDERAL = ROOT / "sample_homes" / "incentives" / "federal_2023_2025_example.yaml"
-DEMO = ROOT / "homeplan" / "data" / "incentives_demo.yaml"
+DEMO = ROOT / "sample_homes" / "incentives" / "lakeshire_demo.yaml"
 
 
 @pytest.fixture(scope="module")

@@ -7,6 +7,7 @@ import numpy as np
 from homeplan.schedule.problem import (
     ExclusiveGroup,
     IncentiveGroup,
+    Interaction,
     Prerequisite,
     Problem,
     Project,
@@ -103,6 +104,11 @@ def random_problem(
         k = int(rng.integers(1, n_p + 1))
         members = tuple(str(s) for s in rng.choice(ids, size=k, replace=False))
         targets.append(Target(members, first_year + int(rng.integers(0, n_t))))
+    interactions = []
+    if n_p >= 2 and rng.random() < 0.35:
+        a, b = (str(s) for s in rng.choice(ids, size=2, replace=False))
+        per_year = float(rng.integers(-6, 7)) * 100
+        interactions.append(Interaction(a, b, tuple(per_year for _ in range(n_t))))
     total_cost = sum(p.cost_usd[0] for p in projects)
     budget = tuple(
         float(round(total_cost * float(rng.uniform(0.05, 0.6)))) for _ in range(n_t)
@@ -125,6 +131,7 @@ def random_problem(
         max_per_year=int(rng.integers(1, 3)) if rng.random() < 0.3 else None,
         incentive_groups=tuple(incentives),
         targets=tuple(targets),
+        interactions=tuple(interactions),
         objective=obj,
         objective_project=str(rng.choice(ids)) if obj == "earliest_gas_closure" else None,
     )

@@ -3,10 +3,13 @@
 from __future__ import annotations
 
 import pytest
+from hypothesis import given, settings
+from hypothesis import strategies as st
 
 from homeplan.schedule.explain import diagnose, diagnose_infeasible, explain, minimum_extra_budget
 from homeplan.schedule.milp import MilpSolver
-from homeplan.schedule.problem import Prerequisite, Problem, Project, Target
+from homeplan.schedule.problem import ExclusiveGroup, Prerequisite, Problem, Project, Target
+from tests.schedule.instances import random_problem
 
 MILP = MilpSolver(mip_rel_gap=0.0)
 T = 6
@@ -148,3 +151,61 @@ def test_diagnosis_of_structural_conflict() -> None:
 def test_feasible_request_is_said_to_be_feasible() -> None:
     d = diagnose(demo_home())
     assert d.feasible and d.blocking == ()
+
+
+def test_diagnosis_of_two_required_variants() -> None:
+    a = Project("a", flat(100, 3), label="Ducted heat pump", mandatory=True)
+    b = Project("b", flat(100, 3), label="Mini-split", mandatory=True)
+    pr = Problem(2026, flat(1000, 3), (a, b), exclusive_groups=(ExclusiveGroup(("a", "b")),))
+    d = diagnose(pr)
+    assert d.blocking == ("mandatory",) or "exclusive" in d.blocking or "mandatory" in d.blocking
+    assert "only one of Ducted heat pump, Mini-split may be done" in d.message
+
+
+def test_waiting_for_service_capacity() -> None:
+    # 40 A of headroom (invented): the charger (40 A) and the range (40 A) cannot both be
+    # installed until the panel upgrade (+100 A) is done; the panel is affordable in 2027.
+    # 2026's $2,000 pays for both appliances, so only capacity holds one back (by hand).
+    charger = Project("charger", flat(1000, 3), label="EV charger", value_usd=(3000, 2500, 2000),
+                      capacity_use=40)
+    range_ = Project("range", flat(1000, 3), label="Induction range", value_usd=(3000, 2600, 2100),
+                     capacity_use=40)
+    panel = Project("panel", (9000, 3000, 3000), label="Panel upgrade", capacity_provided=100,
+                    value_usd=flat(3500, 3))
+    pr = Problem(2026, (2000, 5000, 0), (charger, range_, panel), capacity_base=40,
+                 carryover=False)
+    sol = MILP.solve(pr)
+    why = explain(pr, sol)
+    later = [p for p in ("charger", "range") if sol.years[p] == 2027]
+    assert sol.years["panel"] == 2027 and len(later) == 1
+    assert "waiting for service capacity" in why[later[0]]
+
+
+@settings(max_examples=40, deadline=None)
+@given(seed=st.integers(0, 10**6))
+def test_explanations_cover_every_project(seed: int) -> None:
+    pr = random_problem(seed)
+    sol = MILP.solve(pr)
+    if not sol.feasible:
+        return
+    why = explain(pr, sol)
+    assert set(why) == set(pr.ids)
+    for pid, reasons in why.items():
+        assert reasons, pid  # every project gets at least one reason
+        assert all(isinstance(r, str) and r for r in reasons)
+
+
+@settings(max_examples=15, deadline=None)
+@given(seed=st.integers(0, 10**6))
+def test_extra_budget_found_by_diagnosis_really_works(seed: int) -> None:
+    pr = random_problem(seed, max_projects=4, max_years=5)
+    if MILP.solve(pr).feasible:
+        return
+    d = diagnose(pr)
+    assert not d.feasible and d.message
+    if d.extra_budget_usd_per_year is not None:
+        e = d.extra_budget_usd_per_year
+        assert MILP.solve(pr.replace(budget_usd=tuple(b + e for b in pr.budget_usd))).feasible
+        if e >= 10:
+            less = pr.replace(budget_usd=tuple(b + e - 10 for b in pr.budget_usd))
+            assert not MILP.solve(less).feasible

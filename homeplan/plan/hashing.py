@@ -1,0 +1,35 @@
+"""A stable content hash of a plan: the same inputs give the same hash on every machine.
+
+The hash covers the *validated* content (``Plan.model_dump(mode="json")``), so it ignores what
+does not change the plan's meaning: comments, key order, whitespace, quoting, SI spellings that
+convert to the same internal value, and defaults written out or left implicit. It is shown on
+printouts and in the app so an installer and a homeowner can tell at a glance whether they are
+looking at the same plan.
+
+References
+----------
+FIPS 180-4, Secure Hash Standard (SHA-256). RFC 8785 (JSON Canonicalization Scheme) is the idea
+behind the canonical form used here: sorted keys, no insignificant whitespace, UTF-8.
+"""
+
+from __future__ import annotations
+
+import hashlib
+import json
+from typing import Any
+
+HASH_CHARS = 12
+"""Hex characters kept: 48 bits, plenty to tell plans of one household apart by eye."""
+
+
+def canonical_json(data: Any) -> str:
+    """JSON text with sorted keys and no insignificant whitespace (UTF-8, no ASCII escaping)."""
+    return json.dumps(data, sort_keys=True, separators=(",", ":"), ensure_ascii=False,
+                      allow_nan=False)
+
+
+def content_hash(plan: Any) -> str:
+    """First 12 hex characters of SHA-256 over the canonical JSON of the validated plan."""
+    data = plan.model_dump(mode="json")
+    digest = hashlib.sha256(canonical_json(data).encode("utf-8")).hexdigest()
+    return digest[:HASH_CHARS]

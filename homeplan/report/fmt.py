@@ -1,0 +1,89 @@
+"""Small formatting helpers shared by every printed view: money, numbers, safe text.
+
+References
+----------
+Unicode Standard Annex #44 (general category Cc, control characters): stripped from user text
+so that a plan file cannot move the terminal cursor, clear the screen or break a calendar line.
+"""
+
+from __future__ import annotations
+
+import math
+import re
+
+from homeplan.report.table import usd
+
+_CONTROL = re.compile(r"[\x00-\x08\x0b-\x1f\x7f-\x9f\u2028\u2029]")
+
+
+def clean(text: object, one_line: bool = True) -> str:
+    """User text made safe to show: control characters removed; newlines/tabs become spaces."""
+    s = "" if text is None else str(text)
+    s = _CONTROL.sub("", s)
+    if one_line:
+        s = re.sub(r"[\t\r\n]+", " ", s)
+    return s.strip()
+
+
+def short(text: str, limit: int) -> str:
+    """Cut long text to ``limit`` characters with an ellipsis."""
+    return text if len(text) <= limit else text[: max(limit - 3, 1)].rstrip() + "..."
+
+
+def finite(value: float | None) -> bool:
+    return value is not None and isinstance(value, int | float) and math.isfinite(value)
+
+
+def money(value: float | None) -> str:
+    """Money the way a household reads it: nearest $10 under $1,000, else nearest $100.
+
+    Not computed (None/NaN) shows as "n/a".
+    """
+    if not finite(value):
+        return "n/a"
+    assert value is not None
+    step = 10 if abs(value) < 1000 else 100
+    out = usd(value, step)
+    return "$0" if out == "-$0" else out
+
+
+def money_signed(value: float | None) -> str:
+    """Money with an explicit sign: +$1,200 / -$300 / $0."""
+    out = money(value)
+    if out in ("n/a", "$0") or out.startswith("-"):
+        return out
+    return "+" + out
+
+
+def number(value: float | None, digits: int = 0, unit: str = "") -> str:
+    if not finite(value):
+        return "n/a"
+    assert value is not None
+    s = f"{value:,.{digits}f}"
+    if s.startswith("-") and float(s.replace(",", "")) == 0:
+        s = s[1:]
+    return f"{s} {unit}".strip()
+
+
+def tonnes(kg: float | None) -> str:
+    """Mass of CO2e in tonnes with one decimal."""
+    return "n/a" if not finite(kg) else number(kg / 1000.0, 1, "t")  # type: ignore[operator]
+
+
+def pct(value: float | None, digits: int = 1) -> str:
+    if not finite(value):
+        return "n/a"
+    assert value is not None
+    s = f"{value:.{digits}f}".rstrip("0").rstrip(".") if digits else f"{value:.0f}"
+    return f"{s} %"
+
+
+_UNIT_WORDS = {"kwh": "kWh", "therm": "therms", "gallon": "gallons", "gal": "gallons", "kg": "kg"}
+
+
+def energy_key_words(key: str) -> tuple[str, str]:
+    """'electricity_kwh' -> ('Electricity', 'kWh'); 'gas_therm' -> ('Gas', 'therms')."""
+    head, _, unit = key.rpartition("_")
+    if not head or unit not in _UNIT_WORDS:
+        return key.replace("_", " ").capitalize(), ""
+    return head.replace("_", " ").capitalize(), _UNIT_WORDS[unit]

@@ -1,0 +1,144 @@
+"""The printed summary as plain text (terminal, .txt) and as Markdown (.md).
+
+User text in a :class:`~homeplan.report.view.Report` is already free of control characters (so a
+plan file cannot send terminal escape sequences). Markdown additionally escapes its own
+punctuation and ``<``/``>``/``&`` so that user text cannot become links, images or raw HTML in a
+Markdown viewer.
+
+References
+----------
+CommonMark Spec 0.31.2, section 2.4 (backslash escapes) and 6.6 (raw HTML).
+"""
+
+from __future__ import annotations
+
+import re
+
+from homeplan.report.fmt import short
+from homeplan.report.table import text_table
+from homeplan.report.view import GROUP_LABELS, Report, Table, Timeline, footer_line
+
+_GROUP_CHAR = {"appliances": "#", "electrical": "E", "solar": "S", "vehicles": "V", "building": "B",
+               "other": "*"}
+
+
+def timeline_text(t: Timeline, label_w: int = 30) -> str:
+    """Years across (two digits each), one row per step, milestones on their own rows."""
+    years = list(range(t.first_year, t.last_year + 1))
+    head = " " * label_w + " " + " ".join(f"{y % 100:02d}" for y in years)
+    lines = [" " * label_w + f" {t.first_year} to {t.last_year}", head]
+    for b in sorted(t.bars, key=lambda b: b.year):
+        ch = _GROUP_CHAR.get(b.group, "*") * 2
+        cells = " ".join(ch if y == b.year else " ." for y in years)
+        lines.append(f"{short(b.label, label_w):<{label_w}} {cells}")
+    for m in sorted(t.marks, key=lambda m: m.year):
+        cells = " ".join("<>" if y == m.year else "  " for y in years)
+        lines.append(f"{'milestone':<{label_w}} {cells}  {m.year}: {short(m.label, 50)}")
+    key = [f"{_GROUP_CHAR[g] * 2} {GROUP_LABELS[g].lower()}" for g in t.groups]
+    if t.marks:
+        key.append("<> milestone")
+    if key:
+        lines.append("key: " + ", ".join(key))
+    return "\n".join(lines)
+
+
+def _wrap(text: str, width: int, indent: str = "", hang: int = 0) -> str:
+    import textwrap
+
+    return textwrap.fill(text, width=width, initial_indent=indent,
+                         subsequent_indent=indent + " " * hang, break_long_words=True)
+
+
+def _text_table(t: Table, reason_w: int = 48) -> str:
+    rows = [tuple(short(c, reason_w) for c in r) for r in t.rows]
+    if t.total:
+        rows.append(t.total)
+    align = t.align.replace("n", "l")
+    out = text_table(t.headers, rows, align)
+    if t.note:
+        out += "\n" + _wrap(t.note, 100)
+    return out
+
+
+def render_text(r: Report) -> str:
+    w = 100
+    out: list[str] = [short(r.title, 200), "=" * min(len(r.title), w)]
+    if r.subtitle:
+        out.append(short(r.subtitle, 200))
+    out.append("")
+    for k, v in r.home:
+        out.append(_wrap(f"{k + ':':<12} {v}", w, hang=13))
+    out.append("")
+    for k, v in r.headline:
+        out.append(f"{v:>10}  {k}")
+    if r.status != "ok":
+        out += ["", "NO ROADMAP FITS THESE INPUTS", _wrap(r.infeasibility, w)]
+    for warn in r.warnings:
+        out.append(_wrap(f"note: {warn}", w))
+    sections: list[tuple[str, str]] = [
+        ("The roadmap", timeline_text(r.timeline)),
+        ("Steps", _text_table(r.steps) + "\n" + r.money_note),
+        ("Year by year", _text_table(r.years)),
+        ("Energy and emissions, before and after", _text_table(r.energy)),
+        ("Electrical capacity", _text_table(r.capacity) + "".join(f"\n  - {n}" for n in r.capacity_notes)),
+        ("Key assumptions", "\n".join(_wrap(f"{k + ':':<28} {v}", w, hang=29) for k, v in r.assumptions)
+         + ("\n\n" + _text_table(r.programs) if r.programs.rows else "")),
+        ("Safety", "\n".join(_wrap(f"{t}: {text}", w, hang=2) for t, text in r.cautions)),
+    ]
+    for title, body in sections:
+        out += ["", title, "-" * len(title), body]
+    f = r.footer
+    out += ["", "-" * w, _wrap(footer_line(f), w)]
+    if f.prepared_for:
+        out.append(_wrap(f"prepared for {f.prepared_for}", w))
+    if f.notes:
+        out.append(_wrap(f"notes: {f.notes}", w))
+    return "\n".join(out) + "\n"
+
+
+# ----------------------------------------------------------------------------- Markdown
+
+_MD_SPECIAL = re.compile(r"([\\`*_{}\[\]#|~])")
+
+
+def md(text: str) -> str:
+    """Escape user text for Markdown: entities for <, >, &; backslashes for punctuation."""
+    text = text.replace("&", "&amp;").replace("<", "&lt;").replace(">", "&gt;")
+    return _MD_SPECIAL.sub(r"\\\1", text)
+
+
+def _md_table(t: Table) -> str:
+    head = "| " + " | ".join(md(h) for h in t.headers) + " |"
+    rule = "|" + "|".join("---:" if a == "r" else ":---" for a in t.align) + "|"
+    rows = ["| " + " | ".join(md(c) for c in row) + " |" for row in t.rows]
+    if t.total:
+        rows.append("| " + " | ".join(f"**{md(c)}**" if c else "" for c in t.total) + " |")
+    note = f"\n\n_{md(t.note)}_" if t.note else ""
+    return "\n".join([head, rule, *rows]) + note
+
+
+def render_markdown(r: Report) -> str:
+    out: list[str] = [f"# {md(r.title)}", ""]
+    if r.subtitle:
+        out += [md(r.subtitle), ""]
+    out += [f"- **{md(k)}:** {md(v)}" for k, v in r.home]
+    out += ["", " | ".join(f"**{md(v)}** {md(k)}" for k, v in r.headline), ""]
+    if r.status != "ok":
+        out += [f"> **No roadmap fits these inputs.** {md(r.infeasibility)}", ""]
+    out += [f"> {md(w)}" for w in r.warnings]
+    out += ["", "## The roadmap", "", "```text", timeline_text(r.timeline).replace("```", "'''"), "```", ""]
+    out += ["## Steps", "", _md_table(r.steps), "", f"_{md(r.money_note)}_", ""]
+    out += ["## Year by year", "", _md_table(r.years), ""]
+    out += ["## Energy and emissions, before and after", "", _md_table(r.energy), ""]
+    out += ["## Electrical capacity", "", _md_table(r.capacity), ""]
+    out += [f"- {md(n)}" for n in r.capacity_notes]
+    out += ["", "## Key assumptions", ""] + [f"- **{md(k)}:** {md(v)}" for k, v in r.assumptions]
+    if r.programs.rows:
+        out += ["", _md_table(r.programs)]
+    out += ["", "## Safety", ""] + [f"- **{md(t)}.** {md(text)}" for t, text in r.cautions]
+    out += ["", "---", "", md(footer_line(r.footer))]
+    if r.footer.prepared_for:
+        out += ["", md(f"Prepared for {r.footer.prepared_for}")]
+    if r.footer.notes:
+        out += ["", md(f"Notes: {r.footer.notes}")]
+    return "\n".join(out) + "\n"

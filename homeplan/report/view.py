@@ -1,0 +1,504 @@
+"""The printed summary as plain data: what every output format shows, already in words.
+
+:func:`build_report` reads one :class:`~homeplan.result.PlanResult` and returns a
+:class:`Report` of short strings and small tables. It computes nothing physical: every figure
+comes from the result; this module only chooses, rounds and names. The renderers (text,
+Markdown, HTML) lay the same report out for their medium and escape user text for it; the
+strings here are *not* escaped (they are cleaned of control characters only).
+
+References
+----------
+None: presentation only. The figures' sources are cited by the engines that made them.
+"""
+
+from __future__ import annotations
+
+import datetime as dt
+from dataclasses import dataclass, field
+from typing import Any
+
+from homeplan.report.fmt import (
+    clean,
+    energy_key_words,
+    finite,
+    money,
+    money_signed,
+    number,
+    pct,
+    tonnes,
+)
+
+# Groups of upgrade categories (homeplan/data/upgrades.yaml): one colour each on the timeline.
+GROUPS: dict[str, tuple[str, ...]] = {
+    "appliances": ("heating", "water", "cooking", "drying"),
+    "electrical": ("electrical",),
+    "solar": ("solar", "storage"),
+    "vehicles": ("vehicles",),
+    "building": ("envelope", "roof", "fuel"),
+}
+GROUP_LABELS: dict[str, str] = {
+    "appliances": "Heating, hot water, kitchen, laundry",
+    "electrical": "Panel and service work",
+    "solar": "Solar and battery",
+    "vehicles": "Vehicles and charging",
+    "building": "Building shell and fuel lines",
+    "other": "Other work",
+}
+
+
+@dataclass(frozen=True)
+class Table:
+    headers: tuple[str, ...]
+    rows: tuple[tuple[str, ...], ...]
+    align: str            # per column: 'l' left, 'r' right (numbers), 'n' left and never wrapped
+    total: tuple[str, ...] | None = None        # a closing row, shown emphasised
+    note: str = ""
+
+
+@dataclass(frozen=True)
+class Bar:
+    year: int
+    label: str
+    detail: str
+    group: str
+
+
+@dataclass(frozen=True)
+class Mark:
+    year: int
+    label: str
+
+
+@dataclass(frozen=True)
+class Timeline:
+    first_year: int
+    last_year: int
+    bars: tuple[Bar, ...]
+    marks: tuple[Mark, ...]
+
+    @property
+    def groups(self) -> tuple[str, ...]:
+        order = list(GROUP_LABELS)
+        return tuple(sorted({b.group for b in self.bars}, key=order.index))
+
+
+@dataclass(frozen=True)
+class Footer:
+    content_hash: str
+    printed: str                 # ISO date the summary was made
+    prepared_by: str
+    prepared_for: str
+    plan_date: str
+    tool_version: str
+    notes: str
+
+
+@dataclass(frozen=True)
+class Report:
+    title: str
+    subtitle: str
+    status: str                                 # "ok" or "infeasible"
+    infeasibility: str
+    home: tuple[tuple[str, str], ...]
+    headline: tuple[tuple[str, str], ...]
+    timeline: Timeline
+    steps: Table
+    years: Table
+    energy: Table
+    capacity: Table
+    capacity_notes: tuple[str, ...]
+    programs: Table
+    assumptions: tuple[tuple[str, str], ...]
+    cautions: tuple[tuple[str, str], ...]
+    warnings: tuple[str, ...]
+    footer: Footer
+    money_note: str = "Money is rounded: to the nearest $10 under $1,000, else to the nearest $100."
+    extra: dict[str, Any] = field(default_factory=dict)
+
+
+# ----------------------------------------------------------------------------- helpers
+
+
+def _category(result: Any, project_id: str) -> str:
+    from homeplan import catalog
+
+    kinds = catalog.upgrade_kinds()
+    info = result.project(project_id) if hasattr(result, "project") else None
+    kind = info.kind if info is not None else project_id
+    if kind not in kinds:  # e.g. "ev_sedan" -> "ev"
+        kind = next((k for k in sorted(kinds, key=len, reverse=True) if project_id.startswith(k)), kind)
+    return kinds[kind].category if kind in kinds else ""
+
+
+def group_of(result: Any, project_id: str) -> str:
+    cat = _category(result, project_id)
+    return next((g for g, cats in GROUPS.items() if cat in cats), "other")
+
+
+def _caution_title(cid: str) -> str:
+    return cid.replace("_", " ").capitalize()
+
+
+def collect_cautions(result: Any) -> tuple[tuple[str, str], ...]:
+    """Cautions for the work in this roadmap: catalog ids expanded, free text kept; planning first."""
+    from homeplan import catalog
+
+    known = catalog.cautions()
+    ids: list[str] = ["planning"]
+    road = result.roadmap
+    for s in road.steps:
+        ids.extend(s.cautions)
+        info = result.project(s.project_id)
+        if info is not None:
+            ids.extend(info.cautions)
+    ids.extend(road.cautions)
+    if any(c.remedy for c in result.capacity):
+        ids.append("electrical")
+    by_text = {" ".join(clean(t).split()): k for k, t in known.items()}
+    out: list[tuple[str, str]] = []
+    seen: set[str] = set()
+    for cid in ids:
+        text = clean(cid)
+        key = text if text in known else by_text.get(" ".join(text.split()))
+        if key is not None:
+            text = clean(known[key])
+        if not text or text in seen:
+            continue
+        seen.add(text)
+        out.append((_caution_title(key) if key is not None else "Note", text))
+    return tuple(out)
+
+
+def do_nothing_baseline(road: Any) -> Any:
+    """The do-nothing baseline: named ``do_nothing`` in docs/roadmap-json.md; the planner may
+    also write a longer name in words ("do nothing (pay for breakdowns as they come)")."""
+    return next((b for b in road.baselines
+                 if b.name.replace("_", " ").replace("-", " ").lower().startswith("do nothing")), None)
+
+
+def _step_what(step: Any) -> tuple[str, str]:
+    label = clean(step.label) or clean(step.project_id)
+    detail = ", ".join(x for x in (clean(step.variant), clean(step.size)) if x)
+    return label, detail
+
+
+def _home_lines(plan: Any, result: Any) -> list[tuple[str, str]]:
+    from homeplan.units import display_area, display_temp
+
+    h = plan.home
+    units = plan.display.units
+    lines: list[tuple[str, str]] = []
+    where = ""
+    if h.location is not None:
+        where = clean(h.location.place) or f"{h.location.latitude:.2f}, {h.location.longitude:.2f}"
+    built = f", built {h.year_built}" if h.year_built else ""
+    lines.append(("Home", f"{display_area(h.floor_area_ft2, units)}, {h.stories} "
+                  f"stor{'y' if h.stories == 1 else 'ies'}{built}" + (f", {where}" if where else "")))
+    c = h.climate
+    parts = []
+    if c.heating_design_f is not None:
+        parts.append(f"heating design {display_temp(c.heating_design_f, units)}")
+    if c.hdd65 is not None:
+        parts.append(f"{c.hdd65:,.0f} heating degree days (65 F base)")
+    if parts:
+        lines.append(("Climate", ", ".join(parts)))
+    e = h.electrical
+    lines.append(("Electrical", f"{e.service_amps} A service, {e.busbar_amps or e.service_amps} A "
+                  f"busbar, {e.free_spaces if e.free_spaces is not None else 'unknown'} free spaces"))
+    outs = {o.key: o for o in result.outlooks}
+    items = []
+    for a in plan.appliances:
+        o = outs.get(a.key)
+        label = clean(o.label) if o is not None else f"{a.fuel or ''} {a.kind}".strip()
+        year = f" ({a.year_installed})" if a.year_installed else ""
+        items.append(f"{label}{year}")
+    if items:
+        lines.append(("Appliances", "; ".join(items)))
+    cars = [f"{clean(v.name) or v.body} ({v.fuel.replace('_', '-')})" for v in plan.vehicles]
+    if cars:
+        lines.append(("Vehicles", "; ".join(cars)))
+    if h.solar is not None:
+        lines.append(("Solar today", f"{h.solar.size_kw:g} kW DC"))
+    if h.battery is not None:
+        lines.append(("Battery today", f"{h.battery.capacity_kwh:g} kWh"))
+    b = plan.budget
+    lines.append(("Budget", f"{money(b.usd_per_year)} a year from {plan.first_year} for "
+                  f"{b.horizon_years} years" + ("; unspent money carries over" if b.carryover else "")))
+    return lines
+
+
+def _headline(result: Any) -> list[tuple[str, str]]:
+    road = result.roadmap
+    steps = road.steps
+    cost = sum(s.cost_usd for s in steps)
+    inc = sum(s.incentives_usd for s in steps)
+    net = sum(s.net_cost_usd for s in steps)
+    out: list[tuple[str, str]] = []
+    if steps:
+        span = f"{steps[0].year}" if steps[0].year == steps[-1].year else f"{steps[0].year} to {steps[-1].year}"
+        out.append((f"steps, {span}", str(len(steps))))
+    out.append(("installed cost", money(cost)))
+    out.append(("incentives", money(inc)))
+    out.append(("you pay", money(net)))
+    if finite(road.npv_usd):
+        out.append(("net present value vs doing nothing", money_signed(road.npv_usd)))
+    before, after = result.energy_before, result.energy_after
+    if finite(before.emissions_kg) and finite(after.emissions_kg) and before.emissions_kg > 0:
+        change = (after.emissions_kg - before.emissions_kg) / before.emissions_kg * 100
+        out.append((f"CO2e a year: {tonnes(before.emissions_kg)} -> {tonnes(after.emissions_kg)}",
+                    f"{change:+.0f} %"))
+    for m in road.milestones:
+        if m.kind == "fully_electric":
+            out.append(("all-electric", str(m.year)))
+    return out
+
+
+def _steps_table(result: Any) -> Table:
+    rows = []
+    road = result.roadmap
+    for s in road.steps:
+        label, detail = _step_what(s)
+        what = f"{label} ({detail})" if detail else label
+        reason = "; ".join(clean(r) for r in s.reasons if clean(r))
+        rows.append((str(s.year), what, money(s.cost_usd), money(s.incentives_usd),
+                     money(s.net_cost_usd), reason))
+    total = None
+    if road.steps:
+        total = ("", "Total", money(sum(s.cost_usd for s in road.steps)),
+                 money(sum(s.incentives_usd for s in road.steps)),
+                 money(sum(s.net_cost_usd for s in road.steps)), "")
+    return Table(("Year", "What", "Cost", "Incentives", "You pay", "Why this year"),
+                 tuple(rows), "nlrrrl", total,
+                 "Cost is the installed price before incentives; incentives may arrive later "
+                 "(rebates after the work, tax credits with the next tax return).")
+
+
+def _years_table(result: Any) -> Table:
+    road = result.roadmap
+    base = do_nothing_baseline(road)
+    base_cum = {y.year: y.cumulative_usd for y in base.years} if base is not None else {}
+    rows = []
+    for y in road.years:
+        ahead = (base_cum[y.year] - y.cumulative_usd) if y.year in base_cum else None
+        rows.append((str(y.year), money(y.spend_usd), money(y.incentives_usd),
+                     money(y.loan_payments_usd), money(y.total_bills_usd),
+                     money_signed(y.bill_savings_usd), money(y.cumulative_usd),
+                     money_signed(ahead) if ahead is not None else "n/a", tonnes(y.emissions_kg)))
+    return Table(("Year", "Projects", "Incentives in", "Loan payments", "Energy bills",
+                  "Bill savings", "Spent so far", "Ahead of doing nothing", "CO2e"),
+                 tuple(rows), "nrrrrrrrr", None,
+                 "Spent so far adds projects after incentives, loan payments and energy bills "
+                 "from the first year. Ahead of doing nothing compares that with keeping today's "
+                 "equipment and bills (positive: the plan has cost less so far).")
+
+
+def _energy_table(result: Any) -> Table:
+    b, a = result.energy_before, result.energy_after
+    rows: list[tuple[str, str, str, str]] = []
+    keys = list(dict.fromkeys([*b.annual.keys(), *a.annual.keys()]))
+    for key in keys:
+        vb, va = b.annual.get(key, 0.0), a.annual.get(key, 0.0)
+        if not (vb or va):
+            continue
+        name, unit = energy_key_words(key)
+        rows.append((f"{name} ({unit})" if unit else name, number(vb), number(va),
+                     _change(vb, va, lambda v: number(v))))
+    bb, ba = sum(b.bills_usd.values()), sum(a.bills_usd.values())
+    rows.append(("Energy bills a year", money(bb), money(ba), _change(bb, ba, money_signed, True)))
+    if b.fuel_money_out_usd or a.fuel_money_out_usd:
+        rows.append(("Paid for fossil fuel a year", money(b.fuel_money_out_usd),
+                     money(a.fuel_money_out_usd),
+                     _change(b.fuel_money_out_usd, a.fuel_money_out_usd, money_signed, True)))
+    rows.append(("CO2e a year", tonnes(b.emissions_kg), tonnes(a.emissions_kg),
+                 _change(b.emissions_kg, a.emissions_kg, lambda v: tonnes(v))))
+    rows.append(("Peak demand", number(b.peak_kw, 1, "kW"), number(a.peak_kw, 1, "kW"),
+                 _change(b.peak_kw, a.peak_kw, lambda v: number(v, 1, "kW"))))
+    return Table(("Typical year", clean(b.label) or "Today", clean(a.label) or "After the plan",
+                  "Change"), tuple(rows), "lrrr", None,
+                 "A typical weather year at today's prices; bills include fixed charges.")
+
+
+def _change(before: float, after: float, fmt: Any, is_money: bool = False) -> str:
+    if not (finite(before) and finite(after)):
+        return "n/a"
+    d = after - before
+    if is_money:
+        return fmt(d)
+    text = fmt(d)
+    return text if text.startswith("-") or text in ("0", "0.0 t", "n/a") else "+" + text
+
+
+def _capacity_table(result: Any) -> tuple[Table, tuple[str, ...]]:
+    rows = []
+    notes: list[str] = []
+    for c in result.capacity:
+        rows.append((clean(c.label), clean(c.method), number(c.amps, 0, "A"),
+                     number(c.service_amps, 0, "A"), number(c.headroom_amps, 0, "A"),
+                     "yes" if c.fits else "NO", clean(c.remedy) or ""))
+        notes.extend(clean(n) for n in c.notes if clean(n))
+    table = Table(("Home as of", "Method", "Calculated load", "Service", "Headroom", "Fits",
+                   "What the plan does"), tuple(rows), "llrrrll", None,
+                  "Load calculations estimate the service a licensed electrician will check; "
+                  "they are not a permit design.")
+    return table, tuple(dict.fromkeys(notes))
+
+
+def _programs_table(result: Any) -> Table:
+    rows = []
+    for p in result.programs:
+        paid = sum(p.paid_by_year.values())
+        years = ", ".join(str(y) for y, v in sorted(p.paid_by_year.items()) if v)
+        rows.append((clean(p.name) or clean(p.program_id), clean(p.kind).replace("_", " "),
+                     money(paid), years or "-", clean(p.ends) or "open-ended", clean(p.caps_note)))
+    return Table(("Program", "Kind", "Pays in this plan", "Money arrives", "Window closes", "Limits"),
+                 tuple(rows), "llrlll", None,
+                 "Incentive rules change: check each program's current terms before you buy.")
+
+
+def _assumption_value(value: Any) -> str:
+    if isinstance(value, float):
+        return f"{value:g}"
+    if isinstance(value, dict):
+        return ", ".join(f"{clean(k)}: {_assumption_value(v)}" for k, v in value.items())
+    if isinstance(value, list | tuple):
+        if len(value) > 6:
+            return ", ".join(_assumption_value(v) for v in value[:6]) + f", ... ({len(value)} values)"
+        return ", ".join(_assumption_value(v) for v in value)
+    return clean(value)
+
+
+def _assumptions(plan: Any, result: Any) -> list[tuple[str, str]]:
+    p = plan.prices
+    out: list[tuple[str, str]] = []
+    e = p.electricity
+    tou = f"; time-of-use periods: {len(e.time_of_use)}" if e.time_of_use else ""
+    out.append(("Electricity price", f"${e.usd_per_kwh:.3f}/kWh + ${e.fixed_usd_per_month:.2f}/month"
+                f" ({e.export.replace('_', ' ')}{tou})"))
+    fuels = {a.fuel for a in plan.appliances if a.fuel}
+    fuels |= {k.partition("_")[0] for k, v in result.energy_before.annual.items() if v}
+    if plan.usage is not None and plan.usage.gas is not None:
+        fuels.add("gas")
+    if "gas" in fuels:
+        out.append(("Gas price", f"${p.gas.usd_per_therm:.2f}/therm + ${p.gas.fixed_usd_per_month:.2f}/month"))
+    for fuel in ("propane", "oil"):
+        if fuel in fuels:
+            out.append((f"{fuel.capitalize()} price", f"${getattr(p, fuel).usd_per_gal:.2f}/gallon"))
+    if any(v.fuel in ("gasoline", "hybrid", "plug_in_hybrid") for v in plan.vehicles):
+        out.append(("Gasoline price", f"${p.gasoline.usd_per_gal:.2f}/gallon"))
+    esc = [f"inflation {pct(p.inflation_pct)} a year"]
+    if p.fossil_extra_escalation_pct:
+        esc.append(f"fossil fuels {pct(p.fossil_extra_escalation_pct)} a year above inflation")
+    for fuel in ("electricity", "gas", "propane", "oil", "gasoline"):
+        rate = getattr(p, fuel).escalation_pct
+        if rate is not None:
+            esc.append(f"{fuel} {pct(rate)} a year")
+    out.append(("Price changes", "; ".join(esc)))
+    b = plan.budget
+    out.append(("Discount rate", f"{pct(b.discount_rate_pct)} a year (for net present value)"))
+    if b.by_year:
+        out.append(("Budgets by year", ", ".join(f"{y}: {money(v)}" for y, v in sorted(b.by_year.items()))))
+    for loan in b.loans:
+        out.append(("Loan", f"{clean(loan.name)}: {money(loan.amount_usd)} at {pct(loan.rate_pct)} "
+                    f"over {loan.term_years} years"))
+    out.append(("Goal", {"npv": "best value over the horizon", "emissions": "lowest emissions",
+                         "gas_off_early": "close the gas service early",
+                         "out_of_pocket": "lowest out-of-pocket cost"}.get(plan.choices.objective,
+                                                                           plan.choices.objective)))
+    out.append(("Costs without a quote", f"catalog {p.cost_level} installed prices"))
+    if p.grid_kg_co2_per_kwh is not None:
+        out.append(("Grid emissions", f"{p.grid_kg_co2_per_kwh:g} kg CO2e/kWh"))
+    quotes = [f"{clean(pid)}: {money(o.cost_usd)}" + (f" ({clean(o.contractor)}" if o.contractor else "")
+              + (f", {o.quote_date.isoformat()}" if o.quote_date else "") + (")" if o.contractor else "")
+              for pid, o in plan.options.items() if o.cost_usd is not None]
+    if quotes:
+        out.append(("Your quotes", "; ".join(quotes)))
+    # Incentive data: dates of the records the plan carries, and the files it includes.
+    dates = []
+    for raw in plan.incentives:
+        if not isinstance(raw, dict):
+            continue
+        name = clean(raw.get("name") or raw.get("id") or "program")
+        window = "-".join(clean(raw.get(k)) for k in ("starts", "ends") if raw.get(k)) or "no dates given"
+        dates.append(f"{name} ({window})")
+    if dates:
+        out.append(("Incentive data in the plan", "; ".join(dates)))
+    if plan.incentive_files:
+        out.append(("Incentive files", ", ".join(clean(f) for f in plan.incentive_files)))
+    planner = result.roadmap.assumptions
+    for key, value in sorted(planner.items()):
+        if "incentive" in str(key) and ("date" in str(key) or "as_of" in str(key)):
+            out.append(("Incentive data as of", _assumption_value(value)))
+    esc = planner.get("escalation_pct")
+    if isinstance(esc, dict) and esc:
+        out.append(("Price rise used", ", ".join(f"{clean(k)} {pct(v)}" for k, v in esc.items()
+                                                 if isinstance(v, int | float)) + " a year"))
+    for key, label in (("weather", "Weather"), ("heat_loss_method", "Heat loss from"),
+                       ("design_heating_load_btuh", "Design heating load"),
+                       ("conventions", "Conventions")):
+        value = planner.get(key)
+        if value is None or value == "":
+            continue
+        text = number(value, 0, "Btu/h") if key.endswith("_btuh") and finite(value) else _assumption_value(value)
+        out.append((label, text))
+    return out
+
+
+# ----------------------------------------------------------------------------- entry point
+
+
+def build_report(result: Any, today: dt.date | None = None, tool_version: str | None = None) -> Report:
+    """Everything the printed summary shows, as cleaned (not escaped) strings."""
+    from homeplan import __version__
+    from homeplan.plan.hashing import content_hash
+
+    plan = result.plan
+    road = result.roadmap
+    prov = plan.provenance
+    today = today or dt.date.today()
+    name = clean(plan.home.name) or clean(road.plan_name) or "Unnamed home"
+    bars = []
+    for s in road.steps:
+        label, detail = _step_what(s)
+        bars.append(Bar(s.year, label, detail, group_of(result, s.project_id)))
+    timeline = Timeline(road.first_year, road.last_year, tuple(bars),
+                        tuple(Mark(m.year, clean(m.label)) for m in road.milestones))
+    capacity, cap_notes = _capacity_table(result)
+    footer = Footer(
+        content_hash=result.content_hash or content_hash(plan),
+        printed=today.isoformat(),
+        prepared_by=clean(prov.prepared_by),
+        prepared_for=clean(prov.prepared_for),
+        plan_date=prov.date.isoformat() if prov.date else "",
+        tool_version=clean(tool_version or prov.tool_version or __version__),
+        notes=clean(prov.notes),
+    )
+    subtitle = f"Prepared for {footer.prepared_for}" if footer.prepared_for else ""
+    return Report(
+        title=f"Electrification roadmap: {name}",
+        subtitle=subtitle,
+        status=clean(road.status),
+        infeasibility=clean(road.infeasibility),
+        home=tuple(_home_lines(plan, result)),
+        headline=tuple(_headline(result)),
+        timeline=timeline,
+        steps=_steps_table(result),
+        years=_years_table(result),
+        energy=_energy_table(result),
+        capacity=capacity,
+        capacity_notes=cap_notes,
+        programs=_programs_table(result),
+        assumptions=tuple(_assumptions(plan, result)),
+        cautions=collect_cautions(result),
+        warnings=tuple(clean(w) for w in result.warnings if clean(w)),
+        footer=footer,
+    )
+
+
+def footer_line(f: Footer) -> str:
+    parts = [f"plan {f.content_hash}", f"printed {f.printed}"]
+    if f.prepared_by:
+        parts.append(f"prepared by {f.prepared_by}" + (f" on {f.plan_date}" if f.plan_date else ""))
+    elif f.plan_date:
+        parts.append(f"plan dated {f.plan_date}")
+    parts.append(f"homeplan {f.tool_version}")
+    return " | ".join(parts)

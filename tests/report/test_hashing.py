@@ -1,0 +1,85 @@
+"""Content hash: stable under comments, key order, whitespace and implicit defaults.
+
+Reference: FIPS 180-4 (SHA-256); the published test vector for "abc" checks that the digest used
+is SHA-256 itself, and the canonical form follows RFC 8785's sorted-keys idea.
+"""
+
+from __future__ import annotations
+
+import hashlib
+import json
+import re
+
+from homeplan.plan.hashing import canonical_json, content_hash
+from homeplan.plan.load import load_plan_text
+
+BASE = """\
+format_version: 1
+home:
+  name: Test house (invented)
+  climate: {hdd65: 6000, heating_design_f: 5}
+  floor_area_ft2: 1500
+  electrical: {service_amps: 100}
+budget:
+  usd_per_year: 8000
+  first_year: 2027
+"""
+
+REORDERED = """\
+# comments, another key order, flow vs block style, extra blank lines and quoting
+budget:
+
+
+  first_year: 2027      # trailing comment
+  usd_per_year: 8000.0
+home:
+  electrical:
+    service_amps: 100
+  floor_area_ft2: 1500
+  name: "Test house (invented)"
+  climate:
+    heating_design_f: 5
+    hdd65: 6000
+"""
+
+EXPLICIT_DEFAULTS = BASE + "  horizon_years: 10\n  carryover: true\nchoices: {objective: npv}\n"
+
+
+def _hash(text: str) -> str:
+    return content_hash(load_plan_text(text).plan)
+
+
+def test_sha256_known_vector() -> None:
+    # FIPS 180-4 / NIST example: SHA-256("abc")
+    assert hashlib.sha256(b"abc").hexdigest().startswith("ba7816bf8f01cfea")
+
+
+def test_hash_is_12_hex_chars_of_sha256_of_canonical_json() -> None:
+    plan = load_plan_text(BASE).plan
+    h = content_hash(plan)
+    assert re.fullmatch(r"[0-9a-f]{12}", h)
+    expected = hashlib.sha256(
+        json.dumps(plan.model_dump(mode="json"), sort_keys=True, separators=(",", ":"),
+                   ensure_ascii=False).encode("utf-8")).hexdigest()[:12]
+    assert h == expected
+
+
+def test_hash_ignores_comments_order_whitespace_quoting() -> None:
+    assert _hash(BASE) == _hash(REORDERED)
+
+
+def test_hash_ignores_defaults_written_out() -> None:
+    assert _hash(BASE) == _hash(EXPLICIT_DEFAULTS)
+
+
+def test_hash_is_repeatable() -> None:
+    assert _hash(BASE) == _hash(BASE)
+
+
+def test_hash_changes_with_content() -> None:
+    assert _hash(BASE) != _hash(BASE.replace("usd_per_year: 8000", "usd_per_year: 9000"))
+    assert _hash(BASE) != _hash(BASE.replace("Test house", "Test  house"))
+
+
+def test_canonical_json_sorted_and_compact() -> None:
+    assert canonical_json({"b": 1, "a": [1, {"d": 2, "c": "é"}]}) == '{"a":[1,{"c":"é","d":2}],"b":1}'

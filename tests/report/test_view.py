@@ -1,0 +1,47 @@
+"""The report's data: cautions from the catalog, baselines found by name, colour groups.
+
+The caution texts are the project's own safety table (homeplan/data/cautions.yaml); the groups
+follow the categories of homeplan/data/upgrades.yaml. Plans and results are invented.
+"""
+
+from __future__ import annotations
+
+import dataclasses
+import datetime as dt
+
+import pytest
+
+from homeplan import catalog
+from homeplan.report.view import build_report, collect_cautions, do_nothing_baseline, group_of
+from homeplan.schedule.roadmap import Baseline, Step
+from tests.report.fixtures import make_result
+
+
+def test_cautions_deduplicated_whether_given_as_id_or_text() -> None:
+    known = catalog.cautions()
+    steps = [Step("heat_pump", "Heat pump", 2028, cautions=["refrigerant", known["refrigerant"]]),
+             Step("close_gas", "Close the gas service", 2029, cautions=[known["gas_line"], "Mind the dog."])]
+    out = collect_cautions(make_result(steps=steps))
+    titles = [t for t, _ in out]
+    assert titles[0] == "Planning"                       # always first
+    assert titles.count("Refrigerant") == 1 and titles.count("Gas line") == 1
+    assert ("Note", "Mind the dog.") in out
+
+
+@pytest.mark.parametrize("name", ["do_nothing", "do nothing", "do nothing (pay for breakdowns as they come)"])
+def test_do_nothing_baseline_found(name: str) -> None:
+    result = make_result()
+    road = dataclasses.replace(result.roadmap, baselines=(Baseline(name, result.roadmap.years),))
+    assert do_nothing_baseline(road) is not None
+    report = build_report(dataclasses.replace(result, roadmap=road), today=dt.date(2026, 12, 1))
+    assert all(row[7] != "n/a" for row in report.years.rows)
+
+
+def test_groups_follow_catalog_categories() -> None:
+    result = make_result()
+    assert group_of(result, "heat_pump") == "appliances"
+    assert group_of(result, "panel_upgrade") == "electrical"
+    assert group_of(result, "ev_charger") == "vehicles"
+    assert group_of(result, "ev:sedan") == "vehicles"     # per-vehicle ids of the planner
+    assert group_of(result, "close_gas") == "building"
+    assert group_of(result, "something_new") == "other"
