@@ -319,3 +319,52 @@ def state_capacity(ctx, model: CapacityModel, done: set[str], label: str, year: 
                          amps=float(calc.amps), service_amps=float(calc.service_amps),
                          headroom_amps=float(calc.headroom_amps), fits=bool(calc.fits), rows=rows,
                          remedy=remedy_note, notes=tuple(calc.notes))
+
+
+def measured_capacity(ctx, model: CapacityModel, done: set[str], year: int | None) -> CapacityState | None:
+    """NEC 220.87 from the measured 12-month (or 30-day) peak, when the plan gives one.
+
+    The measured peak covers the home as it is; the loads the roadmap adds by ``year`` are added
+    at nameplate (continuous ones at 125 %, the conservative reading). Homes with solar or a
+    battery are refused, as the code text does by default: the meter hides load behind on-site
+    generation.
+
+    References
+    ----------
+    NEC 2023 220.87 (2020 text excludes services with solar or peak shaving).
+    """
+    from homeplan.electrical.errors import ElectricalInputError, MethodNotApplicableError
+    from homeplan.electrical.nec220 import MeasuredDemand, nec220_87
+
+    plan = ctx.plan
+    e = plan.home.electrical
+    if e.peak_demand_kw is None:
+        return None
+    kinds = catalog.upgrade_kinds()
+    new: list = []
+    for pid in sorted(done):
+        d = ctx.details.get(pid)
+        if d is not None and kinds[d.kind].capacity_load:
+            new.extend(project_loads(d.kind, d.variant, d.size, d.label))
+    has_pv = plan.home.solar is not None or plan.home.battery is not None
+    label = "today, from your measured peak" if year is None else f"{year}, from your measured peak"
+    try:
+        seasonal = 0.0 if e.peak_demand_period == "30_days" else None
+        calc = nec220_87(MeasuredDemand(e.peak_demand_kw, e.peak_demand_period, seasonal),
+                         new, _service(plan), edition=e.code_edition, has_solar_or_battery=has_pv)
+    except MethodNotApplicableError as exc:
+        return CapacityState(label=label, year=year, method="NEC 220.87 (not used)", total_va=float("nan"),
+                             amps=float("nan"), service_amps=float(e.service_amps), headroom_amps=float("nan"),
+                             fits=True, notes=(str(exc),))
+    except ElectricalInputError as exc:
+        return CapacityState(label=label, year=year, method="NEC 220.87 (not used)", total_va=float("nan"),
+                             amps=float("nan"), service_amps=float(e.service_amps), headroom_amps=float("nan"),
+                             fits=True, notes=(str(exc),))
+    rows = tuple(CapacityRow(r.load_name, float(r.va), float(r.factor) if r.factor is not None else float("nan"),
+                             float(r.counted_va) if r.counted_va is not None else float("nan"), r.section)
+                 for r in calc.rows)
+    return CapacityState(label=label, year=year, method=calc.method, total_va=float(calc.total_va),
+                         amps=float(calc.amps), service_amps=float(calc.service_amps),
+                         headroom_amps=float(calc.headroom_amps), fits=bool(calc.fits), rows=rows,
+                         notes=tuple(calc.notes) + ("an alternative to the 220.83 calculation: an "
+                                                    "inspector may accept either",))

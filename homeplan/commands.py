@@ -105,6 +105,11 @@ def cmd_capacity(args) -> int:
 
     for s in result.capacity:
         print(f"== {s.label}: {s.method}")
+        if s.total_va != s.total_va:  # a method that does not apply: say why
+            for n in s.notes:
+                print(f"   {n}")
+            print()
+            continue
         rows = [[r.name, f"{r.va:,.0f}", "" if r.factor != r.factor else f"{r.factor:.0%}",
                  "" if r.counted_va != r.counted_va else f"{r.counted_va:,.0f}", r.section] for r in s.rows]
         print(text_table(["load", "VA", "factor", "counted VA", "section"], rows, "lrrrl"))

@@ -71,6 +71,22 @@ def load_programs(plan, base_dir: Path | None) -> tuple:
     return tuple(programs)
 
 
+def _programs_cached(ctx) -> tuple:
+    """Programs of the plan, re-read only when the list or a file (by size and time) changes."""
+    import json
+
+    stamps = []
+    for name in ctx.plan.incentive_files:
+        path = Path(name) if Path(name).is_absolute() or ctx.base_dir is None else ctx.base_dir / name
+        try:
+            st = path.stat()
+            stamps.append((str(path), st.st_size, st.st_mtime_ns))
+        except OSError:
+            stamps.append((str(path), None, None))
+    key = "programs:" + json.dumps([ctx.plan.incentives, stamps], sort_keys=True, default=str)
+    return ctx.cache.memo(key, lambda: load_programs(ctx.plan, ctx.base_dir))
+
+
 class IncentiveModel:
     """Incentive estimates and exact evaluation for one plan."""
 
@@ -88,7 +104,7 @@ class IncentiveModel:
     def for_context(cls, ctx) -> IncentiveModel:
         cached = getattr(ctx, "_incentives", None)
         if cached is None:
-            cached = cls(ctx, load_programs(ctx.plan, ctx.base_dir))
+            cached = cls(ctx, _programs_cached(ctx))
             ctx._incentives = cached
         return cached
 
@@ -121,8 +137,10 @@ class IncentiveModel:
             from homeplan.plan_schedule import cost_in_year
 
             costs = {y: cost_in_year(self.ctx, pid, y) for y in self.ctx.years}
-            table = incentives_by_install_year(self.purchase(pid, self.ctx.first_year, costs[self.ctx.first_year]),
-                                               costs, self.programs, self.household)
+            first = self.purchase(pid, self.ctx.first_year, costs[self.ctx.first_year])
+            key = f"incentives:{id(self.programs)}:{first}:{sorted(costs.items())}:{self.household}"
+            table = self.ctx.cache.memo(key, lambda: incentives_by_install_year(
+                first, costs, self.programs, self.household))
             self._estimates[pid] = table
         ye = table[year]
         scale = cost_usd / ye.cost_usd if ye.cost_usd else 1.0

@@ -48,6 +48,7 @@ class PipelineCache:
         self._lock = threading.Lock()
         self._basis: dict[str, HomeBasis] = {}
         self._states: dict[tuple, object] = {}
+        self._memo: dict[str, object] = {}
         self.max_states = max_states
 
     def basis(self, plan: Plan, base_dir: Path | None) -> tuple[str, HomeBasis]:
@@ -62,7 +63,18 @@ class PipelineCache:
             with self._lock:
                 self._basis = {key: hit}  # one home per cache: drop other homes
                 self._states.clear()
+                self._memo.clear()
         return key, hit
+
+    def memo(self, key: str, make):
+        """Any other budget-independent result, by a content key (dropped with the home)."""
+        with self._lock:
+            hit = self._memo.get(key)
+        if hit is None:
+            hit = make()
+            with self._lock:
+                self._memo[key] = hit
+        return hit
 
     def state(self, basis_key: str, choices: frozenset, make):
         k = (basis_key, choices)

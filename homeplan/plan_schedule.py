@@ -239,6 +239,24 @@ def breakdown_projects(ctx: Context, excluded_lfl: bool = False) -> tuple[list[P
     return projects, prereqs
 
 
+def cached_capacity_model(ctx: Context, make):
+    """The capacity remedy depends on the home, the options and the exclusions, not the budget:
+    compute it once per such content and reuse it (with the variants it chose)."""
+    import json
+
+    plan = ctx.plan
+    key = "capacity:" + json.dumps([{k: v.model_dump(mode="json") for k, v in plan.options.items()},
+                                    sorted(plan.choices.exclude), sorted(ctx.details)], sort_keys=True)
+
+    def build():
+        model = make(ctx)
+        return model, dict(ctx.details)
+
+    model, details = ctx.cache.memo(key, build)
+    ctx.details = dict(details)
+    return model
+
+
 def _reachable(ctx: Context, pid: str, by: int) -> bool:
     """A car the owner will not replace before ``by`` is not part of the all-electric target."""
     d = ctx.details[pid]
@@ -257,7 +275,7 @@ def schedule(ctx: Context) -> ScheduleOutcome:
     from homeplan.schedule.milp import solve
 
     incentives = IncentiveModel.for_context(ctx)
-    capacity = capacity_model(ctx)
+    capacity = cached_capacity_model(ctx, capacity_model)
     for note in capacity.notes:
         ctx.notes.append(note)
     co = {pid: coefficients(ctx, pid, set(), incentives) for pid in ctx.details}

@@ -53,7 +53,7 @@ def _salvage(ctx: Context, pid: str, year: int, cost: float) -> float:
 
 
 def build_result(ctx: Context, outcome: ScheduleOutcome) -> PlanResult:
-    from homeplan.capacity import capacity_model, state_capacity
+    from homeplan.capacity import capacity_model, measured_capacity, state_capacity
     from homeplan.incentive_adapter import IncentiveModel
 
     plan = ctx.plan
@@ -149,6 +149,7 @@ def build_result(ctx: Context, outcome: ScheduleOutcome) -> PlanResult:
         assumptions=assumptions(ctx), cautions=tuple(cautions),
     )
     capacity = [state_capacity(ctx, cap_model, set(), "today", None)]
+
     seen = set()
     for year in ctx.years:
         state = frozenset(by_year[year])
@@ -158,6 +159,9 @@ def build_result(ctx: Context, outcome: ScheduleOutcome) -> PlanResult:
             seen.add(state)
             names = ", ".join(ctx.details[p].label for p in sorted(changed))
             capacity.append(state_capacity(ctx, cap_model, set(state), f"{year}: after {names}", year))
+    if ctx.plan.home.electrical.peak_demand_kw is not None:
+        capacity += [measured_capacity(ctx, cap_model, set(), None),
+                     measured_capacity(ctx, cap_model, set(done), ctx.years[-1])]
     final = frozenset(done)
     after = ctx.energy(final, "after the plan").summary
     return PlanResult(
