@@ -40,20 +40,20 @@ def main(repeats: int = 7) -> None:
         proc = timed(lambda p=path: subprocess.run([sys.executable, "-m", "homeplan.cli", "plan", "--json", str(p)],
                                                    check=True, capture_output=True))
         cache = PipelineCache()
-        cold = timed(lambda: plan_roadmap(loaded.plan, path.parent, cache))
+        cold = timed(lambda lp=loaded, p=path, c=cache: plan_roadmap(lp.plan, p.parent, c))
         result = plan_roadmap(loaded.plan, path.parent, cache)
         budget_times, pin_times = [], []
         for i in range(repeats):
             doc = copy.deepcopy(loaded.document)
             set_in(doc, ("budget", "usd_per_year"), loaded.plan.budget.usd_per_year + 500 * (i + 1))
             plan, _ = validate_document(doc, str(path))
-            budget_times.append(timed(lambda p=plan: plan_roadmap(p, path.parent, cache)))
+            budget_times.append(timed(lambda p=plan, d=path.parent, c=cache: plan_roadmap(p, d, c)))
             step = result.roadmap.steps[-1]
             doc = copy.deepcopy(loaded.document)
             year = max(result.roadmap.first_year, step.year - 1 - (i % 2))
             set_in(doc, ("choices", "pins"), {step.project_id: year})
             plan, _ = validate_document(doc, str(path))
-            pin_times.append(timed(lambda p=plan: plan_roadmap(p, path.parent, cache)))
+            pin_times.append(timed(lambda p=plan, d=path.parent, c=cache: plan_roadmap(p, d, c)))
         print(f"{path.name:28s} {proc * 1000:10.0f}ms {cold * 1000:6.0f}ms "
               f"{statistics.median(budget_times) * 1000:6.0f}ms {statistics.median(pin_times) * 1000:6.0f}ms")
 

@@ -97,8 +97,17 @@ def _why_not_earlier(problem: Problem, years: dict[str, int | None], i: int, y: 
             for r in problem.prerequisites
             if p.id in r.requires_any and years.get(r.project) in (y, y + 1)
         ]
+        partners = [
+            problem.project(it.b if it.a == p.id else it.a).name
+            for it in problem.interactions
+            if p.id in (it.a, it.b)
+            and any(v > 0 for v in it.value_usd)
+            and years.get(it.b if it.a == p.id else it.a) == y
+        ]
         if needed_by:
             out.append(f"just in time for {_the(needed_by[0])}")
+        elif partners:
+            out.append(f"together with {_the(partners[0])}: worth more once both are in")
         elif problem.discount_rate > 0 and c0 > 0 and c1 >= c0:
             out.append(
                 f"paying later costs less in today's money "

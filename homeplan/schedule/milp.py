@@ -186,7 +186,11 @@ def _objective(pr: Problem, kind: str) -> tuple[np.ndarray, np.ndarray, np.ndarr
 
 
 def build_model(
-    pr: Problem, kind: str | None = None, latest_index: dict[int, int] | None = None
+    pr: Problem,
+    kind: str | None = None,
+    latest_index: dict[int, int] | None = None,
+    hybrid: bool = True,
+    d_integer: bool = True,
 ) -> _Model:
     """Build the sparse model (see module docstring). ``kind`` overrides the objective
     (``earliest`` = stage one of earliest closure); ``latest_index`` caps a project's year."""
@@ -199,7 +203,8 @@ def build_model(
     n_c = nt if pr.carryover else 0
     inter = pr.interactions if kind == "max_npv" else ()
     n_w = len(inter) * nt
-    n = n_x + n_z + n_l + n_c + n_w
+    n_h = n_x if hybrid else 0
+    n = n_x + n_z + n_l + n_c + n_w + n_h
 
     def di(p: int, t: int) -> int:
         return p * nt + t
@@ -216,8 +221,14 @@ def build_model(
     def wi(i: int, t: int) -> int:
         return n_x + n_z + n_l + n_c + i * nt + t
 
+    def xi(p: int, t: int) -> int:
+        return n_x + n_z + n_l + n_c + n_w + p * nt + t
+
     def add_x(coefs: dict[int, float], p: int, t: int, v: float) -> None:
-        """Add ``v * x[p,t] = v * (D[p,t] - D[p,t-1])``."""
+        """Add ``v * x[p,t]`` (hybrid: the x column; else ``v * (D[p,t] - D[p,t-1])``)."""
+        if hybrid:
+            coefs[xi(p, t)] = coefs.get(xi(p, t), 0.0) + v
+            return
         coefs[di(p, t)] = coefs.get(di(p, t), 0.0) + v
         if t > 0:
             coefs[di(p, t - 1)] = coefs.get(di(p, t - 1), 0.0) - v
@@ -237,7 +248,20 @@ def build_model(
         allowed = sorted(pr.allowed_years(p))
         if latest_index and p in latest_index:
             allowed = [t for t in allowed if t <= latest_index[p]]
-        if not allowed:
+        if hybrid:
+            # D[p,t] - D[p,t-1] - x[p,t] = 0; x closed outside the allowed years
+            for t in range(nt):
+                link = {di(p, t): 1.0, xi(p, t): -1.0}
+                if t > 0:
+                    link[di(p, t - 1)] = -1.0
+                rows.add(link, 0.0, 0.0)
+                if t not in allowed:
+                    ub[xi(p, t)] = 0.0
+            if allowed:
+                ub[di(p, 0) : di(p, allowed[0])] = 0.0
+            else:
+                ub[di(p, 0) : di(p, 0) + nt] = 0.0
+        elif not allowed:
             ub[di(p, 0) : di(p, 0) + nt] = 0.0
         else:
             lo, hi = allowed[0], allowed[-1]
@@ -254,9 +278,15 @@ def build_model(
     if n_l:
         ub[li(0) : li(0) + nt] = pr.loan_limit_usd
     if n_w:
-        ub[wi(0, 0) :] = 1.0
+        ub[wi(0, 0) : wi(0, 0) + n_w] = 1.0
     integrality = np.zeros(n)
-    integrality[:n_x] = 1
+    if hybrid:
+        ub[xi(0, 0) : xi(0, 0) + n_h] = np.minimum(ub[xi(0, 0) : xi(0, 0) + n_h], 1.0)
+        integrality[xi(0, 0) : xi(0, 0) + n_h] = 1
+        if d_integer:
+            integrality[:n_x] = 1
+    else:
+        integrality[:n_x] = 1
 
     # exclusive groups
     for gx in pr.exclusive_groups:
@@ -337,8 +367,11 @@ def build_model(
     )
     cx, cz, cl, const = _objective(pr, kind)
     # x[p,t] = D[p,t] - D[p,t-1]  =>  cost on D[p,t] is cx[p,t] - cx[p,t+1]
-    cd = cx - np.concatenate([cx[:, 1:], np.zeros((np_, 1))], axis=1)
-    c = np.concatenate([cd.ravel(), cz.ravel(), cl[:n_l], np.zeros(n_c), cw.ravel()])
+    if hybrid:
+        cd, ch = np.zeros_like(cx), cx.ravel()
+    else:
+        cd, ch = cx - np.concatenate([cx[:, 1:], np.zeros((np_, 1))], axis=1), np.zeros(0)
+    c = np.concatenate([cd.ravel(), cz.ravel(), cl[:n_l], np.zeros(n_c), cw.ravel(), ch])
     return _Model(
         c, const, integrality, lb, ub, a_matrix, np.array(rows.lb), np.array(rows.ub), n_x, n_z, n_l
     )
@@ -414,11 +447,11 @@ class MilpSolver:
             years[proj.id] = int(pr.first_year + hit[0]) if hit.size else None
         zs = res.x[model.n_x : model.n_x + model.n_z].reshape(len(pr.incentive_groups), nt)
         loans = res.x[model.n_x + model.n_z : model.n_x + model.n_z + nt] if model.n_l else np.zeros(nt)
-        value = float(res.fun) + model.const
+        value = float(res.fun) + model.const + 0.0  # + 0.0 turns -0.0 into 0.0
         kind_npv = pr.objective in ("max_npv", "earliest_gas_closure")
-        npv = -value if kind_npv else None
+        npv = 0.0 - value if kind_npv else None
         if pr.objective in ("max_npv", "min_emissions"):
-            objective_value = -value
+            objective_value = 0.0 - value
         elif pr.objective == "min_out_of_pocket":
             objective_value = value
         else:

@@ -71,6 +71,10 @@ def test_instances_cover_every_feature() -> None:
             seen.add("incentives")
         if pr.targets:
             seen.add("targets")
+        if any(v > 0 for it in pr.interactions for v in it.value_usd):
+            seen.add("synergy")
+        if any(v < 0 for it in pr.interactions for v in it.value_usd):
+            seen.add("overlap")
         if pr.exclusive_groups:
             seen.add("exclusive")
         if any(len(r.requires_any) > 1 for r in pr.prerequisites):
@@ -89,6 +93,6 @@ def test_instances_cover_every_feature() -> None:
     expected = {
         "max_npv", "min_emissions", "earliest_gas_closure", "min_out_of_pocket", "carryover",
         "no_carryover", "loans", "savings", "capacity", "max_per_year", "incentives", "targets",
-        "exclusive", "any_of", "strict", "pin", "excluded", "penalty", "window",
+        "exclusive", "any_of", "strict", "pin", "excluded", "penalty", "window", "synergy", "overlap",
     }  # fmt: skip
     assert expected <= seen, expected - seen

@@ -14,6 +14,7 @@ from homeplan.schedule.milp import MilpSolver, build_model, solve
 from homeplan.schedule.problem import (
     ExclusiveGroup,
     IncentiveGroup,
+    Interaction,
     Prerequisite,
     Problem,
     Project,
@@ -98,7 +99,7 @@ def test_bill_savings_added_to_later_budgets() -> None:
     # Year budgets 5000, 0; A costs 5000 and saves $2,000 in year 1; B costs 2000 in year 1.
     # Only with savings reinvested can B be afforded in year 1 (worked by hand).
     a = Project("a", (5000, 5000), value_usd=(5500, 0), savings_usd=(0, 2000))
-    b = Project("b", (9999, 2000), value_usd=(0, 2500))
+    b = Project("b", (9999, 2000), value_usd=(0, 2400))
     pr = Problem(2026, (5000, 0), (a, b), savings_to_budget=True)
     sol = MILP.solve(pr)
     assert sol.years == {"a": 2026, "b": 2027}
@@ -208,3 +209,24 @@ def test_infeasible_is_reported_by_both_solvers() -> None:
     assert MILP.solve(pr).status == "infeasible"
     assert BruteForceSolver().solve(pr).status == "infeasible"
     assert evaluate(pr, {"p": 2027}).violations == ("budget",)
+
+
+def test_interaction_synergy_and_overlap() -> None:
+    # Solar alone: cost 10000, value 9500 -> not worth it. With the heat pump done, solar gains
+    # $400 a year of extra value for 3 years (invented). Both in 2026: heat pump 8000 -> 9000,
+    # solar -500, synergy 3 * 400 = 1200: NPV 1000 + 700 = 1700 > 1000 (heat pump alone).
+    hp = Project("hp", flat(8000, 3), value_usd=flat(9000, 3))
+    solar = Project("solar", flat(10000, 3), value_usd=flat(9500, 3))
+    syn = Interaction("hp", "solar", flat(400, 3))
+    pr = Problem(2026, flat(30000, 3), (hp, solar), interactions=(syn,))
+    sol = MILP.solve(pr)
+    assert sol.done() == {"hp": 2026, "solar": 2026}
+    assert sol.objective_value == pytest.approx(1700.0)  # worked by hand above
+    # an overlap of -$600 a year makes doing both worse than the heat pump alone (1000)
+    over = pr.replace(interactions=(Interaction("hp", "solar", flat(-600, 3)),),
+                      projects=(hp, dataclasses.replace(solar, value_usd=flat(10500, 3))))
+    # both in 2026: 1000 + 500 - 1800 = -300; solar 2026 + heat pump 2028: 1500 - 600 = 900;
+    # heat pump alone (any year, no discounting) 1000; solar alone 500 (worked by hand)
+    sol2 = MILP.solve(over)
+    assert sol2.years["solar"] is None and sol2.years["hp"] is not None
+    assert sol2.objective_value == pytest.approx(1000.0)
