@@ -139,6 +139,7 @@ def cmd_costs(args) -> int:
                 for p in result.projects
             ],
             "years": [y.to_dict() for y in rm.years],
+            "finance": result.extra.get("finance"),
             "programs": [{"id": u.program_id, "name": u.name, "kind": u.kind,
                           "paid_by_year": {str(k): v for k, v in u.paid_by_year.items()},
                           "caps": u.caps_note, "ends": u.ends} for u in result.programs],
@@ -159,6 +160,33 @@ def cmd_costs(args) -> int:
              usd(y.loan_payments_usd, 10), usd(y.bill_savings_usd, 10), usd(y.cumulative_usd, 10)] for y in rm.years]
     print(text_table(["year", "spend", "incentives in", "net", "loan payments", "bill savings", "cumulative"],
                      rows, "lrrrrrr"))
+    fin = result.extra.get("finance", {})
+    returns = fin.get("projects", {})
+    if returns:
+        print("\nReturns per step (net cost up front, then the bill savings over its life):")
+        rows = []
+        for s in rm.steps:
+            r = returns.get(s.project_id)
+            if r is None:
+                continue
+            rows.append([s.year, s.label, usd(r["first_year_savings_usd"], 10), usd(r["npv_over_life_usd"], 10),
+                         "-" if r["irr_pct"] is None else f"{r['irr_pct']:.1f} %",
+                         "never" if r["simple_payback_years"] is None else f"{r['simple_payback_years']:.1f} yr"])
+        print(text_table(["year", "step", "saves in year 1", "NPV over life", "IRR", "payback"], rows, "llrrrr"))
+    plan_r = fin.get("plan")
+    if plan_r:
+        irr = "-" if plan_r["irr_pct"] is None else f"{plan_r['irr_pct']:.1f} %"
+        pb = "not within the horizon" if plan_r["simple_payback_years"] is None else f"{plan_r['simple_payback_years']:.1f} years"
+        print(f"\nThe whole plan against doing nothing: IRR {irr}, simple payback {pb}.")
+    hedge = fin.get("solar_hedge")
+    if hedge:
+        what = "solar and battery" if hedge["includes_battery"] else "solar"
+        verb = "lock" if hedge["includes_battery"] else "locks"
+        print(f"Your {what} {verb} in electricity at {hedge['lcoe_usd_per_kwh'] * 100:.1f} c/kWh over "
+              f"{hedge['life_years']} years; the utility's price, rising with inflation, averages "
+              f"{hedge['utility_levelised_usd_per_kwh'] * 100:.1f} c/kWh over the same years "
+              f"({hedge['utility_first_year_usd_per_kwh'] * 100:.1f} c now, "
+              f"{hedge['utility_last_year_usd_per_kwh'] * 100:.1f} c in the last year).")
     if result.programs:
         print("\nIncentive programs used:")
         for u in result.programs:

@@ -118,7 +118,9 @@ def summarise_energy(result, label: str) -> StateEnergy:
     money_out = sum(v for f, v in bills.items() if f in ("gas", "propane", "oil", "gasoline", "diesel"))
     summary = EnergySummary(label=label, monthly=monthly, annual=annual, bills_usd=bills,
                             emissions_kg=emissions, peak_kw=float(result.peak_kw),
-                            fuel_money_out_usd=money_out)
+                            fuel_money_out_usd=money_out, peak_winter_kw=float(result.peak_winter_kw),
+                            peak_summer_kw=float(result.peak_summer_kw),
+                            backup_heat_hours=int(result.backup_heat_hours))
     units = {UNIT_KEY[f]: float(v.sum()) for f, v in result.monthly_units.items() if f in UNIT_KEY}
     return StateEnergy(bills_usd=bills, units=units, emissions_kg=emissions,
                        peak_kw=float(result.peak_kw), summary=summary)

@@ -70,6 +70,10 @@ class EnergySummary:
     emissions_kg: float
     peak_kw: float
     fuel_money_out_usd: float = 0.0         # money that leaves the household for fossil fuel
+    peak_winter_kw: float = 0.0
+    peak_summer_kw: float = 0.0
+    backup_heat_hours: int = 0              # hours a year the heat pump's backup heat runs
+    solar_kwh_per_kw: float = 0.0           # specific yield of the array, when there is one
 
 
 @dataclass(frozen=True)

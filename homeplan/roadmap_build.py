@@ -28,6 +28,7 @@ from homeplan.pipeline import (
     project_infos,
     replaceable_items,
 )
+from homeplan.plan_finance import plan_returns, project_returns, solar_hedge
 from homeplan.plan_schedule import LFL_PREFIX, ScheduleOutcome, cost_in_year
 from homeplan.result import PlanResult
 from homeplan.schedule.roadmap import Baseline, IncentiveLine, Milestone, Roadmap, Step, YearTotals
@@ -169,6 +170,8 @@ def build_result(ctx: Context, outcome: ScheduleOutcome) -> PlanResult:
         energy_before=base_energy.summary, energy_after=after, programs=incentives.uses(awards),
         warnings=tuple(dict.fromkeys(ctx.notes)),
         extra={"solver": {"status": sol.status, "seconds": sol.solve_time_s, "passes": outcome.passes},
+               "finance": {"plan": plan_returns(roadmap, rate), "projects": project_returns(ctx, outcome, roadmap),
+                           "solar_hedge": solar_hedge(ctx, roadmap)},
                "capacity_remedy": cap_model.remedy_project, "solar_connection": cap_model.solar_connection},
     )
 

@@ -1,0 +1,84 @@
+"""Household finance figures of a roadmap: plan and per-project returns, and the solar hedge.
+
+References
+----------
+NIST Handbook 135 (net present value, simple and discounted payback, internal rate of return);
+Short, Packey & Holt, NREL/TP-462-5173 (1995), levelised cost of energy. The arithmetic is in
+:mod:`homeplan.money.finance` (checked against numpy-financial in its tests).
+"""
+
+from __future__ import annotations
+
+from homeplan.schedule.roadmap import Roadmap
+
+
+def _round(x: float | None, nd: int = 1) -> float | None:
+    return None if x is None else round(x, nd)
+
+
+def plan_returns(roadmap: Roadmap, discount_rate_pct: float) -> dict:
+    """Cash flows of the plan against doing nothing, year by year, and their returns."""
+    from homeplan.money.finance import discounted_payback_years, irr_pct, npv_usd, simple_payback_years
+
+    flows = [y.bill_savings_usd - (y.spend_usd - y.incentives_usd) - y.loan_payments_usd
+             for y in roadmap.years]
+    return {
+        "flows_usd": [round(f, 2) for f in flows],
+        "npv_within_horizon_usd": round(npv_usd(discount_rate_pct, flows), 2),
+        "irr_pct": _round(irr_pct(flows)),
+        "simple_payback_years": _round(simple_payback_years(flows)),
+        "discounted_payback_years": _round(discounted_payback_years(discount_rate_pct, flows)),
+    }
+
+
+def project_returns(ctx, outcome, roadmap: Roadmap) -> dict[str, dict]:
+    """Per step: pay the net cost up front, then save its bills over its life."""
+    from homeplan.money.finance import discounted_payback_years, irr_pct, npv_usd, simple_payback_years
+
+    rate = ctx.plan.budget.discount_rate_pct
+    out = {}
+    for s in roadmap.steps:
+        co = outcome.coefficients.get(s.project_id)
+        d = ctx.details.get(s.project_id)
+        if co is None or d is None:
+            continue
+        t0 = s.year - ctx.first_year
+        life = int(round(d.life_years))
+        flows = [-s.net_cost_usd]
+        for k in range(1, life + 1):
+            flows.append(sum(v * (1 + ctx.escalation(f)) ** (t0 + k) for f, v in co.savings_by_fuel.items()))
+        out[s.project_id] = {
+            "first_year_savings_usd": round(flows[1], 2) if len(flows) > 1 else 0.0,
+            "npv_over_life_usd": round(npv_usd(rate, flows), 2),
+            "irr_pct": _round(irr_pct(flows)) if any(f > 0 for f in flows[1:]) else None,
+            "simple_payback_years": _round(simple_payback_years(flows)),
+            "discounted_payback_years": _round(discounted_payback_years(rate, flows)),
+        }
+    return out
+
+
+def solar_hedge(ctx, roadmap: Roadmap) -> dict | None:
+    """What the solar (and battery) of the plan lock in per kWh, against the utility's price."""
+    from homeplan.money.finance import energy_hedge
+
+    steps = {s.project_id: s for s in roadmap.steps}
+    if "solar" not in steps:
+        return None
+    d = ctx.details["solar"]
+    kwh = ctx.energy(frozenset({"solar"})).summary.annual.get("solar_kwh", 0.0)
+    if kwh <= 0:
+        return None
+    capex = steps["solar"].net_cost_usd + (steps["battery"].net_cost_usd if "battery" in steps else 0.0)
+    price = ctx.plan.prices.electricity.usd_per_kwh * (1 + ctx.escalation("electricity")) ** (
+        steps["solar"].year - ctx.first_year)
+    h = energy_hedge(capex, kwh, int(d.life_years), ctx.plan.budget.discount_rate_pct, price,
+                     ctx.escalation("electricity") * 100, degradation_pct=0.5)
+    return {
+        "lcoe_usd_per_kwh": round(h.lcoe_usd_per_kwh, 4),
+        "utility_levelised_usd_per_kwh": round(h.utility_levelised_usd_per_kwh, 4),
+        "utility_first_year_usd_per_kwh": round(h.utility_first_year_usd_per_kwh, 4),
+        "utility_last_year_usd_per_kwh": round(h.utility_last_year_usd_per_kwh, 4),
+        "life_years": h.life_years,
+        "includes_battery": "battery" in steps,
+        "degradation_pct_per_year": 0.5,
+    }
