@@ -18,7 +18,12 @@ def _round(x: float | None, nd: int = 1) -> float | None:
 
 def plan_returns(roadmap: Roadmap, discount_rate_pct: float) -> dict:
     """Cash flows of the plan against doing nothing, year by year, and their returns."""
-    from homeplan.money.finance import discounted_payback_years, irr_pct, npv_usd, simple_payback_years
+    from homeplan.money.finance import (
+        discounted_payback_years,
+        irr_pct,
+        npv_usd,
+        simple_payback_years,
+    )
 
     flows = [y.bill_savings_usd - (y.spend_usd - y.incentives_usd) - y.loan_payments_usd
              for y in roadmap.years]
@@ -33,7 +38,12 @@ def plan_returns(roadmap: Roadmap, discount_rate_pct: float) -> dict:
 
 def project_returns(ctx, outcome, roadmap: Roadmap) -> dict[str, dict]:
     """Per step: pay the net cost up front, then save its bills over its life."""
-    from homeplan.money.finance import discounted_payback_years, irr_pct, npv_usd, simple_payback_years
+    from homeplan.money.finance import (
+        discounted_payback_years,
+        irr_pct,
+        npv_usd,
+        simple_payback_years,
+    )
 
     rate = ctx.plan.budget.discount_rate_pct
     out = {}
