@@ -34,9 +34,15 @@ from homeplan.schedule.problem import Problem, evaluate
 _SOFT = {"window", "pin", "target"}
 
 
+_VERBS = ("close ", "remove ", "replace ")
+
+
 def _the(name: str) -> str:
     if name.lower().startswith("the "):
         return name
+    if name.lower().startswith(_VERBS):  # "Close the gas service" -> "closing the gas service"
+        verb, rest = name.split(" ", 1)
+        return verb.lower()[:-1] + "ing " + rest
     return "the " + (name[:1].lower() + name[1:] if name[1:2].islower() or len(name) == 1 else name)
 
 
@@ -45,14 +51,36 @@ def _money(usd: float) -> str:
 
 
 def _violations_if_moved(
-    problem: Problem, years: dict[str, int | None], pid: str, year: int | None
+    problem: Problem, years: dict[str, int | None], pid: str, year: int | None,
+    memo: dict | None = None,
 ) -> set[str]:
+    if memo is not None and (pid, year) in memo:
+        return memo[(pid, year)]
     moved = dict(years)
     moved[pid] = year
     return set(evaluate(problem, moved).violations)
 
 
-def _why_not_earlier(problem: Problem, years: dict[str, int | None], i: int, y: int) -> list[str]:
+def _all_moves(problem: Problem, years: dict[str, int | None]) -> dict[tuple[str, int | None], set[str]]:
+    """Evaluate every 'move one project to another year (or out)' at once."""
+    import numpy as np
+
+    from homeplan.schedule.problem import FAMILIES, evaluate_batch, placement_of
+
+    base = placement_of(problem, years)
+    rows, keys = [], []
+    for i, pid in enumerate(problem.ids):
+        for t in range(-1, problem.n_years):
+            row = base.copy()
+            row[i] = t
+            rows.append(row)
+            keys.append((pid, None if t < 0 else problem.first_year + t))
+    ev = evaluate_batch(problem, np.array(rows))
+    return {k: {f for f in FAMILIES if ev[f][n]} for n, k in enumerate(keys)}
+
+
+def _why_not_earlier(problem: Problem, years: dict[str, int | None], i: int, y: int,
+                     memo: dict | None = None) -> list[str]:
     p = problem.projects[i]
     out: list[str] = []
     fy = problem.first_year
@@ -70,7 +98,7 @@ def _why_not_earlier(problem: Problem, years: dict[str, int | None], i: int, y: 
     earlier = [s for s in range(t) if p.earliest_year is None or fy + s >= p.earliest_year]
     if not earlier:
         return out
-    blocked = [(s, _violations_if_moved(problem, years, p.id, fy + s) - _SOFT) for s in earlier]
+    blocked = [(s, _violations_if_moved(problem, years, p.id, fy + s, memo) - _SOFT) for s in earlier]
     if all(v for _, v in blocked):
         nearest = blocked[-1][1]
         if "budget" in nearest:
@@ -140,30 +168,33 @@ def _why_not_later(problem: Problem, i: int, y: int) -> list[str]:
 def explain(problem: Problem, solution: Solution) -> dict[str, tuple[str, ...]]:
     """Plain-words reasons per project id (done or not) for a feasible solution."""
     years = {pid: solution.years.get(pid) for pid in problem.ids}
+    # every single-project move of the solution, evaluated at once (vectorised)
+    memo = _all_moves(problem, years)
     reasons: dict[str, tuple[str, ...]] = {}
     for i, p in enumerate(problem.projects):
         y = years[p.id]
         if y is None:
-            reasons[p.id] = _why_not_done(problem, years, i)
+            reasons[p.id] = _why_not_done(problem, years, i, memo)
             continue
         if p.pinned_year is not None:
             reasons[p.id] = (p.pin_reason or f"pinned by you to {y}",)
             continue
-        out = _why_not_earlier(problem, years, i, y) + _why_not_later(problem, i, y)
+        out = _why_not_earlier(problem, years, i, y, memo) + _why_not_later(problem, i, y)
         if not out and y == problem.first_year:
             out.append("right away: it is worth most done early")
         reasons[p.id] = tuple(dict.fromkeys(out))
     return reasons
 
 
-def _why_not_done(problem: Problem, years: dict[str, int | None], i: int) -> tuple[str, ...]:
+def _why_not_done(problem: Problem, years: dict[str, int | None], i: int,
+                  memo: dict | None = None) -> tuple[str, ...]:
     p = problem.projects[i]
     if p.excluded:
         return ("excluded by you",)
     allowed = problem.allowed_years(i)
     if not allowed:
         return ("its window is outside the planning horizon",)
-    blocked = [_violations_if_moved(problem, years, p.id, problem.first_year + s) for s in allowed]
+    blocked = [_violations_if_moved(problem, years, p.id, problem.first_year + s, memo) for s in allowed]
     if any(not v for v in blocked):
         return ("not worth it within the horizon",)
     families = set().union(*blocked)
