@@ -312,13 +312,19 @@ def state_capacity(ctx, model: CapacityModel, done: set[str], label: str, year: 
         calc = nec220_82(dwelling, loads, service, edition=edition)
     else:
         calc = nec220_83(dwelling, loads, service, edition=edition, ems=ems)
-    rows = tuple(CapacityRow(r.load_name, float(r.va), float(r.factor) if r.factor is not None else float("nan"),
-                             float(r.counted_va) if r.counted_va is not None else float("nan"), r.section)
+    return _state(calc, label, year, remedy_note, tuple(calc.notes))
+
+
+def _state(calc, label: str, year: int | None, remedy: str | None, notes: tuple[str, ...]) -> CapacityState:
+    """A load calculation result as the views show it (NaN for rows inside a group)."""
+    nan = float("nan")
+    rows = tuple(CapacityRow(r.load_name, float(r.va), nan if r.factor is None else float(r.factor),
+                             nan if r.counted_va is None else float(r.counted_va), r.section)
                  for r in calc.rows)
     return CapacityState(label=label, year=year, method=calc.method, total_va=float(calc.total_va),
                          amps=float(calc.amps), service_amps=float(calc.service_amps),
                          headroom_amps=float(calc.headroom_amps), fits=bool(calc.fits), rows=rows,
-                         remedy=remedy_note, notes=tuple(calc.notes))
+                         remedy=remedy, notes=notes)
 
 
 def measured_capacity(ctx, model: CapacityModel, done: set[str], year: int | None) -> CapacityState | None:
@@ -352,19 +358,9 @@ def measured_capacity(ctx, model: CapacityModel, done: set[str], year: int | Non
         seasonal = 0.0 if e.peak_demand_period == "30_days" else None
         calc = nec220_87(MeasuredDemand(e.peak_demand_kw, e.peak_demand_period, seasonal),
                          new, _service(plan), edition=e.code_edition, has_solar_or_battery=has_pv)
-    except MethodNotApplicableError as exc:
-        return CapacityState(label=label, year=year, method="NEC 220.87 (not used)", total_va=float("nan"),
-                             amps=float("nan"), service_amps=float(e.service_amps), headroom_amps=float("nan"),
-                             fits=True, notes=(str(exc),))
-    except ElectricalInputError as exc:
-        return CapacityState(label=label, year=year, method="NEC 220.87 (not used)", total_va=float("nan"),
-                             amps=float("nan"), service_amps=float(e.service_amps), headroom_amps=float("nan"),
-                             fits=True, notes=(str(exc),))
-    rows = tuple(CapacityRow(r.load_name, float(r.va), float(r.factor) if r.factor is not None else float("nan"),
-                             float(r.counted_va) if r.counted_va is not None else float("nan"), r.section)
-                 for r in calc.rows)
-    return CapacityState(label=label, year=year, method=calc.method, total_va=float(calc.total_va),
-                         amps=float(calc.amps), service_amps=float(calc.service_amps),
-                         headroom_amps=float(calc.headroom_amps), fits=bool(calc.fits), rows=rows,
-                         notes=tuple(calc.notes) + ("an alternative to the 220.83 calculation: an "
-                                                    "inspector may accept either",))
+    except (MethodNotApplicableError, ElectricalInputError) as exc:  # refused or not applicable: say why
+        nan = float("nan")
+        return CapacityState(label=label, year=year, method="NEC 220.87 (not used)", total_va=nan, amps=nan,
+                             service_amps=float(e.service_amps), headroom_amps=nan, fits=True, notes=(str(exc),))
+    return _state(calc, label, year, None, tuple(calc.notes) + (
+        "an alternative to the 220.83 calculation: an inspector may accept either",))
