@@ -18,7 +18,7 @@ $(STAMP): $(BIN)/python pyproject.toml
 install: $(STAMP)
 
 demo: $(STAMP)
-	$(BIN)/homeplan lifecycle $(SAMPLE)
+	$(BIN)/homeplan open $(SAMPLE)
 
 test: $(STAMP)
 	$(BIN)/python -m pytest -q

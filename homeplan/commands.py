@@ -218,7 +218,9 @@ def register(command) -> None:
     sp.add_argument("--json", action="store_true", help="print JSON")
     sp = command("costs", cmd_costs, "costs, incentives and net cost of each project by year")
     sp.add_argument("--json", action="store_true", help="print JSON")
-    sp = command("open", cmd_open, "open the plan in the terminal app (explore, edit, re-plan)")
+    sp = command("open", cmd_open, "open the plan in the terminal app (explore, edit, re-plan); "
+                 "a FILE that does not exist yet starts the guided new-plan form")
+    sp.add_argument("--light", action="store_true", help="light colours for a light terminal background")
     try:
         from homeplan.report import commands as report_commands
     except ImportError:  # pragma: no cover - the report package is part of homeplan
