@@ -2,18 +2,19 @@
 through ``scipy.optimize.milp``, behind the small :class:`Solver` protocol.
 
 Formulation (``P`` projects, ``T`` years, ``G`` capped incentive groups; indices as in
-``problem.py``). The decision "project p is done in year t" is ``x[p,t]``; the model's binary
-variables are the *done-by* indicators ``D[p,t] = sum_{s<=t} x[p,s]`` (a monotone step in t), and
-``x[p,t] = D[p,t] - D[p,t-1]`` (``D[p,-1] = 0``) is substituted wherever x appears. This is a
-unimodular change of variables, so every integer solution and the LP bound are those of the x
-model, but the rows for "done by" facts (prerequisites, capacity, savings) have 2-P nonzeros
-instead of up to P*T, and branching on D ("done by 2030 or not") works better. Measured on the
-benchmark instance: about 1/3 fewer nonzeros and faster solves.
+``problem.py``). Two linked binary families describe each project: ``x[p,t]`` "done in year
+t" and ``D[p,t]`` "done by year t" with ``D[p,t] = D[p,t-1] + x[p,t]``. Money rows use x (they
+stay pure knapsacks per year, so the solver's cover cuts apply); "done by" facts
+(prerequisites, capacity, savings, interactions, targets) use D (rows of 2..P nonzeros instead
+of up to P*T, and branching on "done by 2030 or not" splits the tree evenly). CPU seconds
+measured on the benchmark instances (15 x 20, seeds 1-3), D alone vs linked x and D: max_npv
+0.36-0.45 vs 0.25-0.39; no carryover 1.6 vs 0.4 (with D alone the budget rows lose their
+knapsack form); all required 1.3-1.7 vs 0.9-1.0; min_emissions 2.8-3.5 vs 1.6-2.5.
 
 Variables
-    ``D[p,t]`` binary, ``D[p,t-1] <= D[p,t]``. Before the first allowed year (window start,
-    pin) the upper bound is 0; after the last allowed year (window end, target year, pin)
-    ``D[p,t] = D[p,t-1]`` (nothing new happens); excluded projects are 0 throughout.
+    ``D[p,t]`` binary, columns ``0 .. P*T-1`` (``p*T + t``): upper bound 0 before the first
+    allowed year. ``x[p,t]`` binary, the last ``P*T`` columns: upper bound 0 outside the
+    allowed years (window, target year, pin; all years when excluded).
     ``z[g,t]`` continuous in ``[0, cap_g]``: capped incentive earned by group g in year t.
     ``L[t]`` continuous in ``[0, loan_limit]``: loan principal borrowed in year t (only when
     ``loan_limit_usd > 0``).
@@ -22,6 +23,7 @@ Variables
     ``D[a,t] D[b,t]``), only for NPV objectives.
 
 Constraints (each a block of rows in one sparse matrix)
+    link         ``D[p,t] - D[p,t-1] - x[p,t] = 0`` (so ``sum_t x[p,t] = D[p,T-1] <= 1``).
     required     ``D[p,T-1] >= 1`` when the project is mandatory, pinned, in a target, or the
                  objective project of ``earliest_gas_closure``.
     exclusive    ``sum_{p in group} D[p,T-1] <= 1`` (``== 1`` when ``exactly_one``).
@@ -51,10 +53,9 @@ Objective (milp minimises; constants are added back when reporting)
     min_out_of_pocket  nominal spend + penalties + loan interest - incentives - bill savings.
     earliest_gas_closure  two solves: minimise ``sum_t t x[q,t]`` for the objective project q,
                        then force ``D[q,t*] = 1`` (done by the earliest year) and maximise NPV.
-    A cost ``k[p,t]`` on ``x[p,t]`` becomes ``k[p,t] - k[p,t+1]`` on ``D[p,t]``.
 
-Solver settings: HiGHS presolve is off by default: on the benchmark instance (15 x 20) it cost
-more CPU than it saved (median 0.36 s vs 0.9 s for max_npv over 5 seeds).
+Solver settings: HiGHS presolve is off by default: on the benchmark instances it cost more CPU
+than it saved in most cases (max_npv 0.47-0.70 s with it vs 0.25-0.39 s without).
 
 References
 ----------
@@ -64,6 +65,7 @@ Comp. 10 (2018); scipy.optimize.milp documentation (scipy 1.17).
 
 from __future__ import annotations
 
+import dataclasses
 import time
 from dataclasses import dataclass, field
 from typing import Any, Protocol
@@ -186,11 +188,7 @@ def _objective(pr: Problem, kind: str) -> tuple[np.ndarray, np.ndarray, np.ndarr
 
 
 def build_model(
-    pr: Problem,
-    kind: str | None = None,
-    latest_index: dict[int, int] | None = None,
-    hybrid: bool = True,
-    d_integer: bool = True,
+    pr: Problem, kind: str | None = None, latest_index: dict[int, int] | None = None
 ) -> _Model:
     """Build the sparse model (see module docstring). ``kind`` overrides the objective
     (``earliest`` = stage one of earliest closure); ``latest_index`` caps a project's year."""
@@ -203,7 +201,7 @@ def build_model(
     n_c = nt if pr.carryover else 0
     inter = pr.interactions if kind == "max_npv" else ()
     n_w = len(inter) * nt
-    n_h = n_x if hybrid else 0
+    n_h = n_x
     n = n_x + n_z + n_l + n_c + n_w + n_h
 
     def di(p: int, t: int) -> int:
@@ -225,13 +223,7 @@ def build_model(
         return n_x + n_z + n_l + n_c + n_w + p * nt + t
 
     def add_x(coefs: dict[int, float], p: int, t: int, v: float) -> None:
-        """Add ``v * x[p,t]`` (hybrid: the x column; else ``v * (D[p,t] - D[p,t-1])``)."""
-        if hybrid:
-            coefs[xi(p, t)] = coefs.get(xi(p, t), 0.0) + v
-            return
-        coefs[di(p, t)] = coefs.get(di(p, t), 0.0) + v
-        if t > 0:
-            coefs[di(p, t - 1)] = coefs.get(di(p, t - 1), 0.0) - v
+        coefs[xi(p, t)] = coefs.get(xi(p, t), 0.0) + v
 
     def add_d(coefs: dict[int, float], p: int, t: int, v: float) -> None:
         if t >= 0:
@@ -243,34 +235,20 @@ def build_model(
     rows = _Rows()
     inf = np.inf
     last = nt - 1
-    # done-by variables: monotone in t, closed before the window, frozen after it
+    # link D[p,t] - D[p,t-1] - x[p,t] = 0; x closed outside the allowed years
     for p in range(np_):
-        allowed = sorted(pr.allowed_years(p))
+        allowed = set(pr.allowed_years(p))
         if latest_index and p in latest_index:
-            allowed = [t for t in allowed if t <= latest_index[p]]
-        if hybrid:
-            # D[p,t] - D[p,t-1] - x[p,t] = 0; x closed outside the allowed years
-            for t in range(nt):
-                link = {di(p, t): 1.0, xi(p, t): -1.0}
-                if t > 0:
-                    link[di(p, t - 1)] = -1.0
-                rows.add(link, 0.0, 0.0)
-                if t not in allowed:
-                    ub[xi(p, t)] = 0.0
-            if allowed:
-                ub[di(p, 0) : di(p, allowed[0])] = 0.0
-            else:
-                ub[di(p, 0) : di(p, 0) + nt] = 0.0
-        elif not allowed:
-            ub[di(p, 0) : di(p, 0) + nt] = 0.0
-        else:
-            lo, hi = allowed[0], allowed[-1]
-            ub[di(p, 0) : di(p, lo)] = 0.0
-            for t in range(1, nt):
-                if t > hi:
-                    rows.add({di(p, t): 1.0, di(p, t - 1): -1.0}, 0.0, 0.0)
-                elif t > lo:
-                    rows.add({di(p, t - 1): 1.0, di(p, t): -1.0}, -inf, 0.0)
+            allowed = {t for t in allowed if t <= latest_index[p]}
+        for t in range(nt):
+            link = {di(p, t): 1.0, xi(p, t): -1.0}
+            if t > 0:
+                link[di(p, t - 1)] = -1.0
+            rows.add(link, 0.0, 0.0)
+            if t not in allowed:
+                ub[xi(p, t)] = 0.0
+        first = min(allowed, default=nt)
+        ub[di(p, 0) : di(p, 0) + first] = 0.0
         if pr.must_do(p):
             rows.add({di(p, last): 1.0}, 1.0, inf)
     for g, ig in enumerate(pr.incentive_groups):
@@ -279,14 +257,10 @@ def build_model(
         ub[li(0) : li(0) + nt] = pr.loan_limit_usd
     if n_w:
         ub[wi(0, 0) : wi(0, 0) + n_w] = 1.0
+    ub[xi(0, 0) : xi(0, 0) + n_h] = np.minimum(ub[xi(0, 0) : xi(0, 0) + n_h], 1.0)
     integrality = np.zeros(n)
-    if hybrid:
-        ub[xi(0, 0) : xi(0, 0) + n_h] = np.minimum(ub[xi(0, 0) : xi(0, 0) + n_h], 1.0)
-        integrality[xi(0, 0) : xi(0, 0) + n_h] = 1
-        if d_integer:
-            integrality[:n_x] = 1
-    else:
-        integrality[:n_x] = 1
+    integrality[:n_x] = 1
+    integrality[xi(0, 0) : xi(0, 0) + n_h] = 1
 
     # exclusive groups
     for gx in pr.exclusive_groups:
@@ -366,12 +340,7 @@ def build_model(
         (rows.vals, (rows.rows, rows.cols)), shape=(len(rows.lb), n), dtype=float
     )
     cx, cz, cl, const = _objective(pr, kind)
-    # x[p,t] = D[p,t] - D[p,t-1]  =>  cost on D[p,t] is cx[p,t] - cx[p,t+1]
-    if hybrid:
-        cd, ch = np.zeros_like(cx), cx.ravel()
-    else:
-        cd, ch = cx - np.concatenate([cx[:, 1:], np.zeros((np_, 1))], axis=1), np.zeros(0)
-    c = np.concatenate([cd.ravel(), cz.ravel(), cl[:n_l], np.zeros(n_c), cw.ravel(), ch])
+    c = np.concatenate([np.zeros(n_x), cz.ravel(), cl[:n_l], np.zeros(n_c), cw.ravel(), cx.ravel()])
     return _Model(
         c, const, integrality, lb, ub, a_matrix, np.array(rows.lb), np.array(rows.ub), n_x, n_z, n_l
     )
@@ -414,6 +383,7 @@ class MilpSolver:
         started = time.perf_counter()
         latest: dict[int, int] | None = None
         first_value: float | None = None
+        first_stage_limited = False
         if pr.objective == "earliest_gas_closure":
             m1 = build_model(pr, "earliest")
             res1, _ = self._run(m1, self.time_limit_s)
@@ -422,6 +392,7 @@ class MilpSolver:
             q = pr.index(pr.objective_project)  # type: ignore[arg-type]
             dq = res1.x[q * pr.n_years : (q + 1) * pr.n_years]
             t_star = int(np.argmax(dq > 0.5))
+            first_stage_limited = int(res1.status) != 0
             latest = {q: t_star}
             first_value = float(pr.first_year + t_star)
         model = build_model(pr, None, latest)
@@ -430,7 +401,10 @@ class MilpSolver:
         elapsed = time.perf_counter() - started
         if res.x is None:
             return self._failed(res, elapsed)
-        return self._solution(pr, model, res, elapsed, first_value)
+        sol = self._solution(pr, model, res, elapsed, first_value)
+        if first_stage_limited:  # the earliest year itself is not proven
+            sol = dataclasses.replace(sol, status="time_limit")
+        return sol
 
     def _failed(self, res: Any, elapsed: float) -> Solution:
         status = {2: "infeasible", 1: "no_solution"}.get(int(res.status), "error")

@@ -96,8 +96,9 @@ def test_budget_carryover_versus_use_it_or_lose_it() -> None:
 
 
 def test_bill_savings_added_to_later_budgets() -> None:
-    # Year budgets 5000, 0; A costs 5000 and saves $2,000 in year 1; B costs 2000 in year 1.
-    # Only with savings reinvested can B be afforded in year 1 (worked by hand).
+    # Year budgets 5000, 0; A costs 5000 (NPV 500) and saves $2,000 in year 1; B costs 2000 in
+    # year 1 (NPV 400). Only with savings reinvested can both be afforded; without, A alone
+    # (500) beats B alone (400) (worked by hand).
     a = Project("a", (5000, 5000), value_usd=(5500, 0), savings_usd=(0, 2000))
     b = Project("b", (9999, 2000), value_usd=(0, 2400))
     pr = Problem(2026, (5000, 0), (a, b), savings_to_budget=True)
