@@ -308,11 +308,31 @@ def state_capacity(ctx, model: CapacityModel, done: set[str], label: str, year: 
             remedy_note = f"load management holds managed loads to {model.ems_setpoint_va / 240:.0f} A"
     if ems is not None and not any(ld.ems_controlled for ld in loads):
         ems = None
+    pv = {p for p in done if p in ctx.details and ctx.details[p].kind in ("solar", "battery")}
+    inverter = _inverter_amps(ctx, pv)
+    notes: list[str] = []
+    if inverter > 0 and model.remedy is not None and model.remedy.derated_main_amps and pv:
+        service = Service(service_amps=service.service_amps, busbar_amps=service.busbar_amps,
+                          main_breaker_amps=model.remedy.derated_main_amps, volts=service.volts)
+        remedy_note = (remedy_note + "; " if remedy_note else "") + \
+            f"main breaker derated to {model.remedy.derated_main_amps:g} A for the solar connection"
     if remedy_note and "upgraded" in remedy_note:
         calc = nec220_82(dwelling, loads, service, edition=edition)
     else:
         calc = nec220_83(dwelling, loads, service, edition=edition, ems=ems)
-    return _state(calc, label, year, remedy_note, tuple(calc.notes))
+    fits = bool(calc.fits)
+    if inverter > 0:
+        from homeplan.electrical.nec705 import backfeed_check
+
+        supply_side = bool(model.remedy is not None and model.remedy.supply_side and pv)
+        bf = backfeed_check(service, inverter, rule="supply_side" if supply_side else "120", edition=edition)
+        notes.append(f"{bf.section}: {inverter:.0f} A of solar/battery inverter output; "
+                     + ("supply-side connection" if supply_side else
+                        f"the panel accepts {bf.max_inverter_amps:.0f} A by the 120 % rule")
+                     + ("" if bf.fits else " - DOES NOT FIT"))
+        fits = fits and bool(bf.fits)
+    state = _state(calc, label, year, remedy_note, tuple(calc.notes) + tuple(notes))
+    return replace(state, fits=fits) if fits != state.fits else state
 
 
 def _state(calc, label: str, year: int | None, remedy: str | None, notes: tuple[str, ...]) -> CapacityState:

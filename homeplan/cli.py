@@ -23,6 +23,16 @@ class _Parser(argparse.ArgumentParser):
         self.exit(EXIT_BAD_INPUT, f"{self.prog}: error: {message} (see '{self.prog} --help')\n")
 
 
+def _positive(text: str, most: int) -> int:
+    try:
+        n = int(text)
+    except ValueError:
+        raise argparse.ArgumentTypeError(f"{text!r} is not a whole number") from None
+    if not 1 <= n <= most:
+        raise argparse.ArgumentTypeError(f"{n} is outside 1-{most}")
+    return n
+
+
 def _load(path: str):
     from homeplan.plan.load import load_plan
 
@@ -46,6 +56,24 @@ def _graph_checked(loaded):
         raise located(loaded, err) from None
 
 
+def _check_files(loaded) -> None:
+    """The files a plan refers to must exist and hold valid data (incentives, weather)."""
+    from pathlib import Path
+
+    from homeplan.incentive_adapter import load_programs
+
+    plan = loaded.plan
+    base = loaded.path.parent
+    try:
+        load_programs(plan, base)
+        wf = plan.home.climate.weather_file
+        if wf and not (Path(wf) if Path(wf).is_absolute() else base / wf).exists():
+            raise PlanRuleError(("home", "climate", "weather_file"), f"weather file not found: {wf}",
+                                "give a path relative to the plan file, or remove the key")
+    except PlanRuleError as err:
+        raise located(loaded, err) from None
+
+
 # ----------------------------------------------------------------------------- commands
 
 
@@ -54,6 +82,7 @@ def cmd_check(args) -> int:
 
     loaded = _load(args.file)
     g = _graph_checked(loaded)
+    _check_files(loaded)
     print(f"{args.file}: ok")
     print(plan_summary(loaded.plan, g))
     if loaded.migrated_from:
@@ -162,7 +191,8 @@ def build_parser() -> argparse.ArgumentParser:
     sp.add_argument("--dot", action="store_true", help="print Graphviz DOT")
     sp.add_argument("--json", action="store_true", help="print JSON")
     sp = command("lifecycle", cmd_lifecycle, "show each appliance's age, end of life and failure risk")
-    sp.add_argument("--years", type=int, default=8, help="years of risk to show (default 8)")
+    sp.add_argument("--years", type=lambda t: _positive(t, 30), default=8,
+                    help="years of risk to show (1-30, default 8)")
     sp.add_argument("--json", action="store_true", help="print JSON")
     _register_more(command)
     return p

@@ -44,7 +44,7 @@ def _overrides(args) -> dict:
         out[("budget", "usd_per_year")] = args.budget
     if getattr(args, "objective", None):
         out[("choices", "objective")] = args.objective
-    if getattr(args, "horizon", None):
+    if getattr(args, "horizon", None) is not None:
         out[("budget", "horizon_years")] = args.horizon
     return out
 
@@ -62,8 +62,8 @@ def cmd_plan(args) -> int:
     print(f"Roadmap for {rm.plan_name}, {rm.first_year}-{rm.last_year} "
           f"(objective: {rm.objective.replace('_', ' ')}). Planning estimates.\n")
     if rm.status != "ok":
-        print(f"No plan meets every requirement: {rm.infeasibility}")
-        return 1
+        print(rm.infeasibility or "No plan meets every requirement.", file=sys.stderr)
+        return 2  # the request cannot be met as asked: change the plan file (exit code for bad input)
     rows = []
     for s in rm.steps:
         what = s.label + (f" ({s.variant})" if s.variant else "") + (f", {s.size}" if s.size else "")
@@ -81,10 +81,19 @@ def cmd_plan(args) -> int:
     print()
     for m in rm.milestones:
         print(f"  {m.year}: {m.label}")
-    print(f"\nNet present value against doing nothing: {usd(rm.npv_usd, 10)} "
-          f"(discount rate {loaded.plan.budget.discount_rate_pct:g} %)")
+    rate = loaded.plan.budget.discount_rate_pct
+    print(f"\nNet present value at {rate:g} % (bill savings, minus spending net of incentives, minus "
+          "expected breakdown costs, plus the equipment's remaining value; against a home that "
+          "would need nothing):")
+    print(f"  this plan: {usd(rm.npv_usd, 10)}")
     for b in rm.baselines:
         print(f"  {b.name}: {usd(b.npv_usd, 10)}")
+    fin = result.extra.get("finance", {}).get("plan")
+    if fin and rm.baselines:
+        diff = fin["npv_vs_do_nothing_usd"]
+        word = "better" if diff >= 0 else "more expensive"
+        irr = "" if fin["irr_pct"] is None else f"; return {fin['irr_pct']:.1f} % a year"
+        print(f"  -> the plan is {usd(abs(diff), 10)} {word} than doing nothing in today's money{irr}")
     for w in result.warnings:
         print(f"note: {w}")
     print()
@@ -177,7 +186,8 @@ def cmd_costs(args) -> int:
     if plan_r:
         irr = "-" if plan_r["irr_pct"] is None else f"{plan_r['irr_pct']:.1f} %"
         pb = "not within the horizon" if plan_r["simple_payback_years"] is None else f"{plan_r['simple_payback_years']:.1f} years"
-        print(f"\nThe whole plan against doing nothing: IRR {irr}, simple payback {pb}.")
+        print(f"\nThe whole plan against doing nothing: IRR {irr}, simple payback {pb} (expected "
+              "breakdown costs avoided and the equipment's remaining value included).")
     hedge = fin.get("solar_hedge")
     if hedge:
         what = "solar and battery" if hedge["includes_battery"] else "solar"
@@ -185,8 +195,8 @@ def cmd_costs(args) -> int:
         print(f"Your {what} {verb} in electricity at {hedge['lcoe_usd_per_kwh'] * 100:.1f} c/kWh over "
               f"{hedge['life_years']} years; the utility's price, rising with inflation, averages "
               f"{hedge['utility_levelised_usd_per_kwh'] * 100:.1f} c/kWh over the same years "
-              f"({hedge['utility_first_year_usd_per_kwh'] * 100:.1f} c now, "
-              f"{hedge['utility_last_year_usd_per_kwh'] * 100:.1f} c in the last year).")
+              f"({hedge['utility_first_year_usd_per_kwh'] * 100:.1f} c when the panels go up, "
+              f"{hedge['utility_last_year_usd_per_kwh'] * 100:.1f} c in their last year).")
     if result.programs:
         print("\nIncentive programs used:")
         for u in result.programs:
@@ -206,12 +216,37 @@ def _finite(data):
     return data
 
 
+def _years(text: str) -> int:
+    import argparse
+
+    try:
+        n = int(text)
+    except ValueError:
+        raise argparse.ArgumentTypeError(f"{text!r} is not a whole number of years") from None
+    if not 1 <= n <= 30:
+        raise argparse.ArgumentTypeError(f"{n} years is outside 1-30")
+    return n
+
+
+def _money(text: str) -> float:
+    import argparse
+    import math
+
+    try:
+        v = float(text.replace(",", "").lstrip("$"))
+    except ValueError:
+        raise argparse.ArgumentTypeError(f"{text!r} is not an amount of money") from None
+    if not math.isfinite(v) or v < 0:
+        raise argparse.ArgumentTypeError(f"{text!r} must be zero or more")
+    return v
+
+
 def register(command) -> None:
     """Add engine commands to the CLI; each imports its engine inside its function."""
     sp = command("plan", cmd_plan, "compute the year-by-year roadmap and print it")
     sp.add_argument("--json", action="store_true", help="print the roadmap as JSON (docs/roadmap-json.md)")
-    sp.add_argument("--budget", type=float, help="override the yearly budget (USD)")
-    sp.add_argument("--horizon", type=int, help="override the number of years")
+    sp.add_argument("--budget", type=_money, help="override the yearly budget (USD)")
+    sp.add_argument("--horizon", type=_years, help="override the number of years (1-30)")
     sp.add_argument("--objective", choices=["npv", "emissions", "gas_off_early", "out_of_pocket"],
                     help="override the objective")
     sp = command("capacity", cmd_capacity, "electrical load calculation today and after each roadmap step")
@@ -219,7 +254,8 @@ def register(command) -> None:
     sp = command("costs", cmd_costs, "costs, incentives and net cost of each project by year")
     sp.add_argument("--json", action="store_true", help="print JSON")
     sp = command("open", cmd_open, "open the plan in the terminal app (explore, edit, re-plan); "
-                 "a FILE that does not exist yet starts the guided new-plan form")
+                 "a FILE that does not exist yet starts the guided new-plan form", file=False)
+    sp.add_argument("file", nargs="?", help="plan file (YAML); omit it to start a new plan")
     sp.add_argument("--light", action="store_true", help="light colours for a light terminal background")
     try:
         from homeplan.report import commands as report_commands

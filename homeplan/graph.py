@@ -91,8 +91,8 @@ def candidates(plan: Plan) -> list[Candidate]:
             key = plan.vehicle_key(i)
             ev_ids.append(f"ev:{key}")
             add(f"ev:{key}", "ev", replaces=(key,), label=f"Electric vehicle (replaces {v.name or key})")
-    if ev_ids:
-        add("ev_charger", "ev_charger", variant="a40")
+    if ev_ids and not any(v.fuel == "electric" for v in plan.vehicles):
+        add("ev_charger", "ev_charger", variant="a40")  # a home with an EV already has a charger
     roof = plan.home.roof
     if plan.home.solar is None and not (roof is not None and roof.usable_area_ft2 == 0):
         add("solar", "solar")

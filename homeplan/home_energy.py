@@ -436,6 +436,8 @@ def home_basis(plan: Plan, base_dir: Path | None = None) -> HomeBasis:
         fuel_prices=fuel_prices(plan), emission_factors=emission_factors(plan),
         occupants=float(plan.home.occupants),
         gas_service_open=any(appliance_fuel(a) == "gas" for a in plan.appliances),
+        fuel_accounts_open=tuple(FUEL[f] for f in ("propane", "oil")
+                                 if any(appliance_fuel(a) == f for a in plan.appliances)),
         label="today", **parts,
     )
     # plug loads: what the electric bills show beyond the modelled end uses
@@ -494,28 +496,51 @@ def heat_pump_spec(variant: str | None, tons: float, strips_kw: float, design_te
     )
 
 
-def heat_pump_tons(design_load_btuh: float, design_temp_f: float, variant: str | None) -> float:
-    """Nominal tons so the unit carries the design load at the design temperature.
+def heat_pump_tons(design_load_btuh: float, design_temp_f: float, variant: str | None,
+                   cooling_btuh: float = 0.0) -> float:
+    """Nominal tons: enough heat at the design condition, and at least the cooling load.
 
-    Standard units are sized to cover 100 % down to their lower capacity and lean on backup
-    strips below; cold-climate and ductless units are sized to the full design load (NEEP
-    guidance, from memory). Rounded up to half tons, 1.5-5 t for a home (common practice).
+    Cold-climate and ductless units are sized to carry the full design heating load at the
+    design temperature (down to their cut-out). Standard single-stage units are sized to carry
+    the load at 17 F, their lower rating point, and lean on backup strips below it (sizing
+    them for the design temperature gives units that short-cycle in mild weather). Either way
+    the unit is at least as large as the cooling load. Rounded up to half tons, 1.5-5 t (common
+    practice, no source; larger homes need two systems).
 
     References
     ----------
-    ACCA Manual S (equipment selection at the design condition).
+    ACCA Manual S (equipment selection at the design condition); NEEP cold-climate air-source
+    heat pump sizing guidance (from memory).
     """
     p = performance()
     cold = variant in ("cold_climate", "ductless")
     pre = "hp_cold" if cold else "hp_standard"
-    t = max(design_temp_f, p[f"{pre}_cutout_f"])
-    # capacity fraction at the design temperature, linear through the 5/17/47 F points
     f5, f17 = p[f"{pre}_cap_5_frac"], p[f"{pre}_cap_17_frac"]
-    frac = f17 + (1.0 - f17) * (t - 17) / 30.0 if t >= 17 else f5 + (f17 - f5) * (t - 5) / 12.0
-    frac = max(frac, 0.3)
-    coverage = 1.0 if cold else 0.8  # standard units: strips carry the last 20 % (common practice)
-    tons = design_load_btuh * coverage / (frac * 12000.0)
-    return float(min(max(math.ceil(tons * 2) / 2, 1.5), 5.0))
+    if cold:
+        t = max(design_temp_f, p[f"{pre}_cutout_f"])
+        frac = f17 + (1.0 - f17) * (t - 17) / 30.0 if t >= 17 else f5 + (f17 - f5) * (t - 5) / 12.0
+        heat_tons = design_load_btuh / (max(frac, 0.3) * 12000.0)
+    else:
+        t = max(design_temp_f, 17.0)
+        load_at_t = design_load_btuh * (65.0 - t) / max(65.0 - design_temp_f, 1.0)
+        frac = f17 + (1.0 - f17) * (t - 17) / 30.0
+        heat_tons = load_at_t / (frac * 12000.0)
+    tons = max(heat_tons, cooling_btuh / 12000.0)
+    return float(min(max(math.ceil(tons * 2 - 1e-9) / 2, 1.5), 5.0))
+
+
+def cooling_load_btuh(plan: Plan, basis) -> float:
+    """The cooling the home needs: the existing air conditioner's size when known, else the
+    sensible load at the 1 % design temperature with a 30 % allowance for latent and solar gains
+    (common practice, no source)."""
+    sizes = [a.capacity_btuh for a in plan.appliances
+             if a.kind in ("central_ac", "heat_pump", "mini_split") and a.capacity_btuh]
+    if sizes:
+        return float(max(sizes))
+    t_cool = basis.weather.cooling_design_f
+    if t_cool is None or not any(a.kind in ("central_ac", "room_ac") for a in plan.appliances):
+        return 0.0
+    return float(basis.calibration.ua_btuh_f) * max(float(t_cool) - 75.0, 0.0) * 1.3
 
 
 def _with_quoted_ratings(hp, opt):
@@ -541,8 +566,29 @@ def _with_quoted_ratings(hp, opt):
     return replace(hp, **changes) if changes else hp
 
 
+def _share_charger(vehicles: list, done: Iterable[Choice]) -> list:
+    """EVs charge at the planned charger's power (amps x 240 V), shared when there are several.
+
+    References
+    ----------
+    SAE J1772 Level 2 (240 V); NEC 625.42 (the charger's rating is its continuous current).
+    """
+    done = list(done)
+    charger = next((c for c in done if c.kind == "ev_charger"), None)
+    evs = [i for i, v in enumerate(vehicles) if v.fuel == "electricity"]
+    if charger is None or not evs:
+        return vehicles
+    v = catalog.upgrade_kinds()["ev_charger"].variant(charger.variant)
+    kw = (v.amps if v and v.amps else 32.0) * 240.0 / 1000.0
+    out = list(vehicles)
+    for i in evs:
+        out[i] = replace(out[i], charger_kw=kw / len(evs))
+    return out
+
+
 def state_spec(basis: HomeBasis, plan: Plan, done: Iterable[Choice], label: str = ""):
     """The home's energy spec after the projects in ``done``."""
+    done = list(done)
     from homeplan.energy.appliances import CookingSpec, DryerSpec
     from homeplan.energy.battery import BatterySpec
     from homeplan.energy.heating import CoolingSpec
@@ -600,8 +646,10 @@ def state_spec(basis: HomeBasis, plan: Plan, done: Iterable[Choice], label: str 
             closed.add("oil")
     if spec.cooling is None and any(c.kind == "heat_pump" for c in done):
         spec = replace(spec, cooling=CoolingSpec(seer2=spec.heating.seer2))
+    vehicles = _share_charger(vehicles, done)
+    accounts = tuple(f for f in spec.fuel_accounts_open if PLAN_FUEL[f] not in closed)
     spec = replace(spec, vehicles=tuple(vehicles), fuel_prices=fuel_prices(plan, closed),
-                   label=label or spec.label)
+                   fuel_accounts_open=accounts, label=label or spec.label)
     if not gas_open and "natural_gas" not in spec.fuels_used():
         spec = replace(spec, gas_service_open=False)
     return spec

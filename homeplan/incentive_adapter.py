@@ -49,7 +49,11 @@ def load_programs(plan, base_dir: Path | None) -> tuple:
         try:
             programs.extend(parse_catalog(list(plan.incentives)))
         except IncentiveDataError as exc:
-            raise PlanRuleError(("incentives",), str(exc), "see docs/plan-format.md#incentives") from None
+            loc = ("incentives", *(exc.keys or ()))
+            raise PlanRuleError(loc, str(exc), "see docs/plan-format.md#incentives") from None
+        except (ValueError, TypeError) as exc:  # e.g. a date like 2027-02-30
+            raise PlanRuleError(("incentives",), f"an incentive program has a bad value: {exc}",
+                                "check the dates (YYYY-MM-DD) and numbers of the programs") from None
     for i, name in enumerate(plan.incentive_files):
         path = Path(name)
         if not path.is_absolute() and base_dir is not None:
@@ -62,6 +66,9 @@ def load_programs(plan, base_dir: Path | None) -> tuple:
         except IncentiveDataError as exc:
             raise PlanRuleError(("incentive_files", i), f"{path.name}: {exc}",
                                 "fix the program record named in the message") from None
+        except (ValueError, TypeError, OSError) as exc:
+            raise PlanRuleError(("incentive_files", i), f"{path.name}: cannot read the programs: {exc}",
+                                "check the file's dates (YYYY-MM-DD), numbers and YAML syntax") from None
     seen: set[str] = set()
     for p in programs:
         if p.id in seen:

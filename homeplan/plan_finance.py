@@ -16,20 +16,23 @@ def _round(x: float | None, nd: int = 1) -> float | None:
     return None if x is None else round(x, nd)
 
 
-def plan_returns(roadmap: Roadmap, discount_rate_pct: float) -> dict:
-    """Cash flows of the plan against doing nothing, year by year, and their returns."""
-    from homeplan.money.finance import (
-        discounted_payback_years,
-        irr_pct,
-        npv_usd,
-        simple_payback_years,
-    )
+def plan_returns(roadmap: Roadmap, discount_rate_pct: float, extra_flows: list[float] | None = None,
+                 npv_vs_do_nothing_usd: float | None = None) -> dict:
+    """Cash flows of the plan against doing nothing, year by year, and their returns.
 
-    flows = [y.bill_savings_usd - (y.spend_usd - y.incentives_usd) - y.loan_payments_usd
-             for y in roadmap.years]
+    Each year: bill savings, minus what the plan spends (net of incentives received), minus loan
+    payments, plus ``extra_flows`` (the expected breakdown costs the plan avoids, and in the last
+    year the equipment's remaining value) - the same accounting as the roadmap's NPV.
+    """
+    from homeplan.money.finance import discounted_payback_years, irr_pct, npv_usd, simple_payback_years
+
+    extra = extra_flows or [0.0] * len(roadmap.years)
+    flows = [y.bill_savings_usd - (y.spend_usd - y.incentives_usd) - y.loan_payments_usd + e
+             for y, e in zip(roadmap.years, extra, strict=True)]
     return {
         "flows_usd": [round(f, 2) for f in flows],
-        "npv_within_horizon_usd": round(npv_usd(discount_rate_pct, flows), 2),
+        "npv_vs_do_nothing_usd": round(npv_vs_do_nothing_usd if npv_vs_do_nothing_usd is not None
+                                       else npv_usd(discount_rate_pct, flows), 2),
         "irr_pct": _round(irr_pct(flows)),
         "simple_payback_years": _round(simple_payback_years(flows)),
         "discounted_payback_years": _round(discounted_payback_years(discount_rate_pct, flows)),
@@ -53,7 +56,7 @@ def project_returns(ctx, outcome, roadmap: Roadmap) -> dict[str, dict]:
         if co is None or d is None:
             continue
         t0 = s.year - ctx.first_year
-        life = int(round(d.life_years))
+        life = int(round(min(d.life_years, 30)))  # milestones "last" 100 years; count 30 at most
         flows = [-s.net_cost_usd]
         for k in range(1, life + 1):
             flows.append(sum(v * (1 + ctx.escalation(f)) ** (t0 + k) for f, v in co.savings_by_fuel.items()))

@@ -20,7 +20,7 @@ from functools import cache
 from homeplan import catalog
 from homeplan.catalog import _data_text
 from homeplan.graph import Candidate
-from homeplan.home_energy import HomeBasis, heat_pump_tons, performance
+from homeplan.home_energy import HomeBasis, cooling_load_btuh, heat_pump_tons, performance
 from homeplan.lifecycle import appliance_fuel
 from homeplan.plan.model import Plan
 
@@ -113,6 +113,9 @@ def detail(plan: Plan, c: Candidate, basis: HomeBasis, electrified_kwh: float,
     variant_id = (opt.variant if opt and opt.variant else None) or c.variant
     if opt and opt.amps and c.kind == "ev_charger":
         variant_id = f"a{opt.amps:g}" if f"a{opt.amps:g}" in {v.id for v in k.variants} else variant_id
+    if (c.kind == "heat_pump" and variant_id == "ducted" and not (opt and opt.variant)
+            and basis.weather.heating_design_f is not None and basis.weather.heating_design_f < 5):
+        variant_id = "cold_climate"  # below 5 F design a standard unit leans on strips all winter
     v = k.variant(variant_id) if k.variants else None
     if k.variants and v is None:
         v = k.variants[0]
@@ -121,7 +124,8 @@ def detail(plan: Plan, c: Candidate, basis: HomeBasis, electrified_kwh: float,
     if opt and opt.size:
         size = opt.size
     elif c.kind == "heat_pump":
-        size = heat_pump_tons(basis.design_load_btuh, design_f, v.id if v else None)
+        size = heat_pump_tons(basis.design_load_btuh, design_f, v.id if v else None,
+                              cooling_load_btuh(plan, basis))
     elif c.kind == "solar":
         size = solar_size_kw(plan, electrified_kwh, specific_yield)
     elif c.kind == "battery":

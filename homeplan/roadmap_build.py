@@ -135,8 +135,15 @@ def build_result(ctx: Context, outcome: ScheduleOutcome) -> PlanResult:
     salvage = sum(_salvage(ctx, p, done[p], paid[p]) for p in done) * discount(rate, T)
     salvage += sum(outcome.problem.project(p).value_usd[y - ctx.first_year] for p, y in lfl.items())
     npv += late - owed + salvage - expected_breakdowns(ctx, {**done, **lfl})
+    # the same accounting as yearly flows against doing nothing (for IRR and payback)
+    dn_break = breakdowns_by_year(ctx, {})
+    plan_break = breakdowns_by_year(ctx, {**done, **lfl})
+    extra_flows = [dn_break[t] - plan_break[t] for t in range(T)]
+    extra_flows[-1] += (salvage + late - owed) / discount(rate, T - 1)
     _ = base_bills_total
-    baselines = (do_nothing(ctx, base_energy), like_for_like(ctx, base_energy))
+    today_cap = state_capacity(ctx, cap_model, set(), "today", None)
+    baselines = (do_nothing(ctx, base_energy, today_cap.headroom_amps),
+                 like_for_like(ctx, base_energy, today_cap.headroom_amps))
     milestones = milestones_of(ctx, done)
     cautions = [cautions_all["planning"]]
     for s in steps:
@@ -149,13 +156,14 @@ def build_result(ctx: Context, outcome: ScheduleOutcome) -> PlanResult:
         milestones=milestones, baselines=baselines, npv_usd=round(npv, 2), status="ok",
         assumptions=assumptions(ctx), cautions=tuple(cautions),
     )
-    capacity = [state_capacity(ctx, cap_model, set(), "today", None)]
+    capacity = [today_cap]
 
     seen = set()
     for year in ctx.years:
         state = frozenset(by_year[year])
         changed = [p for p in state if done[p] == year and (
-            catalog.upgrade_kinds()[ctx.details[p].kind].capacity_load or p == cap_model.remedy_project)]
+            catalog.upgrade_kinds()[ctx.details[p].kind].capacity_load
+            or catalog.upgrade_kinds()[ctx.details[p].kind].backfeed or p == cap_model.remedy_project)]
         if state and state not in seen and changed:
             seen.add(state)
             names = ", ".join(ctx.details[p].label for p in sorted(changed))
@@ -170,7 +178,9 @@ def build_result(ctx: Context, outcome: ScheduleOutcome) -> PlanResult:
         energy_before=base_energy.summary, energy_after=after, programs=incentives.uses(awards),
         warnings=tuple(dict.fromkeys(ctx.notes)),
         extra={"solver": {"status": sol.status, "seconds": sol.solve_time_s, "passes": outcome.passes},
-               "finance": {"plan": plan_returns(roadmap, rate), "projects": project_returns(ctx, outcome, roadmap),
+               "finance": {"plan": plan_returns(roadmap, rate, extra_flows,
+                                                 roadmap.npv_usd - baselines[0].npv_usd),
+                           "projects": project_returns(ctx, outcome, roadmap),
                            "solar_hedge": solar_hedge(ctx, roadmap)},
                "capacity_remedy": cap_model.remedy_project, "solar_connection": cap_model.solar_connection},
     )
@@ -183,9 +193,13 @@ def loan_flows(ctx: Context, outcome: ScheduleOutcome, costs: dict, awards: dict
     b = ctx.plan.budget
     borrowed = {}
     payments: dict[int, float] = {}
-    if b.loans and outcome.solution.loans_usd:
+    if b.loans:
+        from homeplan.schedule.problem import evaluate
+
+        # borrow just in time: only the shortfall, in the year it occurs (the cheapest feasible
+        # borrowing for this placement; the solver's own loan variables may carry slack)
         first = b.loans[0]
-        for t, amount in enumerate(outcome.solution.loans_usd):
+        for t, amount in enumerate(evaluate(outcome.problem, outcome.solution.years).loans_usd):
             if amount > 0.5:
                 year = ctx.first_year + t
                 borrowed[year] = borrowed.get(year, 0.0) + amount
@@ -209,6 +223,17 @@ def lfl_step(ctx: Context, outcome: ScheduleOutcome, pid: str, year: int) -> Ste
                 reasons=tuple(dict.fromkeys(reasons)), cautions=notes)
 
 
+def breakdowns_by_year(ctx: Context, done: dict[str, int]) -> list[float]:
+    """Expected emergency replacement cost in each year (nominal) of the items still in place."""
+    out = [0.0] * len(ctx.years)
+    for key, (pid, cost) in replaceable_items(ctx).items():
+        years = [done[p] for p in (pid, f"{LFL_PREFIX}{key}") if p in done]
+        until = min(years) - ctx.first_year if years else len(ctx.years)
+        for t in range(until):
+            out[t] += breakdown_cost(ctx, key, t, cost)
+    return out
+
+
 def expected_breakdowns(ctx: Context, done: dict[str, int]) -> float:
     """Present value of the expected emergency replacements of the items the plan leaves in
     place, for each year before the project that replaces them (see ``breakdown_cost``)."""
@@ -221,7 +246,7 @@ def expected_breakdowns(ctx: Context, done: dict[str, int]) -> float:
     return total
 
 
-def do_nothing(ctx: Context, base_energy) -> Baseline:
+def do_nothing(ctx: Context, base_energy, headroom_amps: float = 0.0) -> Baseline:
     years = []
     cumulative = 0.0
     for t, year in enumerate(ctx.years):
@@ -231,12 +256,13 @@ def do_nothing(ctx: Context, base_energy) -> Baseline:
                                 cumulative_usd=round(cumulative, 2),
                                 emissions_kg=round(base_energy.emissions_kg, 1),
                                 peak_kw=round(base_energy.peak_kw, 2),
+                                service_headroom_amps=round(headroom_amps, 1),
                                 energy={k: round(v, 1) for k, v in base_energy.units.items()}))
     return Baseline("do nothing (pay for breakdowns as they come)", tuple(years),
                     round(-expected_breakdowns(ctx, {}), 2))
 
 
-def like_for_like(ctx: Context, base_energy) -> Baseline:
+def like_for_like(ctx: Context, base_energy, headroom_amps: float = 0.0) -> Baseline:
     """Replace each appliance with the same kind on the same fuel in its likely end-of-life year."""
     rate = ctx.plan.budget.discount_rate_pct
     infl = ctx.plan.prices.inflation_pct / 100.0
@@ -266,12 +292,13 @@ def like_for_like(ctx: Context, base_energy) -> Baseline:
                                 cumulative_usd=round(cumulative, 2),
                                 emissions_kg=round(base_energy.emissions_kg, 1),
                                 peak_kw=round(base_energy.peak_kw, 2),
+                                service_headroom_amps=round(headroom_amps, 1),
                                 energy={k: round(v, 1) for k, v in base_energy.units.items()}))
     npv += salvage * discount(rate, len(ctx.years))
     for key, (_pid, item_cost) in replaceable_items(ctx).items():
         until = min(breakdowns_before[key], end) - ctx.first_year
         npv -= sum(breakdown_cost(ctx, key, t, item_cost) * discount(rate, t) for t in range(until))
-    return Baseline("replace like-for-like when it breaks", tuple(years), round(npv, 2))
+    return Baseline("replace like-for-like at the likely end of life", tuple(years), round(npv, 2))
 
 
 def milestones_of(ctx: Context, done: dict[str, int]) -> tuple[Milestone, ...]:

@@ -68,6 +68,11 @@ CASES = [
     ("format not int", "format_version: one\n" + GOOD, 1, 17, "whole number"),
     ("bool not parsable", GOOD.replace("usd_per_year: 8000", "usd_per_year: 8000\n  carryover: perhaps"), 11, 14, "true or false"),
     ("wrong display units", "display: {units: metric}\n" + GOOD, 1, 18, "use one of"),
+    ("installed in the future", GOOD.replace("2008", "2099"), 8, 21, "after the plan's first year"),
+    ("fuel the kind cannot burn", GOOD.replace("kind: furnace", "kind: range\n    fuel: oil"), 8, 11, "does not burn oil"),
+    ("main breaker above service", GOOD.replace("service_amps: 100", "service_amps: 100\n    main_breaker_amps: 200"), 4, 3, "larger than service_amps"),
+    ("infinite budget", GOOD.replace("usd_per_year: 8000", "usd_per_year: .inf"), 10, 17, "finite number"),
+    ("invalid date", "provenance: {date: 2026-02-30}\n" + GOOD, 1, 20, "not a valid date"),
 ]
 
 

@@ -58,6 +58,8 @@ class HomeEnergySpec:
     heats and cools). ``plug_kwh_per_yr`` is every other electric use (lighting, fridge, plug loads
     - the bills' electric baseload minus the modelled end uses). ``gas_service_open`` keeps the gas
     fixed charge until the gas service is closed; gas use with a closed service is an error.
+    ``fuel_accounts_open`` lists other fuels (``propane``, ``heating_oil``) whose fixed charge
+    (tank lease, service contract) continues with zero use until the tank is removed.
     ``cooling_load_multiplier`` scales the sensible degree-hour cooling load for solar and latent
     gains (1.0 = none; calibrate it against summer electric bills).
     """
@@ -82,6 +84,7 @@ class HomeEnergySpec:
     cooling_balance_f: float = 65.0
     cooling_load_multiplier: float = 1.0
     gas_service_open: bool = True
+    fuel_accounts_open: tuple[str, ...] = ()
     label: str = ""
 
     def __post_init__(self) -> None:
@@ -413,6 +416,8 @@ def simulate(spec: HomeEnergySpec, cache: SiteCache | None = None) -> EnergyResu
         monthly[fuel] = monthly.get(fuel, np.zeros(12)) + units * share
     if spec.gas_service_open and "natural_gas" not in monthly:
         monthly["natural_gas"] = np.zeros(12)
+    for fuel in spec.fuel_accounts_open:  # a leased tank is billed until it is removed
+        monthly.setdefault(fuel, np.zeros(12))
     m_imp = np.add.reduceat(grid_import, starts)
     m_exp = np.add.reduceat(grid_export, starts)
 
@@ -422,12 +427,15 @@ def simulate(spec: HomeEnergySpec, cache: SiteCache | None = None) -> EnergyResu
     for fuel, units in monthly.items():
         if fuel == "electricity":
             continue
-        open_ = spec.gas_service_open if fuel == "natural_gas" else bool(units.sum() > 0)
+        open_ = (spec.gas_service_open if fuel == "natural_gas"
+                 else bool(units.sum() > 0) or fuel in spec.fuel_accounts_open)
         bills[fuel] = fuel_bill(spec.fuel_prices.get(fuel), units, open_)
 
     # Emissions: electricity on grid imports.
     annual = {f: float(v.sum()) for f, v in monthly.items()}
-    annual["electricity"] = float(m_imp.sum())
+    # Grid electricity: imports less exports. Exported solar displaces grid generation, so a
+    # battery that only shifts exports to later self-use saves no CO2 (it loses some to losses).
+    annual["electricity"] = float(m_imp.sum() - m_exp.sum())
     co2 = emissions_kg(annual, spec.emission_factors)
 
     return EnergyResult(

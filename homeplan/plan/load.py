@@ -154,7 +154,24 @@ def parse_document(text: str, name: str) -> Any:
         ) from None
     except MarkedYAMLError as exc:
         raise InputError(_mark_problem(name, exc, "YAML error")) from None
+    except ValueError as exc:  # a value YAML reads as a date but that is no date (2027-02-30)
+        line, col = _bad_date_position(text)
+        raise InputError(Problem(name, line, col, f"not a valid date: {exc}", "write YYYY-MM-DD")) from None
     return doc
+
+
+def _bad_date_position(text: str) -> tuple[int, int]:
+    """Line and column of the first YYYY-MM-DD that is not a calendar date (0, 0 if none)."""
+    import datetime as dt
+    import re
+
+    for n, line in enumerate(text.splitlines(), 1):
+        for m in re.finditer(r"\b(\d{4})-(\d{1,2})-(\d{1,2})\b", line):
+            try:
+                dt.date(int(m.group(1)), int(m.group(2)), int(m.group(3)))
+            except ValueError:
+                return n, m.start() + 1
+    return 0, 0
 
 
 # ------------------------------------------------------------------------- positions
@@ -272,6 +289,8 @@ def _describe(err: dict, allowed: list[str]) -> tuple[str, str]:
     field = str(loc[-1]) if loc else "plan"
     value = err.get("input")
     ctx = err.get("ctx") or {}
+    if isinstance(value, bool) and kind in ("int_type", "float_type", "greater_than_equal", "greater_than"):
+        return f"{field} must be a number, not {str(value).lower()}", "write digits, e.g. 100"
     if kind == "extra_forbidden":
         close = difflib.get_close_matches(field, allowed, n=1, cutoff=0.6)
         hint = f"did you mean '{close[0]}'?" if close else f"allowed here: {', '.join(allowed)}"
@@ -291,6 +310,8 @@ def _describe(err: dict, allowed: list[str]) -> tuple[str, str]:
         if field in ("afue", "uef") and isinstance(value, int | float) and value > 5:
             hint = f"write it as a fraction: {value / 100:.2f} for {value} %"
         return f"{field} is {value}, but it must be {words} {bound}", hint
+    if kind == "finite_number":
+        return f"{field} must be a finite number, not {value!r}", "write an ordinary number"
     if kind in ("int_parsing", "float_parsing", "int_type", "float_type", "int_from_float"):
         what = "a whole number" if kind.startswith("int") else "a number"
         return f"{field} must be {what}, not {value!r}", "write digits only, without units or commas"
@@ -375,6 +396,12 @@ def validate_document(doc: Any, name: str) -> tuple[Plan, int | None]:
                 message = f"{message} in {where}"
             problems.append(Problem(name, line, col, message, hint))
         plan = None
+    if plan is not None:
+        from homeplan.plan.checks import rule_problems
+
+        for loc, message, hint in rule_problems(plan):
+            line, col = pos.locate(loc)
+            problems.append(Problem(name, line, col, message, hint))
     if problems:
         problems.sort(key=lambda p: (p.line, p.col))
         raise InputError(problems)

@@ -27,7 +27,7 @@ Money = Annotated[float, Field(ge=0)]
 class Section(BaseModel):
     """Base for every section: unknown keys are errors, values are immutable."""
 
-    model_config = ConfigDict(extra="forbid", frozen=True, populate_by_name=True)
+    model_config = ConfigDict(extra="forbid", frozen=True, populate_by_name=True, allow_inf_nan=False)
 
 
 # ---------------------------------------------------------------- provenance and display
@@ -128,7 +128,12 @@ class Electrical(Section):
 
     @model_validator(mode="after")
     def _panel_consistent(self) -> Electrical:
-        bus = self.busbar_amps or self.service_amps
+        if self.main_breaker_amps is not None and self.main_breaker_amps > self.service_amps:
+            raise ValueError(
+                f"main_breaker_amps {self.main_breaker_amps} is larger than service_amps "
+                f"{self.service_amps}: the service rating is usually the main breaker's size (check both)"
+            )
+        bus = self.busbar_amps or self.main_breaker_amps or self.service_amps
         main = self.main_breaker_amps or self.service_amps
         if bus < main:
             raise ValueError(

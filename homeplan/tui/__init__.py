@@ -1,0 +1,1 @@
+"""The terminal application (the only package that imports Textual)."""

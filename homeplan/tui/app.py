@@ -1,0 +1,1006 @@
+"""The homeplan terminal application: see the plan, change anything, watch it re-plan.
+
+A thin view over the engine: the session (``session.py``) holds the plan file and its edits,
+the planner runs in a thread worker, and each view draws the latest ``PlanResult``. While a
+re-plan runs the previous result stays on screen; when it lands, steps that moved are marked
+with the year they came from.
+"""
+
+from __future__ import annotations
+
+import os
+import time
+from collections.abc import Callable, Iterable
+from functools import partial
+from pathlib import Path
+from typing import TYPE_CHECKING, Any
+
+from rich.text import Text
+from textual import on, work
+from textual.app import App, ComposeResult
+from textual.binding import Binding
+from textual.command import DiscoveryHit, Hit, Hits, Provider
+from textual.theme import Theme
+from textual.widgets import Footer, Static, TabbedContent, TabPane
+from textual.worker import Worker, WorkerState
+
+from homeplan.errors import InputError, PlanRuleError
+from homeplan.plan.model import Plan
+from homeplan.tui import newplan
+from homeplan.tui.format import usd
+from homeplan.tui.screens.forms import ChoiceScreen, FieldSpec, FormScreen, TextScreen
+from homeplan.tui.session import DELETE, PlanSession, check_new_plan
+from homeplan.tui.widgets.base import View, ViewData
+from homeplan.tui.widgets.energy import EnergyView
+from homeplan.tui.widgets.home import HomeView
+from homeplan.tui.widgets.incentives import IncentivesView
+from homeplan.tui.widgets.money import MoneyView
+from homeplan.tui.widgets.overview import OverviewView
+from homeplan.tui.widgets.power import PowerView
+from homeplan.tui.widgets.roadmap import RoadmapView, row_details
+
+if TYPE_CHECKING:
+    from homeplan.result import PlanResult
+    from homeplan.schedule.roadmap import Roadmap
+
+Planner = Callable[[Plan, Path], "PlanResult"]
+
+VIEWS: tuple[tuple[str, str, type[View]], ...] = (
+    ("next", "Next", OverviewView),
+    ("home", "Home", HomeView),
+    ("roadmap", "Roadmap", RoadmapView),
+    ("money", "Money", MoneyView),
+    ("power", "Power", PowerView),
+    ("energy", "Energy", EnergyView),
+    ("incentives", "Incentives", IncentivesView),
+)
+
+OBJECTIVES = (
+    ("Lowest lifetime cost", "npv"),
+    ("Lowest emissions", "emissions"),
+    ("Off gas soonest", "gas_off_early"),
+    ("Least out of pocket", "out_of_pocket"),
+)
+APPLIANCE_KINDS = ("furnace", "boiler", "central_ac", "room_ac", "heat_pump", "mini_split",
+                   "baseboard", "water_heater", "range", "cooktop", "wall_oven", "dryer")
+FUELS = ("gas", "propane", "oil", "electric", "wood")
+CONDITIONS = ("good", "fair", "poor", "failing", "failed")
+BUDGET_STEP_USD = 1000
+
+THEMES = (
+    Theme(name="homeplan-dark", primary="#6CB4A8", secondary="#8FA3BF", accent="#E0A458",
+          warning="#E0A458", error="#E57373", success="#8BBF6A", foreground="#E6E2D8",
+          background="#15181C", surface="#1D2126", panel="#272C33", dark=True),
+    Theme(name="homeplan-light", primary="#2F7D72", secondary="#4F6480", accent="#A8611E",
+          warning="#A8611E", error="#B3261E", success="#3E7D2A", foreground="#23262A",
+          background="#FAF8F3", surface="#F0ECE3", panel="#E4DED1", dark=False),
+)
+
+
+class PlannerUnavailable(RuntimeError):
+    pass
+
+
+class EnginePlanner:
+    """The real planner, imported on first use (in the worker thread, after the first paint).
+
+    One per open plan: its ``PipelineCache`` keeps weather and per-home results between re-plans.
+    """
+
+    def __init__(self) -> None:
+        self._run: Callable[..., PlanResult] | None = None
+        self._cache: Any = None
+
+    def __call__(self, plan: Plan, base_dir: Path) -> PlanResult:
+        if self._run is None:
+            try:
+                from homeplan.pipeline import PipelineCache, plan_roadmap
+            except ImportError as exc:
+                raise PlannerUnavailable(f"homeplan.pipeline could not be imported ({exc})") from None
+            self._run, self._cache = plan_roadmap, PipelineCache()
+        return self._run(plan, base_dir=base_dir, cache=self._cache)
+
+
+def moved_steps(old: Roadmap | None, new: Roadmap) -> dict[str, int | None]:
+    """Project id -> year it had before (None: it was not in the plan) for steps that changed."""
+    if old is None or old.status != "ok":
+        return {}
+    before = {s.project_id: s.year for s in old.steps}
+    after = {s.project_id: s.year for s in new.steps}
+    out: dict[str, int | None] = {pid: before.get(pid) for pid, y in after.items()
+                                  if before.get(pid) != y}
+    out.update({pid: y for pid, y in before.items() if pid not in after})
+    return out
+
+
+def problem_words(err: InputError) -> str:
+    """InputError problems without file positions (for edits made in the app)."""
+    parts = []
+    for p in err.problems:
+        parts.append(p.message + (f" ({p.hint})" if p.hint else ""))
+    return "; ".join(parts)
+
+
+class PlanCommands(Provider):
+    """Every action of the app in the command palette."""
+
+    def _commands(self) -> list[tuple[str, str, Callable[[], Any]]]:
+        app = self.app
+        assert isinstance(app, HomeplanApp)
+        out = [(f"Show {label}", f"Open the {label.lower()} view", partial(app.action_show, vid))
+               for vid, label, _ in VIEWS]
+        out += [
+            ("Change budget", "Set what you can spend each year", app.action_edit_budget),
+            ("Raise budget by $1,000", "Add $1,000 a year", partial(app.action_budget_step, 1)),
+            ("Lower budget by $1,000", "Take $1,000 a year off", partial(app.action_budget_step, -1)),
+            ("Plan settings", "First year, horizon, objective, risk level", app.action_settings),
+            ("Edit prices", "Energy prices and household income", app.action_prices),
+            ("Household and incentive programs", "Income, taxes, program files",
+             app.action_edit_incentives),
+            ("Pin step to a year", "Roadmap: keep the selected project in a year", app.action_pin),
+            ("Leave step out", "Roadmap: exclude the selected project", app.action_exclude),
+            ("Release step", "Roadmap: undo a pin or exclusion", app.action_release),
+            ("Step details", "Roadmap: cost, incentives and reasons", app.action_step_details),
+            ("Edit appliance or vehicle", "Home: change the selected item", app.action_edit_item),
+            ("Add appliance or vehicle", "Home: add an item", app.action_add_item),
+            ("Remove appliance or vehicle", "Home: remove the selected item", app.action_remove_item),
+            ("What if it fails now", "Home: mark the selected appliance failed this year",
+             app.action_fail_now),
+            ("Undo", "Undo the last change", app.action_undo),
+            ("Redo", "Redo the change just undone", app.action_redo),
+            ("Save", "Save the plan file (a .bak copy is kept)", app.action_save),
+            ("Save as", "Save the plan under another name", app.action_save_as),
+            ("New plan", "Start a plan from a guided form", app.action_new_plan),
+            ("Where do these numbers come from", "Sources of the numbers on this view",
+             app.action_where_from),
+            ("Switch light/dark", "Toggle the light and dark colours", app.action_toggle_theme),
+            ("Keys", "List every key", app.action_help),
+        ]
+        return out
+
+    async def discover(self) -> Hits:
+        for title, help_text, callback in self._commands():
+            yield DiscoveryHit(title, callback, help=help_text)
+
+    async def search(self, query: str) -> Hits:
+        matcher = self.matcher(query)
+        for title, help_text, callback in self._commands():
+            score = matcher.match(title)
+            if score > 0:
+                yield Hit(score, matcher.highlight(title), callback, help=help_text)
+
+
+class HomeplanApp(App[int]):
+    """Explore, edit and re-plan one home."""
+
+    CSS_PATH = Path(__file__).with_name("app.tcss")
+    TITLE = "homeplan"
+    COMMANDS = App.COMMANDS | {PlanCommands}
+    ENABLE_COMMAND_PALETTE = True
+
+    BINDINGS = [
+        *(Binding(str(i + 1), f"show('{vid}')", label, show=False)
+          for i, (vid, label, _) in enumerate(VIEWS)),
+        Binding("b", "edit_budget", "Budget"),
+        Binding("plus,equals_sign", "budget_step(1)", "+$1k", show=False),
+        Binding("minus", "budget_step(-1)", "-$1k", show=False),
+        Binding("s", "settings", "Settings", show=False),
+        Binding("dollar_sign", "prices", "Prices", show=False),
+        Binding("ctrl+z,u", "undo", "Undo"),
+        Binding("ctrl+y", "redo", "Redo", show=False),
+        Binding("ctrl+s", "save", "Save"),
+        Binding("S", "save_as", "Save as", show=False),
+        Binding("n", "new_plan", "New plan", show=False),
+        Binding("w", "where_from", "Sources"),
+        Binding("t", "toggle_theme", "Light/dark", show=False),
+        Binding("question_mark", "help", "Keys"),
+        Binding("escape", "show('next')", "Back", show=False),
+        Binding("ctrl+q", "quit", "Quit"),
+    ]
+
+    def __init__(self, session: PlanSession | None = None, planner: Planner | None = None,
+                 new_path: str | os.PathLike | None = None, light: bool | None = None):
+        super().__init__()
+        self.session = session
+        self._planner_given = planner
+        self.planner: Planner | None = None
+        self.new_path = Path(new_path) if new_path is not None else None
+        self.result: PlanResult | None = None
+        self.moved: dict[str, int | None] = {}
+        self.planning = False
+        self.plan_error: str | None = None
+        self.unavailable: str | None = None
+        self.generation = 0
+        self.shown_generation = 0
+        self.painted: tuple[int, float] = (0, 0.0)
+        self._plan_busy = False   # a planner worker is busy
+        self._plan_pending = False   # edits arrived while it was busy
+        self._stale: set[str] = set()
+        self.animation_level = "none"  # calm: nothing slides or fades
+        for theme in THEMES:
+            self.register_theme(theme)
+        if light is None:
+            light = os.environ.get("HOMEPLAN_THEME", "").lower() == "light"
+        self.theme = "homeplan-light" if light else "homeplan-dark"
+
+    # ---------------------------------------------------------------------- layout
+
+    def compose(self) -> ComposeResult:
+        yield Static("", id="status")
+        with TabbedContent(initial="next", id="views"):
+            for i, (vid, label, cls) in enumerate(VIEWS):
+                with TabPane(f"{i + 1} {label}", id=vid):
+                    if vid == "next":  # the others are built when first opened
+                        yield cls(id=f"view-{vid}")
+        yield Footer(compact=True)
+
+    def on_mount(self) -> None:
+        if self.session is not None:
+            self._open_session(self.session)
+        else:
+            self._update_status()
+            self.call_after_refresh(self.action_new_plan, True)
+
+    def _open_session(self, session: PlanSession) -> None:
+        self.session = session
+        self.planner = self._planner_given or EnginePlanner()
+        self.result, self.moved, self.plan_error, self.unavailable = None, {}, None, None
+        self._plan_pending = False
+        if session.migrated_from:
+            self.notify(f"This file used plan format {session.migrated_from}; saving writes the "
+                        "current format.", title="Migrated")
+        self.refresh_views()
+        self.view("next").focus_main()
+        self.start_plan()
+
+    # ---------------------------------------------------------------------- views
+
+    def view(self, vid: str) -> View:
+        return self.query_one(f"#view-{vid}", View)
+
+    @property
+    def active_view_id(self) -> str:
+        return self.query_one("#views", TabbedContent).active or "next"
+
+    def view_data(self) -> ViewData:
+        assert self.session is not None
+        return ViewData(plan=self.session.plan, result=self.result, path=self.session.path,
+                        moved=self.moved, planning=self.planning, error=self.plan_error,
+                        unavailable=self.unavailable)
+
+    def maybe_view(self, vid: str) -> View | None:
+        """The view if it has been opened (views are built the first time they are shown)."""
+        found = self.query(f"#view-{vid}")
+        return found.first(View) if found else None
+
+    def refresh_views(self, now: bool = True) -> None:
+        """Mark every view out of date; redraw the open one now (the others when opened)."""
+        self._update_status()
+        if self.session is None:
+            return
+        self._stale = {vid for vid, _, _ in VIEWS}
+        if now:
+            self._refresh_view(self.active_view_id)
+
+    def _refresh_view(self, vid: str) -> None:
+        view = self.maybe_view(vid)
+        if self.session is None or vid not in self._stale or view is None:
+            return
+        self._stale.discard(vid)
+        view.show(self.view_data())
+
+    @on(TabbedContent.TabActivated)
+    async def _tab_activated(self, event: TabbedContent.TabActivated) -> None:
+        vid = event.pane.id or "next"
+        view = self.maybe_view(vid)
+        if view is None:
+            cls = next(c for v, _, c in VIEWS if v == vid)
+            view = cls(id=f"view-{vid}")
+            await event.pane.mount(view)
+        if self.active_view_id != vid:
+            return  # the user has already moved on (focusing would switch back to this view)
+        self._refresh_view(vid)
+        view.focus_main()
+
+    def on_resize(self) -> None:
+        if self.session is not None:
+            self._stale = {vid for vid, _, _ in VIEWS}
+            self.call_after_refresh(self._refresh_view, self.active_view_id)
+
+    def _update_status(self) -> None:
+        status = self.query_one("#status", Static)
+        if self.session is None:
+            status.update(Text(" homeplan - no plan open", style="bold"))
+            return
+        s = self.session
+        plan = s.plan
+        text = Text(" ")
+        text.append(s.name, style="bold")
+        text.append("  ")
+        if self.planning:
+            text.append("planning…", style="italic")
+        elif self.unavailable:
+            text.append("no planner", style="bold")
+        elif self.plan_error:
+            text.append("plan not updated", style="bold reverse")
+        elif self.result is not None and self.result.roadmap.status != "ok":
+            text.append("no roadmap fits", style="bold reverse")
+        elif self.result is not None:
+            text.append("plan up to date")
+        if s.dirty:
+            text.append("  ● unsaved", style="bold")
+        objective = dict((v, k) for k, v in OBJECTIVES).get(plan.choices.objective, "")
+        text.append(f"  │ {usd(plan.budget.usd_per_year)}/yr from {plan.first_year}, "
+                    f"{plan.budget.horizon_years} yrs, {objective.lower()}")
+        text.append(f"  │ {s.path.name}")
+        status.update(text)
+
+    # ---------------------------------------------------------------------- planning
+
+    def start_plan(self) -> None:
+        """Re-plan the current plan. One planner runs at a time: edits made meanwhile are
+        planned together as soon as it finishes (typing fast never piles up threads)."""
+        if self.session is None or self.planner is None:
+            return
+        self.generation += 1
+        self.planning = True
+        self._update_status()
+        if self._plan_busy:
+            self._plan_pending = True
+            return
+        self._plan_busy = True
+        self.run_planner(self.planner, self.session.plan, self.session.base_dir, self.generation)
+
+    def _planner_done(self) -> None:
+        self._plan_busy = False
+        if self._plan_pending and self.session is not None and self.planner is not None:
+            self._plan_pending = False
+            self._plan_busy = True
+            self.run_planner(self.planner, self.session.plan, self.session.base_dir,
+                             self.generation)
+
+    @work(thread=True, exclusive=True, group="plan", exit_on_error=False)
+    def run_planner(self, planner: Planner, plan: Plan, base_dir: Path,
+                    generation: int) -> tuple[int, PlanResult]:
+        return generation, planner(plan, base_dir)
+
+    def on_worker_state_changed(self, event: Worker.StateChanged) -> None:
+        worker = event.worker
+        if worker.group != "plan":
+            return
+        if event.state in (WorkerState.SUCCESS, WorkerState.ERROR, WorkerState.CANCELLED):
+            self._planner_done()
+        if event.state == WorkerState.SUCCESS:
+            generation, result = worker.result
+            if generation != self.generation:
+                return  # an older edit's result: a newer plan is on its way
+            old = self.result.roadmap if self.result is not None else None
+            self.moved = moved_steps(old, result.roadmap) if result.roadmap.status == "ok" else {}
+            self.result = result
+            self.planning = False
+            self.plan_error = None
+            self.shown_generation = generation
+            self.refresh_views()
+            self.call_after_refresh(self._painted, generation)
+        elif event.state == WorkerState.ERROR:
+            err = worker.error
+            if self._plan_busy:
+                return  # a newer plan is already on its way
+            self.planning = False
+            if isinstance(err, PlannerUnavailable):
+                self.unavailable = str(err)
+            elif isinstance(err, InputError):
+                self.plan_error = "The plan was not updated: " + problem_words(err)
+            elif isinstance(err, PlanRuleError):
+                self.plan_error = f"The plan was not updated: {err.message}" + (
+                    f" ({err.hint})" if err.hint else "") + ". Undo with ctrl+z."
+            else:
+                self.plan_error = (f"The planner stopped ({type(err).__name__}: {err}). "
+                                   "The last good plan is shown; undo with ctrl+z.")
+            self.shown_generation = self.generation
+            self.refresh_views()
+        elif event.state == WorkerState.CANCELLED:
+            pass
+
+    def _painted(self, generation: int) -> None:
+        """Called once the screen showing a new result has been drawn (for the benchmark)."""
+        self.painted = (generation, time.perf_counter())
+
+    # ---------------------------------------------------------------------- edits
+
+    def try_edit(self, changes: list[tuple[tuple, Any]], what: str) -> str | None:
+        """Apply an edit; on success re-plan and return None, else return the problem."""
+        if self.session is None:
+            return "No plan is open."
+        try:
+            self.session.edit(changes, what)
+        except InputError as err:
+            return problem_words(err)
+        self._after_change()
+        return None
+
+    def _after_change(self) -> None:
+        """Start re-planning at once; redraw now only what shows the plan itself (Home)."""
+        self.plan_error = None
+        self.start_plan()
+        self.refresh_views(now=self.active_view_id == "home")
+
+    def edit(self, changes: list[tuple[tuple, Any]], what: str) -> bool:
+        problem = self.try_edit(changes, what)
+        if problem:
+            self.notify(problem, title="Not changed", severity="error", timeout=8)
+            return False
+        return True
+
+    def _form(self, title: str, fields: list[FieldSpec], what: str,
+              to_changes: Callable[[dict], list[tuple[tuple, Any]]] | None = None,
+              note: str = "") -> None:
+        """A form whose values are document paths; applied (and checked) on Enter."""
+
+        def check(values: dict) -> str | None:
+            changes = to_changes(values) if to_changes else [
+                (loc, DELETE if v is None else v) for loc, v in values.items()]
+            problem = self.try_edit(changes, what)
+            if problem:  # name the fields as the form does, not as the file does
+                for spec in fields:
+                    if isinstance(spec.key, tuple) and isinstance(spec.key[-1], str):
+                        problem = problem.replace(f"{spec.key[-1]} is ", f"'{spec.label}' is ")
+            return problem
+
+        self.push_screen(FormScreen(title, fields, check, note=note))
+
+    # budget and settings ------------------------------------------------
+
+    def action_edit_budget(self) -> None:
+        if self.session is None:
+            return
+        self._form("Yearly budget", [
+            FieldSpec(("budget", "usd_per_year"), "Budget per year", "float",
+                      self.session.plan.budget.usd_per_year, unit="USD",
+                      help="What the household can spend on projects each year."),
+        ], "change the budget")
+
+    def action_budget_step(self, sign: int) -> None:
+        if self.session is None:
+            return
+        value = max(0.0, self.session.plan.budget.usd_per_year + sign * BUDGET_STEP_USD)
+        value = int(value) if value == int(value) else value
+        self.edit([(("budget", "usd_per_year"), value)], f"budget {usd(value)}")
+
+    def action_settings(self) -> None:
+        if self.session is None:
+            return
+        plan = self.session.plan
+        b, c = plan.budget, plan.choices
+        self._form("Plan settings", [
+            FieldSpec(("budget", "usd_per_year"), "Budget per year", "float", b.usd_per_year,
+                      unit="USD"),
+            FieldSpec(("budget", "first_year"), "First year", "int", b.first_year, optional=True,
+                      help="Blank: next calendar year."),
+            FieldSpec(("budget", "horizon_years"), "Years to plan", "int", b.horizon_years),
+            FieldSpec(("choices", "objective"), "Aim for", "choice", c.objective,
+                      choices=OBJECTIVES),
+            FieldSpec(("budget", "carryover"), "Unspent money carries over", "bool", b.carryover),
+            FieldSpec(("choices", "replace_at_risk_pct"), "Replace at failure risk", "float",
+                      c.replace_at_risk_pct, unit="%"),
+            FieldSpec(("choices", "all_electric_by"), "Fully electric by", "int",
+                      c.all_electric_by, optional=True, help="Blank: no deadline."),
+        ], "change plan settings")
+
+    def action_prices(self) -> None:
+        if self.session is None:
+            return
+        p = self.session.plan.prices
+        hh = self.session.plan.household
+        el = ("prices", "electricity")
+        self._form("Prices and household", [
+            FieldSpec((*el, "usd_per_kwh"), "Electricity", "float", p.electricity.usd_per_kwh,
+                      unit="$/kWh"),
+            FieldSpec((*el, "fixed_usd_per_month"), "Electric fixed charge", "float",
+                      p.electricity.fixed_usd_per_month, unit="$/month"),
+            FieldSpec((*el, "export"), "Solar export", "choice", p.electricity.export,
+                      choices=(("Net metering", "net_metering"), ("Net billing", "net_billing"),
+                               ("No export credit", "none"))),
+            FieldSpec(("prices", "gas", "usd_per_therm"), "Natural gas", "float",
+                      p.gas.usd_per_therm, unit="$/therm"),
+            FieldSpec(("prices", "gas", "fixed_usd_per_month"), "Gas fixed charge", "float",
+                      p.gas.fixed_usd_per_month, unit="$/month"),
+            FieldSpec(("prices", "propane", "usd_per_gal"), "Propane", "float",
+                      p.propane.usd_per_gal, unit="$/gal"),
+            FieldSpec(("prices", "oil", "usd_per_gal"), "Heating oil", "float", p.oil.usd_per_gal,
+                      unit="$/gal"),
+            FieldSpec(("prices", "gasoline", "usd_per_gal"), "Gasoline", "float",
+                      p.gasoline.usd_per_gal, unit="$/gal"),
+            FieldSpec(("prices", "inflation_pct"), "Inflation", "float", p.inflation_pct,
+                      unit="%/yr"),
+            FieldSpec(("prices", "fossil_extra_escalation_pct"), "Fuel prices rise extra",
+                      "float", p.fossil_extra_escalation_pct, unit="%/yr"),
+            FieldSpec(("household", "ami_pct"), "Income, % of area median", "float", hh.ami_pct,
+                      optional=True, help="Some incentives depend on it (AMI)."),
+            FieldSpec(("household", "federal_tax_liability_usd"), "Federal tax per year", "float",
+                      hh.federal_tax_liability_usd, optional=True, unit="USD",
+                      help="Caps how much of a tax credit you can use."),
+        ], "change prices")
+
+    def action_edit_incentives(self) -> None:
+        if self.session is None:
+            return
+        plan = self.session.plan
+        hh = plan.household
+
+        def to_changes(values: dict) -> list:
+            files = [f.strip() for f in (values.pop("files") or "").split(",") if f.strip()]
+            changes = [(loc, DELETE if v is None else v) for loc, v in values.items()]
+            changes.append((("incentive_files",), _flow_list(files) if files else DELETE))
+            return changes
+
+        self._form("Household and incentive programs", [
+            FieldSpec(("household", "ami_pct"), "Income, % of area median", "float", hh.ami_pct,
+                      optional=True, help="Many programs pay more below 80 % or 150 % of AMI."),
+            FieldSpec(("household", "federal_tax_liability_usd"), "Federal tax per year", "float",
+                      hh.federal_tax_liability_usd, optional=True, unit="USD",
+                      help="A tax credit cannot exceed the tax you owe."),
+            FieldSpec(("household", "state_tax_liability_usd"), "State tax per year", "float",
+                      hh.state_tax_liability_usd, optional=True, unit="USD"),
+            FieldSpec("files", "Program files", "text", ", ".join(plan.incentive_files),
+                      optional=True, help="Incentive catalogs, relative to the plan file, "
+                      "separated by commas. Blank: none."),
+        ], "change household and programs", to_changes,
+            note=f"{len(plan.incentives)} program(s) are written in the plan file itself; edit "
+            "those in the file.")
+
+    # roadmap steps --------------------------------------------------------
+
+    def _roadmap_row(self):
+        if self.session is None:
+            return None
+        rv = self.maybe_view("roadmap")
+        row = rv.current_row() if isinstance(rv, RoadmapView) and hasattr(rv, "rows") else None
+        if row is None:
+            self.notify("Choose a project on the Roadmap view first (key 3).", timeout=4)
+        return row
+
+    def _pin_changes(self, pid: str, year: int | None) -> list[tuple[tuple, Any]]:
+        excl = [x for x in self.session.plan.choices.exclude if x != pid]
+        changes: list[tuple[tuple, Any]] = [(("choices", "exclude"), excl)]
+        changes.append((("choices", "pins", pid), DELETE if year is None else year))
+        return changes
+
+    def action_pin(self) -> None:
+        row = self._roadmap_row()
+        if row is None:
+            return
+        rv = self.maybe_view("roadmap")
+        assert isinstance(rv, RoadmapView)
+        year = rv.current_year() if self.active_view_id == "roadmap" else None
+        if year is not None:
+            self.edit(self._pin_changes(row.id, year), f"pin {row.label} to {year}")
+            return
+        default = row.pinned or (row.step.year if row.step else self.session.plan.first_year)
+        self._form(f"Pin {row.label} to a year", [
+            FieldSpec("year", "Year", "int", default),
+        ], f"pin {row.label}", lambda v: self._pin_changes(row.id, v["year"]),
+            note="The planner will keep this project in that year.")
+
+    def action_exclude(self) -> None:
+        row = self._roadmap_row()
+        if row is None:
+            return
+        excl = [x for x in self.session.plan.choices.exclude if x != row.id] + [row.id]
+        self.edit([(("choices", "exclude"), excl), (("choices", "pins", row.id), DELETE)],
+                  f"leave out {row.label}")
+
+    def action_release(self) -> None:
+        row = self._roadmap_row()
+        if row is None:
+            return
+        if row.pinned is None and not row.excluded:
+            self.notify(f"{row.label} is neither pinned nor left out.", timeout=4)
+            return
+        self.edit(self._pin_changes(row.id, None), f"release {row.label}")
+
+    def action_toggle_all_steps(self) -> None:
+        rv = self.maybe_view("roadmap")
+        if isinstance(rv, RoadmapView):
+            rv.toggle_all()
+
+    def action_step_details(self) -> None:
+        row = self._roadmap_row()
+        if row is None or self.session is None:
+            return
+        self.push_screen(TextScreen(row.label, row_details(self.view_data(), row)))
+
+    # home items -----------------------------------------------------------
+
+    def _home_item(self):
+        if self.session is None:
+            return None
+        hv = self.maybe_view("home")
+        item = hv.current_item() if isinstance(hv, HomeView) and hasattr(hv, "items") else None
+        if item is None:
+            self.notify("Choose an item on the Home view first (key 2).", timeout=4)
+        return item
+
+    def action_edit_item(self) -> None:
+        item = self._home_item()
+        if item is None:
+            return
+        plan = self.session.plan
+        if item.group == "appliance":
+            a = plan.appliances[item.index]
+            base = ("appliances", item.index)
+            fields = [
+                FieldSpec((*base, "year_installed"), "Year installed", "int", a.year_installed,
+                          optional=True, help="Blank: unknown (assumed mid-life)."),
+                FieldSpec((*base, "fuel"), "Fuel", "choice", a.fuel or "",
+                          choices=(("(default for the kind)", ""), *((f, f) for f in FUELS))),
+                FieldSpec((*base, "condition"), "Condition", "choice", a.condition,
+                          choices=tuple((c, c) for c in CONDITIONS)),
+            ]
+            if a.kind in ("furnace", "boiler"):
+                fields.append(FieldSpec((*base, "afue"), "AFUE", "float", a.afue, optional=True,
+                                        help="0.3 to 1.0, e.g. 0.80"))
+            if a.kind in ("central_ac", "room_ac", "heat_pump", "mini_split"):
+                fields.append(FieldSpec((*base, "seer2"), "SEER2", "float", a.seer2, optional=True))
+            if a.kind in ("heat_pump", "mini_split"):
+                fields.append(FieldSpec((*base, "hspf2"), "HSPF2", "float", a.hspf2, optional=True))
+            if a.kind in ("furnace", "boiler", "central_ac", "heat_pump", "mini_split"):
+                fields.append(FieldSpec((*base, "capacity_btuh"), "Size", "float", a.capacity_btuh,
+                                        optional=True, unit="Btu/h"))
+            if a.kind == "water_heater":
+                fields.append(FieldSpec((*base, "uef"), "UEF", "float", a.uef, optional=True))
+                fields.append(FieldSpec((*base, "tank_gal"), "Tank", "float", a.tank_gal,
+                                        optional=True, unit="gal"))
+            fields.append(FieldSpec((*base, "problems"), "Known problems", "text", a.problems,
+                                    optional=True))
+
+            def to_changes(values: dict) -> list:
+                return [(loc, DELETE if v in (None, "") else v) for loc, v in values.items()]
+
+            self._form(f"Edit {item.key} ({a.kind.replace('_', ' ')})", fields,
+                       f"edit {item.key}", to_changes)
+        elif item.group == "vehicle":
+            v = plan.vehicles[item.index]
+            base = ("vehicles", item.index)
+            self._form(f"Edit {item.key}", [
+                FieldSpec((*base, "name"), "Name", "text", v.name, optional=True),
+                FieldSpec((*base, "fuel"), "Fuel", "choice", v.fuel, choices=tuple(
+                    (f.replace("_", " "), f) for f in
+                    ("gasoline", "diesel", "hybrid", "plug_in_hybrid", "electric"))),
+                FieldSpec((*base, "mpg"), "Miles per gallon", "float", v.mpg, optional=True),
+                FieldSpec((*base, "miles_per_year"), "Miles per year", "float", v.miles_per_year),
+                FieldSpec((*base, "model_year"), "Model year", "int", v.model_year, optional=True),
+                FieldSpec((*base, "replace_year"), "You plan to replace it in", "int",
+                          v.replace_year, optional=True),
+            ], f"edit {item.key}")
+        else:
+            r = plan.home.roof
+            base = ("home", "roof")
+            self._form("Edit roof", [
+                FieldSpec((*base, "year_installed"), "Year installed", "int",
+                          r.year_installed if r else None, optional=True),
+                FieldSpec((*base, "usable_area_ft2"), "Area usable for panels", "float",
+                          r.usable_area_ft2 if r else None, optional=True, unit="ft2"),
+            ], "edit roof")
+
+    def action_add_item(self) -> None:
+        if self.session is None:
+            return
+        plan = self.session.plan
+        kinds = tuple((k.replace("_", " "), k) for k in APPLIANCE_KINDS) + (("car or truck", "vehicle"),)
+
+        def to_changes(values: dict) -> list:
+            what, key, year = values["what"], values["id"], values["year"]
+            if what == "vehicle":
+                item: dict[str, Any] = {"fuel": values["vfuel"], "miles_per_year": 11000}
+                if key:
+                    item["id"] = key
+                if year:
+                    item["model_year"] = year
+                return [(("vehicles", len(plan.vehicles)), _mapping(item))]
+            item = {"kind": what}
+            if key:
+                item["id"] = key
+            if values["fuel"]:
+                item["fuel"] = values["fuel"]
+            if year:
+                item["year_installed"] = year
+            return [(("appliances", len(plan.appliances)), _mapping(item))]
+
+        def check(values: dict) -> str | None:
+            changes = _append_changes(self.session, to_changes(values))
+            return self.try_edit(changes, f"add {values['what'].replace('_', ' ')}")
+
+        self.push_screen(FormScreen("Add to the home", [
+            FieldSpec("what", "What", "choice", "water_heater", choices=kinds),
+            FieldSpec("id", "Short name", "text", None, optional=True,
+                      help="Lower case, e.g. basement_heater; needed when the kind is already there."),
+            FieldSpec("fuel", "Fuel (appliance)", "choice", "",
+                      choices=(("(default for the kind)", ""), *((f, f) for f in FUELS))),
+            FieldSpec("vfuel", "Fuel (vehicle)", "choice", "gasoline", choices=tuple(
+                (f.replace("_", " "), f) for f in
+                ("gasoline", "diesel", "hybrid", "plug_in_hybrid", "electric"))),
+            FieldSpec("year", "Year installed or model year", "int", None, optional=True),
+        ], check, note="Details can be edited afterwards with e."))
+
+    def action_remove_item(self) -> None:
+        item = self._home_item()
+        if item is None or item.group == "roof":
+            if item is not None:
+                self.notify("The roof stays; edit it instead (e).", timeout=4)
+            return
+
+        def answer(choice: str | None) -> None:
+            if choice != "y":
+                return
+            plan = self.session.plan
+            changes: list[tuple[tuple, Any]] = [((f"{item.group}s", item.index), DELETE)]
+            if item.key in plan.choices.failed_now:
+                changes.append((("choices", "failed_now"),
+                                [k for k in plan.choices.failed_now if k != item.key]))
+            self.edit(changes, f"remove {item.key}")
+
+        self.push_screen(ChoiceScreen("Remove from the home",
+                                      f"Remove {item.key} ({item.label})? ctrl+z undoes it.",
+                                      [("y", "Remove"), ("escape", "Keep")]), answer)
+
+    def action_fail_now(self) -> None:
+        item = self._home_item()
+        if item is None:
+            return
+        if item.group != "appliance":
+            self.notify("Only appliances can be marked as failed now.", timeout=4)
+            return
+        failed = list(self.session.plan.choices.failed_now)
+        if item.key in failed:
+            failed.remove(item.key)
+            what = f"{item.key} works again"
+        else:
+            failed.append(item.key)
+            what = f"what if {item.key} fails now"
+        if self.edit([(("choices", "failed_now"), failed)], what):
+            self.notify(f"{what[0].upper()}{what[1:]}: re-planning.", timeout=3)
+
+    # history and files ----------------------------------------------------
+
+    def action_undo(self) -> None:
+        if self.session is None:
+            return
+        what = self.session.undo()
+        if what is None:
+            self.notify("Nothing to undo.", timeout=3)
+            return
+        self.notify(f"Undone: {what}", timeout=3)
+        self._after_change()
+
+    def action_redo(self) -> None:
+        if self.session is None:
+            return
+        what = self.session.redo()
+        if what is None:
+            self.notify("Nothing to redo.", timeout=3)
+            return
+        self.notify(f"Redone: {what}", timeout=3)
+        self._after_change()
+
+    def save(self, path: Path | None = None) -> str | None:
+        try:
+            target = self.session.save(path)
+        except InputError as err:
+            return problem_words(err)
+        except OSError as err:
+            return f"could not save: {err.strerror or err}"
+        self._update_status()
+        self.notify(f"Saved {target} (previous version kept as {target.name}.bak)", timeout=4)
+        return None
+
+    def action_save(self) -> None:
+        if self.session is None:
+            return
+        problem = self.save()
+        if problem:
+            self.notify(problem, title="Not saved", severity="error", timeout=8)
+
+    def action_save_as(self) -> None:
+        if self.session is None:
+            return
+
+        def check(values: dict) -> str | None:
+            path = Path(values["path"]).expanduser()
+            if path.is_dir():
+                return f"{path} is a folder; give a file name"
+            return self.save(path)
+
+        self.push_screen(FormScreen("Save as", [
+            FieldSpec("path", "File", "text", str(self.session.path)),
+        ], check, apply_label="Save"))
+
+    def action_quit(self) -> None:
+        if self.session is None or not self.session.dirty:
+            self.exit(0)
+            return
+
+        def answer(choice: str | None) -> None:
+            if choice == "s":
+                problem = self.save()
+                if problem:
+                    self.notify(problem, title="Not saved", severity="error", timeout=8)
+                    return
+                self.exit(0)
+            elif choice == "d":
+                self.exit(0)
+
+        self.push_screen(ChoiceScreen("Unsaved changes",
+                                      f"{self.session.path.name} has changes that are not saved.",
+                                      [("s", "Save and quit"), ("d", "Quit without saving"),
+                                       ("escape", "Stay")]), answer)
+
+    async def action_new_plan(self, at_start: bool = False) -> None:
+        if not at_start and self.session is not None and self.session.dirty:
+            self.notify("Save (ctrl+s) or undo your changes before starting a new plan.",
+                        title="Unsaved changes", severity="warning", timeout=6)
+            return
+        default_path = self.new_path or Path("my_home.yaml")
+
+        def check(values: dict) -> str | None:
+            path = Path(values["path"]).expanduser()
+            if path.exists():
+                return f"{path} already exists; choose another file name"
+            if not path.parent.is_dir() and str(path.parent):
+                return f"the folder {path.parent} does not exist"
+            text = newplan.new_plan_text(values)
+            err = check_new_plan(text, str(path))
+            if err is not None:
+                return problem_words(err)
+            from homeplan.plan.save import write_atomic
+
+            try:
+                write_atomic(path, text, backup=False)
+            except (OSError, InputError) as exc:
+                return f"could not write {path}: {exc}"
+            return None
+
+        def done(values: dict | None) -> None:
+            if values is None:
+                if self.session is None:
+                    self.exit(0)
+                return
+            self._open_session(PlanSession.open(Path(values["path"]).expanduser()))
+            self.notify(f"Plan written to {values['path']}.", timeout=4)
+
+        fields = new_plan_fields(default_path, self.session.plan.first_year if self.session else None)
+        self.push_screen(FormScreen("A new plan", fields, check, apply_label="Create",
+                                    note="Answer what you know; the rest uses typical values. "
+                                    "You can change everything later."), done)
+
+    # misc --------------------------------------------------------------------
+
+    def action_show(self, vid: str) -> None:
+        # Let go of the focus first: a widget focused in the pane being hidden would otherwise
+        # tell the tabs to switch back to its own view.
+        self.screen.set_focus(None)
+        self.query_one("#views", TabbedContent).active = vid
+
+    def action_where_from(self) -> None:
+        if self.session is None:
+            return
+        vid = self.active_view_id
+        self._refresh_view(vid)
+        view = self.maybe_view(vid)
+        if view is not None:
+            self.push_screen(TextScreen("Where these numbers come from",
+                                        view.where_from(self.view_data())))
+
+    def action_toggle_theme(self) -> None:
+        self.theme = "homeplan-light" if self.theme == "homeplan-dark" else "homeplan-dark"
+
+    def action_help(self) -> None:
+        self.push_screen(TextScreen("Keys", help_text()))
+
+
+def _mapping(items: dict) -> Any:
+    from ruamel.yaml.comments import CommentedMap
+
+    m = CommentedMap()
+    for k, v in items.items():
+        m[k] = v
+    m.fa.set_flow_style()
+    return m
+
+
+def _flow_list(items: list) -> Any:
+    seq = _list(items)
+    seq.fa.set_flow_style()
+    return seq
+
+
+def _list(items: list) -> Any:
+    from ruamel.yaml.comments import CommentedSeq
+
+    return CommentedSeq(items)
+
+
+def _append_changes(session: PlanSession, changes: list[tuple[tuple, Any]]) -> list:
+    """Turn 'set list[len]' into an append (set_in indexes lists, it cannot grow them)."""
+    out = []
+    for loc, value in changes:
+        if len(loc) == 2 and isinstance(loc[1], int):
+            current = session.get((loc[0],))
+            items = _list(list(current) if current is not None else [])
+            items.append(value)
+            out.append(((loc[0],), items))
+        else:
+            out.append((loc, value))
+    return out
+
+
+def new_plan_fields(path: Path, first_year: int | None) -> list[FieldSpec]:
+    heating = tuple((label, key) for key, (_, _, label) in newplan.HEATING.items())
+    fuels = tuple((label, key) for key, label in newplan.FUEL_CHOICES.items() if key != "oil")
+    return [
+        FieldSpec("path", "Save as file", "text", str(path)),
+        FieldSpec("name", "Name of the home", "text", None, optional=True),
+        FieldSpec("place", "Town", "text", None, optional=True),
+        FieldSpec("latitude", "Latitude", "float", None,
+                  help="Decimal degrees (a map app shows them), e.g. 44.95"),
+        FieldSpec("longitude", "Longitude", "float", None, help="Decimal degrees, west negative"),
+        FieldSpec("floor_area_ft2", "Heated floor area", "float", None, unit="ft2"),
+        FieldSpec("year_built", "Year built", "int", None, optional=True),
+        FieldSpec("occupants", "People living there", "int", 3),
+        FieldSpec("service_amps", "Electrical service", "choice", 100,
+                  choices=tuple((f"{a} A", a) for a in newplan.SERVICE_AMPS),
+                  help="The number on the main breaker."),
+        FieldSpec("heating", "Heating", "choice", "gas_furnace", choices=heating),
+        FieldSpec("heating_year", "Heating installed in", "int", None, optional=True),
+        FieldSpec("central_ac", "Central air conditioning", "bool", False),
+        FieldSpec("water_heater_fuel", "Water heater", "choice", "gas", choices=fuels),
+        FieldSpec("water_heater_year", "Water heater installed in", "int", None, optional=True),
+        FieldSpec("range_fuel", "Stove", "choice", "gas", choices=fuels),
+        FieldSpec("dryer_fuel", "Clothes dryer", "choice", "electric",
+                  choices=(*fuels, ("No dryer", "none"))),
+        FieldSpec("cars", "Gasoline cars", "int", 1),
+        FieldSpec("miles_per_year", "Miles per car per year", "float", 11000),
+        FieldSpec("usd_per_year", "Budget per year", "float", 5000, unit="USD"),
+        FieldSpec("first_year", "First year", "int", first_year, optional=True,
+                  help="Blank: next calendar year."),
+        FieldSpec("horizon_years", "Years to plan", "int", 10),
+    ]
+
+
+def help_text():
+    from rich.console import Group
+    from rich.table import Table
+
+    table = Table(box=None, show_header=False, padding=(0, 1, 0, 0), expand=True)
+    table.add_column(style="bold", no_wrap=True)
+    table.add_column(ratio=1)
+    rows = [
+        ("1-7", "views: Next, Home, Roadmap, Money, Power, Energy, Incentives (or click the tabs)"),
+        ("b / + / -", "set the yearly budget / raise or lower it by $1,000"),
+        ("s", "plan settings: first year, years to plan, aim, risk level, deadline"),
+        ("$", "prices and household income"),
+        ("Incentives: e", "household income, taxes and the incentive program files"),
+        ("Roadmap: p", "pin the project to the year under the cursor (or ask for a year)"),
+        ("Roadmap: x / r", "leave the project out / release a pin or exclusion"),
+        ("Roadmap: enter", "cost, incentives, reasons and cautions of the step"),
+        ("Roadmap: v", "show or hide the projects the plan does not use"),
+        ("Home: e / a / d", "edit / add / remove an appliance or vehicle"),
+        ("Home: f", "what if this appliance fails now (press again to undo the what-if)"),
+        ("ctrl+z / ctrl+y", "undo / redo (u also undoes)"),
+        ("ctrl+s / S", "save (atomic, previous file kept as .bak) / save as"),
+        ("n", "a new plan from a guided form"),
+        ("w", "where the numbers on this view come from"),
+        ("t", "switch light and dark colours (NO_COLOR is respected)"),
+        ("ctrl+p", "command palette: every action by name"),
+        ("esc", "back out of a form or panel; on a view, go to Next"),
+        ("ctrl+q", "quit (asks when there are unsaved changes)"),
+    ]
+    for key, what in rows:
+        table.add_row(key, what)
+    marks = Text("\nMarks: reverse block = a step and its net cost; ░ = where a step was before "
+                 "the last change; ▲ pinned; ✕ left out; ◆ burns fuel; Σ yearly totals.")
+    return Group(table, marks)
+
+
+def iter_views() -> Iterable[str]:
+    return (vid for vid, _, _ in VIEWS)

@@ -1,0 +1,43 @@
+"""``homeplan open FILE``: open a plan in the terminal application.
+
+The plan is read and checked before Textual is imported, so a bad file is reported like every
+other command (file:line:col, exit code 2) without starting the full-screen app. A FILE that does
+not exist yet starts the guided new-plan form, which writes it.
+"""
+
+from __future__ import annotations
+
+import sys
+from pathlib import Path
+
+EXIT_OK, EXIT_FAILURE, EXIT_BAD_INPUT = 0, 1, 2
+
+
+def run(path: str | None, light: bool | None = None) -> int:
+    """Open ``path`` (or the new-plan form when it does not exist); returns an exit code."""
+    from homeplan.errors import InputError
+    from homeplan.tui.session import PlanSession
+
+    session = None
+    new_path = None
+    if path is not None and Path(path).exists():
+        try:
+            session = PlanSession.open(path)
+        except InputError as err:
+            for problem in err.problems:
+                print(problem, file=sys.stderr)
+            print(f"{len(err.problems)} problem(s) found; fix the file and open it again "
+                  "(`homeplan check FILE` lists them too).", file=sys.stderr)
+            return EXIT_BAD_INPUT
+    else:
+        new_path = path
+    from homeplan.tui.app import HomeplanApp
+
+    app = HomeplanApp(session=session, new_path=new_path, light=light)
+    result = app.run()
+    return int(result or 0) if app.return_code in (None, 0) else int(app.return_code)
+
+
+def cmd_open(args) -> int:
+    """CLI entry: ``args.file`` (may not exist yet) and optional ``args.light``."""
+    return run(getattr(args, "file", None), light=getattr(args, "light", None) or None)

@@ -1,0 +1,1 @@
+"""The views of a plan and the small widgets they use."""

@@ -1,0 +1,116 @@
+"""What every view receives, and the base class the views share."""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from pathlib import Path
+from typing import TYPE_CHECKING
+
+from rich.text import Text
+from textual.containers import Vertical
+
+if TYPE_CHECKING:
+    from homeplan.lifecycle import LifeOutlook
+    from homeplan.plan.model import Plan
+    from homeplan.result import PlanResult
+
+
+@dataclass(frozen=True)
+class ViewData:
+    """The plan as edited now, and the latest planner result (possibly for an earlier edit)."""
+
+    plan: Plan
+    result: PlanResult | None
+    path: Path
+    moved: dict[str, int | None] = field(default_factory=dict)  # id -> year before the last re-plan
+    planning: bool = False
+    error: str | None = None          # the last planner or edit error, in words
+    unavailable: str | None = None    # why there is no planner at all
+    _cache: dict = field(default_factory=dict, compare=False, repr=False)
+
+    @property
+    def outlooks(self) -> tuple[LifeOutlook, ...]:
+        """End-of-life outlooks of the plan as edited (the result's, when it is for this plan)."""
+        if "outlooks" not in self._cache:
+            if self.result is not None and self.result.plan == self.plan:
+                self._cache["outlooks"] = tuple(self.result.outlooks)
+            else:
+                from homeplan.lifecycle import plan_outlooks
+
+                self._cache["outlooks"] = tuple(plan_outlooks(self.plan))
+        return self._cache["outlooks"]
+
+    @property
+    def roadmap(self):
+        return self.result.roadmap if self.result is not None else None
+
+    @property
+    def infeasible(self) -> str | None:
+        r = self.roadmap
+        if r is not None and r.status == "infeasible":
+            return r.infeasibility or "No roadmap meets every requirement with this budget."
+        return None
+
+
+def banner_text(data: ViewData) -> Text | None:
+    """The one line (or two) about the planner's state that views show above their content."""
+    if data.unavailable:
+        return Text(f"Planner not available: {data.unavailable}. "
+                    "The home and editing still work.", style="bold")
+    if data.error:
+        return Text(f"! {data.error}", style="bold")
+    if data.infeasible:
+        return Text(f"! No roadmap fits: {data.infeasible}", style="bold")
+    if data.result is None:
+        return Text("Planning... the roadmap appears here in a moment.", style="italic")
+    return None
+
+
+def find_baseline(roadmap, kind: str):
+    """The baseline of a kind ('do_nothing' or 'like_for_like'), whatever its display name."""
+    if roadmap is None:
+        return None
+    for b in roadmap.baselines:
+        name = b.name.lower().replace("-", "_").replace(" ", "_")
+        if name == kind or (kind == "like_for_like" and "like" in name) or (
+                kind == "do_nothing" and "nothing" in name):
+            return b
+    return None
+
+
+class View(Vertical):
+    """A view of the plan; ``show`` is called with fresh data after every edit and re-plan."""
+
+    title = "View"
+
+    def show(self, data: ViewData) -> None:  # pragma: no cover - overridden
+        raise NotImplementedError
+
+    def focus_main(self) -> None:
+        """Focus the view's main widget (called when the view is opened)."""
+        for child in self.query("*"):
+            if child.can_focus:
+                child.focus()
+                return
+
+    def where_from(self, data: ViewData) -> Text:
+        """Where this view's numbers come from (shown with the 'w' key)."""
+        out = Text("Numbers on this view are computed by homeplan's engine from your plan file "
+                   "and the built-in catalog (each catalog row names its source). They are "
+                   "planning estimates.\n")
+        return out.append_text(assumptions_text(data))
+
+
+def assumptions_text(data: ViewData) -> Text:
+    """The planner's recorded assumptions and warnings, as it wrote them."""
+    out = Text()
+    rm = data.roadmap
+    if rm is not None and rm.assumptions:
+        out.append("Assumptions the planner used:\n", style="bold")
+        for k, v in rm.assumptions.items():
+            out.append(f"  {k.replace('_', ' ')}: {v}\n")
+    if data.result is not None and data.result.warnings:
+        out.append("Notes from the planner:\n", style="bold")
+        for w in data.result.warnings:
+            out.append(f"  - {w}\n")
+    return out

@@ -1,0 +1,212 @@
+"""The home: what it has today, how old, when it is likely to give out; service, roof, bills."""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from typing import TYPE_CHECKING
+
+from rich.text import Text
+from textual.app import ComposeResult
+from textual.binding import Binding
+from textual.containers import VerticalScroll
+from textual.widgets import DataTable, Static
+
+from homeplan.tui.format import BLOCKS, FOSSIL, num, trunc, usd
+from homeplan.tui.widgets.base import View, ViewData
+
+if TYPE_CHECKING:
+    from homeplan.lifecycle import LifeOutlook
+
+RISK_TOP_PCT = 20.0  # a full block in the risk bar means a 20 % or higher chance that year
+RISK_YEARS = 10
+
+
+def risk_bar(yearly_pct: tuple[float, ...], years: int = RISK_YEARS) -> str:
+    out = []
+    for p in yearly_pct[:years]:
+        level = 0 if p <= 0.05 else max(1, min(8, round(p / RISK_TOP_PCT * 8)))
+        out.append(BLOCKS[level] if level else "·")
+    return "".join(out)
+
+
+@dataclass(frozen=True)
+class Item:
+    key: str
+    group: str           # "appliance" | "vehicle" | "roof"
+    index: int           # position in its list in the plan (-1 for the roof)
+    label: str
+    outlook: LifeOutlook | None
+    fuel: str
+    failed_now: bool
+
+
+def inventory(data: ViewData) -> list[Item]:
+    plan = data.plan
+    outs = {o.key: o for o in data.outlooks}
+    failed = set(plan.choices.failed_now)
+    items = []
+    for i, a in enumerate(plan.appliances):
+        o = outs.get(a.key)
+        items.append(Item(a.key, "appliance", i, o.label if o else a.kind, o,
+                          o.fuel if o else (a.fuel or ""), a.key in failed))
+    for i, v in enumerate(plan.vehicles):
+        key = plan.vehicle_key(i)
+        o = outs.get(key)
+        items.append(Item(key, "vehicle", i, v.name or f"{v.fuel} {v.body}", o, v.fuel, False))
+    if plan.home.roof is not None:
+        o = outs.get("roof")
+        items.append(Item("roof", "roof", -1, o.label if o else "roof", o, "", False))
+    return items
+
+
+class Inventory(DataTable):
+    BINDINGS = [
+        Binding("e", "app.edit_item", "Edit"),
+        Binding("a", "app.add_item", "Add"),
+        Binding("d", "app.remove_item", "Remove"),
+        Binding("f", "app.fail_now", "Fails now?"),
+        Binding("enter", "app.edit_item", "Edit", show=False),
+    ]
+
+
+class HomeView(View):
+    title = "Home"
+    items: list[Item] = []
+    data: ViewData | None = None
+
+    def compose(self) -> ComposeResult:
+        yield Static("", id="home-legend", classes="legend")
+        yield Inventory(id="inventory", cursor_type="row")
+        with VerticalScroll(id="home-info", classes="details"):
+            yield Static("", id="home-info-text")
+
+    def on_mount(self) -> None:
+        self.items: list[Item] = []
+        self.data: ViewData | None = None
+
+    def show(self, data: ViewData) -> None:
+        self.data = data
+        table = self.query_one(Inventory)
+        keep = table.cursor_row
+        wide = self.app.size.width >= 100
+        table.clear(columns=True)
+        table.add_column("Item", width=16 if wide else 14, key="item")
+        table.add_column("What", width=24 if wide else 15, key="what")
+        table.add_column("Age", key="age")
+        table.add_column("Likely end", key="end")
+        if wide:
+            table.add_column(f"Replace by ({data.plan.choices.replace_at_risk_pct:.0f}% risk)",
+                             key="replace")
+        first = data.plan.first_year
+        table.add_column(f"Risk {first % 100:02d}-{(first + RISK_YEARS - 1) % 100:02d}",
+                         width=RISK_YEARS, key="risk")
+        table.add_column("Note", key="note")
+        self.items = inventory(data)
+        for it in self.items:
+            o = it.outlook
+            fossil = it.fuel in FOSSIL
+            name = Text(("◆ " if fossil else "  ") + it.key)
+            if o is None:
+                cells = [name, Text(trunc(it.label, 24 if wide else 15)), "-", "-"]
+                table.add_row(*cells, *(["-"] if wide else []), "", "electric", key=it.key)
+                continue
+            age = f"{o.age_years:.0f}" + ("?" if o.install_year_assumed else "")
+            if it.failed_now:
+                note = Text("FAILED (what-if)", style="bold reverse")
+            elif o.failed:
+                note = Text("failing", style="bold")
+            elif o.replace_by_year <= data.plan.first_year + 1:
+                note = Text("replace soon", style="bold")
+            else:
+                note = Text("")
+            cells = [name, Text(trunc(it.label, 24 if wide else 15)), age, str(o.expected_end_year)]
+            if wide:
+                cells.append(str(o.replace_by_year))
+            table.add_row(*cells, risk_bar(o.yearly_failure_pct), note, key=it.key)
+        if self.items:
+            table.move_cursor(row=min(max(keep, 0), len(self.items) - 1), animate=False, scroll=False)
+        legend = Text()
+        legend.append("◆", style="bold")
+        legend.append(" burns fuel  ")
+        legend.append("Risk: chance it fails in each year ahead (█ 20%+)  ? age assumed")
+        self.query_one("#home-legend", Static).update(legend)
+        self.query_one("#home-info-text", Static).update(self._info(data))
+
+    def _info(self, data: ViewData) -> Text:
+        plan = data.plan
+        h = plan.home
+        e = h.electrical
+        out = Text()
+        out.append("Electrical service  ", style="bold")
+        out.append(f"{e.service_amps} A, busbar {e.busbar_amps or e.service_amps} A, main breaker "
+                   f"{e.main_breaker_amps or e.service_amps} A")
+        if e.free_spaces is not None:
+            out.append(f", {e.free_spaces} free breaker spaces")
+        if data.result is not None and data.result.capacity:
+            today = data.result.capacity[0]
+            out.append(f"; calculated load today {today.amps:.0f} A, headroom "
+                       f"{today.headroom_amps:.0f} A")
+        out.append("\n")
+        out.append("Roof  ", style="bold")
+        if h.roof is None:
+            out.append("not described (add a roof section to consider rooftop solar)\n")
+        else:
+            r = h.roof
+            out.append(f"{r.material.replace('_', ' ')}, installed {r.year_installed or 'year unknown'}")
+            if r.usable_area_ft2 is not None:
+                out.append(f", {r.usable_area_ft2:,.0f} ft2 usable for panels")
+            out.append(f", facing {r.azimuth_deg:.0f} deg, tilt {r.tilt_deg:.0f} deg\n")
+        if h.solar is not None:
+            out.append("Solar  ", style="bold")
+            out.append(f"{h.solar.size_kw:g} kW already installed\n")
+        out.append("Bills  ", style="bold")
+        u = plan.usage
+        parts = []
+        if u is not None:
+            if u.electricity is not None:
+                kwh = u.electricity.annual_kwh or (sum(u.electricity.monthly_kwh or []) or None)
+                parts.append(f"{num(kwh, 'kWh')} electricity")
+            if u.gas is not None:
+                th = u.gas.annual_therms or (sum(u.gas.monthly_therms or []) or None)
+                parts.append(f"{num(th, 'therm')} gas")
+            for fuel in ("propane", "oil"):
+                g = getattr(u, fuel)
+                if g is not None:
+                    gal = g.annual_gal or (sum(g.monthly_gal or []) or None)
+                    parts.append(f"{num(gal, 'gal')} {fuel}")
+        out.append((", ".join(parts) + f" a year ({u.year or 'year not given'})") if parts
+                   else "none given: energy use is estimated from the home")
+        if data.result is not None:
+            bills = data.result.energy_before.bills_usd
+            if bills:
+                out.append(f"; modelled bills today {usd(sum(bills.values()))} a year")
+        out.append("\n")
+        b = plan.budget
+        out.append("Budget  ", style="bold")
+        out.append(f"{usd(b.usd_per_year)} a year from {plan.first_year} for {b.horizon_years} "
+                   f"years" + (", unspent money carries over" if b.carryover else "") + "\n")
+        out.append("Ages and end-of-life years are planning estimates from typical service lives.",
+                   style="italic")
+        return out
+
+    def current_item(self) -> Item | None:
+        i = self.query_one(Inventory).cursor_row
+        return self.items[i] if 0 <= i < len(self.items) else None
+
+    def focus_main(self) -> None:
+        self.query_one(Inventory).focus()
+
+    def where_from(self, data: ViewData) -> Text:
+        it = self.current_item()
+        out = Text()
+        if it is not None and it.outlook is not None:
+            o = it.outlook
+            out.append(f"{it.key}: ", style="bold")
+            out.append(f"installed {o.install_year}"
+                       + (" (assumed: half-way through a typical life)" if o.install_year_assumed
+                          else " (your input)") + ".\n")
+            out.append(f"Typical life {o.median_life_years:.0f} years: {o.source}.\n")
+            out.append(f"Likely end {o.expected_end_year}; replace by {o.replace_by_year} at "
+                       f"{o.risk_pct:.0f}% risk (Weibull model, computed).\n")
+        out.append("Service, roof and bills are your inputs from the plan file.")
+        return out

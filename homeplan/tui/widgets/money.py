@@ -1,0 +1,95 @@
+"""Money: cash flow per year and the running total, the plan beside the two baselines."""
+
+from __future__ import annotations
+
+from rich.text import Text
+from textual.app import ComposeResult
+from textual.containers import VerticalScroll
+from textual.widgets import DataTable, Static
+
+from homeplan.tui.format import ESTIMATES, kusd, spark, usd
+from homeplan.tui.widgets.base import View, ViewData, banner_text, find_baseline
+
+BASELINES = (("do_nothing", "Do nothing"), ("like_for_like", "Replace when it breaks"))
+
+
+def running_chart(data: ViewData, width: int) -> Text:
+    """The running cost of each path as a row of bars on a shared scale, lowest is best."""
+    rm = data.roadmap
+    out = Text()
+    if rm is None or not rm.years:
+        return out
+    series = [("This plan", [t.cumulative_usd for t in rm.years])]
+    for name, label in BASELINES:
+        b = find_baseline(rm, name)
+        if b is not None and b.years:
+            series.append((label, [t.cumulative_usd for t in b.years]))
+    top = max((max(v) for _, v in series if v), default=0)
+    label_w = 24
+    out.append("Running total spent (projects + loans + bills), one bar per year\n", style="bold")
+    for label, values in series:
+        out.append(label.ljust(label_w)[:label_w])
+        stretch = max(1, min(3, (width - label_w - 12) // max(len(values), 1)))
+        out.append("".join(ch * stretch for ch in spark(values, top)),
+                   style="bold" if label == "This plan" else "")
+        out.append(f"  {usd(values[-1]) if values else '-'}\n")
+    return out
+
+
+class MoneyView(View):
+    title = "Money"
+
+    def compose(self) -> ComposeResult:
+        yield Static("", id="money-banner", classes="banner")
+        yield DataTable(id="money-table", cursor_type="row", zebra_stripes=True)
+        with VerticalScroll(id="money-chart", classes="details"):
+            yield Static("", id="money-chart-text")
+
+    def show(self, data: ViewData) -> None:
+        banner = self.query_one("#money-banner", Static)
+        text = banner_text(data)
+        banner.update(text or "")
+        banner.display = text is not None
+        table = self.query_one("#money-table", DataTable)
+        keep = table.cursor_row
+        table.clear(columns=True)
+        rm = data.roadmap
+        loans = rm is not None and any(t.loan_payments_usd for t in rm.years)
+        columns = [("year", "Year"), ("spend", "Projects"), ("back", "Back"),
+                   ("loan", "Loans"), ("bills", "Bills"), ("plan", "Plan Σ"),
+                   ("none", "Nothing Σ"), ("lfl", "Replace Σ"), ("ahead", "Ahead")]
+        if not loans:
+            columns.remove(("loan", "Loans"))
+        for key, label in columns:
+            table.add_column(Text(label, style="bold", justify="right"), key=key)
+        if rm is not None:
+            b = find_baseline(rm, "do_nothing")
+            nothing = {t.year: t for t in (b.years if b else ())}
+            b = find_baseline(rm, "like_for_like")
+            lfl = {t.year: t for t in (b.years if b else ())}
+            for t in rm.years:
+                n, s = nothing.get(t.year), lfl.get(t.year)
+                ahead = (n.cumulative_usd - t.cumulative_usd) if n else None
+                cells = [str(t.year), kusd(t.spend_usd), kusd(t.incentives_usd)]
+                if loans:
+                    cells.append(kusd(t.loan_payments_usd))
+                cells += [kusd(t.total_bills_usd), kusd(t.cumulative_usd),
+                          kusd(n.cumulative_usd) if n else "-", kusd(s.cumulative_usd) if s else "-",
+                          ("+" if ahead and ahead > 0 else "") + kusd(ahead)]
+                table.add_row(*(Text(c, justify="right") for c in cells), key=str(t.year))
+            if table.row_count:
+                table.move_cursor(row=min(max(keep, 0), table.row_count - 1), animate=False,
+                                  scroll=False)
+        chart = running_chart(data, self.app.size.width)
+        if rm is not None:
+            chart.append(f"Net present value of the plan against doing nothing: {usd(rm.npv_usd)}"
+                         " (today's dollars).\n")
+            chart.append("US dollars, k = thousand. Back: incentives arriving. Σ: running total "
+                         "since the first year for this plan, doing nothing, and replacing each "
+                         "thing like-for-like when it breaks. Ahead: doing nothing minus this plan."
+                         "\n")
+        chart.append(ESTIMATES, style="italic")
+        self.query_one("#money-chart-text", Static).update(chart)
+
+    def focus_main(self) -> None:
+        self.query_one("#money-table").focus()

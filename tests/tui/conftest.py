@@ -1,0 +1,63 @@
+"""Fixtures for the terminal app: a copy of a sample home and a shared planner.
+
+The planner is the real pipeline; results are memoised by the plan's content so that the many
+app instances of a test run (pilot and snapshot tests) plan each distinct plan once.
+"""
+
+from __future__ import annotations
+
+import shutil
+from pathlib import Path
+
+import pytest
+
+ROOT = Path(__file__).resolve().parents[2]
+SAMPLES = ROOT / "sample_homes"
+SAMPLE = SAMPLES / "cold_gas_100a.yaml"
+
+_MEMO: dict[str, object] = {}
+_CACHE: list = []
+
+
+def shared_planner(plan, base_dir):
+    """The real planner with one cache for the whole test run (results memoised by content)."""
+    from homeplan.pipeline import PipelineCache, plan_roadmap
+
+    key = plan.model_dump_json()
+    if key not in _MEMO:
+        if not _CACHE:
+            _CACHE.append(PipelineCache())
+        _MEMO[key] = plan_roadmap(plan, base_dir=SAMPLES, cache=_CACHE[0])
+    return _MEMO[key]
+
+
+@pytest.fixture
+def plan_file(tmp_path: Path) -> Path:
+    """A private copy of the cold-climate demo home (so saving never touches the samples)."""
+    target = tmp_path / "home.yaml"
+    shutil.copy(SAMPLE, target)
+    return target
+
+
+@pytest.fixture(autouse=True)
+def _fixed_look(monkeypatch):
+    """Same colours whatever the developer's environment says."""
+    monkeypatch.delenv("HOMEPLAN_THEME", raising=False)
+
+
+def make_app(path: Path, planner=shared_planner, **kw):
+    from homeplan.tui.app import HomeplanApp
+    from homeplan.tui.session import PlanSession
+
+    return HomeplanApp(session=PlanSession.open(path), planner=planner, light=False, **kw)
+
+
+async def settle(pilot) -> None:
+    """Wait for the planner worker and for the app to handle its result."""
+    app = pilot.app
+    for _ in range(3):
+        await app.workers.wait_for_complete()
+        await pilot.pause()
+        if not app.planning:
+            break
+    await pilot.pause()
