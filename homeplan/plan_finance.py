@@ -24,7 +24,12 @@ def plan_returns(roadmap: Roadmap, discount_rate_pct: float, extra_flows: list[f
     payments, plus ``extra_flows`` (the expected breakdown costs the plan avoids, and in the last
     year the equipment's remaining value) - the same accounting as the roadmap's NPV.
     """
-    from homeplan.money.finance import discounted_payback_years, irr_pct, npv_usd, simple_payback_years
+    from homeplan.money.finance import (
+        discounted_payback_years,
+        irr_pct,
+        npv_usd,
+        simple_payback_years,
+    )
 
     extra = extra_flows or [0.0] * len(roadmap.years)
     flows = [y.bill_savings_usd - (y.spend_usd - y.incentives_usd) - y.loan_payments_usd + e

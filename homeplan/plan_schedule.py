@@ -165,6 +165,12 @@ def build_problem(ctx: Context, co: dict[str, Coefficients], capacity, implicit_
     if by is not None:
         ids = tuple(p for p in fossil_projects(ctx)
                     if p not in plan.choices.exclude and _reachable(ctx, p, by))
+        kept = [ctx.details[p].label for p in fossil_projects(ctx) if not _reachable(ctx, p, by)]
+        if kept:
+            note = (f"cars you plan to keep past {by} are not part of the fully-electric goal: "
+                    + ", ".join(k.lower() for k in kept))
+            if note not in ctx.notes:
+                ctx.notes.append(note)
         if ids:
             targets.append(Target(ids, by, "fully electric"))
     objective = {"npv": "max_npv", "emissions": "min_emissions", "gas_off_early": "earliest_gas_closure",

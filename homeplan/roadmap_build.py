@@ -92,6 +92,9 @@ def build_result(ctx: Context, outcome: ScheduleOutcome) -> PlanResult:
         extra_reasons = list(outcome.reasons.get(pid, ()))
         if pid in cap_model.variant_notes:
             extra_reasons.append(cap_model.variant_notes[pid])
+        if pid == cap_model.remedy_project:
+            extra_reasons = [r for r in extra_reasons if not r.startswith(("paying later", "better overall"))]
+            extra_reasons.insert(0, _remedy_reason(ctx, done, pid, year))
         steps.append(Step(
             project_id=pid, label=d.label, year=year, variant=d.variant_label, size=d.size_text(),
             cost_usd=round(cost, 2), incentives=lines,
@@ -207,6 +210,20 @@ def loan_flows(ctx: Context, outcome: ScheduleOutcome, costs: dict, awards: dict
                                               payments_per_year=1, name=first.name)):
                     payments[row.year] = payments.get(row.year, 0.0) + row.payments_usd
     return {"borrowed": borrowed, "payments": payments}
+
+
+def _remedy_reason(ctx: Context, done: dict[str, int], pid: str, year: int) -> str:
+    """Why a panel, service or load-management step lands where it does: the loads it makes
+    room for (the first ones the load calculation could not take without it)."""
+    kinds = catalog.upgrade_kinds()
+    later = sorted((y, ctx.details[p].label) for p, y in done.items()
+                   if kinds[ctx.details[p].kind].capacity_load and y >= year)
+    if not later:
+        return "makes room on the service for the planned electric loads"
+    first = later[0][0]
+    names = ", ".join(n.lower() for y, n in later if y == first)
+    when = "the same year" if first == year else str(first)
+    return f"makes room on the service for the {names} ({when}): the load calculation needs it"
 
 
 def lfl_step(ctx: Context, outcome: ScheduleOutcome, pid: str, year: int) -> Step:

@@ -50,3 +50,17 @@ def test_dumped_plan_round_trips_through_schema():
 def test_schema_command_prints_json():
     out = subprocess.run([sys.executable, "-m", "homeplan.cli", "schema"], capture_output=True, text=True, check=True)
     assert json.loads(out.stdout)["title"].startswith("homeplan plan file")
+
+
+def test_schema_accepts_si_spellings_and_refuses_both():
+    from homeplan.plan.load import load_plan_text
+
+    text = ("home:\n  location: {latitude: 47.6, longitude: -122.3}\n  floor_area_m2: 140\n"
+            "  electrical: {service_amps: 200}\n  climate: {heating_design_c: -5}\n"
+            "budget: {usd_per_year: 5000}\n")
+    load_plan_text(text)  # the loader accepts it ...
+    data = _plain(load_plan_text(text).document)
+    jsonschema.validate(data, plan_json_schema())  # ... and so does the schema
+    data["home"]["floor_area_ft2"] = 1500
+    with pytest.raises(jsonschema.ValidationError):
+        jsonschema.validate(data, plan_json_schema())
