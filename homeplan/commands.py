@@ -82,18 +82,13 @@ def cmd_plan(args) -> int:
     for m in rm.milestones:
         print(f"  {m.year}: {m.label}")
     rate = loaded.plan.budget.discount_rate_pct
-    print(f"\nNet present value at {rate:g} % (bill savings, minus spending net of incentives, minus "
-          "expected breakdown costs, plus the equipment's remaining value; against a home that "
-          "would need nothing):")
-    print(f"  this plan: {usd(rm.npv_usd, 10)}")
-    for b in rm.baselines:
+    fin = result.extra.get("finance", {}).get("plan") or {}
+    irr = "" if fin.get("irr_pct") is None else f", a return of {fin['irr_pct']:.1f} % a year"
+    print(f"\nNet present value against doing nothing: {usd(rm.npv_usd, 10)} at {rate:g} %{irr}")
+    print("  (bill savings, minus spending net of incentives, plus the breakdown repairs avoided and "
+          "the equipment's remaining value at the end)")
+    for b in rm.baselines[1:]:
         print(f"  {b.name}: {usd(b.npv_usd, 10)}")
-    fin = result.extra.get("finance", {}).get("plan")
-    if fin and rm.baselines:
-        diff = fin["npv_vs_do_nothing_usd"]
-        word = "better" if diff >= 0 else "more expensive"
-        irr = "" if fin["irr_pct"] is None else f"; return {fin['irr_pct']:.1f} % a year"
-        print(f"  -> the plan is {usd(abs(diff), 10)} {word} than doing nothing in today's money{irr}")
     for w in result.warnings:
         print(f"note: {w}")
     print()

@@ -145,8 +145,12 @@ def build_result(ctx: Context, outcome: ScheduleOutcome) -> PlanResult:
     extra_flows[-1] += (salvage + late - owed) / discount(rate, T - 1)
     _ = base_bills_total
     today_cap = state_capacity(ctx, cap_model, set(), "today", None)
+    # every NPV is against doing nothing: keeping today's home and paying for its breakdowns
+    reference = expected_breakdowns(ctx, {})
+    npv += reference
+    lfl_baseline = like_for_like(ctx, base_energy, today_cap.headroom_amps)
     baselines = (do_nothing(ctx, base_energy, today_cap.headroom_amps),
-                 like_for_like(ctx, base_energy, today_cap.headroom_amps))
+                 Baseline(lfl_baseline.name, lfl_baseline.years, round(lfl_baseline.npv_usd + reference, 2)))
     milestones = milestones_of(ctx, done)
     cautions = [cautions_all["planning"]]
     for s in steps:
@@ -181,8 +185,7 @@ def build_result(ctx: Context, outcome: ScheduleOutcome) -> PlanResult:
         energy_before=base_energy.summary, energy_after=after, programs=incentives.uses(awards),
         warnings=tuple(dict.fromkeys(ctx.notes)),
         extra={"solver": {"status": sol.status, "seconds": sol.solve_time_s, "passes": outcome.passes},
-               "finance": {"plan": plan_returns(roadmap, rate, extra_flows,
-                                                 roadmap.npv_usd - baselines[0].npv_usd),
+               "finance": {"plan": plan_returns(roadmap, rate, extra_flows, roadmap.npv_usd),
                            "projects": project_returns(ctx, outcome, roadmap),
                            "solar_hedge": solar_hedge(ctx, roadmap)},
                "capacity_remedy": cap_model.remedy_project, "solar_connection": cap_model.solar_connection},
@@ -275,8 +278,7 @@ def do_nothing(ctx: Context, base_energy, headroom_amps: float = 0.0) -> Baselin
                                 peak_kw=round(base_energy.peak_kw, 2),
                                 service_headroom_amps=round(headroom_amps, 1),
                                 energy={k: round(v, 1) for k, v in base_energy.units.items()}))
-    return Baseline("do nothing (pay for breakdowns as they come)", tuple(years),
-                    round(-expected_breakdowns(ctx, {}), 2))
+    return Baseline("do nothing (pay for breakdowns as they come)", tuple(years), 0.0)
 
 
 def like_for_like(ctx: Context, base_energy, headroom_amps: float = 0.0) -> Baseline:
