@@ -28,6 +28,7 @@ from homeplan.pipeline import (
     project_infos,
     replaceable_items,
 )
+from homeplan.plan.hashing import content_hash
 from homeplan.plan_finance import plan_returns, project_returns, solar_hedge
 from homeplan.plan_schedule import LFL_PREFIX, ScheduleOutcome, cost_in_year
 from homeplan.result import PlanResult
@@ -183,6 +184,7 @@ def build_result(ctx: Context, outcome: ScheduleOutcome) -> PlanResult:
     return PlanResult(
         plan=plan, roadmap=roadmap, outlooks=outlooks, projects=infos, capacity=tuple(capacity),
         energy_before=base_energy.summary, energy_after=after, programs=incentives.uses(awards),
+        content_hash=content_hash(plan),
         warnings=tuple(dict.fromkeys(ctx.notes)),
         extra={"solver": {"status": sol.status, "seconds": sol.solve_time_s, "passes": outcome.passes},
                "finance": {"plan": plan_returns(roadmap, rate, extra_flows, roadmap.npv_usd),

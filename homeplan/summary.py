@@ -32,8 +32,9 @@ def plan_summary(plan: Plan, g=None) -> str:
         age = f"{o.age_years:.0f} yr" + (" (assumed)" if o.install_year_assumed else "")
         lines.append(f"  appliance:  {a.key}: {o.label}, {age}, likely end {o.expected_end_year}")
     for i, v in enumerate(plan.vehicles):
-        lines.append(f"  vehicle:    {plan.vehicle_key(i)}: {v.name or v.fuel} ({v.fuel}, "
-                     f"{v.miles_per_year:,.0f} mi/yr)")
+        distance = (f"{v.miles_per_year * 1.609344:,.0f} km/yr" if units == "si"
+                    else f"{v.miles_per_year:,.0f} mi/yr")
+        lines.append(f"  vehicle:    {plan.vehicle_key(i)}: {v.name or v.fuel} ({v.fuel}, {distance})")
     b = plan.budget
     lines.append(f"  budget:     {usd(b.usd_per_year)} a year from {plan.first_year} for "
                  f"{b.horizon_years} years" + (", unspent money carries over" if b.carryover else ""))

@@ -154,7 +154,9 @@ class HomeView(View):
             r = h.roof
             out.append(f"{r.material.replace('_', ' ')}, installed {r.year_installed or 'year unknown'}")
             if r.usable_area_ft2 is not None:
-                out.append(f", {r.usable_area_ft2:,.0f} ft2 usable for panels")
+                from homeplan.units import display_area
+
+                out.append(f", {display_area(r.usable_area_ft2, plan.display.units)} usable for panels")
             out.append(f", facing {r.azimuth_deg:.0f} deg, tilt {r.tilt_deg:.0f} deg\n")
         if h.solar is not None:
             out.append("Solar  ", style="bold")
