@@ -375,7 +375,11 @@ def measured_capacity(ctx, model: CapacityModel, done: set[str], year: int | Non
     has_pv = plan.home.solar is not None or plan.home.battery is not None
     label = "today, from your measured peak" if year is None else f"{year}, from your measured peak"
     try:
-        seasonal = 0.0 if e.peak_demand_period == "30_days" else None
+        # a 30-day recording may miss the season's heating or cooling: add the larger of the
+        # home's heating or cooling nameplate (220.87 exception, conservative reading)
+        hvac = [ld.va for ld in existing_loads(plan)
+                if ld.category in ("heating", "cooling", "heat_pump_compressor", "supplemental_heat")]
+        seasonal = (max(hvac) if hvac else 0.0) if e.peak_demand_period == "30_days" else None
         calc = nec220_87(MeasuredDemand(e.peak_demand_kw, e.peak_demand_period, seasonal),
                          new, _service(plan), edition=e.code_edition, has_solar_or_battery=has_pv)
     except (MethodNotApplicableError, ElectricalInputError) as exc:  # refused or not applicable: say why

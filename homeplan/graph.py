@@ -90,7 +90,8 @@ def candidates(plan: Plan) -> list[Candidate]:
         if v.fuel != "electric":
             key = plan.vehicle_key(i)
             ev_ids.append(f"ev:{key}")
-            add(f"ev:{key}", "ev", replaces=(key,), label=f"Electric vehicle (replaces {v.name or key})")
+            what = v.name or (f"the {v.fuel.replace('_', '-')} {v.body}" if not v.id else key)
+            add(f"ev:{key}", "ev", replaces=(key,), label=f"Electric vehicle (replaces {what})")
     if ev_ids and not any(v.fuel == "electric" for v in plan.vehicles):
         add("ev_charger", "ev_charger", variant="a40")  # a home with an EV already has a charger
     roof = plan.home.roof
@@ -203,9 +204,9 @@ def build_graph(plan: Plan):
     return g
 
 
-def _suggest(name: str, ids: set[str]) -> str:
+def _suggest(name: str, ids: set[str], what: str = "projects for this home") -> str:
     close = difflib.get_close_matches(name, sorted(ids), n=1, cutoff=0.5)
-    return f"did you mean '{close[0]}'?" if close else f"projects for this home: {', '.join(sorted(ids))}"
+    return f"did you mean '{close[0]}'?" if close else f"{what}: {', '.join(sorted(ids))}"
 
 
 def _apply_user_order(g, plan: Plan, ids: set[str]) -> None:
@@ -234,7 +235,7 @@ def _check_choice_ids(plan: Plan, ids: set[str]) -> None:
     for i, key in enumerate(plan.choices.failed_now):
         if key not in keys:
             raise PlanRuleError(("choices", "failed_now", i), f"unknown appliance '{key}'",
-                                _suggest(key, keys))
+                                _suggest(key, keys, "appliances in the plan"))
     last = plan.first_year + plan.budget.horizon_years - 1
     for pid, year in plan.choices.pins.items():
         if not plan.first_year <= year <= last:

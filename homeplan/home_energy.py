@@ -457,11 +457,48 @@ def home_basis(plan: Plan, base_dir: Path | None = None) -> HomeBasis:
                          f"other plug loads set to {floor:,.0f} kWh")
             plug = floor
         spec = replace(spec, plug_kwh_per_yr=plug)
+        monthly = u.electricity.monthly_kwh
+        if monthly and spec.cooling is not None:
+            spec, note = _calibrate_cooling(spec, site, monthly, billed, floor)
+            if note:
+                notes.append(note)
     else:
         notes.append("no electric bills: other plug loads use the default "
                      f"{spec.plug_kwh_per_yr:,.0f} kWh a year")
     return HomeBasis(weather=weather, site=site, calibration=cal, base=spec, weather_note=wnote,
                      notes=tuple(notes))
+
+
+SUMMER = slice(5, 9)  # June to September
+
+
+def _calibrate_cooling(spec, site, monthly_kwh: list[float], billed: float, floor: float):
+    """Scale the sensible degree-hour cooling load so June-September matches the bills.
+
+    Cooling energy is linear in the load multiplier, so two simulations give the line; the
+    plug loads are then re-derived from the annual bill. The multiplier stands for the solar and
+    latent gains the degree-hour model leaves out (kept between 0.5 and 4).
+
+    References
+    ----------
+    ASHRAE Guideline 14-2014 (calibrating a model to monthly utility bills, from memory).
+    """
+    from homeplan.energy.simulate import simulate
+
+    def summer(m: float) -> float:
+        r = simulate(replace(spec, cooling_load_multiplier=m), site)
+        return float(np.asarray(r.monthly_grid_import_kwh)[SUMMER].sum())
+
+    a1, a2 = summer(1.0), summer(2.0)
+    slope = a2 - a1
+    target = float(sum(monthly_kwh[SUMMER]))
+    if slope <= 1.0:
+        return spec, None
+    m = float(min(max(1.0 + (target - a1) / slope, 0.5), 4.0))
+    trial = simulate(replace(spec, cooling_load_multiplier=m, plug_kwh_per_yr=0.0), site)
+    plug = max(billed + float(trial.solar_kw.sum()) - float(trial.load_kw.sum()), floor)
+    return (replace(spec, cooling_load_multiplier=m, plug_kwh_per_yr=plug),
+            f"cooling calibrated to your summer electric bills (load x {m:.1f})")
 
 
 # ------------------------------------------------------------------------------ states
