@@ -93,6 +93,8 @@ def build_result(ctx: Context, outcome: ScheduleOutcome) -> PlanResult:
         extra_reasons = list(outcome.reasons.get(pid, ()))
         if pid in cap_model.variant_notes:
             extra_reasons.append(cap_model.variant_notes[pid])
+        if d.kind == "heat_pump":
+            extra_reasons.append(_heat_pump_sizing(ctx, done, pid))
         if pid == cap_model.remedy_project:
             extra_reasons = [r for r in extra_reasons if not r.startswith(("paying later", "better overall"))]
             extra_reasons.insert(0, _remedy_reason(ctx, done, pid, year))
@@ -215,6 +217,22 @@ def loan_flows(ctx: Context, outcome: ScheduleOutcome, costs: dict, awards: dict
                                               payments_per_year=1, name=first.name)):
                     payments[row.year] = payments.get(row.year, 0.0) + row.payments_usd
     return {"borrowed": borrowed, "payments": payments}
+
+
+def _heat_pump_sizing(ctx: Context, done: dict[str, int], pid: str) -> str:
+    """How the heat pump was sized and how often its backup heat runs (or heat falls short)."""
+    d = ctx.details[pid]
+    state = ctx.energy(frozenset(p for p, y in done.items() if y <= done[pid]))
+    hours = state.summary.backup_heat_hours
+    design = ctx.basis.design_load_btuh
+    t = ctx.basis.weather.heating_design_f
+    text = f"sized {d.size:g} t for a {design:,.0f} Btu/h heating load at {t:.0f} F"
+    v = catalog.upgrade_kinds()["heat_pump"].variant(d.variant)
+    if hours and v is not None and not v.strips_kw:
+        text += f"; about {hours} hours a year colder than it can carry alone (keep a backup plan)"
+    elif hours:
+        text += f"; backup heat runs about {hours} hours a year"
+    return text
 
 
 def _remedy_reason(ctx: Context, done: dict[str, int], pid: str, year: int) -> str:
