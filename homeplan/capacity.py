@@ -388,3 +388,26 @@ def measured_capacity(ctx, model: CapacityModel, done: set[str], year: int | Non
                              service_amps=float(e.service_amps), headroom_amps=nan, fits=True, notes=(str(exc),))
     return _state(calc, label, year, None, tuple(calc.notes) + (
         "an alternative to the 220.83 calculation: an inspector may accept either",))
+
+
+def breaker_spaces_note(ctx, done: set[str]) -> str | None:
+    """Whether the new circuits fit the panel's free breaker spaces (a 240 V circuit takes two
+    spaces, a 120 V one takes one). Common practice, no source: when they do not, an electrician
+    uses tandem breakers where the panel allows them, or replaces the panel."""
+    free = ctx.plan.home.electrical.free_spaces
+    if free is None:
+        return None
+    kinds = catalog.upgrade_kinds()
+    need = 0
+    for pid in done:
+        d = ctx.details.get(pid)
+        if d is None or not kinds[d.kind].capacity_load:
+            continue
+        if d.candidate.replaces and _names_for(ctx.plan, d.candidate.replaces, existing_loads(ctx.plan)):
+            continue  # reuses the circuit of the electric appliance it replaces
+        for ld in project_loads(d.kind, d.variant, d.size, d.label):
+            need += 2 if ld.volts >= 208 else 1
+    if need <= free:
+        return None
+    return (f"the new circuits need about {need} breaker spaces and the panel has {free} free: "
+            "tandem breakers (where the panel is listed for them) or a new panel - an electrician decides")

@@ -17,6 +17,8 @@ NIST Handbook 135, "Life-Cycle Costing Manual for the Federal Energy Management 
 
 from __future__ import annotations
 
+from dataclasses import replace
+
 from homeplan import catalog
 from homeplan.graph import MILESTONE_FOR_FUEL
 from homeplan.pipeline import (
@@ -55,7 +57,12 @@ def _salvage(ctx: Context, pid: str, year: int, cost: float) -> float:
 
 
 def build_result(ctx: Context, outcome: ScheduleOutcome) -> PlanResult:
-    from homeplan.capacity import capacity_model, measured_capacity, state_capacity
+    from homeplan.capacity import (
+        breaker_spaces_note,
+        capacity_model,
+        measured_capacity,
+        state_capacity,
+    )
     from homeplan.incentive_adapter import IncentiveModel
 
     plan = ctx.plan
@@ -178,6 +185,10 @@ def build_result(ctx: Context, outcome: ScheduleOutcome) -> PlanResult:
             seen.add(state)
             names = ", ".join(ctx.details[p].label for p in sorted(changed))
             capacity.append(state_capacity(ctx, cap_model, set(state), f"{year}: after {names}", year))
+    spaces = breaker_spaces_note(ctx, set(done))
+    if spaces:
+        ctx.notes.append(spaces)
+        capacity[-1] = replace(capacity[-1], notes=capacity[-1].notes + (spaces,))
     if ctx.plan.home.electrical.peak_demand_kw is not None:
         capacity += [measured_capacity(ctx, cap_model, set(), None),
                      measured_capacity(ctx, cap_model, set(done), ctx.years[-1])]
