@@ -15,6 +15,7 @@ import datetime as dt
 from dataclasses import dataclass
 from pathlib import Path
 
+from homeplan import catalog
 from homeplan.errors import PlanRuleError
 from homeplan.lifecycle import appliance_fuel
 from homeplan.result import ProgramUse
@@ -106,6 +107,11 @@ class IncentiveModel:
         self.household = Household(ami_pct=h.ami_pct, tax_liability_usd=h.federal_tax_liability_usd,
                                    state_tax_liability_usd=h.state_tax_liability_usd)
         self._estimates: dict[str, dict] = {}
+        # programs with yearly caps shared by several items are given to the scheduler as capped
+        # groups (so that spreading capped items over tax years is found when it pays); the
+        # per-item estimates cover everything else
+        self.estimate_programs = tuple(self._without_capped_kinds(p) for p in programs)
+        self.estimate_programs = tuple(p for p in self.estimate_programs if p.kinds)
 
     @classmethod
     def for_context(cls, ctx) -> IncentiveModel:
@@ -114,6 +120,52 @@ class IncentiveModel:
             cached = cls(ctx, _programs_cached(ctx))
             ctx._incentives = cached
         return cached
+
+    @staticmethod
+    def _without_capped_kinds(program):
+        from dataclasses import replace
+
+        if not program.yearly_caps:
+            return program
+        capped = frozenset().union(*(g.kinds for g in program.yearly_caps))
+        return replace(program, kinds=frozenset(program.kinds - capped), yearly_caps=())
+
+    def groups(self) -> tuple:
+        """Yearly-capped programs as scheduler groups: each project's share of its cost that
+        the program pays on its own (rate, tier and per-item caps), the yearly cap, the years
+        the program is open, and when the money arrives."""
+        from dataclasses import replace
+
+        from homeplan.money.incentives import evaluate
+        from homeplan.plan_schedule import cost_in_year
+        from homeplan.schedule.problem import IncentiveGroup
+
+        out = []
+        for prog in self.programs:
+            for cg in prog.yearly_caps:
+                years = [y for y in self.ctx.years
+                         if (prog.starts is None or prog.starts <= _install_date(y))
+                         and (prog.ends is None or _install_date(y) <= prog.ends)]
+                if not years:
+                    continue
+                alone = replace(prog, yearly_caps=(), lifetime_cap_usd=None, kinds=frozenset(cg.kinds))
+                rates = {}
+                for pid, d in self.ctx.details.items():
+                    if MONEY_KIND.get(d.kind, d.kind) not in cg.kinds:
+                        continue
+                    cost = cost_in_year(self.ctx, pid, years[0])
+                    res = evaluate([self.purchase(pid, years[0], cost)], [alone], self.household)
+                    earned = sum(a.earned_usd for a in res.awards)
+                    if cost > 0 and earned > 0:
+                        rates[pid] = earned / cost
+                if not rates:
+                    continue
+                pos = prog.kind == "point_of_sale_rebate"
+                lag = 0 if pos or (prog.kind == "rebate_later" and prog.paid_after_days < 300) else 1
+                out.append(IncentiveGroup(id=f"{prog.id}:{cg.name}", rates=rates, cap_usd_per_year=cg.cap_usd,
+                                          arrives_after_years=lag, adds_to_budget=pos, name=prog.name,
+                                          active_years=tuple(years)))
+        return tuple(out)
 
     def purchase(self, pid: str, year: int, cost_usd: float):
         from homeplan.money.incentives import Purchase
@@ -124,7 +176,8 @@ class IncentiveModel:
         return Purchase(
             project_id=pid, kind=MONEY_KIND.get(d.kind, d.kind), cost_usd=cost_usd,
             installed_on=_install_date(year),
-            panel_amps=200.0 if d.kind in ("panel_upgrade", "service_upgrade") else None,
+            panel_amps=(float(catalog.upgrade_kinds()[d.kind].provides_amps or 0) or None)
+            if d.kind in ("panel_upgrade", "service_upgrade") else None,
             size_kw=d.size if d.kind == "solar" else None,
             size_kwh=d.size if d.kind == "battery" else None,
             fuel_switch=bool(fuels & {"gas", "propane", "oil"}),
@@ -132,7 +185,7 @@ class IncentiveModel:
 
     def estimate(self, pid: str, year: int, cost_usd: float) -> tuple[float, float]:
         """(point-of-sale, later) incentives of one purchase alone in ``year``."""
-        if not self.programs:
+        if not self.estimate_programs:
             return 0.0, 0.0
         from homeplan.money.incentives import PROJECT_KINDS, incentives_by_install_year
 
@@ -147,7 +200,7 @@ class IncentiveModel:
             first = self.purchase(pid, self.ctx.first_year, costs[self.ctx.first_year])
             key = f"incentives:{id(self.programs)}:{first}:{sorted(costs.items())}:{self.household}"
             table = self.ctx.cache.memo(key, lambda: incentives_by_install_year(
-                first, costs, self.programs, self.household))
+                first, costs, self.estimate_programs, self.household))
             self._estimates[pid] = table
         ye = table[year]
         scale = cost_usd / ye.cost_usd if ye.cost_usd else 1.0

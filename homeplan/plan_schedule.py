@@ -103,7 +103,7 @@ def _value(ctx: Context, co: Coefficients, t: int, life: float) -> float:
 
 
 def build_problem(ctx: Context, co: dict[str, Coefficients], capacity, implicit_target: bool = True,
-                  delay: int | None = 0) -> Problem:
+                  delay: int | None = 0, groups: tuple = ()) -> Problem:
     """The scheduling problem. ``delay``: years allowed past each appliance's replace-by year
     (None: no replace-by windows)."""
     plan = ctx.plan
@@ -193,6 +193,7 @@ def build_problem(ctx: Context, co: dict[str, Coefficients], capacity, implicit_
         loan_term_years=first_loan.term_years if first_loan else 10,
         savings_to_budget=b.add_bill_savings, prerequisites=tuple(prereqs),
         capacity_base=capacity.base_headroom, max_per_year=plan.choices.max_projects_per_year,
+        incentive_groups=tuple(g for g in groups if all(pid in ctx.details for pid, _ in g.rates)),
         targets=tuple(targets), objective=objective, objective_project=objective_project,
     )
 
@@ -292,15 +293,19 @@ def schedule(ctx: Context) -> ScheduleOutcome:
     capacity = cached_capacity_model(ctx, capacity_model)
     for note in capacity.notes:
         ctx.notes.append(note)
+    key = (f"groups:{id(incentives.programs)}:{[(p, d.cost_today_usd) for p, d in ctx.details.items()]}:"
+           f"{ctx.first_year}:{len(ctx.years)}:{ctx.plan.prices.model_dump_json()}:"
+           f"{ctx.plan.household.model_dump_json()}")
+    groups = ctx.cache.memo(key, incentives.groups)
     co = {pid: coefficients(ctx, pid, set(), incentives) for pid in ctx.details}
     implicit = ctx.plan.choices.all_electric_by is None and ctx.plan.choices.all_electric
-    problem, solution, delay = _solve_relaxing(ctx, co, capacity, implicit)
+    problem, solution, delay = _solve_relaxing(ctx, co, capacity, implicit, groups)
     if not solution.feasible and implicit and problem.targets:
         why = diagnose_infeasible(problem)
         ctx.notes.append(f"fully electric by {ctx.years[-1]} is out of reach: {why} This plan does "
                          "the most it can within the budget.")
         implicit = False
-        problem, solution, delay = _solve_relaxing(ctx, co, capacity, implicit)
+        problem, solution, delay = _solve_relaxing(ctx, co, capacity, implicit, groups)
     passes = 1
     if solution.feasible:
         done = {p: y for p, y in solution.done().items() if p in ctx.details}
@@ -309,7 +314,7 @@ def schedule(ctx: Context) -> ScheduleOutcome:
         for pid in ctx.details:
             before = {q for q in order[:order.index(pid)]} if pid in done else set(done)
             co2[pid] = coefficients(ctx, pid, before, incentives)
-        problem2 = build_problem(ctx, co2, capacity, implicit_target=implicit, delay=delay)
+        problem2 = build_problem(ctx, co2, capacity, implicit_target=implicit, delay=delay, groups=groups)
         solution2 = solve(problem2)
         if solution2.feasible:
             problem, solution, co, passes = problem2, solution2, co2, 2
@@ -320,13 +325,13 @@ def schedule(ctx: Context) -> ScheduleOutcome:
                            capacity=capacity)
 
 
-def _solve_relaxing(ctx: Context, co, capacity, implicit: bool):
+def _solve_relaxing(ctx: Context, co, capacity, implicit: bool, groups: tuple = ()):
     """Solve with the replace-by windows; if the budget cannot meet them, allow the fewest
     extra years that make it feasible, and finally drop the windows."""
 
     delays: list[int | None] = list(range(0, len(ctx.years))) + [None]
     for delay in delays:
-        problem = build_problem(ctx, co, capacity, implicit_target=implicit, delay=delay)
+        problem = build_problem(ctx, co, capacity, implicit_target=implicit, delay=delay, groups=groups)
         solution = solve(problem)
         if solution.feasible:
             if delay:

@@ -101,16 +101,43 @@ def test_failed_appliance_is_replaced_now():
     assert year.get("heat_pump_water_heater") == plan.first_year
 
 
-def test_more_budget_never_makes_it_later_to_be_fully_electric():
+def test_more_budget_brings_the_last_gasoline_car_forward():
     path = ROOT / "sample_homes" / "oil_boiler_no_ducts.yaml"
     _, low = run(path)
     _, high = run(path, budget__usd_per_year=25000)
 
-    def electric_year(r):
-        m = [x.year for x in r.roadmap.milestones if x.kind == "fully_electric"]
-        return m[0] if m else 9999
+    def car_year(r):
+        return next(x.year for x in r.roadmap.milestones if x.kind == "last_gasoline_car")
 
-    assert electric_year(high) <= electric_year(low)
+    assert car_year(high) < car_year(low)
+
+
+def test_without_carryover_each_year_stands_alone():
+    """Unspent money is lost: no year spends more than its own budget, and the plan changes."""
+    path = ROOT / "sample_homes" / "cold_gas_100a.yaml"
+    plan, carry = run(path)
+    plan, alone = run(path, budget__carryover=False)
+    for y in alone.roadmap.years:
+        pos = sum(i.amount_usd for s in alone.roadmap.steps if s.year == y.year
+                  for i in s.incentives if i.kind == "point_of_sale")
+        # the sample adds last year's bill savings to the budget
+        prev = next((p.bill_savings_usd for p in alone.roadmap.years if p.year == y.year - 1), 0.0)
+        assert y.spend_usd - pos <= plan.budget.usd_per_year + max(prev, 0.0) + 1.0, y.year
+    assert [(s.project_id, s.year) for s in carry.roadmap.steps] != \
+        [(s.project_id, s.year) for s in alone.roadmap.steps]
+
+
+@pytest.mark.parametrize("path", SAMPLES, ids=[p.name for p in SAMPLES])
+def test_npv_equals_numpy_financial_on_the_yearly_flows(path):
+    """The roadmap's NPV against doing nothing equals numpy-financial's NPV of its yearly flows
+    (bill savings, spending net of incentives, loan payments, breakdowns avoided, remaining
+    value) - two independent sums of the same accounting."""
+    import numpy_financial as npf
+
+    plan, result = run(path)
+    flows = result.extra["finance"]["plan"]["flows_usd"]
+    rate = plan.budget.discount_rate_pct / 100
+    assert npf.npv(rate, flows) == pytest.approx(result.roadmap.npv_usd, abs=max(25.0, 0.002 * abs(result.roadmap.npv_usd)))
 
 
 @pytest.mark.parametrize("path", SAMPLES, ids=[p.name for p in SAMPLES])

@@ -252,7 +252,7 @@ def build_model(
         if pr.must_do(p):
             rows.add({di(p, last): 1.0}, 1.0, inf)
     for g, ig in enumerate(pr.incentive_groups):
-        ub[zi(g, 0) : zi(g, 0) + nt] = ig.cap_usd_per_year
+        ub[zi(g, 0) : zi(g, 0) + nt] = [ig.cap_in(pr.first_year + t) for t in range(nt)]
     if n_l:
         ub[li(0) : li(0) + nt] = pr.loan_limit_usd
     if n_w:

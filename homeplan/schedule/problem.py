@@ -160,6 +160,7 @@ class IncentiveGroup:
     ``rates`` maps project id -> share of its cost earned. Earned in year t:
     ``min(cap_usd_per_year, sum_p rate_p cost[p,t] x[p,t])``; the money arrives
     ``arrives_after_years`` later and, if ``adds_to_budget``, adds to that year's budget.
+    ``active_years``: the calendar years the program pays in (its window); empty = every year.
     """
 
     id: str
@@ -168,10 +169,16 @@ class IncentiveGroup:
     arrives_after_years: int = 1
     adds_to_budget: bool = False
     name: str = ""
+    active_years: tuple[int, ...] = ()
+
+    def cap_in(self, year: int) -> float:
+        """The cap in a calendar year: 0 outside the program's window."""
+        return self.cap_usd_per_year if not self.active_years or year in self.active_years else 0.0
 
     def __post_init__(self) -> None:
         rates = self.rates.items() if isinstance(self.rates, Mapping) else self.rates
         object.__setattr__(self, "rates", tuple((str(k), float(v)) for k, v in rates))
+        object.__setattr__(self, "active_years", tuple(int(y) for y in self.active_years))
 
 
 @dataclass(frozen=True)
@@ -458,7 +465,8 @@ def evaluate_batch(problem: Problem, placements: np.ndarray) -> dict[str, np.nda
         for pid, rate in ig.rates:
             i = pr.index(pid)
             base += rate * cost[i][None, :] * x[:, i, :]
-        earned[:, g, :] = np.minimum(base, ig.cap_usd_per_year)
+        caps = np.array([ig.cap_in(pr.first_year + t) for t in range(nt)])
+        earned[:, g, :] = np.minimum(base, caps[None, :])
     out["incentives_usd"] = earned
 
     # money in and budget with just-in-time loans

@@ -73,13 +73,14 @@ def test_charging_more_than_a_day_fits():
 
 def test_emission_factors_eia_epa():
     f = EmissionFactors.default()
-    # EIA: 53.06 kg CO2/MMBtu natural gas -> per therm via pint
+    # EPA 40 CFR 98 Table C-1: 53.06 kg CO2/MMBtu natural gas (from memory) -> per therm via pint
     per_therm = (UREG.Quantity(53.06, "kg") / UREG.Quantity(1e6, "Btu") * UREG.Quantity(1, "therm")).to("kg").magnitude
     assert f.natural_gas_kg_per_therm == pytest.approx(per_therm, rel=2e-4)
     assert f.gasoline_kg_per_gal == pytest.approx(8.887)  # EPA-420-F-11-041
     assert f.diesel_kg_per_gal == pytest.approx(10.18)  # EPA-420-F-11-041
-    assert f.heating_oil_kg_per_gal == pytest.approx(10.16)  # EIA coefficients
-    assert f.propane_kg_per_gal == pytest.approx(5.76)  # EIA coefficients
+    # EIA CO2 coefficients (from memory): No. 2 fuel oil 22.4 lb/gal, propane 12.68 lb/gal
+    assert f.heating_oil_kg_per_gal == pytest.approx(UREG.Quantity(22.4, "lb").to("kg").magnitude, rel=0.005)
+    assert f.propane_kg_per_gal == pytest.approx(UREG.Quantity(12.68, "lb").to("kg").magnitude, rel=0.005)
     # EIA FAQ 74: 0.81 lb/kWh (2023)
     assert f.grid_kg_per_kwh == pytest.approx(UREG.Quantity(0.81, "lb").to("kg").magnitude,
                                               rel=0.002)

@@ -10,7 +10,6 @@ import json
 
 import pytest
 
-import homeplan.commands as engine_commands
 from homeplan import cli
 from homeplan.report import commands
 from homeplan.schedule.roadmap import Roadmap
@@ -32,14 +31,7 @@ def _wired() -> bool:
 
 @pytest.fixture
 def run(monkeypatch):
-    if not _wired():
-        original = engine_commands.register
-
-        def both(command):
-            original(command)
-            commands.register(command)
-
-        monkeypatch.setattr(engine_commands, "register", both)
+    assert _wired(), "the CLI must register print, export and diff"
     monkeypatch.setattr(commands, "plan_result", lambda path: (None, make_result()))
     monkeypatch.setenv("SOURCE_DATE_EPOCH", "1796083200")  # 2026-12-01T00:00:00Z
     return cli.main

@@ -29,7 +29,6 @@ pytestmark = pytest.mark.slow
 
 @pytest.mark.parametrize("path", SAMPLES, ids=[p.name for p in SAMPLES])
 def test_every_output_of_a_sample(path) -> None:
-    pytest.importorskip("homeplan.pipeline", reason="the planner is not built yet")
     from homeplan.report.commands import plan_result
 
     result = plan_result(str(path))[1]

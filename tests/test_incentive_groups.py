@@ -1,0 +1,56 @@
+"""Yearly caps shared by several items reach the scheduler: splitting capped items over two tax
+years is found when it pays (the shape of 26 USC 25C as amended in 2022: a percentage of cost
+with an aggregate cap per tax year that resets each year - reference notes, money.md)."""
+
+from __future__ import annotations
+
+from homeplan.pipeline import plan_roadmap
+from homeplan.plan.load import load_plan_text
+
+PLAN = """\
+home:
+  climate: {hdd65: 5000, cdd65: 800, heating_design_f: 15, cooling_design_f: 90}
+  floor_area_ft2: 1500
+  electrical: {service_amps: 200}
+appliances:
+  - {kind: water_heater, fuel: electric, year_installed: 2016}
+  - {kind: dryer, fuel: electric, year_installed: 2016}
+  - {kind: heat_pump, year_installed: 2020, capacity_btuh: 24000}
+  - {kind: range, fuel: electric, year_installed: 2020}
+household: {ami_pct: 120, federal_tax_liability_usd: 20000}
+budget: {usd_per_year: 50000, first_year: 2027, horizon_years: 4}
+choices: {all_electric: false, pins: {heat_pump_water_heater: 2027}}
+options:
+  heat_pump_water_heater: {cost_usd: 4000}
+  envelope: {cost_usd: 4000}
+incentives:
+  - id: capped_credit
+    name: Invented capped credit
+    administrator: invented for this test
+    kind: tax_credit
+    kinds: [heat_pump_water_heater, envelope]
+    rate_pct: 30
+    yearly_caps:
+      - {name: per tax year, kinds: [heat_pump_water_heater, envelope], cap_usd: 1200}
+    starts: 2026-01-01
+    ends: 2030-12-31
+    source: invented for this test
+"""
+
+
+def test_capped_items_are_spread_over_tax_years():
+    # 30 % of $4,000 = $1,200 each; together in one year the $1,200 cap pays $1,200, in two
+    # years $2,400 - worth more than the year of savings the later item gives up
+    result = plan_roadmap(load_plan_text(PLAN).plan)
+    year = {s.project_id: s.year for s in result.roadmap.steps}
+    assert year["heat_pump_water_heater"] == 2027
+    assert "envelope" in year and year["envelope"] != 2027
+    paid = {s.project_id: s.incentives_usd for s in result.roadmap.steps}
+    assert paid["heat_pump_water_heater"] + paid["envelope"] == 2400
+
+
+def test_one_year_cap_is_applied_exactly_when_together():
+    text = PLAN.replace("pins: {heat_pump_water_heater: 2027}", "pins: {heat_pump_water_heater: 2027, envelope: 2027}")
+    result = plan_roadmap(load_plan_text(text).plan)
+    paid = {s.project_id: s.incentives_usd for s in result.roadmap.steps}
+    assert paid["heat_pump_water_heater"] + paid["envelope"] == 1200
