@@ -203,7 +203,8 @@ def build_result(ctx: Context, outcome: ScheduleOutcome) -> PlanResult:
                "finance": {"plan": plan_returns(roadmap, rate, extra_flows, roadmap.npv_usd),
                            "projects": project_returns(ctx, outcome, roadmap),
                            "solar_hedge": solar_hedge(ctx, roadmap)},
-               "capacity_remedy": cap_model.remedy_project, "solar_connection": cap_model.solar_connection},
+               "capacity_remedy": cap_model.remedy_project, "solar_connection": cap_model.solar_connection,
+               "hourly": hourly_series(ctx, done)},
     )
 
 
@@ -272,6 +273,20 @@ def lfl_step(ctx: Context, outcome: ScheduleOutcome, pid: str, year: int) -> Ste
     notes = (cautions["combustion_removal"],) if a is not None and (a.fuel or "gas") != "electric" else ()
     return Step(project_id=pid, label=pr.label, year=year, cost_usd=round(cost, 2), net_cost_usd=round(cost, 2),
                 reasons=tuple(dict.fromkeys(reasons)), cautions=notes)
+
+
+def hourly_series(ctx: Context, done: dict[str, int]) -> dict[str, dict[str, list[float]]]:
+    """Hour-by-hour electricity of a typical year, today and after the plan (for the CSV export)."""
+    from homeplan.home_energy import simulate_state, state_spec
+    from homeplan.pipeline import _APPLY_ORDER
+
+    out = {}
+    for label, ids in (("today", ()), ("after the plan", tuple(done))):
+        choices = sorted((ctx.choice(p) for p in ids), key=lambda c: _APPLY_ORDER.get(c.kind, 50))
+        r = simulate_state(ctx.basis, state_spec(ctx.basis, ctx.plan, choices, label=label))
+        out[label] = {k: [round(float(v), 4) for v in getattr(r, k)]
+                      for k in ("load_kw", "solar_kw", "grid_import_kw", "grid_export_kw")}
+    return out
 
 
 def breakdowns_by_year(ctx: Context, done: dict[str, int]) -> list[float]:
