@@ -155,6 +155,9 @@ def build_problem(ctx: Context, co: dict[str, Coefficients], capacity, implicit_
         if data["kind"] == "requires" and u in ctx.details and v in ctx.details:
             prereqs.append(Prerequisite(project=v, requires_any=(u,), label=data.get("why", "")))
     prereqs.extend(capacity.prerequisites)
+    order_projects, order_prereqs, exclusive = better_before(ctx)
+    projects.extend(order_projects)
+    prereqs.extend(order_prereqs)
     extra, extra_prereqs = breakdown_projects(ctx, excluded_lfl=bool(targets_for(ctx, implicit_target)))
     projects.extend(extra)
     prereqs.extend(extra_prereqs)
@@ -195,10 +198,35 @@ def build_problem(ctx: Context, co: dict[str, Coefficients], capacity, implicit_
         capacity_base=capacity.base_headroom, max_per_year=plan.choices.max_projects_per_year,
         incentive_groups=tuple(g for g in groups if all(pid in ctx.details for pid, _ in g.rates)),
         targets=tuple(targets), objective=objective, objective_project=objective_project,
+        exclusive_groups=tuple(exclusive),
     )
 
 
+ORDER_PREFIX = "order:"
 LFL_PREFIX = "like_for_like:"
+
+
+def better_before(ctx: Context) -> tuple[list[Project], list[Prerequisite], list]:
+    """"Better before" order (air sealing before the heat pump is sized; the roof before solar
+    when it has less life left than the panels) as a rule that binds only when both are done:
+    the later project needs the earlier one, or a free marker that rules the earlier one out.
+
+    References
+    ----------
+    Common practice, no source (see homeplan/graph.py).
+    """
+    from homeplan.schedule.problem import ExclusiveGroup
+
+    T = len(ctx.years)
+    projects, prereqs, groups = [], [], []
+    for u, v, data in ctx.g.edges(data=True):
+        if data["kind"] != "better_before" or u not in ctx.details or v not in ctx.details:
+            continue
+        marker = f"{ORDER_PREFIX}{u}>{v}"
+        projects.append(Project(id=marker, label=f"no {ctx.details[u].label.lower()}", cost_usd=[0.0] * T))
+        prereqs.append(Prerequisite(project=v, requires_any=(u, marker), label=data.get("why", "")))
+        groups.append(ExclusiveGroup(members=(u, marker)))
+    return projects, prereqs, groups
 COVER_PREFIX = "covered:"
 
 

@@ -97,7 +97,7 @@ def build_result(ctx: Context, outcome: ScheduleOutcome) -> PlanResult:
         d = ctx.details[pid]
         lines = tuple(IncentiveLine(a.program, a.amount_usd, a.arrives, a.kind) for a in awards.get(pid, ()))
         cost = costs[pid]
-        extra_reasons = list(outcome.reasons.get(pid, ()))
+        extra_reasons = [r for r in outcome.reasons.get(pid, ()) if " the no " not in r and not r.startswith("after the no ")]
         if pid in cap_model.variant_notes:
             extra_reasons.append(cap_model.variant_notes[pid])
         if d.kind == "heat_pump":

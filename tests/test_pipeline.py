@@ -161,3 +161,14 @@ def test_unreachable_target_is_explained():
     plan, result = run(path, choices__all_electric_by=2028, budget__usd_per_year=3000)
     assert result.roadmap.status == "infeasible"
     assert "budget" in result.roadmap.infeasibility.lower()
+
+
+def test_air_sealing_comes_before_the_heat_pump_when_both_are_done():
+    """'Better before' binds when both happen (common practice, no source: seal the house
+    before sizing the heat pump): pinning them the wrong way round cannot be planned."""
+    path = ROOT / "sample_homes" / "cold_gas_100a.yaml"
+    _, ok = run(path, choices__pins={"heat_pump": 2029})
+    year = {s.project_id: s.year for s in ok.roadmap.steps}
+    assert "envelope" in year and year["envelope"] <= year["heat_pump"]
+    _, wrong = run(path, choices__pins={"heat_pump": 2027, "envelope": 2029})
+    assert wrong.roadmap.status == "infeasible"
