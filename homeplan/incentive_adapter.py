@@ -237,5 +237,4 @@ class IncentiveModel:
             return ()
         from homeplan.money.incentives import program_totals
 
-        return tuple(ProgramUse(t.program_id, t.name, t.kind, dict(t.paid_by_year), t.caps_note, t.ends)
-                     for t in program_totals(result, self.programs))
+        return tuple(program_totals(result, self.programs))

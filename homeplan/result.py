@@ -10,6 +10,7 @@ from dataclasses import dataclass, field
 from typing import Any
 
 from homeplan.lifecycle import LifeOutlook
+from homeplan.money.incentives import ProgramTotal
 from homeplan.plan.model import Plan
 from homeplan.schedule.roadmap import Roadmap
 
@@ -76,16 +77,9 @@ class EnergySummary:
     solar_kwh_per_kw: float = 0.0           # specific yield of the array, when there is one
 
 
-@dataclass(frozen=True)
-class ProgramUse:
-    """How much one incentive program pays in this roadmap."""
-
-    program_id: str
-    name: str
-    kind: str
-    paid_by_year: dict[int, float]
-    caps_note: str = ""
-    ends: str | None = None                 # ISO date the window closes, if any
+ProgramUse = ProgramTotal
+"""How much one incentive program pays in this roadmap (program_id, name, kind, paid_by_year,
+caps_note, ends): the money engine's own per-program total."""
 
 
 @dataclass(frozen=True)
