@@ -324,7 +324,7 @@ def render_diff(name_a: str, name_b: str, inputs: list[Change], roadmap: list[Ro
     lines = [f"A: {name_a}" + (f"  (plan {hash_a})" if hash_a else ""),
              f"B: {name_b}" + (f"  (plan {hash_b})" if hash_b else ""), ""]
     if hash_a and hash_a == hash_b:
-        lines.append("Same plan content (the hashes match); only comments or layout differ.")
+        lines.append("Same plan content (the hashes match); comments and layout may differ.")
     lines.append("Inputs:" if inputs else "Inputs: no changes")
     lines += [f"  {c.words}" for c in inputs]
     if roadmap is None:
