@@ -47,3 +47,26 @@ def test_migration_chain_applies_each_step_in_order():
 def test_migration_gap_is_reported():
     with pytest.raises(KeyError, match="no migration from plan format 1"):
         migrate.upgrade({}, 1, steps={}, to_version=2)
+
+
+def test_project_value_by_hand():
+    """plan_schedule._value: savings for the horizon's years, later incentives a year later, and
+    the unused share of what was paid at the end (NIST Handbook 135 present value, straight-line
+    residual). Worked by hand below."""
+    from types import SimpleNamespace
+
+    from homeplan.plan_schedule import Coefficients, _value
+
+    ctx = SimpleNamespace(
+        plan=SimpleNamespace(budget=SimpleNamespace(discount_rate_pct=10.0)),
+        years=[2027, 2028, 2029],
+        escalation=lambda fuel: 0.0,
+    )
+    co = Coefficients(cost_usd=[1000.0] * 3, pos_incentive_usd=[100.0] * 3,
+                      later_incentive_usd=[200.0] * 3, savings_by_fuel={"gas": 110.0},
+                      emissions_saved_kg=0.0)
+    # installed in year index 1 (2028), life 4 years, horizon 3 years, discount 10 %:
+    #   savings in years 1 and 2: 110/1.1 + 110/1.21 = 100 + 90.909 = 190.909
+    #   later incentive 200 arrives in year 2: 200/1.21 = 165.289
+    #   paid 1000 - 100 - 200 = 700; used 2 of 4 years at the end -> 350 left, at year 3: 350/1.331 = 262.960
+    assert _value(ctx, co, 1, 4.0) == pytest.approx(190.909 + 165.289 + 262.960, abs=0.01)
