@@ -204,7 +204,8 @@ def build_result(ctx: Context, outcome: ScheduleOutcome) -> PlanResult:
                            "projects": project_returns(ctx, outcome, roadmap),
                            "solar_hedge": solar_hedge(ctx, roadmap)},
                "capacity_remedy": cap_model.remedy_project, "solar_connection": cap_model.solar_connection,
-               "hourly": hourly_series(ctx, done)},
+               "hourly": ctx.cache.memo(f"hourly:{sorted((p, ctx.details[p].variant) for p in done)}",
+                                        lambda: hourly_series(ctx, done))},
     )
 
 
