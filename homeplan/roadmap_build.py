@@ -190,8 +190,14 @@ def build_result(ctx: Context, outcome: ScheduleOutcome) -> PlanResult:
         ctx.notes.append(spaces)
         capacity[-1] = replace(capacity[-1], notes=capacity[-1].notes + (spaces,))
     if ctx.plan.home.electrical.peak_demand_kw is not None:
-        capacity += [measured_capacity(ctx, cap_model, set(), None),
-                     measured_capacity(ctx, cap_model, set(done), ctx.years[-1])]
+        measured = [measured_capacity(ctx, cap_model, set(), None),
+                    measured_capacity(ctx, cap_model, set(done), ctx.years[-1])]
+        capacity += measured
+        if measured[-1].total_va == measured[-1].total_va and not measured[-1].fits:
+            ctx.notes.append(f"by your measured peak (NEC 220.87) the planned loads do not fit "
+                             f"({measured[-1].amps:.0f} A on {measured[-1].service_amps:.0f} A); the plan "
+                             "uses the 220.83 calculation, which fits - ask your electrician which one "
+                             "the inspector accepts")
     final = frozenset(done)
     after = ctx.energy(final, "after the plan").summary
     return PlanResult(

@@ -81,3 +81,33 @@ options:
     chosen = {s.project_id for s in result.roadmap.steps}
     lower = [s for s in result.roadmap.steps if any("lower-power" in r for r in s.reasons)]
     assert "service_upgrade" in chosen or "load_management" in chosen or lower
+
+
+def test_final_state_counts_every_planned_load():
+    """Rebuild the last state's load list from the roadmap's steps and run NEC 220.83 directly:
+    the roadmap's figure must match (every planned load counted, replaced loads removed)."""
+    from dataclasses import replace
+
+    from homeplan import catalog
+    from homeplan.capacity import _dwelling, _service, existing_loads, project_loads
+    from homeplan.electrical.nec220 import nec220_83
+    from homeplan.plan.load import load_plan
+
+    from .conftest import ROOT
+
+    plan = load_plan(ROOT / "sample_homes" / "cold_gas_100a.yaml").plan
+    result = plan_roadmap(plan, ROOT / "sample_homes")
+    assert result.extra["capacity_remedy"] is None  # this sample needs no remedy (checked above)
+    kinds = catalog.upgrade_kinds()
+    loads = existing_loads(plan)
+    for step in result.roadmap.steps:
+        info = result.project(step.project_id)
+        if info is None or not kinds[info.kind].capacity_load:
+            continue
+        gone = {ld.name for ld in loads for key in info.replaces if ld.name.startswith(f"{key} ")}
+        loads = [ld for ld in loads if ld.name not in gone]
+        loads += [replace(ld, existing=False) for ld in project_loads(info.kind, info.variant, info.size, info.label)]
+    calc = nec220_83(_dwelling(plan), loads, _service(plan), edition=plan.home.electrical.code_edition)
+    last = [s for s in result.capacity if s.year is not None and "measured" not in s.label][-1]
+    assert last.amps == pytest.approx(calc.amps, abs=0.01)
+    assert last.amps > result.capacity[0].amps  # the electric loads really were added
