@@ -191,7 +191,12 @@ def capacity_model(ctx) -> CapacityModel:
     dwelling, service = _dwelling(plan), _service(plan)
     base = existing_loads(plan)
     today = nec220_83(dwelling, base, service, edition=edition)
-    model = CapacityModel(base_headroom=float(today.headroom_amps))
+    model = CapacityModel(base_headroom=max(float(today.headroom_amps), 0.0))
+    if today.headroom_amps < 0:
+        model.notes.append(
+            f"by the load calculation the home already uses {today.amps:.0f} A of its "
+            f"{today.service_amps:.0f} A service: have an electrician check it; new electric loads "
+            "are planned only with a remedy")
     load_pids = [pid for pid, d in ctx.details.items() if kinds[d.kind].capacity_load
                  and pid not in plan.choices.exclude]
     proposed = []
@@ -311,7 +316,8 @@ def state_capacity(ctx, model: CapacityModel, done: set[str], label: str, year: 
     pv = {p for p in done if p in ctx.details and ctx.details[p].kind in ("solar", "battery")}
     inverter = _inverter_amps(ctx, pv)
     notes: list[str] = []
-    if inverter > 0 and model.remedy is not None and model.remedy.derated_main_amps and pv:
+    if (inverter > 0 and model.remedy is not None and model.remedy.derated_main_amps and pv
+            and model.remedy.derated_main_amps < (service.main_breaker_amps or service.service_amps)):
         service = Service(service_amps=service.service_amps, busbar_amps=service.busbar_amps,
                           main_breaker_amps=model.remedy.derated_main_amps, volts=service.volts)
         remedy_note = (remedy_note + "; " if remedy_note else "") + \
