@@ -111,3 +111,25 @@ def test_final_state_counts_every_planned_load():
     last = [s for s in result.capacity if s.year is not None and "measured" not in s.label][-1]
     assert last.amps == pytest.approx(calc.amps, abs=0.01)
     assert last.amps > result.capacity[0].amps  # the electric loads really were added
+
+
+def test_home_already_over_its_service_can_be_planned():
+    """Existing heat pump with strips, resistance water heater, electric range and an EV charger
+    on 100 A: by NEC 220.83(A) the home is already over its service. The plan must still be made
+    (doing nothing is always possible) and must say so."""
+    text = """\
+home:
+  climate: {hdd65: 6300, cdd65: 850, heating_design_f: -2, cooling_design_f: 89}
+  floor_area_ft2: 1500
+  electrical: {service_amps: 100}
+appliances:
+  - {kind: heat_pump, capacity_btuh: 36000}
+  - {kind: water_heater, fuel: electric}
+  - {kind: range, fuel: electric}
+vehicles: [{fuel: electric}]
+budget: {usd_per_year: 5000, first_year: 2027}
+"""
+    result = plan_roadmap(load_plan_text(text).plan)
+    assert result.capacity[0].headroom_amps < 0
+    assert result.roadmap.status == "ok"
+    assert any("already uses" in w for w in result.warnings)
