@@ -95,7 +95,7 @@ def existing_loads(plan: Plan) -> list:
     return out
 
 
-def _names_for(plan: Plan, keys: tuple[str, ...], loads: list) -> tuple[str, ...]:
+def _names_for(keys: tuple[str, ...], loads: list) -> tuple[str, ...]:
     prefixes = tuple(f"{k} " for k in keys)
     return tuple(ld.name for ld in loads if ld.name.startswith(prefixes))
 
@@ -214,7 +214,7 @@ def capacity_model(ctx) -> CapacityModel:
             vs.append(Variant(label=vid, loads=project_loads(d.kind, vid, alt.size, pid),
                               extra_cost_usd=max(0.0, alt.cost_today_usd - d.cost_today_usd)))
         proposed.append(ProposedLoad(name=pid, variants=tuple(vs),
-                                     replaces=_names_for(plan, d.candidate.replaces, base)))
+                                     replaces=_names_for(d.candidate.replaces, base)))
     offered = {pid for pid in REMEDY_PROJECTS if pid in ctx.details and pid not in plan.choices.exclude}
     p = performance()
     upgrades = ()
@@ -279,7 +279,7 @@ def capacity_model(ctx) -> CapacityModel:
 
 
 def _apply(loads: list, plan: Plan, replaces: tuple[str, ...], new: tuple) -> list:
-    gone = set(_names_for(plan, replaces, loads))
+    gone = set(_names_for(replaces, loads))
     return [ld for ld in loads if ld.name not in gone] + [replace(ld, existing=False) for ld in new]
 
 
@@ -409,7 +409,7 @@ def breaker_spaces_note(ctx, done: set[str]) -> str | None:
         d = ctx.details.get(pid)
         if d is None or not kinds[d.kind].capacity_load:
             continue
-        if d.candidate.replaces and _names_for(ctx.plan, d.candidate.replaces, existing_loads(ctx.plan)):
+        if d.candidate.replaces and _names_for(d.candidate.replaces, existing_loads(ctx.plan)):
             continue  # reuses the circuit of the electric appliance it replaces
         for ld in project_loads(d.kind, d.variant, d.size, d.label):
             need += 2 if ld.volts >= 208 else 1

@@ -265,6 +265,3 @@ def cmd_open(args) -> int:
 
     return run_app(args)
 
-
-if __name__ == "__main__":  # pragma: no cover
-    sys.exit(1)

@@ -206,17 +206,16 @@ class IncentiveModel:
         scale = cost_usd / ye.cost_usd if ye.cost_usd else 1.0
         return ye.point_of_sale_usd * min(scale, 1.0), ye.later_usd * min(scale, 1.0)
 
-    def exact(self, done: dict[str, int], costs: dict[str, float]) -> dict[str, list[AwardLine]]:
-        """Every award of the chosen purchases evaluated together, by project id."""
-        self.last_result = None
+    def exact(self, done: dict[str, int], costs: dict[str, float]):
+        """Every award of the chosen purchases evaluated together: (award lines by project id,
+        the engine's full result or None)."""
         if not self.programs or not done:
-            return {}
+            return {}, None
         from homeplan.money.incentives import PROJECT_KINDS, evaluate
 
         items = [self.purchase(p, y, costs[p]) for p, y in sorted(done.items(), key=lambda kv: (kv[1], kv[0]))
                  if MONEY_KIND.get(self.ctx.details[p].kind, self.ctx.details[p].kind) in PROJECT_KINDS]
         result = evaluate(items, self.programs, self.household)
-        self.last_result = result
         names = {p.id: p.name for p in self.programs}
         out: dict[str, list[AwardLine]] = {}
         for a in result.awards:
@@ -228,11 +227,10 @@ class IncentiveModel:
                 if pay.amount_usd > 0:
                     out.setdefault(a.project_id, []).append(
                         AwardLine(names.get(a.program_id, a.program_id), round(pay.amount_usd, 2), pay.on, kind))
-        return out
+        return out, result
 
-    def uses(self, awards: dict) -> tuple[ProgramUse, ...]:
+    def uses(self, result) -> tuple[ProgramUse, ...]:
         """What each program pays in the plan, with its caps in words and its end date."""
-        result = getattr(self, "last_result", None)
         if result is None or not self.programs:
             return ()
         from homeplan.money.incentives import program_totals

@@ -19,7 +19,6 @@ from __future__ import annotations
 
 import hashlib
 import json
-import math
 import threading
 from dataclasses import dataclass
 from pathlib import Path
@@ -33,7 +32,7 @@ from homeplan.result import EnergySummary, PlanResult, ProjectInfo
 
 OBJECTIVE = {"npv": "max_npv", "emissions": "min_emissions", "gas_off_early": "earliest_gas_closure",
              "out_of_pocket": "min_out_of_pocket"}
-FOSSIL_FUELS = ("natural_gas", "propane", "heating_oil", "gasoline", "diesel")
+"""Plan-file objective -> scheduler objective."""
 
 
 def _key(*parts) -> str:
@@ -310,7 +309,3 @@ def replaceable_items(ctx: Context) -> dict[str, tuple[str, float | None]]:
 
 def discount(rate_pct: float, t: float) -> float:
     return (1.0 + rate_pct / 100.0) ** -t
-
-
-def nan_to_zero(x: float) -> float:
-    return 0.0 if x is None or (isinstance(x, float) and math.isnan(x)) else x

@@ -26,6 +26,7 @@ from dataclasses import dataclass, field
 from homeplan import catalog
 from homeplan.graph import MILESTONE_FOR_FUEL
 from homeplan.pipeline import (
+    OBJECTIVE,
     Context,
     breakdown_cost,
     discount,
@@ -176,8 +177,7 @@ def build_problem(ctx: Context, co: dict[str, Coefficients], capacity, implicit_
                 ctx.notes.append(note)
         if ids:
             targets.append(Target(ids, by, "fully electric"))
-    objective = {"npv": "max_npv", "emissions": "min_emissions", "gas_off_early": "earliest_gas_closure",
-                 "out_of_pocket": "min_out_of_pocket"}[plan.choices.objective]
+    objective = OBJECTIVE[plan.choices.objective]
     objective_project = None
     if objective == "earliest_gas_closure":
         objective_project = next((m for m in MILESTONE_FOR_FUEL.values() if m in ctx.details), None)

@@ -20,7 +20,6 @@ from __future__ import annotations
 from dataclasses import replace
 
 from homeplan import catalog
-from homeplan.graph import MILESTONE_FOR_FUEL
 from homeplan.pipeline import (
     Context,
     breakdown_cost,
@@ -90,7 +89,7 @@ def build_result(ctx: Context, outcome: ScheduleOutcome) -> PlanResult:
     by_year = _state_by_year(ctx, done)
     incentives = IncentiveModel.for_context(ctx)
     costs = {p: cost_in_year(ctx, p, y) for p, y in done.items()}
-    awards = incentives.exact(done, costs)
+    awards, incentive_result = incentives.exact(done, costs)
     # steps
     steps = [lfl_step(ctx, outcome, pid, year) for pid, year in lfl.items()]
     for pid, year in sorted(done.items(), key=lambda kv: (kv[1], kv[0])):
@@ -117,7 +116,6 @@ def build_result(ctx: Context, outcome: ScheduleOutcome) -> PlanResult:
     years = []
     cumulative = 0.0
     npv = 0.0
-    base_bills_total = sum(base_energy.bills_usd.values())
     for t, year in enumerate(ctx.years):
         state = ctx.energy(frozenset(by_year[year]), f"{year}")
         bills = _bills_in_year(ctx, state.bills_usd, t)
@@ -153,7 +151,6 @@ def build_result(ctx: Context, outcome: ScheduleOutcome) -> PlanResult:
     plan_break = breakdowns_by_year(ctx, {**done, **lfl})
     extra_flows = [dn_break[t] - plan_break[t] for t in range(T)]
     extra_flows[-1] += (salvage + late - owed) / discount(rate, T - 1)
-    _ = base_bills_total
     today_cap = state_capacity(ctx, cap_model, set(), "today", None)
     # every NPV is against doing nothing: keeping today's home and paying for its breakdowns
     reference = expected_breakdowns(ctx, {})
@@ -202,7 +199,7 @@ def build_result(ctx: Context, outcome: ScheduleOutcome) -> PlanResult:
     after = ctx.energy(final, "after the plan").summary
     return PlanResult(
         plan=plan, roadmap=roadmap, outlooks=outlooks, projects=infos, capacity=tuple(capacity),
-        energy_before=base_energy.summary, energy_after=after, programs=incentives.uses(awards),
+        energy_before=base_energy.summary, energy_after=after, programs=incentives.uses(incentive_result),
         content_hash=content_hash(plan),
         warnings=tuple(dict.fromkeys(ctx.notes)),
         extra={"solver": {"status": sol.status, "seconds": sol.solve_time_s, "passes": outcome.passes},
@@ -410,5 +407,3 @@ def assumptions(ctx: Context) -> dict:
                        "nothing, with the equipment's remaining value at the end of the horizon",
     }
 
-
-__all__ = ["build_result", "MILESTONE_FOR_FUEL"]

@@ -170,20 +170,25 @@ def read_epw(path: str | Path) -> Weather:
         fh.readline()
         design = parse_epw_design_conditions(fh.readline())
     heat_f, cool_f = design if design else (None, None)
+    return _from_pvlib(data["temp_air"], data["ghi"], data["dni"], data["dhi"], data["wind_speed"], meta,
+                       f"EPW {Path(path).name}", heating_design_f=heat_f, cooling_design_f=cool_f,
+                       design_source="EPW DESIGN CONDITIONS (ASHRAE 99 % / 1 %)" if design else "")
+
+
+def _from_pvlib(temp_c, ghi, dni, dhi, wind, meta, source: str, **extra) -> Weather:
+    """A Weather from the columns and metadata one of pvlib's readers returned."""
     return Weather(
-        temp_f=c_to_f(data["temp_air"].to_numpy(float)),
-        ghi_wm2=data["ghi"].to_numpy(float),
-        dni_wm2=data["dni"].to_numpy(float),
-        dhi_wm2=data["dhi"].to_numpy(float),
-        wind_ms=data["wind_speed"].to_numpy(float),
+        temp_f=c_to_f(temp_c.to_numpy(float)),
+        ghi_wm2=ghi.to_numpy(float),
+        dni_wm2=dni.to_numpy(float),
+        dhi_wm2=dhi.to_numpy(float),
+        wind_ms=wind.to_numpy(float),
         latitude_deg=float(meta["latitude"]),
         longitude_deg=float(meta["longitude"]),
         tz_offset_h=float(meta["TZ"]),
         altitude_m=float(meta.get("altitude", 0.0)),
-        heating_design_f=heat_f,
-        cooling_design_f=cool_f,
-        source=f"EPW {Path(path).name}",
-        design_source="EPW DESIGN CONDITIONS (ASHRAE 99 % / 1 %)" if design else "",
+        source=source,
+        **extra,
     )
 
 
@@ -198,18 +203,8 @@ def read_tmy3(path: str | Path) -> Weather:
     from pvlib.iotools import read_tmy3 as _read
 
     data, meta = _read(str(path), map_variables=True)
-    return Weather(
-        temp_f=c_to_f(data["temp_air"].to_numpy(float)),
-        ghi_wm2=data["ghi"].to_numpy(float),
-        dni_wm2=data["dni"].to_numpy(float),
-        dhi_wm2=data["dhi"].to_numpy(float),
-        wind_ms=data["wind_speed"].to_numpy(float),
-        latitude_deg=float(meta["latitude"]),
-        longitude_deg=float(meta["longitude"]),
-        tz_offset_h=float(meta["TZ"]),
-        altitude_m=float(meta.get("altitude", 0.0)),
-        source=f"TMY3 {Path(path).name}",
-    )
+    return _from_pvlib(data["temp_air"], data["ghi"], data["dni"], data["dhi"], data["wind_speed"], meta,
+                       f"TMY3 {Path(path).name}")
 
 
 def read_tmy2(path: str | Path) -> Weather:
@@ -222,18 +217,8 @@ def read_tmy2(path: str | Path) -> Weather:
     from pvlib.iotools import read_tmy2 as _read
 
     data, meta = _read(str(path))
-    return Weather(
-        temp_f=c_to_f(data["DryBulb"].to_numpy(float) / 10.0),
-        ghi_wm2=data["GHI"].to_numpy(float),
-        dni_wm2=data["DNI"].to_numpy(float),
-        dhi_wm2=data["DHI"].to_numpy(float),
-        wind_ms=data["Wspd"].to_numpy(float) / 10.0,
-        latitude_deg=float(meta["latitude"]),
-        longitude_deg=float(meta["longitude"]),
-        tz_offset_h=float(meta["TZ"]),
-        altitude_m=float(meta.get("altitude", 0.0)),
-        source=f"TMY2 {Path(path).name}",
-    )
+    return _from_pvlib(data["DryBulb"] / 10.0, data["GHI"], data["DNI"], data["DHI"], data["Wspd"] / 10.0,
+                       meta, f"TMY2 {Path(path).name}")
 
 
 def read_weather(path: str | Path) -> Weather:
