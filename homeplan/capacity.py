@@ -404,12 +404,13 @@ def breaker_spaces_note(ctx, done: set[str]) -> str | None:
     if free is None:
         return None
     kinds = catalog.upgrade_kinds()
+    today = existing_loads(ctx.plan)
     need = 0
     for pid in done:
         d = ctx.details.get(pid)
         if d is None or not kinds[d.kind].capacity_load:
             continue
-        if d.candidate.replaces and _names_for(d.candidate.replaces, existing_loads(ctx.plan)):
+        if d.candidate.replaces and _names_for(d.candidate.replaces, today):
             continue  # reuses the circuit of the electric appliance it replaces
         for ld in project_loads(d.kind, d.variant, d.size, d.label):
             need += 2 if ld.volts >= 208 else 1

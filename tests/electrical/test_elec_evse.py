@@ -17,12 +17,12 @@ from homeplan.electrical import (
 @pytest.mark.parametrize(
     ("charger", "breaker"),
     [
-        (16, 20),  # electrical.md 625.41 table: 16 A -> 20 A circuit
-        (24, 30),  # electrical.md 625.41 table: 24 A -> 30 A circuit
-        (32, 40),  # electrical.md 625.41 table: 32 A -> 40 A circuit
-        (40, 50),  # electrical.md 625.41 table: 40 A -> 50 A circuit
-        (48, 60),  # electrical.md 625.41 table: 48 A -> 60 A circuit
-        (80, 100),  # electrical.md 625.41 table: 80 A -> 100 A circuit
+        (16, 20),  # NEC 625.41 (125 % of 16 A) rounded up to a 240.6(A) standard size: 20 A
+        (24, 30),  # NEC 625.41 (125 % of 24 A) rounded up to a 240.6(A) standard size: 30 A
+        (32, 40),  # NEC 625.41 (125 % of 32 A) rounded up to a 240.6(A) standard size: 40 A
+        (40, 50),  # NEC 625.41 (125 % of 40 A) rounded up to a 240.6(A) standard size: 50 A
+        (48, 60),  # NEC 625.41 (125 % of 48 A) rounded up to a 240.6(A) standard size: 60 A
+        (80, 100),  # NEC 625.41 (125 % of 80 A) rounded up to a 240.6(A) standard size: 100 A
     ],
 )
 def test_charger_to_circuit_table(charger: int, breaker: int) -> None:

@@ -114,7 +114,8 @@ def test_220_82_interlocked_strips_omit_compressor() -> None:
 
 
 def test_220_82_edition_2026_lighting_factor() -> None:
-    # electrical.md: 2026 edition reportedly 2 VA/ft2 (unconfirmed). D2(a) redone by hand:
+    # NEC 2026 lighting load of 2 VA/ft2: from memory, not checked against the adopted text
+    # (the project's electrical notes say 'reportedly'). NEC Annex D, Example D2(a) redone by hand:
     # 1500 x 2 = 3,000 + 4,500 + 12,000 + 2,500 + 1,200 + 5,000 = 28,200
     # 10,000 + 0.4 x 18,200 = 17,280; + 0.4 x 9,000 heat = 3,600 -> 20,880 VA
     loads = [

@@ -16,10 +16,10 @@ from homeplan.electrical import (
 @pytest.mark.parametrize(
     ("bus", "main", "amps", "kw"),
     [
-        (100, 100, 16, 3.84),  # electrical.md 705.12(B) 120 % rule table: 100/100 -> 16 A = 3.84 kW
-        (125, 100, 40, 9.6),  # electrical.md 705.12(B) 120 % rule table: 125/100 -> 40 A = 9.6 kW
-        (150, 150, 24, 5.76),  # electrical.md 705.12(B) 120 % rule table: 150/150 -> 24 A = 5.76 kW
-        (200, 200, 32, 7.68),  # electrical.md 705.12(B) 120 % rule table: 200/200 -> 32 A = 7.68 kW
+        (100, 100, 16, 3.84),  # NEC 2023 705.12(B) 120 % rule (1.2 x bus - main) / 1.25, 240 V: 100/100 -> 16 A = 3.84 kW
+        (125, 100, 40, 9.6),  # NEC 2023 705.12(B) 120 % rule (1.2 x bus - main) / 1.25, 240 V: 125/100 -> 40 A = 9.6 kW
+        (150, 150, 24, 5.76),  # NEC 2023 705.12(B) 120 % rule (1.2 x bus - main) / 1.25, 240 V: 150/150 -> 24 A = 5.76 kW
+        (200, 200, 32, 7.68),  # NEC 2023 705.12(B) 120 % rule (1.2 x bus - main) / 1.25, 240 V: 200/200 -> 32 A = 7.68 kW
     ],
 )
 def test_120_percent_rule_table(bus: int, main: int, amps: float, kw: float) -> None:
