@@ -154,18 +154,19 @@ class Context:
         d = self.details[pid]
         return Choice(pid, d.kind, d.variant, d.size, d.candidate.replaces)
 
+    def simulate(self, done, label: str = ""):
+        """The full simulated typical year (hourly arrays included) with the projects ``done``."""
+        from homeplan.home_energy import simulate_state
+
+        choices = sorted((self.choice(p) for p in done if p in self.details),
+                         key=lambda c: APPLY_ORDER.get(c.kind, 50))
+        return simulate_state(self.basis, state_spec(self.basis, self.plan, choices, label=label))
+
     def energy(self, done: frozenset[str] | set[str], label: str = "") -> StateEnergy:
-        """Simulated typical year of the home with the projects ``done`` (cached)."""
+        """What the roadmap needs from the typical year with the projects ``done`` (cached)."""
         choices = frozenset(self.choice(p) for p in done if p in self.details)
-
-        def make() -> StateEnergy:
-            from homeplan.home_energy import simulate_state
-
-            ordered = sorted(choices, key=lambda c: _APPLY_ORDER.get(c.kind, 50))
-            spec = state_spec(self.basis, self.plan, ordered, label=label)
-            return summarise_energy(simulate_state(self.basis, spec), label)
-
-        return self.cache.state(self.basis_key, choices, make)
+        return self.cache.state(self.basis_key, choices,
+                                lambda: summarise_energy(self.simulate(done, label), label))
 
     def escalation(self, fuel: str) -> float:
         """Yearly price change of a fuel (fraction)."""
@@ -178,7 +179,7 @@ class Context:
         return (pr.inflation_pct + extra) / 100.0
 
 
-_APPLY_ORDER = {"envelope": 0, "heat_pump": 1, "heat_pump_water_heater": 2, "induction_range": 3,
+APPLY_ORDER = {"envelope": 0, "heat_pump": 1, "heat_pump_water_heater": 2, "induction_range": 3,
                 "heat_pump_dryer": 4, "ev": 5, "solar": 6, "battery": 7, "close_gas": 8,
                 "remove_propane_tank": 8, "remove_oil_tank": 8}
 

@@ -375,9 +375,9 @@ def _solve_relaxing(ctx: Context, co, capacity, implicit: bool, groups: tuple = 
 
 
 def _order_key(ctx: Context, pid: str) -> int:
-    from homeplan.pipeline import _APPLY_ORDER
+    from homeplan.pipeline import APPLY_ORDER
 
     kind = ctx.details[pid].kind
     if catalog.upgrade_kinds()[kind].capacity_remedy:
         return -1
-    return _APPLY_ORDER.get(kind, 50)
+    return APPLY_ORDER.get(kind, 50)

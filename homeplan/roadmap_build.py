@@ -281,13 +281,9 @@ def lfl_step(ctx: Context, outcome: ScheduleOutcome, pid: str, year: int) -> Ste
 
 def hourly_series(ctx: Context, done: dict[str, int]) -> dict[str, dict[str, list[float]]]:
     """Hour-by-hour electricity of a typical year, today and after the plan (for the CSV export)."""
-    from homeplan.home_energy import simulate_state, state_spec
-    from homeplan.pipeline import _APPLY_ORDER
-
     out = {}
     for label, ids in (("today", ()), ("after the plan", tuple(done))):
-        choices = sorted((ctx.choice(p) for p in ids), key=lambda c: _APPLY_ORDER.get(c.kind, 50))
-        r = simulate_state(ctx.basis, state_spec(ctx.basis, ctx.plan, choices, label=label))
+        r = ctx.simulate(ids, label)
         out[label] = {k: [round(float(v), 4) for v in getattr(r, k)]
                       for k in ("load_kw", "solar_kw", "grid_import_kw", "grid_export_kw")}
     return out
