@@ -31,7 +31,7 @@ from homeplan.pipeline import (
 )
 from homeplan.plan.hashing import content_hash
 from homeplan.plan_finance import plan_returns, project_returns, solar_hedge
-from homeplan.plan_schedule import LFL_PREFIX, ScheduleOutcome, cost_in_year
+from homeplan.plan_schedule import LFL_PREFIX, ORDER_PREFIX, ScheduleOutcome, cost_in_year
 from homeplan.result import PlanResult
 from homeplan.schedule.roadmap import Baseline, IncentiveLine, Milestone, Roadmap, Step, YearTotals
 
@@ -92,11 +92,13 @@ def build_result(ctx: Context, outcome: ScheduleOutcome) -> PlanResult:
     awards, incentive_result = incentives.exact(done, costs)
     # steps
     steps = [lfl_step(ctx, outcome, pid, year) for pid, year in lfl.items()]
+    # order markers are bookkeeping for the solver; reasons that name them are not shown
+    markers = [p.name.lower() for p in outcome.problem.projects if p.id.startswith(ORDER_PREFIX)]
     for pid, year in sorted(done.items(), key=lambda kv: (kv[1], kv[0])):
         d = ctx.details[pid]
         lines = tuple(IncentiveLine(a.program, a.amount_usd, a.arrives, a.kind) for a in awards.get(pid, ()))
         cost = costs[pid]
-        extra_reasons = [r for r in outcome.reasons.get(pid, ()) if " the no " not in r and not r.startswith("after the no ")]
+        extra_reasons = [r for r in outcome.reasons.get(pid, ()) if not any(m in r for m in markers)]
         if pid in cap_model.variant_notes:
             extra_reasons.append(cap_model.variant_notes[pid])
         if d.kind == "heat_pump":
