@@ -19,7 +19,7 @@ from pathlib import Path
 ROOT = Path(__file__).resolve().parent.parent
 sys.path.insert(0, str(ROOT))
 
-from homeplan.pipeline import PipelineCache, plan_roadmap  # noqa: E402
+from homeplan import PlannerCache, plan_roadmap  # noqa: E402
 from homeplan.plan.load import load_plan, validate_document  # noqa: E402
 from homeplan.plan.save import set_in  # noqa: E402
 
@@ -39,7 +39,7 @@ def main(repeats: int = 7) -> None:
         loaded = load_plan(path)
         proc = timed(lambda p=path: subprocess.run([sys.executable, "-m", "homeplan.cli", "plan", "--json", str(p)],
                                                    check=True, capture_output=True))
-        cache = PipelineCache()
+        cache = PlannerCache()
         cold = timed(lambda lp=loaded, p=path, c=cache: plan_roadmap(lp.plan, p.parent, c))
         result = plan_roadmap(loaded.plan, path.parent, cache)
         budget_times, pin_times = [], []

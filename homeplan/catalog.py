@@ -1,8 +1,10 @@
-"""The built-in catalog: appliance service lives, upgrade kinds, cautions.
+"""The built-in catalog: every table in ``homeplan/data/``, read into small frozen records.
 
-The numbers live in ``homeplan/data/`` tables, each row with its source; this module only
-reads them into small frozen records. Readers are cached: the tables are packaged and
-immutable for the life of the process.
+Appliance service lives and condition factors, upgrade kinds with their variants and costs,
+like-for-like replacement costs, the loads of existing appliances, equipment defaults,
+reference climates and cautions. The numbers live in the tables, each row with its source;
+this module only reads them. Readers are cached: the tables are packaged and immutable for the
+life of the process.
 """
 
 from __future__ import annotations
@@ -12,6 +14,25 @@ from dataclasses import dataclass, field
 from functools import cache
 from importlib import resources
 from typing import Any
+
+__all__ = [
+    "CostRange",
+    "LikeForLike",
+    "ReferenceClimate",
+    "ServiceLife",
+    "UpgradeKind",
+    "Variant",
+    "cautions",
+    "condition_factors",
+    "existing_load_row",
+    "like_for_like_cost",
+    "like_for_like_table",
+    "performance",
+    "reference_climates",
+    "service_life",
+    "service_lives",
+    "upgrade_kinds",
+]
 
 
 def _data_text(name: str) -> str:
@@ -163,3 +184,82 @@ def upgrade_kinds() -> dict[str, UpgradeKind]:
 @cache
 def cautions() -> dict[str, str]:
     return dict(_yaml_data("cautions.yaml"))
+
+
+@cache
+def performance() -> dict[str, float]:
+    """Equipment and practice defaults by key (``data/equipment_performance.csv``)."""
+    rows = csv.DictReader(_data_text("equipment_performance.csv").splitlines())
+    return {r["key"]: float(r["value"]) for r in rows}
+
+
+@dataclass(frozen=True)
+class LikeForLike:
+    """Today's cost of replacing an appliance with the same kind on the same fuel."""
+
+    kind: str
+    fuel: str
+    cost: dict[str, float]
+    source: str
+
+
+@cache
+def like_for_like_table() -> tuple[LikeForLike, ...]:
+    rows = csv.DictReader(_data_text("like_for_like.csv").splitlines())
+    return tuple(LikeForLike(r["kind"], r["fuel"], {"low": float(r["low_usd"]), "typical": float(r["typical_usd"]),
+                                                     "high": float(r["high_usd"])}, r["source"]) for r in rows)
+
+
+def like_for_like_cost(kind: str, fuel: str, level: str = "typical") -> float:
+    """Today's cost of replacing an appliance with the same kind on the same fuel (0 if unknown)."""
+    for row in like_for_like_table():
+        if row.kind == kind and row.fuel == fuel:
+            return row.cost[level]
+    return 0.0
+
+
+@cache
+def _existing_loads_table() -> tuple[dict[str, str], ...]:
+    return tuple(csv.DictReader(_data_text("existing_loads.csv").splitlines()))
+
+
+def existing_load_row(kind: str, fuel: str = "", type_: str = "") -> dict[str, str] | None:
+    """The electrical load of an existing appliance (``data/existing_loads.csv``): the row for
+    this kind, fuel and type, else this kind and fuel, else this kind."""
+    rows = [r for r in _existing_loads_table() if r["kind"] == kind]
+    for r in rows:
+        if r["fuel"] == fuel and r["type"] == type_:
+            return r
+    for r in rows:
+        if r["fuel"] == fuel and not r["type"]:
+            return r
+    for r in rows:
+        if not r["fuel"]:
+            return r
+    return None
+
+
+@dataclass(frozen=True)
+class ReferenceClimate:
+    """Climate numbers of a reference place, used where a plan gives a location but not them."""
+
+    name: str
+    latitude: float
+    longitude: float
+    hdd65: float
+    cdd65: float
+    heating_design_f: float
+    cooling_design_f: float
+    cloudiness: float
+    source: str
+
+
+@cache
+def reference_climates() -> tuple[ReferenceClimate, ...]:
+    rows = csv.DictReader(_data_text("reference_climates.csv").splitlines())
+    return tuple(
+        ReferenceClimate(r["name"], float(r["latitude"]), float(r["longitude"]), float(r["hdd65"]),
+                         float(r["cdd65"]), float(r["heating_design_f"]), float(r["cooling_design_f"]),
+                         float(r["cloudiness"]), r["source"])
+        for r in rows
+    )

@@ -7,14 +7,15 @@ import sys
 
 from .conftest import ROOT
 
-CORE = ["homeplan.plan.load", "homeplan.graph", "homeplan.lifecycle", "homeplan.catalog",
-        "homeplan.cli", "homeplan.summary"]
+CORE = ["homeplan", "homeplan.plan.load", "homeplan.planner", "homeplan.planner.chain",
+        "homeplan.catalog", "homeplan.cli", "homeplan.cli.describe", "homeplan.cli.planning",
+        "homeplan.cli.outputs", "homeplan.report.view", "homeplan.result"]
 
 
 def test_core_does_not_import_textual():
     code = ("import sys\n" + "".join(f"import {m}\n" for m in CORE) +
-            "from homeplan.plan.load import load_plan\nfrom homeplan import graph\n"
-            f"g = graph.build_graph(load_plan({str(ROOT / 'sample_homes' / 'cold_gas_100a.yaml')!r}).plan)\n"
+            "from homeplan import load_plan, plan_roadmap\n"
+            f"r = plan_roadmap(load_plan({str(ROOT / 'sample_homes' / 'minimal.yaml')!r}))\n"
             "bad = [m for m in sys.modules if m.split('.')[0] == 'textual']\n"
             "print(bad)\nassert not bad\n")
     subprocess.run([sys.executable, "-c", code], check=True, capture_output=True)

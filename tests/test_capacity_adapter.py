@@ -4,9 +4,9 @@ from __future__ import annotations
 
 import pytest
 
-from homeplan.capacity import existing_loads
-from homeplan.pipeline import plan_roadmap
+from homeplan import plan_roadmap
 from homeplan.plan.load import load_plan_text
+from homeplan.planner.capacity import existing_loads
 
 EXPLICIT = """\
 home:
@@ -89,15 +89,15 @@ def test_final_state_counts_every_planned_load():
     from dataclasses import replace
 
     from homeplan import catalog
-    from homeplan.capacity import _dwelling, _service, existing_loads, project_loads
     from homeplan.electrical.nec220 import nec220_83
     from homeplan.plan.load import load_plan
+    from homeplan.planner.capacity import _dwelling, _service, existing_loads, project_loads
 
     from .conftest import ROOT
 
     plan = load_plan(ROOT / "sample_homes" / "cold_gas_100a.yaml").plan
     result = plan_roadmap(plan, ROOT / "sample_homes")
-    assert result.extra["capacity_remedy"] is None  # this sample needs no remedy (checked above)
+    assert result.capacity_remedy is None  # this sample needs no remedy (checked above)
     kinds = catalog.upgrade_kinds()
     loads = existing_loads(plan)
     for step in result.roadmap.steps:

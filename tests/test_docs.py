@@ -6,8 +6,8 @@ import re
 
 import pytest
 
-from homeplan import graph
 from homeplan.plan.load import load_plan
+from homeplan.planner import candidates as graph
 
 from .conftest import ROOT
 

@@ -5,9 +5,9 @@ from __future__ import annotations
 import networkx as nx
 import pytest
 
-from homeplan import graph
 from homeplan.errors import PlanRuleError
 from homeplan.plan.load import load_plan, load_plan_text
+from homeplan.planner import candidates as graph
 
 from .conftest import ROOT, SAMPLES
 

@@ -4,7 +4,7 @@ with an aggregate cap per tax year that resets each year - reference notes, mone
 
 from __future__ import annotations
 
-from homeplan.pipeline import plan_roadmap
+from homeplan import plan_roadmap
 from homeplan.plan.load import load_plan_text
 
 PLAN = """\

@@ -7,7 +7,7 @@ import math
 import numpy as np
 import pytest
 
-from homeplan import lifecycle
+from homeplan.planner import lifecycle
 
 
 def test_scale_gives_the_median():

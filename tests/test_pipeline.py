@@ -10,13 +10,13 @@ import copy
 
 import pytest
 
-from homeplan.pipeline import PipelineCache, plan_roadmap
+from homeplan import PlannerCache, plan_roadmap
 from homeplan.plan.load import load_plan, validate_document
 from homeplan.plan.save import set_in
 
 from .conftest import ROOT, SAMPLES
 
-_CACHE = PipelineCache()
+_CACHE = PlannerCache()
 
 
 def run(path, **changes):
@@ -135,7 +135,7 @@ def test_npv_equals_numpy_financial_on_the_yearly_flows(path):
     import numpy_financial as npf
 
     plan, result = run(path)
-    flows = result.extra["finance"]["plan"]["flows_usd"]
+    flows = result.finance.plan.flows_usd
     rate = plan.budget.discount_rate_pct / 100
     assert npf.npv(rate, flows) == pytest.approx(result.roadmap.npv_usd, abs=max(25.0, 0.002 * abs(result.roadmap.npv_usd)))
 

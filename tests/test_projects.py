@@ -6,8 +6,8 @@ import numpy as np
 import pytest
 
 from homeplan.energy.heating import hp_capacity_btuh
-from homeplan.home_energy import heat_pump_spec, heat_pump_tons
 from homeplan.plan import migrate
+from homeplan.planner.states import heat_pump_spec, heat_pump_tons
 
 
 @pytest.mark.parametrize("design_f,load", [(-10, 28000), (4, 25000), (12, 40000), (20, 18000)])
@@ -55,7 +55,7 @@ def test_project_value_by_hand():
     residual). Worked by hand below."""
     from types import SimpleNamespace
 
-    from homeplan.plan_schedule import Coefficients, _value
+    from homeplan.planner.scheduling import Coefficients, _value
 
     ctx = SimpleNamespace(
         plan=SimpleNamespace(budget=SimpleNamespace(discount_rate_pct=10.0)),

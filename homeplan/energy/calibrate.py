@@ -11,6 +11,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from homeplan.energy._data import efficiency
+from homeplan.energy.units import btu_to_kwh
 
 
 @dataclass(frozen=True)
@@ -28,8 +29,6 @@ class Calibration:
     @property
     def design_load_kw(self) -> float:
         """Design heating load in kW (thermal)."""
-        from homeplan.energy.units import btu_to_kwh
-
         return btu_to_kwh(self.design_load_btuh)
 
 

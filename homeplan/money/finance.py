@@ -86,6 +86,50 @@ def loan_schedule(loan: Loan) -> tuple[LoanYear, ...]:
 # --------------------------------------------------------------------------- discounting
 
 
+def discount_factor(rate_pct: float, years: float) -> float:
+    """Single present value factor: what one dollar ``years`` from now is worth today.
+
+    Parameters
+    ----------
+    rate_pct : float
+        Discount rate, percent per year.
+    years : float
+        Time from today, years (may be fractional).
+
+    Returns
+    -------
+    float
+        (1 + r)^-t, dimensionless.
+
+    References
+    ----------
+    NIST Handbook 135 (Life-Cycle Costing Manual), single present value factor.
+    """
+    return (1.0 + rate_pct / 100.0) ** -years
+
+
+def remaining_value_share(years_used: float, life_years: float) -> float:
+    """Share of equipment value left after ``years_used`` of a ``life_years`` service life.
+
+    Parameters
+    ----------
+    years_used : float
+        Years the equipment has served, years.
+    life_years : float
+        Its service life, years (taken as at least one year).
+
+    Returns
+    -------
+    float
+        max(0, 1 - used / life), between 0 and 1 (straight-line residual value).
+
+    References
+    ----------
+    NIST Handbook 135 (Life-Cycle Costing Manual), residual value by straight-line depreciation.
+    """
+    return max(0.0, 1.0 - years_used / max(life_years, 1.0))
+
+
 def npv_usd(rate_pct: float, cash_flows_usd: Sequence[float]) -> float:
     """Net present value, first flow at t = 0: sum CF_t / (1 + r)^t.
 

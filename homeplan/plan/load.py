@@ -8,16 +8,31 @@ that is migrated when older and refused when newer.
 
 from __future__ import annotations
 
+import copy
 import difflib
 import os
+from collections.abc import Mapping
 from dataclasses import dataclass
 from pathlib import Path
 from typing import Any
 
-from homeplan.errors import InputError, Problem
+from homeplan.errors import InputError, PlanRuleError, Problem
 from homeplan.plan import migrate
+from homeplan.plan.checks import rule_problems
 from homeplan.plan.model import FORMAT_VERSION, Plan
+from homeplan.plan.save import set_in
 from homeplan.units import SI_KEYS
+
+__all__ = [
+    "MAX_FILE_BYTES",
+    "LoadedPlan",
+    "load_plan",
+    "load_plan_text",
+    "parse_document",
+    "read_text",
+    "scan_safety",
+    "validate_document",
+]
 
 MAX_FILE_BYTES = 2 * 1024 * 1024
 MAX_EXPANDED_NODES = 200_000
@@ -35,6 +50,27 @@ class LoadedPlan:
     document: Any  # ruamel CommentedMap, comments and order kept
     path: Path
     migrated_from: int | None = None
+
+    @property
+    def base_dir(self) -> Path:
+        """The folder that paths in the plan (weather and incentive files) are relative to."""
+        return self.path.parent
+
+    def locate(self, err: PlanRuleError) -> InputError:
+        """A rule the plan breaks, as a problem at the line and column of its key in the file."""
+        line, col = _Positions(self.document, {}).locate(err.loc, on_key=True)
+        return InputError(Problem(str(self.path), line, col, err.message, err.hint))
+
+    def with_values(self, values: Mapping[tuple, Any]) -> LoadedPlan:
+        """This plan with values set at paths of keys (e.g. command-line overrides), validated
+        again; the file is not touched. Raises InputError when the result is not valid."""
+        if not values:
+            return self
+        doc = copy.deepcopy(self.document)
+        for loc, value in values.items():
+            set_in(doc, loc, value)
+        plan, migrated_from = validate_document(doc, str(self.path))
+        return LoadedPlan(plan=plan, document=doc, path=self.path, migrated_from=migrated_from)
 
 
 def read_text(path: Path) -> str:
@@ -397,8 +433,6 @@ def validate_document(doc: Any, name: str) -> tuple[Plan, int | None]:
             problems.append(Problem(name, line, col, message, hint))
         plan = None
     if plan is not None:
-        from homeplan.plan.checks import rule_problems
-
         for loc, message, hint in rule_problems(plan):
             line, col = pos.locate(loc)
             problems.append(Problem(name, line, col, message, hint))

@@ -126,6 +126,17 @@ class Electrical(Section):
     )
     code_edition: Literal[2020, 2023, 2026] = 2023
 
+    @property
+    def main_rating_amps(self) -> int:
+        """The main breaker's rating: as entered, else the service rating."""
+        return self.main_breaker_amps or self.service_amps
+
+    @property
+    def busbar_rating_amps(self) -> int:
+        """The busbar's rating: as entered, else the main breaker's (the panel is usually rated
+        for its main; NEC 2023 705.12(B) reads the busbar's own label when it differs)."""
+        return self.busbar_amps or self.main_rating_amps
+
     @model_validator(mode="after")
     def _panel_consistent(self) -> Electrical:
         if self.main_breaker_amps is not None and self.main_breaker_amps > self.service_amps:
@@ -133,8 +144,8 @@ class Electrical(Section):
                 f"main_breaker_amps {self.main_breaker_amps} is larger than service_amps "
                 f"{self.service_amps}: the service rating is usually the main breaker's size (check both)"
             )
-        bus = self.busbar_amps or self.main_breaker_amps or self.service_amps
-        main = self.main_breaker_amps or self.service_amps
+        bus = self.busbar_rating_amps
+        main = self.main_rating_amps
         if bus < main:
             raise ValueError(
                 f"busbar_amps {bus} is smaller than main_breaker_amps {main}: a busbar must be "

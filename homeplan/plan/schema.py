@@ -5,14 +5,13 @@ from __future__ import annotations
 from typing import Any
 
 from homeplan.plan.model import FORMAT_VERSION, Plan
+from homeplan.units import SI_KEYS
 
 
 def _add_si_keys(schema: dict[str, Any]) -> None:
     """Let editors accept the SI spellings the loader converts (floor_area_m2, ...): each SI key
     becomes a property beside its internal key, and a required internal key may be given either
     way."""
-    from homeplan.units import SI_KEYS
-
     by_target = {target: si for si, (target, _) in SI_KEYS.items()}
     for definition in [schema, *schema.get("$defs", {}).values()]:
         props = definition.get("properties", {})

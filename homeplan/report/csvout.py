@@ -21,6 +21,8 @@ from collections.abc import Iterable, Sequence
 from pathlib import Path
 from typing import Any
 
+from homeplan.errors import InputError, Problem
+from homeplan.plan.save import write_atomic
 from homeplan.report.fmt import clean
 
 DANGEROUS_START = ("=", "+", "-", "@", "\t", "\r")
@@ -71,9 +73,7 @@ def years_csv(result: Any) -> str:
     road = result.roadmap
     fuels = sorted({f for y in road.years for f in y.bills_usd})
     energy = sorted({k for y in road.years for k in y.energy})
-    from homeplan.report.view import do_nothing_baseline
-
-    base = do_nothing_baseline(road)
+    base = road.baseline("do_nothing")
     base_cum = {y.year: y.cumulative_usd for y in base.years} if base is not None else {}
     headers = ["year", "spend_usd", "incentives_usd", "net_usd", "loan_payments_usd", "bills_total_usd",
                *(f"bills_{clean(f)}_usd" for f in fuels), "bill_savings_usd", "cumulative_usd",
@@ -100,26 +100,25 @@ def monthly_energy_csv(result: Any) -> str:
     return csv_text(headers, rows)
 
 
+HOURLY_KEYS = ("grid_export_kw", "grid_import_kw", "load_kw", "solar_kw")
+
+
 def hourly_energy_csv(result: Any) -> str | None:
-    """``result.extra["hourly"]``: {state label: {key: 8760 values}}, when the engine kept it."""
-    hourly = result.extra.get("hourly") if isinstance(result.extra, dict) else None
-    if not hourly:
+    """Hour-by-hour electricity of today's home and the planned one (``result.hourly``), or
+    None when the result has none (an infeasible request)."""
+    if not result.hourly:
         return None
-    keys = sorted({k for series in hourly.values() for k in series})
-    headers = ["state", "hour_of_year", *(clean(k) for k in keys)]
+    headers = ["state", "hour_of_year", *HOURLY_KEYS]
     rows = []
-    for label, series in hourly.items():
-        n = max((len(v) for v in series.values()), default=0)
-        for h in range(n):
-            rows.append([clean(label), h, *(series[k][h] if k in series else None for k in keys)])
+    for profile in result.hourly:
+        series = [getattr(profile, k) for k in HOURLY_KEYS]
+        for h in range(max(len(v) for v in series)):
+            rows.append([clean(profile.label), h, *(v[h] for v in series)])
     return csv_text(headers, rows)
 
 
 def write_csv_dir(result: Any, directory: str | Path, hourly: bool = False) -> list[Path]:
     """Write the CSV files into ``directory`` (created if its parent exists); return the paths."""
-    from homeplan.errors import InputError, Problem
-    from homeplan.plan.save import write_atomic
-
     d = Path(directory)
     if d.exists() and not d.is_dir():
         raise InputError(Problem(str(d), 0, 0, "is a file, not a folder", "give a folder for --csv"))

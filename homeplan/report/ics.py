@@ -27,6 +27,7 @@ import hashlib
 from dataclasses import dataclass
 from typing import Any
 
+from homeplan.plan.hashing import content_hash
 from homeplan.report.fmt import clean, money
 
 PRODID = "-//homeplan//electrification roadmap//EN"
@@ -144,8 +145,6 @@ def _uid(plan_hash: str, key: str) -> str:
 
 def render_ics(result: Any, now: dt.datetime | None = None) -> str:
     """The calendar as text with CRLF line ends, every line folded to 75 octets."""
-    from homeplan.plan.hashing import content_hash
-
     plan_hash = result.content_hash or content_hash(result.plan)
     now = (now or dt.datetime.now(dt.UTC)).astimezone(dt.UTC)
     stamp = now.strftime("%Y%m%dT%H%M%SZ")

@@ -14,11 +14,11 @@ from __future__ import annotations
 import json
 from typing import Any
 
+from homeplan import __version__
+from homeplan.plan.hashing import content_hash
+
 
 def roadmap_document(result: Any) -> dict[str, Any]:
-    from homeplan import __version__
-    from homeplan.plan.hashing import content_hash
-
     data = result.roadmap.to_dict()
     data["plan"] = {
         "content_hash": result.content_hash or content_hash(result.plan),

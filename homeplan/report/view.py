@@ -14,9 +14,11 @@ None: presentation only. The figures' sources are cited by the engines that made
 from __future__ import annotations
 
 import datetime as dt
-from dataclasses import dataclass, field
+from dataclasses import dataclass
 from typing import Any
 
+from homeplan import __version__, catalog
+from homeplan.plan.hashing import content_hash
 from homeplan.report.fmt import (
     clean,
     energy_key_words,
@@ -27,6 +29,7 @@ from homeplan.report.fmt import (
     pct,
     tonnes,
 )
+from homeplan.units import display_area, display_temp
 
 # Groups of upgrade categories (homeplan/data/upgrades.yaml): one colour each on the timeline.
 GROUPS: dict[str, tuple[str, ...]] = {
@@ -113,15 +116,12 @@ class Report:
     warnings: tuple[str, ...]
     footer: Footer
     money_note: str = "Money is rounded: to the nearest $10 under $1,000, else to the nearest $100."
-    extra: dict[str, Any] = field(default_factory=dict)
 
 
 # ----------------------------------------------------------------------------- helpers
 
 
 def _category(result: Any, project_id: str) -> str:
-    from homeplan import catalog
-
     kinds = catalog.upgrade_kinds()
     info = result.project(project_id) if hasattr(result, "project") else None
     kind = info.kind if info is not None else project_id
@@ -141,8 +141,6 @@ def _caution_title(cid: str) -> str:
 
 def collect_cautions(result: Any) -> tuple[tuple[str, str], ...]:
     """Cautions for the work in this roadmap: catalog ids expanded, free text kept; planning first."""
-    from homeplan import catalog
-
     known = catalog.cautions()
     ids: list[str] = ["planning"]
     road = result.roadmap
@@ -169,13 +167,6 @@ def collect_cautions(result: Any) -> tuple[tuple[str, str], ...]:
     return tuple(out)
 
 
-def do_nothing_baseline(road: Any) -> Any:
-    """The do-nothing baseline: named ``do_nothing`` in docs/roadmap-json.md; the planner may
-    also write a longer name in words ("do nothing (pay for breakdowns as they come)")."""
-    return next((b for b in road.baselines
-                 if b.name.replace("_", " ").replace("-", " ").lower().startswith("do nothing")), None)
-
-
 def _step_what(step: Any) -> tuple[str, str]:
     label = clean(step.label) or clean(step.project_id)
     detail = ", ".join(x for x in (clean(step.variant), clean(step.size)) if x)
@@ -183,8 +174,6 @@ def _step_what(step: Any) -> tuple[str, str]:
 
 
 def _home_lines(plan: Any, result: Any) -> list[tuple[str, str]]:
-    from homeplan.units import display_area, display_temp
-
     h = plan.home
     units = plan.display.units
     lines: list[tuple[str, str]] = []
@@ -203,7 +192,7 @@ def _home_lines(plan: Any, result: Any) -> list[tuple[str, str]]:
     if parts:
         lines.append(("Climate", ", ".join(parts)))
     e = h.electrical
-    lines.append(("Electrical", f"{e.service_amps} A service, {e.busbar_amps or e.service_amps} A "
+    lines.append(("Electrical", f"{e.service_amps} A service, {e.busbar_rating_amps} A "
                   f"busbar, {e.free_spaces if e.free_spaces is not None else 'unknown'} free spaces"))
     outs = {o.key: o for o in result.outlooks}
     items = []
@@ -275,7 +264,7 @@ def _steps_table(result: Any) -> Table:
 
 def _years_table(result: Any) -> Table:
     road = result.roadmap
-    base = do_nothing_baseline(road)
+    base = road.baseline("do_nothing")
     base_cum = {y.year: y.cumulative_usd for y in base.years} if base is not None else {}
     rows = []
     for y in road.years:
@@ -448,9 +437,6 @@ def _assumptions(plan: Any, result: Any) -> list[tuple[str, str]]:
 
 def build_report(result: Any, today: dt.date | None = None, tool_version: str | None = None) -> Report:
     """Everything the printed summary shows, as cleaned (not escaped) strings."""
-    from homeplan import __version__
-    from homeplan.plan.hashing import content_hash
-
     plan = result.plan
     road = result.roadmap
     prov = plan.provenance

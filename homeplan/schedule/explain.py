@@ -29,7 +29,7 @@ from collections.abc import Callable
 from dataclasses import dataclass
 
 from homeplan.schedule.milp import MilpSolver, Solution, Solver
-from homeplan.schedule.problem import Problem, evaluate
+from homeplan.schedule.problem import FAMILIES, Problem, evaluate, evaluate_batch, placement_of
 
 _SOFT = {"window", "pin", "target"}
 
@@ -65,7 +65,6 @@ def _all_moves(problem: Problem, years: dict[str, int | None]) -> dict[tuple[str
     """Evaluate every 'move one project to another year (or out)' at once."""
     import numpy as np
 
-    from homeplan.schedule.problem import FAMILIES, evaluate_batch, placement_of
 
     base = placement_of(problem, years)
     rows, keys = [], []

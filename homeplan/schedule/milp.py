@@ -72,7 +72,7 @@ from typing import Any, Protocol
 
 import numpy as np
 
-from homeplan.schedule.problem import Problem
+from homeplan.schedule.problem import Problem, evaluate
 
 
 @dataclass(frozen=True)
@@ -431,8 +431,6 @@ class MilpSolver:
         else:
             objective_value = first_value
         if npv is None:
-            from homeplan.schedule.problem import evaluate
-
             npv = evaluate(pr, years).npv_usd
         gap = getattr(res, "mip_gap", None)
         return Solution(

@@ -26,6 +26,7 @@ from textual.worker import Worker, WorkerState
 
 from homeplan.errors import InputError, PlanRuleError
 from homeplan.plan.model import Plan
+from homeplan.plan.save import write_atomic
 from homeplan.tui import newplan
 from homeplan.tui.format import usd
 from homeplan.tui.screens.forms import ChoiceScreen, FieldSpec, FormScreen, TextScreen
@@ -41,7 +42,7 @@ from homeplan.tui.widgets.roadmap import RoadmapView, row_details
 
 if TYPE_CHECKING:
     from homeplan.result import PlanResult
-    from homeplan.schedule.roadmap import Roadmap
+    from homeplan.result.roadmap import Roadmap
 
 Planner = Callable[[Plan, Path], "PlanResult"]
 
@@ -84,7 +85,7 @@ class PlannerUnavailable(RuntimeError):
 class EnginePlanner:
     """The real planner, imported on first use (in the worker thread, after the first paint).
 
-    One per open plan: its ``PipelineCache`` keeps weather and per-home results between re-plans.
+    One per open plan: its ``PlannerCache`` keeps weather and per-home results between re-plans.
     """
 
     def __init__(self) -> None:
@@ -94,10 +95,12 @@ class EnginePlanner:
     def __call__(self, plan: Plan, base_dir: Path) -> PlanResult:
         if self._run is None:
             try:
-                from homeplan.pipeline import PipelineCache, plan_roadmap
+                # the planner loads numpy, scipy, pvlib and networkx: after the first paint
+                from homeplan.planner.chain import plan_roadmap
+                from homeplan.planner.context import PlannerCache
             except ImportError as exc:
-                raise PlannerUnavailable(f"homeplan.pipeline could not be imported ({exc})") from None
-            self._run, self._cache = plan_roadmap, PipelineCache()
+                raise PlannerUnavailable(f"homeplan.planner could not be imported ({exc})") from None
+            self._run, self._cache = plan_roadmap, PlannerCache()
         return self._run(plan, base_dir=base_dir, cache=self._cache)
 
 
@@ -852,7 +855,6 @@ class HomeplanApp(App[int]):
             err = check_new_plan(text, str(path))
             if err is not None:
                 return problem_words(err)
-            from homeplan.plan.save import write_atomic
 
             try:
                 write_atomic(path, text, backup=False)

@@ -9,7 +9,6 @@ from __future__ import annotations
 from collections.abc import Sequence
 
 BLOCKS = " ▁▂▃▄▅▆▇█"
-FOSSIL = {"gas", "propane", "oil", "gasoline", "diesel"}
 ESTIMATES = "Planning estimates - confirm with licensed professionals who see the home."
 
 

@@ -8,8 +8,8 @@ from __future__ import annotations
 
 import datetime as dt
 
-from homeplan.lifecycle import plan_outlooks
 from homeplan.plan.load import load_plan_text
+from homeplan.planner.lifecycle import plan_outlooks
 from homeplan.result import (
     CapacityRow,
     CapacityState,
@@ -18,7 +18,7 @@ from homeplan.result import (
     ProgramUse,
     ProjectInfo,
 )
-from homeplan.schedule.roadmap import Baseline, IncentiveLine, Milestone, Roadmap, Step, YearTotals
+from homeplan.result.roadmap import Baseline, IncentiveLine, Milestone, Roadmap, Step, YearTotals
 
 PLAN_YAML = """\
 # Invented demo household for report tests.
@@ -120,7 +120,7 @@ def make_result(plan=None, label_suffix: str = "", steps=None, hostile_labels: b
                                 cumulative_usd=cum, emissions_kg=9000.0 - 700 * i, peak_kw=8.0 + 0.5 * i,
                                 service_headroom_amps=40.0 - 3 * i,
                                 energy={"electricity_kwh": 7000.0 + 900 * i}))
-    base = Baseline("do_nothing", tuple(YearTotals(y.year, cumulative_usd=2900.0 * (k + 1))
+    base = Baseline("do_nothing", "do nothing", tuple(YearTotals(y.year, cumulative_usd=2900.0 * (k + 1))
                                         for k, y in enumerate(years)), 0.0)
     road = Roadmap(plan.home.name or "", 2027, 10, steps=steps, years=years,
                    milestones=[Milestone(2031, "Gas service closed", "gas_service_closed"),

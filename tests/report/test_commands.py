@@ -11,8 +11,8 @@ import json
 import pytest
 
 from homeplan import cli
-from homeplan.report import commands
-from homeplan.schedule.roadmap import Roadmap
+from homeplan.cli import outputs
+from homeplan.result.roadmap import Roadmap
 from tests.report.fixtures import make_result
 
 
@@ -32,7 +32,7 @@ def _wired() -> bool:
 @pytest.fixture
 def run(monkeypatch):
     assert _wired(), "the CLI must register print, export and diff"
-    monkeypatch.setattr(commands, "plan_result", lambda path: (None, make_result()))
+    monkeypatch.setattr(outputs, "load_and_plan", lambda path: (None, make_result()))
     monkeypatch.setenv("SOURCE_DATE_EPOCH", "1796083200")  # 2026-12-01T00:00:00Z
     return cli.main
 

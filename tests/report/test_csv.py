@@ -12,7 +12,7 @@ import io
 import pytest
 
 from homeplan.report.csvout import csv_text, safe_cell, steps_csv, write_csv_dir
-from homeplan.schedule.roadmap import Step
+from homeplan.result.roadmap import Step
 from tests.report.fixtures import HOSTILE, make_plan, make_result
 
 

@@ -6,8 +6,8 @@ the budget rose to $9,000"); the plans and roadmaps are invented.
 
 from __future__ import annotations
 
-from homeplan.plan.diff import diff_inputs, diff_roadmaps, render_diff, single_cause
-from homeplan.schedule.roadmap import Milestone, Roadmap, Step
+from homeplan.report.diff import diff_inputs, diff_roadmaps, render_diff, single_cause
+from homeplan.result.roadmap import Milestone, Roadmap, Step
 from tests.report.fixtures import make_plan
 
 

@@ -14,13 +14,14 @@ import json
 
 import pytest
 
+from homeplan import load_plan, plan_roadmap
 from homeplan.report.csvout import monthly_energy_csv, steps_csv, years_csv
 from homeplan.report.html import render_html
 from homeplan.report.ics import render_ics
 from homeplan.report.jsonout import render_json
 from homeplan.report.text import render_markdown, render_text
 from homeplan.report.view import build_report
-from homeplan.schedule.roadmap import Roadmap
+from homeplan.result.roadmap import Roadmap
 from tests.conftest import SAMPLES
 from tests.report.test_html import ALLOWED_TAGS, parse
 
@@ -29,9 +30,7 @@ pytestmark = pytest.mark.slow
 
 @pytest.mark.parametrize("path", SAMPLES, ids=[p.name for p in SAMPLES])
 def test_every_output_of_a_sample(path) -> None:
-    from homeplan.report.commands import plan_result
-
-    result = plan_result(str(path))[1]
+    result = plan_roadmap(load_plan(path))
     report = build_report(result, today=dt.date(2026, 12, 1))
     html = render_html(report)
     tags = {t for t, _ in parse(html).tags}

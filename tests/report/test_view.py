@@ -12,8 +12,8 @@ import datetime as dt
 import pytest
 
 from homeplan import catalog
-from homeplan.report.view import build_report, collect_cautions, do_nothing_baseline, group_of
-from homeplan.schedule.roadmap import Baseline, Step
+from homeplan.report.view import build_report, collect_cautions, group_of
+from homeplan.result.roadmap import Baseline, Step
 from tests.report.fixtures import make_result
 
 
@@ -28,11 +28,11 @@ def test_cautions_deduplicated_whether_given_as_id_or_text() -> None:
     assert ("Note", "Mind the dog.") in out
 
 
-@pytest.mark.parametrize("name", ["do_nothing", "do nothing", "do nothing (pay for breakdowns as they come)"])
-def test_do_nothing_baseline_found(name: str) -> None:
+@pytest.mark.parametrize("name", ["do_nothing", "Keep it as it is", "do nothing (pay for breakdowns as they come)"])
+def test_do_nothing_baseline_found_by_kind_whatever_its_name(name: str) -> None:
     result = make_result()
-    road = dataclasses.replace(result.roadmap, baselines=(Baseline(name, result.roadmap.years),))
-    assert do_nothing_baseline(road) is not None
+    road = dataclasses.replace(result.roadmap, baselines=(Baseline("do_nothing", name, result.roadmap.years),))
+    assert road.baseline("do_nothing") is not None and road.baseline("like_for_like") is None
     report = build_report(dataclasses.replace(result, roadmap=road), today=dt.date(2026, 12, 1))
     assert all(row[7] != "n/a" for row in report.years.rows)
 

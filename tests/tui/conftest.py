@@ -21,12 +21,12 @@ _CACHE: list = []
 
 def shared_planner(plan, base_dir):
     """The real planner with one cache for the whole test run (results memoised by content)."""
-    from homeplan.pipeline import PipelineCache, plan_roadmap
+    from homeplan import PlannerCache, plan_roadmap
 
     key = plan.model_dump_json()
     if key not in _MEMO:
         if not _CACHE:
-            _CACHE.append(PipelineCache())
+            _CACHE.append(PlannerCache())
         _MEMO[key] = plan_roadmap(plan, base_dir=SAMPLES, cache=_CACHE[0])
     return _MEMO[key]
 

@@ -423,7 +423,7 @@ async def test_infeasible_roadmap_is_explained(plan_file):
 
 async def test_without_a_planner_the_home_still_works(plan_file):
     def missing(plan, base_dir):
-        raise PlannerUnavailable("homeplan.pipeline could not be imported (test)")
+        raise PlannerUnavailable("homeplan.planner could not be imported (test)")
 
     app = make_app(plan_file, planner=missing)
     async with app.run_test(size=(80, 24)) as pilot:

@@ -121,7 +121,7 @@ def test_only_the_tui_imports_textual():
             offenders.append(str(path))
     assert offenders == []
     code = ("import sys\nimport homeplan.tui.session, homeplan.tui.newplan, homeplan.tui.format, "
-            "homeplan.tui.command\n"
+            "homeplan.cli.app\n"
             "assert not [m for m in sys.modules if m.split('.')[0] == 'textual'], 'textual'\n")
     subprocess.run([sys.executable, "-c", code], check=True, capture_output=True, cwd=ROOT)
 
@@ -130,7 +130,7 @@ def test_open_command_reports_a_bad_file_without_starting_the_app(tmp_path: Path
     bad = tmp_path / "bad.yaml"
     bad.write_text("home:\n  floor_area_ft2: x\n  electrical: {service_amps: 100}\n"
                    "budget: {usd_per_year: 1}\n")
-    code = ("import sys\nfrom homeplan.tui.command import run\nrc = run(sys.argv[1])\n"
+    code = ("import sys\nfrom homeplan.cli.app import run\nrc = run(sys.argv[1])\n"
             "assert 'textual.app' not in sys.modules\nsys.exit(rc)\n")
     proc = subprocess.run([sys.executable, "-c", code, str(bad)], capture_output=True, text=True,
                           cwd=ROOT, timeout=60)

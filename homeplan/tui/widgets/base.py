@@ -10,9 +10,9 @@ from rich.text import Text
 from textual.containers import Vertical
 
 if TYPE_CHECKING:
-    from homeplan.lifecycle import LifeOutlook
     from homeplan.plan.model import Plan
     from homeplan.result import PlanResult
+    from homeplan.result.outlook import LifeOutlook
 
 
 @dataclass(frozen=True)
@@ -35,7 +35,8 @@ class ViewData:
             if self.result is not None and self.result.plan == self.plan:
                 self._cache["outlooks"] = tuple(self.result.outlooks)
             else:
-                from homeplan.lifecycle import plan_outlooks
+                # the planner's modules load numpy: not before the first paint
+                from homeplan.planner.lifecycle import plan_outlooks
 
                 self._cache["outlooks"] = tuple(plan_outlooks(self.plan))
         return self._cache["outlooks"]
@@ -63,18 +64,6 @@ def banner_text(data: ViewData) -> Text | None:
         return Text(f"! No roadmap fits: {data.infeasible}", style="bold")
     if data.result is None:
         return Text("Planning... the roadmap appears here in a moment.", style="italic")
-    return None
-
-
-def find_baseline(roadmap, kind: str):
-    """The baseline of a kind ('do_nothing' or 'like_for_like'), whatever its display name."""
-    if roadmap is None:
-        return None
-    for b in roadmap.baselines:
-        name = b.name.lower().replace("-", "_").replace(" ", "_")
-        if name == kind or (kind == "like_for_like" and "like" in name) or (
-                kind == "do_nothing" and "nothing" in name):
-            return b
     return None
 
 

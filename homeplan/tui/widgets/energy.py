@@ -11,7 +11,7 @@ from textual.containers import VerticalScroll
 from textual.widgets import Static
 
 from homeplan.tui.format import ESTIMATES, bar, fuel_label, num, usd
-from homeplan.tui.widgets.base import View, ViewData, banner_text, find_baseline
+from homeplan.tui.widgets.base import View, ViewData, banner_text
 
 if TYPE_CHECKING:
     from homeplan.result import EnergySummary
@@ -93,7 +93,7 @@ def emissions_text(data: ViewData) -> Text:
         return out
     out.append("Emissions per year, tonnes CO2e\n", style="bold")
     top = max(t.emissions_kg for t in rm.years) or 1.0
-    base = find_baseline(rm, "do_nothing")
+    base = rm.baseline("do_nothing")
     base_by = {t.year: t.emissions_kg for t in base.years} if base else {}
     for t in rm.years:
         out.append(f"{t.year} {bar(t.emissions_kg, top, 24):<24} {t.emissions_kg / 1000:5.1f}")

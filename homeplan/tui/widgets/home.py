@@ -11,11 +11,13 @@ from textual.binding import Binding
 from textual.containers import VerticalScroll
 from textual.widgets import DataTable, Static
 
-from homeplan.tui.format import BLOCKS, FOSSIL, num, trunc, usd
+from homeplan.plan.fuels import FOSSIL_FUELS
+from homeplan.tui.format import BLOCKS, num, trunc, usd
 from homeplan.tui.widgets.base import View, ViewData
+from homeplan.units import display_area
 
 if TYPE_CHECKING:
-    from homeplan.lifecycle import LifeOutlook
+    from homeplan.result.outlook import LifeOutlook
 
 RISK_TOP_PCT = 20.0  # a full block in the risk bar means a 20 % or higher chance that year
 RISK_YEARS = 10
@@ -104,7 +106,7 @@ class HomeView(View):
         self.items = inventory(data)
         for it in self.items:
             o = it.outlook
-            fossil = it.fuel in FOSSIL
+            fossil = it.fuel in FOSSIL_FUELS
             name = Text(("◆ " if fossil else "  ") + it.key)
             if o is None:
                 cells = [name, Text(trunc(it.label, 24 if wide else 15)), "-", "-"]
@@ -138,8 +140,8 @@ class HomeView(View):
         e = h.electrical
         out = Text()
         out.append("Electrical service  ", style="bold")
-        out.append(f"{e.service_amps} A, busbar {e.busbar_amps or e.service_amps} A, main breaker "
-                   f"{e.main_breaker_amps or e.service_amps} A")
+        out.append(f"{e.service_amps} A, busbar {e.busbar_rating_amps} A, main breaker "
+                   f"{e.main_rating_amps} A")
         if e.free_spaces is not None:
             out.append(f", {e.free_spaces} free breaker spaces")
         if data.result is not None and data.result.capacity:
@@ -154,8 +156,6 @@ class HomeView(View):
             r = h.roof
             out.append(f"{r.material.replace('_', ' ')}, installed {r.year_installed or 'year unknown'}")
             if r.usable_area_ft2 is not None:
-                from homeplan.units import display_area
-
                 out.append(f", {display_area(r.usable_area_ft2, plan.display.units)} usable for panels")
             out.append(f", facing {r.azimuth_deg:.0f} deg, tilt {r.tilt_deg:.0f} deg\n")
         if h.solar is not None:

@@ -8,7 +8,7 @@ from textual.containers import VerticalScroll
 from textual.widgets import DataTable, Static
 
 from homeplan.tui.format import ESTIMATES, kusd, spark, usd
-from homeplan.tui.widgets.base import View, ViewData, banner_text, find_baseline
+from homeplan.tui.widgets.base import View, ViewData, banner_text
 
 BASELINES = (("do_nothing", "Do nothing"), ("like_for_like", "Replace when it breaks"))
 
@@ -21,7 +21,7 @@ def running_chart(data: ViewData, width: int) -> Text:
         return out
     series = [("This plan", [t.cumulative_usd for t in rm.years])]
     for name, label in BASELINES:
-        b = find_baseline(rm, name)
+        b = rm.baseline(name)
         if b is not None and b.years:
             series.append((label, [t.cumulative_usd for t in b.years]))
     top = max((max(v) for _, v in series if v), default=0)
@@ -63,9 +63,9 @@ class MoneyView(View):
         for key, label in columns:
             table.add_column(Text(label, style="bold", justify="right"), key=key)
         if rm is not None:
-            b = find_baseline(rm, "do_nothing")
+            b = rm.baseline("do_nothing")
             nothing = {t.year: t for t in (b.years if b else ())}
-            b = find_baseline(rm, "like_for_like")
+            b = rm.baseline("like_for_like")
             lfl = {t.year: t for t in (b.years if b else ())}
             for t in rm.years:
                 n, s = nothing.get(t.year), lfl.get(t.year)

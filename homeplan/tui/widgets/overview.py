@@ -7,16 +7,15 @@ from textual.app import ComposeResult
 from textual.containers import VerticalScroll
 from textual.widgets import Static
 
-from homeplan.tui.format import ESTIMATES, FOSSIL, trunc, usd
+from homeplan.plan.fuels import FOSSIL_FUELS, appliance_fuel
+from homeplan.tui.format import ESTIMATES, trunc, usd
 from homeplan.tui.widgets.base import View, ViewData, banner_text
 
 
 def fossil_items(data: ViewData) -> list[str]:
     """Keys of the appliances and vehicles that burn fuel today (from the plan's own inputs)."""
-    from homeplan.lifecycle import appliance_fuel
-
     plan = data.plan
-    keys = [a.key for a in plan.appliances if appliance_fuel(a) in FOSSIL]
+    keys = [a.key for a in plan.appliances if appliance_fuel(a) in FOSSIL_FUELS]
     keys += [plan.vehicle_key(i) for i, v in enumerate(plan.vehicles) if v.fuel != "electric"]
     return keys
 

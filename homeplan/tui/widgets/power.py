@@ -29,13 +29,17 @@ def state_details(state: CapacityState, width: int) -> Text:
     out = Text()
     out.append(f"{state.label}", style="bold")
     out.append(f"  ({state.method})\n")
+    if not state.applies:  # a method that does not apply to this home: say why
+        for n in state.notes:
+            out.append(f"- {n}\n")
+        return out
     name_w = max(18, min(40, width - 44))
     prefix = " ".join(state.method.split()[:2]) + " "  # "NEC 2023 "
     out.append(f"{'Load':<{name_w}} {'VA':>8} {'factor':>7} {'counted':>9}  section\n",
                style="bold")
     for r in state.rows:
-        factor = "" if r.factor != r.factor else f"{r.factor:.2f}"
-        counted = "" if r.counted_va != r.counted_va else f"{r.counted_va:,.0f}"
+        factor = "" if r.factor is None else f"{r.factor:.2f}"
+        counted = "" if r.counted_va is None else f"{r.counted_va:,.0f}"
         out.append(f"{trunc(r.name, name_w):<{name_w}} {r.va:>8,.0f} {factor:>7} "
                    f"{counted:>9}  {r.section.removeprefix(prefix)}\n")
     out.append(f"{'Total':<{name_w}} {'':>8} {'':>7} {state.total_va:>9,.0f}  "
@@ -84,7 +88,7 @@ class PowerView(View):
                           Text(num(s.amps), justify="right"),
                           Text(num(s.service_amps), justify="right"),
                           Text(num(s.headroom_amps), justify="right",
-                               style="" if s.headroom_amps >= 0 else "bold"),
+                               style="" if s.headroom_amps is None or s.headroom_amps >= 0 else "bold"),
                           fits, *([Text(trunc(s.remedy or "-", 40))] if wide else []), key=str(i))
         if self.states:
             table.move_cursor(row=min(max(keep, 0), len(self.states) - 1), animate=False,

@@ -18,12 +18,11 @@ from homeplan.tui.widgets.base import (
     ViewData,
     assumptions_text,
     banner_text,
-    find_baseline,
 )
 
 if TYPE_CHECKING:
     from homeplan.result import ProjectInfo
-    from homeplan.schedule.roadmap import Roadmap, Step
+    from homeplan.result.roadmap import Roadmap, Step
 
 TOTAL_ROWS = (
     ("_spend", "Projects cost", "Installed cost of the year's projects, before any incentive."),
@@ -238,7 +237,7 @@ class RoadmapView(View):
             table.add_row(*cells, key=row.id)
         if rm is not None:
             totals = {t.year: t for t in rm.years}
-            base = find_baseline(rm, "do_nothing")
+            base = rm.baseline("do_nothing")
             base_cum = {t.year: t.cumulative_usd for t in base.years} if base else {}
             for key, label, _ in TOTAL_ROWS:
                 cells = [Text("Σ " + trunc(label, label_w - 2), style="bold")]

@@ -14,16 +14,48 @@ management, 705.12(B) load-side solar connection, 625.42 EV charging.
 
 from __future__ import annotations
 
-import csv
+import json
 from dataclasses import dataclass, field, replace
-from functools import cache
 
 from homeplan import catalog
-from homeplan.catalog import _data_text
-from homeplan.home_energy import performance
-from homeplan.lifecycle import appliance_fuel, appliance_type
+from homeplan.catalog import existing_load_row, performance
+from homeplan.electrical.errors import ElectricalInputError, MethodNotApplicableError
+from homeplan.electrical.loads import Dwelling, Ems, Load, Service
+from homeplan.electrical.nec220 import (
+    LoadCalcResult,
+    MeasuredDemand,
+    nec220_82,
+    nec220_83,
+    nec220_87,
+)
+from homeplan.electrical.nec705 import backfeed_check
+from homeplan.electrical.remedies import (
+    ProposedLoad,
+    Remedy,
+    RemedyCosts,
+    ServiceUpgrade,
+    Variant,
+    find_remedy,
+)
+from homeplan.electrical.upgrade_loads import loads_for_upgrade
+from homeplan.plan.fuels import appliance_fuel
 from homeplan.plan.model import Plan
-from homeplan.result import CapacityRow, CapacityState
+from homeplan.planner.context import Context
+from homeplan.planner.lifecycle import appliance_type
+from homeplan.planner.projects import ProjectDetail, with_variant
+from homeplan.result.figures import CapacityRow, CapacityState
+
+__all__ = [
+    "REMEDY_PROJECTS",
+    "CapacityModel",
+    "CapacityPlan",
+    "breaker_spaces_note",
+    "existing_loads",
+    "measured_capacity",
+    "plan_capacity",
+    "project_loads",
+    "state_capacity",
+]
 
 LOAD_KINDS = {"general": "appliance", "appliance": "appliance", "range": "range", "dryer": "dryer",
               "water_heater": "water_heater", "heating": "heating", "cooling": "cooling",
@@ -31,29 +63,8 @@ LOAD_KINDS = {"general": "appliance", "appliance": "appliance", "range": "range"
               "ev_charger": "ev_charger", "motor": "motor", "other": "other"}
 
 
-@cache
-def _existing_table() -> tuple[dict, ...]:
-    return tuple(csv.DictReader(_data_text("existing_loads.csv").splitlines()))
-
-
-def _row(kind: str, fuel: str = "", type_: str = "") -> dict | None:
-    rows = [r for r in _existing_table() if r["kind"] == kind]
-    for r in rows:
-        if r["fuel"] == fuel and r["type"] == type_:
-            return r
-    for r in rows:
-        if r["fuel"] == fuel and not r["type"]:
-            return r
-    for r in rows:
-        if not r["fuel"]:
-            return r
-    return None
-
-
-def existing_loads(plan: Plan) -> list:
+def existing_loads(plan: Plan) -> list[Load]:
     """The home's fixed loads today, each named after the appliance it belongs to."""
-    from homeplan.electrical.loads import Load
-
     e = plan.home.electrical
     if e.loads:
         return [Load(name=ld.name, va=ld.va, category=LOAD_KINDS[ld.kind or "appliance"],
@@ -62,7 +73,7 @@ def existing_loads(plan: Plan) -> list:
     out = []
     for a in plan.appliances:
         fuel = appliance_fuel(a)
-        r = _row(a.kind, fuel, appliance_type(a) if a.kind == "water_heater" else "")
+        r = existing_load_row(a.kind, fuel, appliance_type(a) if a.kind == "water_heater" else "")
         if r is None:
             continue
         va = None
@@ -85,25 +96,23 @@ def existing_loads(plan: Plan) -> list:
         if a.kind == "heat_pump":  # existing heat pumps usually carry strips that can run with them
             out.append(Load(name=f"{a.key} strips 10 kW", va=10000.0, category="supplemental_heat",
                             source="electrical reference notes: strip heat 10 kW = 41.7 A (assumed)"))
-    r = _row("dishwasher")
+    r = existing_load_row("dishwasher")
     out.append(Load(name="dishwasher (assumed)", va=float(r["va"]), category="appliance", volts=120,
                     source=r["source"]))
     if any(v.fuel == "electric" for v in plan.vehicles):
-        r = _row("ev_charger", "electric")
+        r = existing_load_row("ev_charger", "electric")
         out.append(Load(name="EV charger (existing)", va=float(r["va"]), category="ev_charger",
                         continuous=True, source=r["source"]))
     return out
 
 
-def _names_for(keys: tuple[str, ...], loads: list) -> tuple[str, ...]:
+def _names_for(keys: tuple[str, ...], loads: list[Load]) -> tuple[str, ...]:
     prefixes = tuple(f"{k} " for k in keys)
     return tuple(ld.name for ld in loads if ld.name.startswith(prefixes))
 
 
-def project_loads(kind: str, variant_id: str | None, size: float, name: str) -> tuple:
+def project_loads(kind: str, variant_id: str | None, size: float, name: str) -> tuple[Load, ...]:
     """The new loads of one project in one variant."""
-    from homeplan.electrical.upgrade_loads import loads_for_upgrade
-
     k = catalog.upgrade_kinds()[kind]
     if not k.capacity_load:
         return ()
@@ -119,22 +128,18 @@ def project_loads(kind: str, variant_id: str | None, size: float, name: str) -> 
     return loads_for_upgrade(k.category, name=name, va=v.va, volts=volts)
 
 
-def _service(plan: Plan):
-    from homeplan.electrical.loads import Service
-
+def _service(plan: Plan) -> Service:
     e = plan.home.electrical
-    return Service(service_amps=e.service_amps, busbar_amps=e.busbar_amps,
-                   main_breaker_amps=e.main_breaker_amps, volts=e.voltage_v)
+    return Service(service_amps=e.service_amps, busbar_amps=e.busbar_rating_amps,
+                   main_breaker_amps=e.main_rating_amps, volts=e.voltage_v)
 
 
-def _dwelling(plan: Plan):
-    from homeplan.electrical.loads import Dwelling
-
+def _dwelling(plan: Plan) -> Dwelling:
     e = plan.home.electrical
     return Dwelling(plan.home.floor_area_ft2, max(e.small_appliance_circuits, 2), max(e.laundry_circuits, 1))
 
 
-def _inverter_amps(ctx, pids: set[str]) -> float:
+def _inverter_amps(ctx: Context, pids: set[str]) -> float:
     amps = 0.0
     for pid in pids:
         d = ctx.details[pid]
@@ -150,58 +155,70 @@ def _inverter_amps(ctx, pids: set[str]) -> float:
     return amps
 
 
-@dataclass
+@dataclass(frozen=True)
 class CapacityModel:
-    """Linear capacity data for the scheduler plus the remedy behind it."""
+    """Linear capacity data for the scheduler plus the remedy behind it.
 
-    base_headroom: float | None
+    ``use``: amps each load project adds to today's calculated load (alone); ``provided``: amps
+    of room the chosen remedy project makes; ``excluded``: remedy projects the plan does not use.
+    """
+
+    base_headroom: float
     use: dict[str, float] = field(default_factory=dict)
     provided: dict[str, float] = field(default_factory=dict)
-    prerequisites: list = field(default_factory=list)
-    excluded: set[str] = field(default_factory=set)
-    notes: list[str] = field(default_factory=list)
-    remedy: object | None = None
+    excluded: frozenset[str] = frozenset()
+    notes: tuple[str, ...] = ()
+    remedy: Remedy | None = None
     remedy_project: str | None = None
     variant_notes: dict[str, str] = field(default_factory=dict)
     ems_setpoint_va: float | None = None
     solar_connection: str | None = None
 
 
+@dataclass(frozen=True)
+class CapacityPlan:
+    """The capacity stage's answer: the model, and the projects as the remedy leaves them (a
+    lower-power variant where it chose one, the solar connection's cost added)."""
+
+    model: CapacityModel
+    details: dict[str, ProjectDetail]
+
+
 REMEDY_PROJECTS = ("panel_upgrade", "service_upgrade", "load_management")
 
 
-def capacity_model(ctx) -> CapacityModel:
+def plan_capacity(ctx: Context) -> CapacityPlan:
     """Choose the cheapest remedy for the end state and express capacity linearly.
 
-    Mutates ``ctx.details`` when the remedy picks a lower-power variant of a project.
+    The remedy depends on the home, the options and the exclusions, not on the budget: it is
+    computed once per such content and kept in the planner's cache.
     """
-    from homeplan.electrical.nec220 import nec220_83
-    from homeplan.electrical.remedies import (
-        ProposedLoad,
-        RemedyCosts,
-        ServiceUpgrade,
-        Variant,
-        find_remedy,
-    )
-    from homeplan.projects import with_variant
-
     plan = ctx.plan
+    key = "capacity:" + json.dumps([{k: v.model_dump(mode="json") for k, v in plan.options.items()},
+                                    sorted(plan.choices.exclude), sorted(ctx.details)], sort_keys=True)
+    return ctx.cache.memo(key, lambda: _plan_capacity(ctx))
+
+
+def _plan_capacity(ctx: Context) -> CapacityPlan:
+    plan = ctx.plan
+    details = dict(ctx.details)
+    notes: list[str] = []
+    variant_notes: dict[str, str] = {}
     edition = plan.home.electrical.code_edition
     kinds = catalog.upgrade_kinds()
     dwelling, service = _dwelling(plan), _service(plan)
     base = existing_loads(plan)
     today = nec220_83(dwelling, base, service, edition=edition)
-    model = CapacityModel(base_headroom=max(float(today.headroom_amps), 0.0))
     if today.headroom_amps < 0:
-        model.notes.append(
+        notes.append(
             f"by the load calculation the home already uses {today.amps:.0f} A of its "
             f"{today.service_amps:.0f} A service: have an electrician check it; new electric loads "
             "are planned only with a remedy")
-    load_pids = [pid for pid, d in ctx.details.items() if kinds[d.kind].capacity_load
+    load_pids = [pid for pid, d in details.items() if kinds[d.kind].capacity_load
                  and pid not in plan.choices.exclude]
     proposed = []
     for pid in load_pids:
-        d = ctx.details[pid]
+        d = details[pid]
         k = kinds[d.kind]
         fixed = plan.options.get(pid) is not None and plan.options[pid].variant is not None
         family = [v.id for v in k.variants if v.id != d.variant]
@@ -215,79 +232,84 @@ def capacity_model(ctx) -> CapacityModel:
                               extra_cost_usd=max(0.0, alt.cost_today_usd - d.cost_today_usd)))
         proposed.append(ProposedLoad(name=pid, variants=tuple(vs),
                                      replaces=_names_for(d.candidate.replaces, base)))
-    offered = {pid for pid in REMEDY_PROJECTS if pid in ctx.details and pid not in plan.choices.exclude}
+    offered = {pid for pid in REMEDY_PROJECTS if pid in details and pid not in plan.choices.exclude}
     p = performance()
-    upgrades = ()
+    upgrades: tuple[ServiceUpgrade, ...] = ()
     if "service_upgrade" in offered and service.service_amps < p["service_upgrade_new_amps"]:
-        upgrades = (ServiceUpgrade(p["service_upgrade_new_amps"], ctx.details["service_upgrade"].cost_today_usd),)
+        upgrades = (ServiceUpgrade(p["service_upgrade_new_amps"], details["service_upgrade"].cost_today_usd),)
     costs = RemedyCosts(
-        ems_usd=ctx.details["load_management"].cost_today_usd if "load_management" in offered else None,
+        ems_usd=details["load_management"].cost_today_usd if "load_management" in offered else None,
         derate_main_usd=p["derate_main_usd"], supply_side_usd=p["supply_side_usd"],
         service_upgrades=upgrades, ems_min_setpoint_amps=p["ems_min_setpoint_amps"],
     )
-    solar_pids = {pid for pid, d in ctx.details.items() if d.kind in ("solar", "battery")
+    solar_pids = {pid for pid, d in details.items() if d.kind in ("solar", "battery")
                   and pid not in plan.choices.exclude}
     remedy = find_remedy(dwelling, base, service, proposed, costs, inverter_output_amps=_inverter_amps(ctx, solar_pids),
                          edition=edition)
-    model.remedy = remedy
     if not remedy.fits:
-        model.notes.append("even the largest remedy on offer does not make every electric load fit the "
-                           "service; the plan keeps the loads that fit (see the power view)")
+        notes.append("even the largest remedy on offer does not make every electric load fit the "
+                     "service; the plan keeps the loads that fit (see the power view)")
     for name, vid in remedy.choices:
-        if name in ctx.details and vid != ctx.details[name].variant:
-            ctx.details[name] = with_variant(ctx.details[name], plan, ctx.basis, vid)
-            model.variant_notes[name] = (f"{ctx.details[name].variant_label}: a lower-power choice that "
-                                         f"fits the {service.service_amps:g} A service")
+        if name in details and vid != details[name].variant:
+            details[name] = with_variant(details[name], plan, ctx.basis, vid)
+            variant_notes[name] = (f"{details[name].variant_label}: a lower-power choice that "
+                                   f"fits the {service.service_amps:g} A service")
     chosen = None
+    ems_setpoint_va = None
     if remedy.service_upgrade is not None:
         chosen = "service_upgrade"
     elif remedy.ems is not None:
         chosen = "load_management"
-        model.ems_setpoint_va = remedy.ems.setpoint_va
-    model.remedy_project = chosen
-    model.excluded = {r for r in REMEDY_PROJECTS if r in ctx.details and r != chosen}
+        ems_setpoint_va = remedy.ems.setpoint_va
     extra = 0.0
+    solar_connection = None
     if remedy.derated_main_amps:
-        model.solar_connection = f"main breaker derated to {remedy.derated_main_amps:g} A for the solar connection"
+        solar_connection = f"main breaker derated to {remedy.derated_main_amps:g} A for the solar connection"
         extra = p["derate_main_usd"]
     elif remedy.supply_side:
-        model.solar_connection = "supply-side solar connection (the panel's busbar cannot take the backfeed)"
+        solar_connection = "supply-side solar connection (the panel's busbar cannot take the backfeed)"
         extra = p["supply_side_usd"]
-    if extra and "solar" in ctx.details and not ctx.details["solar"].quoted:
-        d = ctx.details["solar"]
-        ctx.details["solar"] = replace(d, cost_today_usd=d.cost_today_usd + extra,
-                                       cost_source=f"{d.cost_source}; plus {model.solar_connection}")
-        model.variant_notes["solar"] = model.solar_connection
+    if extra and "solar" in details and not details["solar"].quoted:
+        d = details["solar"]
+        details["solar"] = replace(d, cost_today_usd=d.cost_today_usd + extra,
+                                   cost_source=f"{d.cost_source}; plus {solar_connection}")
+        variant_notes["solar"] = solar_connection
     # linear use per load: its amps against today's home, one at a time
+    use: dict[str, float] = {}
     for pid in load_pids:
-        d = ctx.details[pid]
-        loads = _apply(base, plan, d.candidate.replaces, project_loads(d.kind, d.variant, d.size, pid))
+        d = details[pid]
+        loads = _apply(base, d.candidate.replaces, project_loads(d.kind, d.variant, d.size, pid))
         after = nec220_83(dwelling, loads, service, edition=edition)
-        model.use[pid] = max(0.0, float(after.amps - today.amps))
+        use[pid] = max(0.0, float(after.amps - today.amps))
+    provided: dict[str, float] = {}
     if chosen == "service_upgrade":
-        model.provided[chosen] = float(remedy.service.limit_amps - service.limit_amps)
+        provided[chosen] = float(remedy.service.limit_amps - service.limit_amps)
     elif chosen == "load_management":
         all_loads = list(base)
         for pid in load_pids:
-            d = ctx.details[pid]
-            all_loads = _apply(all_loads, plan, d.candidate.replaces, project_loads(d.kind, d.variant, d.size, pid))
+            d = details[pid]
+            all_loads = _apply(all_loads, d.candidate.replaces, project_loads(d.kind, d.variant, d.size, pid))
         plain = nec220_83(dwelling, all_loads, service, edition=edition)
-        model.provided[chosen] = max(0.0, float(plain.amps - remedy.calc.amps))
+        provided[chosen] = max(0.0, float(plain.amps - remedy.calc.amps))
     if chosen is None and remedy.needed is False:
-        model.notes.append("the service carries every planned electric load: no panel or service upgrade needed")
-    return model
+        notes.append("the service carries every planned electric load: no panel or service upgrade needed")
+    model = CapacityModel(
+        base_headroom=max(float(today.headroom_amps), 0.0), use=use, provided=provided,
+        excluded=frozenset(r for r in REMEDY_PROJECTS if r in details and r != chosen),
+        notes=tuple(notes), remedy=remedy, remedy_project=chosen, variant_notes=variant_notes,
+        ems_setpoint_va=ems_setpoint_va, solar_connection=solar_connection,
+    )
+    return CapacityPlan(model, details)
 
 
-def _apply(loads: list, plan: Plan, replaces: tuple[str, ...], new: tuple) -> list:
+def _apply(loads: list[Load], replaces: tuple[str, ...], new: tuple[Load, ...]) -> list[Load]:
     gone = set(_names_for(replaces, loads))
     return [ld for ld in loads if ld.name not in gone] + [replace(ld, existing=False) for ld in new]
 
 
-def state_capacity(ctx, model: CapacityModel, done: set[str], label: str, year: int | None) -> CapacityState:
+def state_capacity(ctx: Context, model: CapacityModel, done: set[str], label: str,
+                   year: int | None) -> CapacityState:
     """The exact load calculation of the home with ``done`` projects."""
-    from homeplan.electrical.loads import Ems, Service
-    from homeplan.electrical.nec220 import nec220_82, nec220_83
-
     plan = ctx.plan
     edition = plan.home.electrical.code_edition
     kinds = catalog.upgrade_kinds()
@@ -297,7 +319,7 @@ def state_capacity(ctx, model: CapacityModel, done: set[str], label: str, year: 
         d = ctx.details.get(pid)
         if d is None or not kinds[d.kind].capacity_load:
             continue
-        loads = _apply(loads, plan, d.candidate.replaces, project_loads(d.kind, d.variant, d.size, d.label))
+        loads = _apply(loads, d.candidate.replaces, project_loads(d.kind, d.variant, d.size, d.label))
     remedy_note = None
     ems = None
     if model.remedy_project and model.remedy_project in done:
@@ -317,7 +339,7 @@ def state_capacity(ctx, model: CapacityModel, done: set[str], label: str, year: 
     inverter = _inverter_amps(ctx, pv)
     notes: list[str] = []
     if (inverter > 0 and model.remedy is not None and model.remedy.derated_main_amps and pv
-            and model.remedy.derated_main_amps < (service.main_breaker_amps or service.service_amps)):
+            and model.remedy.derated_main_amps < service.limit_amps):
         service = Service(service_amps=service.service_amps, busbar_amps=service.busbar_amps,
                           main_breaker_amps=model.remedy.derated_main_amps, volts=service.volts)
         remedy_note = (remedy_note + "; " if remedy_note else "") + \
@@ -328,8 +350,6 @@ def state_capacity(ctx, model: CapacityModel, done: set[str], label: str, year: 
         calc = nec220_83(dwelling, loads, service, edition=edition, ems=ems)
     fits = bool(calc.fits)
     if inverter > 0:
-        from homeplan.electrical.nec705 import backfeed_check
-
         supply_side = bool(model.remedy is not None and model.remedy.supply_side and pv)
         bf = backfeed_check(service, inverter, rule="supply_side" if supply_side else "120", edition=edition)
         notes.append(f"{bf.section}: {inverter:.0f} A of solar/battery inverter output; "
@@ -341,11 +361,11 @@ def state_capacity(ctx, model: CapacityModel, done: set[str], label: str, year: 
     return replace(state, fits=fits) if fits != state.fits else state
 
 
-def _state(calc, label: str, year: int | None, remedy: str | None, notes: tuple[str, ...]) -> CapacityState:
-    """A load calculation result as the views show it (NaN for rows inside a group)."""
-    nan = float("nan")
-    rows = tuple(CapacityRow(r.load_name, float(r.va), nan if r.factor is None else float(r.factor),
-                             nan if r.counted_va is None else float(r.counted_va), r.section)
+def _state(calc: LoadCalcResult, label: str, year: int | None, remedy: str | None,
+           notes: tuple[str, ...]) -> CapacityState:
+    """A load calculation result as the views show it (no factor for rows inside a group)."""
+    rows = tuple(CapacityRow(r.load_name, float(r.va), None if r.factor is None else float(r.factor),
+                             None if r.counted_va is None else float(r.counted_va), r.section)
                  for r in calc.rows)
     return CapacityState(label=label, year=year, method=calc.method, total_va=float(calc.total_va),
                          amps=float(calc.amps), service_amps=float(calc.service_amps),
@@ -353,7 +373,7 @@ def _state(calc, label: str, year: int | None, remedy: str | None, notes: tuple[
                          remedy=remedy, notes=notes)
 
 
-def measured_capacity(ctx, model: CapacityModel, done: set[str], year: int | None) -> CapacityState | None:
+def measured_capacity(ctx: Context, done: set[str], year: int | None) -> CapacityState | None:
     """NEC 220.87 from the measured 12-month (or 30-day) peak, when the plan gives one.
 
     The measured peak covers the home as it is; the loads the roadmap adds by ``year`` are added
@@ -365,15 +385,12 @@ def measured_capacity(ctx, model: CapacityModel, done: set[str], year: int | Non
     ----------
     NEC 2023 220.87 (2020 text excludes services with solar or peak shaving).
     """
-    from homeplan.electrical.errors import ElectricalInputError, MethodNotApplicableError
-    from homeplan.electrical.nec220 import MeasuredDemand, nec220_87
-
     plan = ctx.plan
     e = plan.home.electrical
     if e.peak_demand_kw is None:
         return None
     kinds = catalog.upgrade_kinds()
-    new: list = []
+    new: list[Load] = []
     for pid in sorted(done):
         d = ctx.details.get(pid)
         if d is not None and kinds[d.kind].capacity_load:
@@ -389,14 +406,14 @@ def measured_capacity(ctx, model: CapacityModel, done: set[str], year: int | Non
         calc = nec220_87(MeasuredDemand(e.peak_demand_kw, e.peak_demand_period, seasonal),
                          new, _service(plan), edition=e.code_edition, has_solar_or_battery=has_pv)
     except (MethodNotApplicableError, ElectricalInputError) as exc:  # refused or not applicable: say why
-        nan = float("nan")
-        return CapacityState(label=label, year=year, method="NEC 220.87 (not used)", total_va=nan, amps=nan,
-                             service_amps=float(e.service_amps), headroom_amps=nan, fits=True, notes=(str(exc),))
+        return CapacityState(label=label, year=year, method="NEC 220.87 (not used)", total_va=None,
+                             amps=None, service_amps=float(e.service_amps), headroom_amps=None, fits=True,
+                             notes=(str(exc),))
     return _state(calc, label, year, None, tuple(calc.notes) + (
         "an alternative to the 220.83 calculation: an inspector may accept either",))
 
 
-def breaker_spaces_note(ctx, done: set[str]) -> str | None:
+def breaker_spaces_note(ctx: Context, done: set[str]) -> str | None:
     """Whether the new circuits fit the panel's free breaker spaces (a 240 V circuit takes two
     spaces, a 120 V one takes one). Common practice, no source: when they do not, an electrician
     uses tandem breakers where the panel allows them, or replaces the panel."""

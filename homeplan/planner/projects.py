@@ -6,46 +6,35 @@ catalog range at the plan's cost level, or from the user's contractor quote.
 
 References
 ----------
-ACCA Manual S for heat pump selection (via :func:`homeplan.home_energy.heat_pump_tons`);
+ACCA Manual S for heat pump selection (via :func:`homeplan.planner.states.heat_pump_tons`);
 cost ranges and learning rates with their sources in ``homeplan/data/upgrades.yaml``.
 """
 
 from __future__ import annotations
 
-import csv
 import math
-from dataclasses import dataclass
-from functools import cache
+from dataclasses import dataclass, replace
 
 from homeplan import catalog
-from homeplan.catalog import _data_text
-from homeplan.graph import Candidate
-from homeplan.home_energy import HomeBasis, cooling_load_btuh, heat_pump_tons, performance
-from homeplan.lifecycle import appliance_fuel
+from homeplan.catalog import performance
+from homeplan.energy.sizing import array_kw_for_coverage
+from homeplan.money.costs import cost_in_year as grow_cost
+from homeplan.money.costs import cost_trend_from_record
+from homeplan.plan.fuels import appliance_fuel
 from homeplan.plan.model import Plan
+from homeplan.planner.basis import HomeBasis
+from homeplan.planner.candidates import Candidate
+from homeplan.planner.states import cooling_load_btuh, heat_pump_tons
 
-
-@dataclass(frozen=True)
-class LikeForLike:
-    kind: str
-    fuel: str
-    cost: dict[str, float]
-    source: str
-
-
-@cache
-def like_for_like_table() -> tuple[LikeForLike, ...]:
-    rows = csv.DictReader(_data_text("like_for_like.csv").splitlines())
-    return tuple(LikeForLike(r["kind"], r["fuel"], {"low": float(r["low_usd"]), "typical": float(r["typical_usd"]),
-                                                     "high": float(r["high_usd"])}, r["source"]) for r in rows)
-
-
-def like_for_like_cost(kind: str, fuel: str, level: str = "typical") -> float:
-    """Today's cost of replacing an appliance with the same kind on the same fuel."""
-    for row in like_for_like_table():
-        if row.kind == kind and row.fuel == fuel:
-            return row.cost[level]
-    return 0.0
+__all__ = [
+    "ProjectDetail",
+    "cost_in_year_usd",
+    "detail",
+    "replaced_fuels",
+    "roof_area_ft2",
+    "solar_size_kw",
+    "with_variant",
+]
 
 
 @dataclass(frozen=True)
@@ -98,7 +87,7 @@ def solar_size_kw(plan: Plan, annual_load_kwh: float, specific_yield: float) -> 
     about 60 ft2 of roof per kW.
     """
     p = performance()
-    want = p["solar_target_coverage"] * annual_load_kwh / max(specific_yield, 1.0)
+    want = array_kw_for_coverage(annual_load_kwh, max(specific_yield, 1.0), p["solar_target_coverage"])
     roof = plan.home.roof
     area = roof.usable_area_ft2 if roof and roof.usable_area_ft2 is not None else roof_area_ft2(plan) * 0.4
     fit = area * (1 - (roof.shading_pct if roof else 0) / 100) / p["solar_ft2_per_kw"]
@@ -153,8 +142,6 @@ def detail(plan: Plan, c: Candidate, basis: HomeBasis, electrified_kwh: float,
 
 def with_variant(d: ProjectDetail, plan: Plan, basis: HomeBasis, variant: str) -> ProjectDetail:
     """The same project with another variant (a lower-power one chosen by the capacity remedy)."""
-    from dataclasses import replace
-
     c = replace(d.candidate, variant=variant)
     if plan.options.get(d.id) and plan.options[d.id].variant:
         return d  # the user chose the equipment; the remedy must work around it
@@ -164,3 +151,10 @@ def with_variant(d: ProjectDetail, plan: Plan, basis: HomeBasis, variant: str) -
 def replaced_fuels(plan: Plan, c: Candidate) -> set[str]:
     keys = set(c.replaces)
     return {appliance_fuel(a) for a in plan.appliances if a.key in keys}
+
+
+def cost_in_year_usd(d: ProjectDetail, plan: Plan, year: int) -> float:
+    """Installed cost of a project in ``year``: today's cost changed by inflation or its learning
+    curve (see :mod:`homeplan.money.costs`)."""
+    trend = cost_trend_from_record(d.cost_change, plan.prices.inflation_pct)
+    return grow_cost(d.cost_today_usd, plan.first_year, year, trend)

@@ -1,8 +1,9 @@
-"""From a plan file to the energy engine: the home today, and the home after any set of projects.
+"""The home as it is, for the energy engine: weather, heat loss, today's equipment and prices.
 
 Everything that depends only on the home and its climate (weather year, solar geometry,
-calibrated heat loss) is computed once into a :class:`HomeBasis`; each state of the roadmap is
-then a cheap ``dataclasses.replace`` of the base :class:`~homeplan.energy.simulate.HomeEnergySpec`.
+calibrated heat loss, today's equipment) is computed once into a :class:`HomeBasis`; each state
+of the roadmap is then a cheap ``dataclasses.replace`` of its base
+:class:`~homeplan.energy.simulate.HomeEnergySpec` (see :mod:`homeplan.planner.states`).
 
 References
 ----------
@@ -12,55 +13,55 @@ ACCA Manual J / ASHRAE Fundamentals degree-day method for the heat-loss calibrat
 
 from __future__ import annotations
 
-import csv
 import math
 from collections.abc import Iterable
 from dataclasses import dataclass, replace
-from functools import cache
 from pathlib import Path
 
 import numpy as np
 
-from homeplan import catalog
-from homeplan.catalog import _data_text
+from homeplan.catalog import ReferenceClimate, performance, reference_climates
+from homeplan.energy import calibrate
+from homeplan.energy import weather as wx
+from homeplan.energy.appliances import (
+    CookingSpec,
+    DryerSpec,
+    cooking_annual_input,
+    dryer_annual_input,
+)
+from homeplan.energy.battery import BatterySpec
+from homeplan.energy.calibrate import Calibration
+from homeplan.energy.emissions import EmissionFactors
+from homeplan.energy.heating import (
+    CoolingSpec,
+    FurnaceSpec,
+    HeatingSpec,
+    HeatPumpSpec,
+    ResistanceHeatSpec,
+)
+from homeplan.energy.rates import ElectricRate, FuelPrice, FuelPrices, TouPeriod
+from homeplan.energy.simulate import HomeEnergySpec, SiteCache, simulate
+from homeplan.energy.solar import SolarArraySpec
+from homeplan.energy.units import btu_per_unit
+from homeplan.energy.vehicles import VehicleSpec
+from homeplan.energy.water import WaterHeaterSpec, hot_water_gal_per_day, water_heater_annual_input
+from homeplan.energy.weather import Weather
 from homeplan.errors import PlanRuleError
-from homeplan.lifecycle import appliance_fuel, appliance_type
+from homeplan.plan.fuels import appliance_fuel, engine_fuel
 from homeplan.plan.model import Appliance, Plan
+from homeplan.planner.lifecycle import appliance_type
 
-FUEL = {"gas": "natural_gas", "propane": "propane", "oil": "heating_oil", "electric": "electricity",
-        "gasoline": "gasoline", "diesel": "diesel"}
-PLAN_FUEL = {v: k for k, v in FUEL.items()}
+__all__ = [
+    "HomeBasis",
+    "electric_rate",
+    "emission_factors",
+    "fuel_prices",
+    "home_basis",
+    "load_weather",
+    "nearest_reference_climate",
+]
+
 DAYS_IN_MONTH = np.array([31, 28, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31], dtype=float)
-
-
-@cache
-def performance() -> dict[str, float]:
-    rows = csv.DictReader(_data_text("equipment_performance.csv").splitlines())
-    return {r["key"]: float(r["value"]) for r in rows}
-
-
-@dataclass(frozen=True)
-class ReferenceClimate:
-    name: str
-    latitude: float
-    longitude: float
-    hdd65: float
-    cdd65: float
-    heating_design_f: float
-    cooling_design_f: float
-    cloudiness: float
-    source: str
-
-
-@cache
-def reference_climates() -> tuple[ReferenceClimate, ...]:
-    rows = csv.DictReader(_data_text("reference_climates.csv").splitlines())
-    return tuple(
-        ReferenceClimate(r["name"], float(r["latitude"]), float(r["longitude"]), float(r["hdd65"]),
-                         float(r["cdd65"]), float(r["heating_design_f"]), float(r["cooling_design_f"]),
-                         float(r["cloudiness"]), r["source"])
-        for r in rows
-    )
 
 
 def nearest_reference_climate(lat: float, lon: float) -> tuple[ReferenceClimate, float]:
@@ -79,14 +80,12 @@ def nearest_reference_climate(lat: float, lon: float) -> tuple[ReferenceClimate,
 # ------------------------------------------------------------------------------ weather
 
 
-def load_weather(plan: Plan, base_dir: Path | None):
+def load_weather(plan: Plan, base_dir: Path | None) -> tuple[Weather, str]:
     """The weather year for the plan and a note on where it came from.
 
     A weather file (EPW or TMY3) wins; otherwise a deterministic typical year is generated from
     the climate numbers, filling gaps from the nearest reference climate (and saying so).
     """
-    from homeplan.energy import weather as wx
-
     h = plan.home
     c = h.climate
     notes: list[str] = []
@@ -160,9 +159,7 @@ def _default_efficiency(a: Appliance) -> float:
     return 0.95 if a.type == "condensing" else 0.80
 
 
-def existing_heat_pump(a: Appliance, design_load_btuh: float):
-    from homeplan.energy.heating import HeatPumpSpec
-
+def existing_heat_pump(a: Appliance, design_load_btuh: float) -> HeatPumpSpec:
     p = performance()
     cap = a.capacity_btuh or max(design_load_btuh, 18000.0)
     hspf_ratio = (a.hspf2 or 7.5) / 7.5  # scale the standard COP curve by the unit's HSPF2
@@ -175,9 +172,7 @@ def existing_heat_pump(a: Appliance, design_load_btuh: float):
     )
 
 
-def heating_spec_today(plan: Plan, design_load_btuh: float):
-    from homeplan.energy.heating import FurnaceSpec, ResistanceHeatSpec
-
+def heating_spec_today(plan: Plan, design_load_btuh: float) -> HeatingSpec | None:
     a = _heating_appliance(plan)
     if a is None:
         return None
@@ -186,24 +181,20 @@ def heating_spec_today(plan: Plan, design_load_btuh: float):
         return existing_heat_pump(a, design_load_btuh)
     if fuel == "electric":
         return ResistanceHeatSpec()
-    return FurnaceSpec(fuel=FUEL[fuel], afue=_default_efficiency(a), kind=a.kind)
+    return FurnaceSpec(fuel=engine_fuel(fuel), afue=_default_efficiency(a), kind=a.kind)
 
 
-def cooling_spec_today(plan: Plan):
-    from homeplan.energy.heating import CoolingSpec
-
+def cooling_spec_today(plan: Plan) -> CoolingSpec | None:
     a = _cooling_appliance(plan)
     if a is None:
         return None
     return CoolingSpec(seer2=a.seer2 or (10.0 if a.kind == "room_ac" else 13.0))
 
 
-def water_spec_today(plan: Plan):
-    from homeplan.energy.water import WaterHeaterSpec
-
+def water_spec_today(plan: Plan) -> WaterHeaterSpec | None:
     for a in plan.appliances:
         if a.kind == "water_heater":
-            fuel = FUEL[appliance_fuel(a)]
+            fuel = engine_fuel(appliance_fuel(a))
             kind = appliance_type(a)
             if kind == "heat_pump":
                 return WaterHeaterSpec.heat_pump(a.uef or performance()["hpwh_240v_uef"])
@@ -215,9 +206,7 @@ def water_spec_today(plan: Plan):
     return None
 
 
-def cooking_spec_today(plan: Plan):
-    from homeplan.energy.appliances import CookingSpec
-
+def cooking_spec_today(plan: Plan) -> CookingSpec | None:
     for a in plan.appliances:
         if a.kind in ("range", "cooktop"):
             fuel = appliance_fuel(a)
@@ -226,9 +215,7 @@ def cooking_spec_today(plan: Plan):
     return None
 
 
-def dryer_spec_today(plan: Plan):
-    from homeplan.energy.appliances import DryerSpec
-
+def dryer_spec_today(plan: Plan) -> DryerSpec | None:
     for a in plan.appliances:
         if a.kind == "dryer":
             fuel = appliance_fuel(a)
@@ -239,9 +226,7 @@ def dryer_spec_today(plan: Plan):
     return None
 
 
-def vehicle_specs_today(plan: Plan) -> tuple:
-    from homeplan.energy.vehicles import VehicleSpec
-
+def vehicle_specs_today(plan: Plan) -> tuple[VehicleSpec, ...]:
     p = performance()
     out = []
     for v in plan.vehicles:
@@ -259,9 +244,7 @@ def vehicle_specs_today(plan: Plan) -> tuple:
 # ------------------------------------------------------------------------------ prices
 
 
-def electric_rate(plan: Plan):
-    from homeplan.energy.rates import ElectricRate, TouPeriod
-
+def electric_rate(plan: Plan) -> ElectricRate:
     e = plan.prices.electricity
     periods = tuple(
         TouPeriod(name=t.name, usd_per_kwh=t.usd_per_kwh,
@@ -274,9 +257,7 @@ def electric_rate(plan: Plan):
                         tou_periods=periods, export=e.export, export_usd_per_kwh=export_rate)
 
 
-def fuel_prices(plan: Plan, closed: Iterable[str] = ()):
-    from homeplan.energy.rates import FuelPrice, FuelPrices
-
+def fuel_prices(plan: Plan, closed: Iterable[str] = ()) -> FuelPrices:
     pr = plan.prices
     closed = set(closed)
     prices = {
@@ -290,9 +271,7 @@ def fuel_prices(plan: Plan, closed: Iterable[str] = ()):
     return FuelPrices(prices)
 
 
-def emission_factors(plan: Plan):
-    from homeplan.energy.emissions import EmissionFactors
-
+def emission_factors(plan: Plan) -> EmissionFactors:
     return EmissionFactors.default(grid_kg_per_kwh=plan.prices.grid_kg_co2_per_kwh)
 
 
@@ -324,15 +303,12 @@ def _vintage(plan: Plan) -> str:
     return "1980_2000" if y <= 2000 else "post2000"
 
 
-def calibrate_home(plan: Plan, weather, base: dict) -> tuple[object, list[str]]:
+def calibrate_home(plan: Plan, weather: Weather, base: dict) -> tuple[Calibration, list[str]]:
     """Heat-loss coefficient from the heating fuel bills, or a floor-area default (flagged).
 
     ``base`` holds the non-heating specs of today's home, used to estimate the baseload on the
     heating fuel when only an annual total is known.
     """
-    from homeplan.energy import calibrate
-    from homeplan.energy.units import btu_per_unit
-
     notes: list[str] = []
     design = float(weather.heating_design_f)
     hdd = float(weather.hdd65)
@@ -341,7 +317,7 @@ def calibrate_home(plan: Plan, weather, base: dict) -> tuple[object, list[str]]:
         fuel = appliance_fuel(a)
         monthly, annual = _heating_fuel_bills(plan, fuel)
         eff = _default_efficiency(a)
-        btu = btu_per_unit(FUEL[fuel])
+        btu = btu_per_unit(engine_fuel(fuel))
         try:
             if monthly is not None and monthly.sum() > 0:
                 cal = calibrate.calibrate_summer_baseload(monthly, DAYS_IN_MONTH, hdd, design, eff,
@@ -367,12 +343,9 @@ def calibrate_home(plan: Plan, weather, base: dict) -> tuple[object, list[str]]:
     return cal, notes
 
 
-def _baseload_on_fuel(plan: Plan, fuel: str, base: dict, weather) -> float:
+def _baseload_on_fuel(plan: Plan, fuel: str, base: dict, weather: Weather) -> float:
     """Estimated yearly non-heating use of the heating fuel (water, cooking, drying)."""
-    from homeplan.energy.appliances import cooking_annual_input, dryer_annual_input
-    from homeplan.energy.water import hot_water_gal_per_day, water_heater_annual_input
-
-    f = FUEL[fuel]
+    f = engine_fuel(fuel)
     total = 0.0
     w = base.get("water_heater")
     if w is not None and w.fuel == f:
@@ -395,10 +368,10 @@ def _baseload_on_fuel(plan: Plan, fuel: str, base: dict, weather) -> float:
 class HomeBasis:
     """Everything about one home that no project changes: weather, solar geometry, heat loss."""
 
-    weather: object
-    site: object                  # homeplan.energy.simulate.SiteCache
-    calibration: object           # homeplan.energy.calibrate.Calibration
-    base: object                  # HomeEnergySpec of the home today
+    weather: Weather
+    site: SiteCache               # solar geometry and plane-of-array irradiance of the site
+    calibration: Calibration      # heat loss (UA) and the design heating load
+    base: HomeEnergySpec          # the home today
     weather_note: str
     notes: tuple[str, ...]
 
@@ -408,10 +381,6 @@ class HomeBasis:
 
 
 def home_basis(plan: Plan, base_dir: Path | None = None) -> HomeBasis:
-    from homeplan.energy.battery import BatterySpec
-    from homeplan.energy.simulate import HomeEnergySpec, SiteCache, simulate
-    from homeplan.energy.solar import SolarArraySpec
-
     weather, wnote = load_weather(plan, base_dir)
     parts = {"water_heater": water_spec_today(plan), "cooking": cooking_spec_today(plan),
              "dryer": dryer_spec_today(plan)}
@@ -436,7 +405,7 @@ def home_basis(plan: Plan, base_dir: Path | None = None) -> HomeBasis:
         fuel_prices=fuel_prices(plan), emission_factors=emission_factors(plan),
         occupants=float(plan.home.occupants),
         gas_service_open=any(appliance_fuel(a) == "gas" for a in plan.appliances),
-        fuel_accounts_open=tuple(FUEL[f] for f in ("propane", "oil")
+        fuel_accounts_open=tuple(engine_fuel(f) for f in ("propane", "oil")
                                  if any(appliance_fuel(a) == f for a in plan.appliances)),
         label="today", **parts,
     )
@@ -472,7 +441,8 @@ def home_basis(plan: Plan, base_dir: Path | None = None) -> HomeBasis:
 SUMMER = slice(5, 9)  # June to September
 
 
-def _calibrate_cooling(spec, site, monthly_kwh: list[float], billed: float, floor: float):
+def _calibrate_cooling(spec: HomeEnergySpec, site: SiteCache, monthly_kwh: list[float], billed: float,
+                       floor: float) -> tuple[HomeEnergySpec, str | None]:
     """Scale the sensible degree-hour cooling load so June-September matches the bills.
 
     Cooling energy is linear in the load multiplier, so two simulations give the line; the
@@ -483,7 +453,6 @@ def _calibrate_cooling(spec, site, monthly_kwh: list[float], billed: float, floo
     ----------
     ASHRAE Guideline 14-2014 (calibrating a model to monthly utility bills, from memory).
     """
-    from homeplan.energy.simulate import simulate
 
     def summer(m: float) -> float:
         r = simulate(replace(spec, cooling_load_multiplier=m), site)
@@ -504,195 +473,3 @@ def _calibrate_cooling(spec, site, monthly_kwh: list[float], billed: float, floo
 # ------------------------------------------------------------------------------ states
 
 
-@dataclass(frozen=True)
-class Choice:
-    """A project as it will be installed: which variant and what size."""
-
-    project_id: str
-    kind: str
-    variant: str | None
-    size: float
-    replaces: tuple[str, ...] = ()
-
-
-def heat_pump_spec(variant: str | None, tons: float, strips_kw: float, design_temp_f: float):
-    """A new heat pump of ``tons`` nominal 47 F capacity with the variant's performance."""
-    from homeplan.energy.heating import HeatPumpSpec
-
-    p = performance()
-    cold = variant in ("cold_climate", "ductless")
-    pre = "hp_cold" if cold else "hp_standard"
-    cap = tons * 12000.0
-    seer = p["hp_ductless_seer2"] if variant == "ductless" else p[f"{pre}_seer2"]
-    backup = "resistance" if strips_kw > 0 else "none"
-    return HeatPumpSpec(
-        capacity_47_btuh=cap, capacity_17_btuh=cap * p[f"{pre}_cap_17_frac"],
-        capacity_5_btuh=cap * p[f"{pre}_cap_5_frac"], cop_47=p[f"{pre}_cop_47"],
-        cop_17=p[f"{pre}_cop_17"], cop_5=p[f"{pre}_cop_5"], cutout_f=p[f"{pre}_cutout_f"],
-        backup=backup, seer2=seer,
-    )
-
-
-def heat_pump_tons(design_load_btuh: float, design_temp_f: float, variant: str | None,
-                   cooling_btuh: float = 0.0) -> float:
-    """Nominal tons: enough heat at the design condition, and at least the cooling load.
-
-    Cold-climate and ductless units are sized to carry the full design heating load at the
-    design temperature (down to their cut-out). Standard single-stage units are sized to carry
-    the load at 17 F, their lower rating point, and lean on backup strips below it (sizing
-    them for the design temperature gives units that short-cycle in mild weather). Either way
-    the unit is at least as large as the cooling load. Rounded up to half tons, 1.5-5 t (common
-    practice, no source; larger homes need two systems).
-
-    References
-    ----------
-    ACCA Manual S (equipment selection at the design condition); NEEP cold-climate air-source
-    heat pump sizing guidance (from memory).
-    """
-    p = performance()
-    cold = variant in ("cold_climate", "ductless")
-    pre = "hp_cold" if cold else "hp_standard"
-    f5, f17 = p[f"{pre}_cap_5_frac"], p[f"{pre}_cap_17_frac"]
-    if cold:
-        t = max(design_temp_f, p[f"{pre}_cutout_f"])
-        frac = f17 + (1.0 - f17) * (t - 17) / 30.0 if t >= 17 else f5 + (f17 - f5) * (t - 5) / 12.0
-        heat_tons = design_load_btuh / (max(frac, 0.3) * 12000.0)
-    else:
-        t = max(design_temp_f, 17.0)
-        load_at_t = design_load_btuh * (65.0 - t) / max(65.0 - design_temp_f, 1.0)
-        frac = f17 + (1.0 - f17) * (t - 17) / 30.0
-        heat_tons = load_at_t / (frac * 12000.0)
-    tons = max(heat_tons, cooling_btuh / 12000.0)
-    return float(min(max(math.ceil(tons * 2 - 1e-9) / 2, 1.5), 5.0))
-
-
-def cooling_load_btuh(plan: Plan, basis) -> float:
-    """The cooling the home needs: the existing air conditioner's size when known, else the
-    sensible load at the 1 % design temperature with a 30 % allowance for latent and solar gains
-    (common practice, no source)."""
-    sizes = [a.capacity_btuh for a in plan.appliances
-             if a.kind in ("central_ac", "heat_pump", "mini_split") and a.capacity_btuh]
-    if sizes:
-        return float(max(sizes))
-    t_cool = basis.weather.cooling_design_f
-    if t_cool is None or not any(a.kind in ("central_ac", "room_ac") for a in plan.appliances):
-        return 0.0
-    return float(basis.calibration.ua_btuh_f) * max(float(t_cool) - 75.0, 0.0) * 1.3
-
-
-def _with_quoted_ratings(hp, opt):
-    """Apply the ratings of the quoted equipment (plan options) to a catalog heat pump.
-
-    HSPF2 scales the COP curve (seasonal COP = HSPF / 3.412, energy reference notes); a COP or a
-    capacity at 5 F from the equipment's data sheet replaces the 5 F rating point.
-    """
-    if opt is None:
-        return hp
-    changes = {}
-    if opt.hspf2:
-        # seasonal COP of the catalog curve, approximated by the mean of its 47 F and 17 F points
-        seasonal_cop = (hp.cop_47 + hp.cop_17) / 2.0
-        k = (opt.hspf2 / 3.412) / seasonal_cop
-        changes.update(cop_47=hp.cop_47 * k, cop_17=hp.cop_17 * k, cop_5=max(1.0, hp.cop_5 * k))
-    if opt.cop_5f:
-        changes["cop_5"] = opt.cop_5f
-    if opt.capacity_5f_pct:
-        changes["capacity_5_btuh"] = hp.capacity_47_btuh * opt.capacity_5f_pct / 100.0
-    if opt.seer2:
-        changes["seer2"] = opt.seer2
-    return replace(hp, **changes) if changes else hp
-
-
-def _share_charger(vehicles: list, done: Iterable[Choice]) -> list:
-    """EVs charge at the planned charger's power (amps x 240 V), shared when there are several.
-
-    References
-    ----------
-    SAE J1772 Level 2 (240 V); NEC 625.42 (the charger's rating is its continuous current).
-    """
-    done = list(done)
-    charger = next((c for c in done if c.kind == "ev_charger"), None)
-    evs = [i for i, v in enumerate(vehicles) if v.fuel == "electricity"]
-    if charger is None or not evs:
-        return vehicles
-    v = catalog.upgrade_kinds()["ev_charger"].variant(charger.variant)
-    kw = (v.amps if v and v.amps else 32.0) * 240.0 / 1000.0
-    out = list(vehicles)
-    for i in evs:
-        out[i] = replace(out[i], charger_kw=kw / len(evs))
-    return out
-
-
-def state_spec(basis: HomeBasis, plan: Plan, done: Iterable[Choice], label: str = ""):
-    """The home's energy spec after the projects in ``done``."""
-    done = list(done)
-    from homeplan.energy.appliances import CookingSpec, DryerSpec
-    from homeplan.energy.battery import BatterySpec
-    from homeplan.energy.heating import CoolingSpec
-    from homeplan.energy.simulate import with_heat_pump
-    from homeplan.energy.solar import SolarArraySpec
-    from homeplan.energy.vehicles import VehicleSpec
-    from homeplan.energy.water import WaterHeaterSpec
-
-    spec = basis.base
-    kinds = catalog.upgrade_kinds()
-    p = performance()
-    closed: set[str] = set()
-    vehicles = list(spec.vehicles)
-    gas_open = spec.gas_service_open
-    for c in done:
-        k = c.kind
-        if k == "heat_pump":
-            v = kinds["heat_pump"].variant(c.variant)
-            strips = (v.strips_kw or 0.0) if v else 0.0
-            hp = heat_pump_spec(c.variant, c.size, strips, float(basis.weather.heating_design_f))
-            hp = _with_quoted_ratings(hp, plan.options.get(c.project_id))
-            spec = with_heat_pump(spec, hp)
-        elif k == "heat_pump_water_heater":
-            uef = p["hpwh_120v_uef"] if c.variant == "v120" else p["hpwh_240v_uef"]
-            opt = plan.options.get(c.project_id)
-            uef = opt.uef if opt is not None and opt.uef else uef
-            spec = replace(spec, water_heater=WaterHeaterSpec.heat_pump(uef))
-        elif k == "induction_range":
-            useful = spec.cooking.useful_kwh if spec.cooking else None
-            spec = replace(spec, cooking=CookingSpec(kind="induction", useful_kwh_per_yr=useful))
-        elif k == "heat_pump_dryer":
-            spec = replace(spec, dryer=DryerSpec(kind="heat_pump"))
-        elif k == "ev":
-            key = c.replaces[0]
-            idx = next(i for i, _ in enumerate(plan.vehicles) if plan.vehicle_key(i) == key)
-            veh = plan.vehicles[idx]
-            vehicles[idx] = VehicleSpec(fuel="electricity", miles_per_yr=veh.miles_per_year,
-                                        kwh_per_mile=p[f"ev_kwh_per_mile_{veh.body}"])
-        elif k == "solar":
-            roof = plan.home.roof
-            spec = replace(spec, solar=SolarArraySpec(
-                dc_kw=c.size, tilt_deg=roof.tilt_deg if roof else 25.0,
-                azimuth_deg=roof.azimuth_deg if roof else 180.0))
-        elif k == "battery":
-            spec = replace(spec, battery=BatterySpec(capacity_kwh=c.size,
-                                                     power_kw=p["battery_default_kw"] * c.size / p["battery_default_kwh"]))
-        elif k == "envelope":
-            cut = float(kinds["envelope"].extra.get("heat_loss_cut_pct", 15)) / 100.0
-            spec = replace(spec, ua_btuh_f=spec.ua_btuh_f * (1.0 - cut))
-        elif k == "close_gas":
-            gas_open = False
-        elif k == "remove_propane_tank":
-            closed.add("propane")
-        elif k == "remove_oil_tank":
-            closed.add("oil")
-    if spec.cooling is None and any(c.kind == "heat_pump" for c in done):
-        spec = replace(spec, cooling=CoolingSpec(seer2=spec.heating.seer2))
-    vehicles = _share_charger(vehicles, done)
-    accounts = tuple(f for f in spec.fuel_accounts_open if PLAN_FUEL[f] not in closed)
-    spec = replace(spec, vehicles=tuple(vehicles), fuel_prices=fuel_prices(plan, closed),
-                   fuel_accounts_open=accounts, label=label or spec.label)
-    if not gas_open and "natural_gas" not in spec.fuels_used():
-        spec = replace(spec, gas_service_open=False)
-    return spec
-
-
-def simulate_state(basis: HomeBasis, spec):
-    from homeplan.energy.simulate import simulate
-
-    return simulate(spec, basis.site)

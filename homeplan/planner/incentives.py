@@ -12,13 +12,34 @@ stacking, tax liability and carryforward), by :mod:`homeplan.money.incentives`.
 from __future__ import annotations
 
 import datetime as dt
-from dataclasses import dataclass
+import json
+from dataclasses import dataclass, replace
 from pathlib import Path
 
 from homeplan import catalog
 from homeplan.errors import PlanRuleError
-from homeplan.lifecycle import appliance_fuel
-from homeplan.result import ProgramUse
+from homeplan.money.incentives import (
+    PROJECT_KINDS,
+    Household,
+    IncentiveDataError,
+    IncentiveResult,
+    Program,
+    Purchase,
+    YearIncentive,
+    evaluate,
+    incentives_by_install_year,
+    parse_catalog,
+    program_totals,
+    read_catalog,
+)
+from homeplan.plan.fuels import HOME_FUELS, appliance_fuel
+from homeplan.plan.model import Plan
+from homeplan.planner.context import Context
+from homeplan.planner.projects import cost_in_year_usd
+from homeplan.result.figures import ProgramUse
+from homeplan.schedule.problem import IncentiveGroup
+
+__all__ = ["AwardLine", "IncentiveModel", "load_programs", "plan_programs"]
 
 MONEY_KIND = {"close_gas": "gas_closure"}
 INSTALL_MONTH_DAY = (3, 1)
@@ -41,11 +62,9 @@ def _install_date(year: int) -> dt.date:
     return dt.date(year, *INSTALL_MONTH_DAY)
 
 
-def load_programs(plan, base_dir: Path | None) -> tuple:
+def load_programs(plan: Plan, base_dir: Path | None) -> tuple[Program, ...]:
     """Parse the plan's programs and its incentive files; errors point at the plan key."""
-    from homeplan.money.incentives import IncentiveDataError, parse_catalog, read_catalog
-
-    programs = []
+    programs: list[Program] = []
     if plan.incentives:
         try:
             programs.extend(parse_catalog(list(plan.incentives)))
@@ -79,10 +98,8 @@ def load_programs(plan, base_dir: Path | None) -> tuple:
     return tuple(programs)
 
 
-def _programs_cached(ctx) -> tuple:
+def plan_programs(ctx: Context) -> tuple[Program, ...]:
     """Programs of the plan, re-read only when the list or a file (by size and time) changes."""
-    import json
-
     stamps = []
     for name in ctx.plan.incentive_files:
         path = Path(name) if Path(name).is_absolute() or ctx.base_dir is None else ctx.base_dir / name
@@ -96,50 +113,32 @@ def _programs_cached(ctx) -> tuple:
 
 
 class IncentiveModel:
-    """Incentive estimates and exact evaluation for one plan."""
+    """Incentive estimates and exact evaluation for one plan (with its final projects)."""
 
-    def __init__(self, ctx, programs: tuple):
-        from homeplan.money.incentives import Household
-
+    def __init__(self, ctx: Context, programs: tuple[Program, ...]):
         self.ctx = ctx
         self.programs = programs
         h = ctx.plan.household
         self.household = Household(ami_pct=h.ami_pct, tax_liability_usd=h.federal_tax_liability_usd,
                                    state_tax_liability_usd=h.state_tax_liability_usd)
-        self._estimates: dict[str, dict] = {}
+        self._estimates: dict[str, dict[int, YearIncentive]] = {}
         # programs with yearly caps shared by several items are given to the scheduler as capped
         # groups (so that spreading capped items over tax years is found when it pays); the
         # per-item estimates cover everything else
         self.estimate_programs = tuple(self._without_capped_kinds(p) for p in programs)
         self.estimate_programs = tuple(p for p in self.estimate_programs if p.kinds)
 
-    @classmethod
-    def for_context(cls, ctx) -> IncentiveModel:
-        cached = getattr(ctx, "_incentives", None)
-        if cached is None:
-            cached = cls(ctx, _programs_cached(ctx))
-            ctx._incentives = cached
-        return cached
-
     @staticmethod
-    def _without_capped_kinds(program):
-        from dataclasses import replace
-
+    def _without_capped_kinds(program: Program) -> Program:
         if not program.yearly_caps:
             return program
         capped = frozenset().union(*(g.kinds for g in program.yearly_caps))
         return replace(program, kinds=frozenset(program.kinds - capped), yearly_caps=())
 
-    def groups(self) -> tuple:
+    def groups(self) -> tuple[IncentiveGroup, ...]:
         """Yearly-capped programs as scheduler groups: each project's share of its cost that
         the program pays on its own (rate, tier and per-item caps), the yearly cap, the years
         the program is open, and when the money arrives."""
-        from dataclasses import replace
-
-        from homeplan.money.incentives import evaluate
-        from homeplan.plan_schedule import cost_in_year
-        from homeplan.schedule.problem import IncentiveGroup
-
         out = []
         for prog in self.programs:
             for cg in prog.yearly_caps:
@@ -153,7 +152,7 @@ class IncentiveModel:
                 for pid, d in self.ctx.details.items():
                     if MONEY_KIND.get(d.kind, d.kind) not in cg.kinds:
                         continue
-                    cost = cost_in_year(self.ctx, pid, years[0])
+                    cost = cost_in_year_usd(d, self.ctx.plan, years[0])
                     res = evaluate([self.purchase(pid, years[0], cost)], [alone], self.household)
                     earned = sum(a.earned_usd for a in res.awards)
                     if cost > 0 and earned > 0:
@@ -167,9 +166,7 @@ class IncentiveModel:
                                           active_years=tuple(years)))
         return tuple(out)
 
-    def purchase(self, pid: str, year: int, cost_usd: float):
-        from homeplan.money.incentives import Purchase
-
+    def purchase(self, pid: str, year: int, cost_usd: float) -> Purchase:
         d = self.ctx.details[pid]
         keys = set(d.candidate.replaces)
         fuels = {appliance_fuel(a) for a in self.ctx.plan.appliances if a.key in keys}
@@ -180,23 +177,20 @@ class IncentiveModel:
             if d.kind in ("panel_upgrade", "service_upgrade") else None,
             size_kw=d.size if d.kind == "solar" else None,
             size_kwh=d.size if d.kind == "battery" else None,
-            fuel_switch=bool(fuels & {"gas", "propane", "oil"}),
+            fuel_switch=bool(fuels & set(HOME_FUELS)),
         )
 
     def estimate(self, pid: str, year: int, cost_usd: float) -> tuple[float, float]:
         """(point-of-sale, later) incentives of one purchase alone in ``year``."""
         if not self.estimate_programs:
             return 0.0, 0.0
-        from homeplan.money.incentives import PROJECT_KINDS, incentives_by_install_year
-
         key = MONEY_KIND.get(self.ctx.details[pid].kind, self.ctx.details[pid].kind)
         if key not in PROJECT_KINDS:
             return 0.0, 0.0
         table = self._estimates.get(pid)
         if table is None or year not in table:
-            from homeplan.plan_schedule import cost_in_year
-
-            costs = {y: cost_in_year(self.ctx, pid, y) for y in self.ctx.years}
+            d = self.ctx.details[pid]
+            costs = {y: cost_in_year_usd(d, self.ctx.plan, y) for y in self.ctx.years}
             first = self.purchase(pid, self.ctx.first_year, costs[self.ctx.first_year])
             key = f"incentives:{id(self.programs)}:{first}:{sorted(costs.items())}:{self.household}"
             table = self.ctx.cache.memo(key, lambda: incentives_by_install_year(
@@ -206,13 +200,12 @@ class IncentiveModel:
         scale = cost_usd / ye.cost_usd if ye.cost_usd else 1.0
         return ye.point_of_sale_usd * min(scale, 1.0), ye.later_usd * min(scale, 1.0)
 
-    def exact(self, done: dict[str, int], costs: dict[str, float]):
+    def exact(self, done: dict[str, int], costs: dict[str, float]
+              ) -> tuple[dict[str, list[AwardLine]], IncentiveResult | None]:
         """Every award of the chosen purchases evaluated together: (award lines by project id,
         the engine's full result or None)."""
         if not self.programs or not done:
             return {}, None
-        from homeplan.money.incentives import PROJECT_KINDS, evaluate
-
         items = [self.purchase(p, y, costs[p]) for p, y in sorted(done.items(), key=lambda kv: (kv[1], kv[0]))
                  if MONEY_KIND.get(self.ctx.details[p].kind, self.ctx.details[p].kind) in PROJECT_KINDS]
         result = evaluate(items, self.programs, self.household)
@@ -229,10 +222,8 @@ class IncentiveModel:
                         AwardLine(names.get(a.program_id, a.program_id), round(pay.amount_usd, 2), pay.on, kind))
         return out, result
 
-    def uses(self, result) -> tuple[ProgramUse, ...]:
+    def uses(self, result: IncentiveResult | None) -> tuple[ProgramUse, ...]:
         """What each program pays in the plan, with its caps in words and its end date."""
         if result is None or not self.programs:
             return ()
-        from homeplan.money.incentives import program_totals
-
         return tuple(program_totals(result, self.programs))

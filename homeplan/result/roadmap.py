@@ -8,7 +8,7 @@ converted), mappings as plain ``dict`` copies. ``Roadmap.to_dict()`` produces JS
 
 Units follow the project rules: money in USD (``_usd``), mass of CO2e in kg (``_kg``), power in kW
 (``_kw``), current in A (``_amps``). Energy maps are keyed by fuel with the unit in the key
-(``electricity_kwh``, ``gas_therm``, ``propane_gallon``, ``oil_gallon``, ``gasoline_gallon``).
+(``electricity_kwh``, ``gas_therm``, ``propane_gal``, ``oil_gal``, ``gasoline_gal``, ``diesel_gal``).
 
 References
 ----------
@@ -24,7 +24,7 @@ from collections.abc import Iterable, Mapping
 from dataclasses import dataclass, field
 from typing import Any, Literal
 
-SCHEMA_VERSION = "1.0"
+SCHEMA_VERSION = "1.1"
 """Version of the JSON produced by :meth:`Roadmap.to_dict`. Bump the minor part for added
 fields, the major part for renamed/removed fields or changed meaning."""
 
@@ -38,6 +38,7 @@ MilestoneKind = Literal[
     "service_upgraded",
     "other",
 ]
+BaselineKind = Literal["do_nothing", "like_for_like"]
 Status = Literal["ok", "infeasible"]
 Objective = Literal["max_npv", "min_emissions", "earliest_gas_closure", "min_out_of_pocket"]
 
@@ -269,8 +270,14 @@ class Milestone:
 
 @dataclass(frozen=True)
 class Baseline:
-    """A reference plan shown beside the roadmap (``do_nothing``, ``like_for_like``)."""
+    """A reference plan shown beside the roadmap.
 
+    ``kind`` says which (``do_nothing``: keep today's home and pay for breakdowns as they come;
+    ``like_for_like``: replace each item with the same kind on the same fuel at its likely end of
+    life); ``name`` is the same in words, for display only - code looks baselines up by kind.
+    """
+
+    kind: BaselineKind
     name: str
     years: tuple[YearTotals, ...] = ()
     npv_usd: float = 0.0
@@ -280,14 +287,19 @@ class Baseline:
 
     def to_dict(self) -> dict[str, Any]:
         return {
+            "kind": self.kind,
             "name": self.name,
             "years": [y.to_dict() for y in self.years],
             "npv_usd": _json_number(self.npv_usd),
         }
 
     @classmethod
-    def from_dict(cls, data: Mapping[str, Any]) -> Baseline:
+    def from_dict(cls, data: Mapping[str, Any], position: int = 0) -> Baseline:
+        """Read one baseline; files of schema 1.0 have no ``kind``: it follows from the
+        documented order (doing nothing first, then like-for-like)."""
+        kind = data.get("kind") or ("do_nothing" if position == 0 else "like_for_like")
         return cls(
+            kind,
             data["name"],
             tuple(YearTotals.from_dict(y) for y in data.get("years", ())),
             _num(data.get("npv_usd", 0.0)),
@@ -336,8 +348,9 @@ class Roadmap:
     def steps_in(self, year: int) -> tuple[Step, ...]:
         return tuple(s for s in self.steps if s.year == year)
 
-    def baseline(self, name: str) -> Baseline | None:
-        return next((b for b in self.baselines if b.name == name), None)
+    def baseline(self, kind: BaselineKind) -> Baseline | None:
+        """The baseline of this kind (``do_nothing`` or ``like_for_like``), if the roadmap has one."""
+        return next((b for b in self.baselines if b.kind == kind), None)
 
     def to_dict(self) -> dict[str, Any]:
         """JSON-safe dict following ``docs/roadmap-json.md`` (schema ``SCHEMA_VERSION``)."""
@@ -375,7 +388,7 @@ class Roadmap:
             steps=tuple(Step.from_dict(s) for s in data.get("steps", ())),
             years=tuple(YearTotals.from_dict(y) for y in data.get("years", ())),
             milestones=tuple(Milestone.from_dict(m) for m in data.get("milestones", ())),
-            baselines=tuple(Baseline.from_dict(b) for b in data.get("baselines", ())),
+            baselines=tuple(Baseline.from_dict(b, i) for i, b in enumerate(data.get("baselines", ()))),
             npv_usd=_num(data.get("npv_usd", 0.0)),
             status=data.get("status", "ok"),
             infeasibility=data.get("infeasibility"),

@@ -21,11 +21,26 @@ from __future__ import annotations
 import difflib
 from dataclasses import dataclass, field
 
-from homeplan import catalog, lifecycle
+from homeplan import catalog
 from homeplan.errors import PlanRuleError
+from homeplan.plan.fuels import HOME_FUELS, appliance_fuel
 from homeplan.plan.model import Plan
+from homeplan.planner import lifecycle
 
-FOSSIL = ("gas", "propane", "oil")
+__all__ = [
+    "CAPACITY_GROUP",
+    "MILESTONE_FOR_FUEL",
+    "Candidate",
+    "any_of_groups",
+    "build_graph",
+    "candidates",
+    "heat_pump_variant",
+    "layers",
+    "prerequisites_closure",
+    "project_nodes",
+    "to_dot",
+]
+
 HEATING_KINDS = ("furnace", "boiler", "central_ac", "room_ac", "baseboard")
 CAPACITY_GROUP = "any_of:capacity"
 LOWER_POWER = "lower_power_variants"
@@ -77,13 +92,13 @@ def candidates(plan: Plan) -> list[Candidate]:
         add("heat_pump", "heat_pump", replaces=tuple(a.key for a in heating),
             variant=heat_pump_variant(plan, plan.home.climate.heating_design_f))
     for a in apps:
-        fuel = lifecycle.appliance_fuel(a)
+        fuel = appliance_fuel(a)
         if a.kind == "water_heater" and lifecycle.appliance_type(a) != "heat_pump":
             add(_unique(out, "heat_pump_water_heater", a.key), "heat_pump_water_heater",
                 replaces=(a.key,), variant="v240")
-        elif a.kind in ("range", "cooktop") and fuel in FOSSIL:
+        elif a.kind in ("range", "cooktop") and fuel in HOME_FUELS:
             add(_unique(out, "induction_range", a.key), "induction_range", replaces=(a.key,), variant="full")
-        elif a.kind == "dryer" and fuel in FOSSIL:
+        elif a.kind == "dryer" and fuel in HOME_FUELS:
             add(_unique(out, "heat_pump_dryer", a.key), "heat_pump_dryer", replaces=(a.key,), variant="v120")
     ev_ids = []
     for i, v in enumerate(plan.vehicles):
@@ -108,7 +123,7 @@ def candidates(plan: Plan) -> list[Candidate]:
     for remedy in ("panel_upgrade", "service_upgrade", "load_management"):
         add(remedy, remedy)
     for fuel, milestone in MILESTONE_FOR_FUEL.items():
-        if any(lifecycle.appliance_fuel(a) == fuel for a in apps):
+        if any(appliance_fuel(a) == fuel for a in apps):
             add(milestone, milestone)
     return out
 
@@ -175,7 +190,7 @@ def build_graph(plan: Plan):
                 continue
             for key in c.replaces:
                 a = next((x for x in plan.appliances if x.key == key), None)
-                if a is not None and lifecycle.appliance_fuel(a) == fuel:
+                if a is not None and appliance_fuel(a) == fuel:
                     g.add_edge(c.id, milestone, kind="requires",
                                why=f"the {a.key.replace('_', ' ')} burns {fuel}")
     # any-of capacity alternatives for the big new loads
@@ -242,6 +257,19 @@ def _check_choice_ids(plan: Plan, ids: set[str]) -> None:
             raise PlanRuleError(("choices", "pins", pid),
                                 f"{pid} is pinned to {year}, outside the plan's years "
                                 f"{plan.first_year}-{last}", "pick a year inside the horizon")
+
+
+def prerequisites_closure(g, pid: str) -> set[str]:
+    """Every project that must be done before ``pid`` (transitively, hard order only)."""
+    out: set[str] = set()
+    stack = [pid]
+    while stack:
+        n = stack.pop()
+        for u, _, d in g.in_edges(n, data=True):
+            if d["kind"] == "requires" and u not in out and g.nodes[u].get("kind") == "project":
+                out.add(u)
+                stack.append(u)
+    return out
 
 
 def project_nodes(g) -> list[str]:

@@ -16,19 +16,30 @@ Escobar, "Statistical Methods for Reliability Data", 1998, ch. 4).
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
+from dataclasses import replace
 
 import numpy as np
 
 from homeplan import catalog
+from homeplan.plan.fuels import appliance_fuel, vehicle_fuel
 from homeplan.plan.model import Appliance, Plan, Roof, Vehicle
+from homeplan.result.outlook import LifeOutlook
 
-DEFAULT_FUEL = {
-    "furnace": "gas", "boiler": "gas", "water_heater": "gas", "range": "gas", "cooktop": "gas",
-    "wall_oven": "electric", "dryer": "electric", "central_ac": "electric", "room_ac": "electric",
-    "heat_pump": "electric", "mini_split": "electric", "baseboard": "electric",
-}
-
+__all__ = [
+    "appliance_outlook",
+    "appliance_type",
+    "cumulative_failure_probability",
+    "hazard_by_year",
+    "mean_remaining_life",
+    "outlook",
+    "plan_outlooks",
+    "remaining_life_at_risk",
+    "roof_outlook",
+    "survival",
+    "vehicle_outlook",
+    "weibull_scale",
+    "yearly_failure_probability",
+]
 
 def weibull_scale(median_years: float, shape: float) -> float:
     """Scale eta of a Weibull distribution with the given median: eta = median / (ln 2)^(1/beta)."""
@@ -85,35 +96,6 @@ def mean_remaining_life(age_years: float, scale: float, shape: float) -> float:
     return float(np.sum((s[1:] + s[:-1]) * 0.5 * np.diff(t)))
 
 
-@dataclass(frozen=True)
-class LifeOutlook:
-    """Age and end-of-life risk of one appliance, vehicle or roof."""
-
-    key: str
-    label: str
-    kind: str
-    fuel: str
-    install_year: int
-    install_year_assumed: bool
-    age_years: float
-    effective_age_years: float
-    median_life_years: float
-    shape: float
-    source: str
-    expected_end_year: int          # conditional median: more likely than not failed by then
-    mean_remaining_years: float
-    replace_by_year: int            # conditional failure risk reaches the chosen level
-    risk_pct: float
-    first_year: int
-    yearly_failure_pct: tuple[float, ...]   # chance it fails in each future year, given it works today
-    cumulative_failure_pct: tuple[float, ...]
-    failed: bool = False
-
-    @property
-    def fossil(self) -> bool:
-        return self.fuel in ("gas", "propane", "oil", "gasoline", "diesel")
-
-
 def outlook(
     key: str, label: str, kind: str, fuel: str, type_: str, install_year: int | None,
     condition: str, today_year: int, years: int = 15, risk_pct: float = 50.0,
@@ -153,10 +135,6 @@ def outlook(
     )
 
 
-def appliance_fuel(appliance: Appliance) -> str:
-    return appliance.fuel or DEFAULT_FUEL.get(appliance.kind, "electric")
-
-
 def appliance_type(appliance: Appliance) -> str:
     if appliance.type:
         return appliance.type
@@ -172,24 +150,18 @@ def appliance_outlook(a: Appliance, today_year: int, years: int = 15, risk_pct: 
 
 def vehicle_outlook(v: Vehicle, key: str, today_year: int, years: int = 15,
                     risk_pct: float = 50) -> LifeOutlook:
-    fuel = "gasoline" if v.fuel in ("gasoline", "hybrid", "plug_in_hybrid") else v.fuel
+    fuel = vehicle_fuel(v.fuel)
     start = v.model_year or v.year_acquired
     o = outlook(key, v.name or f"{v.fuel} {v.body}", "vehicle", "gasoline", v.body, start, "good",
                 today_year, years, risk_pct)
     if v.replace_year is not None:  # the owner's plan wins over the statistics
-        o = _replace(o, replace_by_year=v.replace_year, expected_end_year=v.replace_year, fuel=fuel)
-    return _replace(o, fuel=fuel)
+        o = replace(o, replace_by_year=v.replace_year, expected_end_year=v.replace_year)
+    return replace(o, fuel=fuel)
 
 
 def roof_outlook(roof: Roof, today_year: int, years: int = 15, risk_pct: float = 50) -> LifeOutlook:
     return outlook("roof", f"{roof.material.replace('_', ' ')} roof", "roof", "", roof.material,
                    roof.year_installed, "good", today_year, years, risk_pct)
-
-
-def _replace(o: LifeOutlook, **changes) -> LifeOutlook:
-    from dataclasses import replace
-
-    return replace(o, **changes)
 
 
 def plan_outlooks(plan: Plan, years: int | None = None) -> list[LifeOutlook]:

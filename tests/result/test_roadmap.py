@@ -14,7 +14,7 @@ import sys
 
 import pytest
 
-from homeplan.schedule import (
+from homeplan.result import (
     SCHEMA_VERSION,
     Baseline,
     IncentiveLine,
@@ -57,7 +57,7 @@ def sample() -> Roadmap:
         steps=[step, Step("panel", "Panel upgrade", 2026, cost_usd=3000.0)],
         years=[year],
         milestones=[Milestone(2030, "Gas service closed", "gas_service_closed")],
-        baselines=[Baseline("do_nothing", [YearTotals(2026)], 0.0)],
+        baselines=[Baseline("do_nothing", "do nothing", [YearTotals(2026)], 0.0)],
         npv_usd=8200.0,
         assumptions={"discount_rate": 0.03, "budget_usd": (5000, 5000)},
     )
@@ -104,28 +104,8 @@ def test_lists_become_tuples_and_types_are_frozen() -> None:
 def test_importing_schedule_does_not_import_scipy() -> None:
     code = (
         "import sys, homeplan.schedule, homeplan.schedule.problem, homeplan.schedule.milp, "
-        "homeplan.schedule.explain, homeplan.schedule.bruteforce, homeplan.schedule.draft; "
+        "homeplan.schedule.explain, homeplan.schedule.bruteforce, homeplan.result; "
         "print('scipy' in sys.modules, 'textual' in sys.modules)"
     )
     out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True)
     assert out.stdout.split() == ["False", "False"]
-
-
-def test_draft_roadmap_from_a_solved_problem() -> None:
-    from homeplan.schedule.draft import draft_roadmap
-    from homeplan.schedule.problem import Prerequisite, Problem, Project
-
-    panel = Project("panel", (3000.0, 3100.0, 3200.0), label="Panel upgrade")
-    hp = Project("hp", (9000.0,) * 3, label="Heat pump", value_usd=(13000.0, 12500.0, 12000.0))
-    pr = Problem(2026, (6000.0,) * 3, (panel, hp), prerequisites=(Prerequisite("hp", ("panel",)),))
-    r = draft_roadmap(pr, "Demo (invented)")
-    json.dumps(r.to_dict(), allow_nan=False)
-    # heat pump value falls, panel price rises: 2026 panel 3000 (3000 left), 2027 heat pump
-    # 9000 <= 3000 + 6000; the heat pump cannot be in 2026 (12000 > 6000) (worked by hand)
-    assert [(s.project_id, s.year) for s in r.steps] == [("panel", 2026), ("hp", 2027)]
-    assert r.npv_usd == pytest.approx(12500.0 - 9000.0 - 3000.0)
-    assert "after the panel upgrade" in r.steps[1].reasons
-    bad = draft_roadmap(pr.with_project("hp", mandatory=True, latest_year=2026), "Demo (invented)")
-    assert bad.status == "infeasible" and "budget" in (bad.infeasibility or "")
-    failed = pr.with_project("panel", pinned_year=2027, pin_reason="it failed: replaced in 2027")
-    assert draft_roadmap(failed, "x").steps[0].reasons == ("it failed: replaced in 2027",)

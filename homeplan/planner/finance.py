@@ -9,7 +9,20 @@ Short, Packey & Holt, NREL/TP-462-5173 (1995), levelised cost of energy. The ari
 
 from __future__ import annotations
 
-from homeplan.schedule.roadmap import Roadmap
+from homeplan.catalog import performance
+from homeplan.money.finance import (
+    discounted_payback_years,
+    energy_hedge,
+    irr_pct,
+    npv_usd,
+    simple_payback_years,
+)
+from homeplan.planner.context import Context
+from homeplan.planner.scheduling import ScheduleOutcome
+from homeplan.result.figures import PlanReturns, SolarHedge, StepReturns
+from homeplan.result.roadmap import Roadmap
+
+__all__ = ["plan_returns", "project_returns", "solar_hedge"]
 
 
 def _round(x: float | None, nd: int = 1) -> float | None:
@@ -17,42 +30,28 @@ def _round(x: float | None, nd: int = 1) -> float | None:
 
 
 def plan_returns(roadmap: Roadmap, discount_rate_pct: float, extra_flows: list[float] | None = None,
-                 npv_vs_do_nothing_usd: float | None = None) -> dict:
+                 npv_vs_do_nothing_usd: float | None = None) -> PlanReturns:
     """Cash flows of the plan against doing nothing, year by year, and their returns.
 
     Each year: bill savings, minus what the plan spends (net of incentives received), minus loan
     payments, plus ``extra_flows`` (the expected breakdown costs the plan avoids, and in the last
     year the equipment's remaining value) - the same accounting as the roadmap's NPV.
     """
-    from homeplan.money.finance import (
-        discounted_payback_years,
-        irr_pct,
-        npv_usd,
-        simple_payback_years,
-    )
-
     extra = extra_flows or [0.0] * len(roadmap.years)
     flows = [y.bill_savings_usd - (y.spend_usd - y.incentives_usd) - y.loan_payments_usd + e
              for y, e in zip(roadmap.years, extra, strict=True)]
-    return {
-        "flows_usd": [round(f, 2) for f in flows],
-        "npv_vs_do_nothing_usd": round(npv_vs_do_nothing_usd if npv_vs_do_nothing_usd is not None
-                                       else npv_usd(discount_rate_pct, flows), 2),
-        "irr_pct": _round(irr_pct(flows)),
-        "simple_payback_years": _round(simple_payback_years(flows)),
-        "discounted_payback_years": _round(discounted_payback_years(discount_rate_pct, flows)),
-    }
-
-
-def project_returns(ctx, outcome, roadmap: Roadmap) -> dict[str, dict]:
-    """Per step: pay the net cost up front, then save its bills over its life."""
-    from homeplan.money.finance import (
-        discounted_payback_years,
-        irr_pct,
-        npv_usd,
-        simple_payback_years,
+    npv = npv_vs_do_nothing_usd if npv_vs_do_nothing_usd is not None else npv_usd(discount_rate_pct, flows)
+    return PlanReturns(
+        flows_usd=tuple(round(f, 2) for f in flows),
+        npv_vs_do_nothing_usd=round(npv, 2),
+        irr_pct=_round(irr_pct(flows)),
+        simple_payback_years=_round(simple_payback_years(flows)),
+        discounted_payback_years=_round(discounted_payback_years(discount_rate_pct, flows)),
     )
 
+
+def project_returns(ctx: Context, outcome: ScheduleOutcome, roadmap: Roadmap) -> dict[str, StepReturns]:
+    """Per step: pay the net cost up front, then save its bills over its life."""
     rate = ctx.plan.budget.discount_rate_pct
     out = {}
     for s in roadmap.steps:
@@ -65,20 +64,18 @@ def project_returns(ctx, outcome, roadmap: Roadmap) -> dict[str, dict]:
         flows = [-s.net_cost_usd]
         for k in range(1, life + 1):
             flows.append(sum(v * (1 + ctx.escalation(f)) ** (t0 + k) for f, v in co.savings_by_fuel.items()))
-        out[s.project_id] = {
-            "first_year_savings_usd": round(flows[1], 2) if len(flows) > 1 else 0.0,
-            "npv_over_life_usd": round(npv_usd(rate, flows), 2),
-            "irr_pct": _round(irr_pct(flows)) if any(f > 0 for f in flows[1:]) else None,
-            "simple_payback_years": _round(simple_payback_years(flows)),
-            "discounted_payback_years": _round(discounted_payback_years(rate, flows)),
-        }
+        out[s.project_id] = StepReturns(
+            first_year_savings_usd=round(flows[1], 2) if len(flows) > 1 else 0.0,
+            npv_over_life_usd=round(npv_usd(rate, flows), 2),
+            irr_pct=_round(irr_pct(flows)) if any(f > 0 for f in flows[1:]) else None,
+            simple_payback_years=_round(simple_payback_years(flows)),
+            discounted_payback_years=_round(discounted_payback_years(rate, flows)),
+        )
     return out
 
 
-def solar_hedge(ctx, roadmap: Roadmap) -> dict | None:
+def solar_hedge(ctx: Context, roadmap: Roadmap) -> SolarHedge | None:
     """What the solar (and battery) of the plan lock in per kWh, against the utility's price."""
-    from homeplan.money.finance import energy_hedge
-
     steps = {s.project_id: s for s in roadmap.steps}
     if "solar" not in steps:
         return None
@@ -89,14 +86,15 @@ def solar_hedge(ctx, roadmap: Roadmap) -> dict | None:
     capex = steps["solar"].net_cost_usd + (steps["battery"].net_cost_usd if "battery" in steps else 0.0)
     price = ctx.plan.prices.electricity.usd_per_kwh * (1 + ctx.escalation("electricity")) ** (
         steps["solar"].year - ctx.first_year)
+    degradation_pct = performance()["pv_degradation_pct_per_year"]
     h = energy_hedge(capex, kwh, int(d.life_years), ctx.plan.budget.discount_rate_pct, price,
-                     ctx.escalation("electricity") * 100, degradation_pct=0.5)
-    return {
-        "lcoe_usd_per_kwh": round(h.lcoe_usd_per_kwh, 4),
-        "utility_levelised_usd_per_kwh": round(h.utility_levelised_usd_per_kwh, 4),
-        "utility_first_year_usd_per_kwh": round(h.utility_first_year_usd_per_kwh, 4),
-        "utility_last_year_usd_per_kwh": round(h.utility_last_year_usd_per_kwh, 4),
-        "life_years": h.life_years,
-        "includes_battery": "battery" in steps,
-        "degradation_pct_per_year": 0.5,
-    }
+                     ctx.escalation("electricity") * 100, degradation_pct=degradation_pct)
+    return SolarHedge(
+        lcoe_usd_per_kwh=round(h.lcoe_usd_per_kwh, 4),
+        utility_levelised_usd_per_kwh=round(h.utility_levelised_usd_per_kwh, 4),
+        utility_first_year_usd_per_kwh=round(h.utility_first_year_usd_per_kwh, 4),
+        utility_last_year_usd_per_kwh=round(h.utility_last_year_usd_per_kwh, 4),
+        life_years=h.life_years,
+        includes_battery="battery" in steps,
+        degradation_pct_per_year=degradation_pct,
+    )

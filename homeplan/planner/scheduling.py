@@ -16,7 +16,7 @@ Per project and year the scheduler gets (see :mod:`homeplan.schedule.problem`):
 References
 ----------
 NIST Handbook 135 (life-cycle cost: present value of escalating energy savings);
-Weibull end-of-life risk from :mod:`homeplan.lifecycle`.
+Weibull end-of-life risk from :mod:`homeplan.planner.lifecycle`.
 """
 
 from __future__ import annotations
@@ -24,20 +24,55 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 
 from homeplan import catalog
-from homeplan.graph import MILESTONE_FOR_FUEL
-from homeplan.pipeline import (
-    OBJECTIVE,
-    Context,
+from homeplan.money.finance import discount_factor, remaining_value_share
+from homeplan.plan.fuels import HOME_FUELS
+from homeplan.planner.breakdowns import (
+    LFL_PREFIX,
     breakdown_cost,
-    discount,
     fossil_projects,
-    prerequisites_closure,
+    lfl_cost,
+    replaceable_items,
 )
-from homeplan.schedule.problem import Prerequisite, Problem, Project, Target
+from homeplan.planner.candidates import MILESTONE_FOR_FUEL, prerequisites_closure
+from homeplan.planner.capacity import CapacityModel
+from homeplan.planner.context import Context
+from homeplan.planner.incentives import IncentiveModel
+from homeplan.planner.projects import cost_in_year_usd
+from homeplan.planner.states import APPLY_ORDER
+from homeplan.schedule.explain import diagnose_infeasible, explain
+from homeplan.schedule.milp import MilpSolver, Solution
+from homeplan.schedule.problem import (
+    ExclusiveGroup,
+    IncentiveGroup,
+    Prerequisite,
+    Problem,
+    Project,
+    Target,
+)
+
+__all__ = [
+    "COVER_PREFIX",
+    "OBJECTIVE",
+    "ORDER_PREFIX",
+    "Coefficients",
+    "ScheduleOutcome",
+    "build_problem",
+    "coefficients",
+    "schedule",
+]
+
+OBJECTIVE = {"npv": "max_npv", "emissions": "min_emissions", "gas_off_early": "earliest_gas_closure",
+             "out_of_pocket": "min_out_of_pocket"}
+"""Plan-file objective -> scheduler objective."""
+
+ORDER_PREFIX = "order:"
+COVER_PREFIX = "covered:"
 
 
-@dataclass
+@dataclass(frozen=True)
 class Coefficients:
+    """One project's money and emissions by year index, measured against a given home state."""
+
     cost_usd: list[float]
     pos_incentive_usd: list[float]
     later_incentive_usd: list[float]
@@ -45,37 +80,32 @@ class Coefficients:
     emissions_saved_kg: float              # per year
 
 
-@dataclass
+@dataclass(frozen=True)
 class ScheduleOutcome:
+    """The problem solved last, its solution, the coefficients behind it and what explains it."""
+
     problem: Problem
-    solution: object                       # homeplan.schedule.milp.Solution
+    solution: Solution
     coefficients: dict[str, Coefficients]
+    capacity: CapacityModel
     reasons: dict[str, tuple[str, ...]] = field(default_factory=dict)
     infeasibility: str | None = None
     passes: int = 1
-    capacity: object | None = None
+    notes: tuple[str, ...] = ()
 
 
-def cost_in_year(ctx: Context, pid: str, year: int) -> float:
-    from homeplan.money.costs import cost_in_year as grow
-    from homeplan.money.costs import cost_trend_from_record
-
-    d = ctx.details[pid]
-    trend = cost_trend_from_record(d.cost_change, ctx.plan.prices.inflation_pct)
-    return grow(d.cost_today_usd, ctx.first_year, year, trend)
-
-
-def coefficients(ctx: Context, pid: str, before: set[str], incentives) -> Coefficients:
+def coefficients(ctx: Context, pid: str, before: set[str], incentives: IncentiveModel) -> Coefficients:
     """Coefficients of one project measured against the home with ``before`` done."""
-    context = set(before) | prerequisites_closure(ctx.g, pid)
+    context = set(before) | prerequisites_closure(ctx.graph, pid)
     context.discard(pid)
     e0 = ctx.energy(frozenset(context))
     e1 = ctx.energy(frozenset(context | {pid}))
     fuels = set(e0.bills_usd) | set(e1.bills_usd)
     savings = {f: e0.bills_usd.get(f, 0.0) - e1.bills_usd.get(f, 0.0) for f in fuels}
     costs, pos, later = [], [], []
+    d = ctx.details[pid]
     for year in ctx.years:
-        c = cost_in_year(ctx, pid, year)
+        c = cost_in_year_usd(d, ctx.plan, year)
         p, lt = incentives.estimate(pid, year, c)
         costs.append(c)
         pos.append(p)
@@ -95,16 +125,27 @@ def _value(ctx: Context, co: Coefficients, t: int, life: float) -> float:
     T = len(ctx.years)
     total = 0.0
     for k in range(t, T):
-        df = discount(rate, k)
+        df = discount_factor(rate, k)
         for fuel, s in co.savings_by_fuel.items():
             total += s * (1.0 + ctx.escalation(fuel)) ** k * df
     paid = co.cost_usd[t] - co.pos_incentive_usd[t] - co.later_incentive_usd[t]
-    remaining = max(0.0, 1.0 - (T - t) / max(life, 1.0))
-    return total + co.later_incentive_usd[t] * discount(rate, t + 1) + paid * remaining * discount(rate, T)
+    remaining = remaining_value_share(T - t, life)
+    return (total + co.later_incentive_usd[t] * discount_factor(rate, t + 1)
+            + paid * remaining * discount_factor(rate, T))
 
 
-def build_problem(ctx: Context, co: dict[str, Coefficients], capacity, implicit_target: bool = True,
-                  delay: int | None = 0, groups: tuple = ()) -> Problem:
+def all_electric_by(ctx: Context, implicit_target: bool) -> int | None:
+    """The year the plan must be fully electric by: the plan's deadline, else (with the goal and
+    ``implicit_target``) the last year of the horizon."""
+    by = ctx.plan.choices.all_electric_by
+    if by is None and ctx.plan.choices.all_electric and implicit_target:
+        by = ctx.years[-1]
+    return by
+
+
+def build_problem(ctx: Context, co: dict[str, Coefficients], capacity: CapacityModel,
+                  implicit_target: bool = True, delay: int | None = 0,
+                  groups: tuple[IncentiveGroup, ...] = ()) -> Problem:
     """The scheduling problem. ``delay``: years allowed past each appliance's replace-by year
     (None: no replace-by windows)."""
     plan = ctx.plan
@@ -152,39 +193,23 @@ def build_problem(ctx: Context, co: dict[str, Coefficients], capacity, implicit_
             failure_item=item, failure_prob_by_year=cumulative if item else (),
         ))
     prereqs = []
-    for u, v, data in ctx.g.edges(data=True):
+    for u, v, data in ctx.graph.edges(data=True):
         if data["kind"] == "requires" and u in ctx.details and v in ctx.details:
             prereqs.append(Prerequisite(project=v, requires_any=(u,), label=data.get("why", "")))
-    prereqs.extend(capacity.prerequisites)
     order_projects, order_prereqs, exclusive = better_before(ctx)
     projects.extend(order_projects)
     prereqs.extend(order_prereqs)
-    extra, extra_prereqs = breakdown_projects(ctx, excluded_lfl=bool(targets_for(ctx, implicit_target)))
+    extra, extra_prereqs = breakdown_projects(ctx, excluded_lfl=bool(all_electric_by(ctx, implicit_target)))
     projects.extend(extra)
     prereqs.extend(extra_prereqs)
     targets = []
-    by = plan.choices.all_electric_by
-    if by is None and plan.choices.all_electric and implicit_target:
-        by = years[-1]
+    by = all_electric_by(ctx, implicit_target)
     if by is not None:
         ids = tuple(p for p in fossil_projects(ctx)
                     if p not in plan.choices.exclude and _reachable(ctx, p, by))
-        kept = [ctx.details[p].label for p in fossil_projects(ctx) if not _reachable(ctx, p, by)]
-        if kept:
-            note = (f"cars you plan to keep past {by} are not part of the fully-electric goal: "
-                    + ", ".join(k.lower() for k in kept))
-            if note not in ctx.notes:
-                ctx.notes.append(note)
         if ids:
             targets.append(Target(ids, by, "fully electric"))
-    objective = OBJECTIVE[plan.choices.objective]
-    objective_project = None
-    if objective == "earliest_gas_closure":
-        objective_project = next((m for m in MILESTONE_FOR_FUEL.values() if m in ctx.details), None)
-        if objective_project is None:
-            objective = "max_npv"
-            ctx.notes.append("objective 'gas_off_early': this home burns no gas, oil or propane; "
-                             "using best net present value instead")
+    objective, objective_project = _objective(ctx)
     b = plan.budget
     budget = [float((b.by_year or {}).get(y, b.usd_per_year)) for y in years]
     loan_limit = sum(loan.amount_usd for loan in b.loans)
@@ -202,24 +227,45 @@ def build_problem(ctx: Context, co: dict[str, Coefficients], capacity, implicit_
     )
 
 
-ORDER_PREFIX = "order:"
-LFL_PREFIX = "like_for_like:"
+def _objective(ctx: Context) -> tuple[str, str | None]:
+    """The scheduler's objective and, for the earliest fuel closure, the milestone it moves.
+
+    A home that burns no gas, oil or propane has no fuel to close: best net present value.
+    """
+    objective = OBJECTIVE[ctx.plan.choices.objective]
+    if objective != "earliest_gas_closure":
+        return objective, None
+    milestone = next((m for m in MILESTONE_FOR_FUEL.values() if m in ctx.details), None)
+    return (objective, milestone) if milestone is not None else ("max_npv", None)
 
 
-def better_before(ctx: Context) -> tuple[list[Project], list[Prerequisite], list]:
+def _target_notes(ctx: Context, implicit_target: bool) -> list[str]:
+    """What the plan says about its goal: the cars left out of it, an objective that cannot apply."""
+    notes = []
+    by = all_electric_by(ctx, implicit_target)
+    if by is not None:
+        kept = [ctx.details[p].label for p in fossil_projects(ctx) if not _reachable(ctx, p, by)]
+        if kept:
+            notes.append(f"cars you plan to keep past {by} are not part of the fully-electric goal: "
+                         + ", ".join(k.lower() for k in kept))
+    if OBJECTIVE[ctx.plan.choices.objective] == "earliest_gas_closure" and _objective(ctx)[1] is None:
+        notes.append("objective 'gas_off_early': this home burns no gas, oil or propane; "
+                     "using best net present value instead")
+    return notes
+
+
+def better_before(ctx: Context) -> tuple[list[Project], list[Prerequisite], list[ExclusiveGroup]]:
     """"Better before" order (air sealing before the heat pump is sized; the roof before solar
     when it has less life left than the panels) as a rule that binds only when both are done:
     the later project needs the earlier one, or a free marker that rules the earlier one out.
 
     References
     ----------
-    Common practice, no source (see homeplan/graph.py).
+    Common practice, no source (see :mod:`homeplan.planner.candidates`).
     """
-    from homeplan.schedule.problem import ExclusiveGroup
-
     T = len(ctx.years)
     projects, prereqs, groups = [], [], []
-    for u, v, data in ctx.g.edges(data=True):
+    for u, v, data in ctx.graph.edges(data=True):
         if data["kind"] != "better_before" or u not in ctx.details or v not in ctx.details:
             continue
         marker = f"{ORDER_PREFIX}{u}>{v}"
@@ -227,14 +273,6 @@ def better_before(ctx: Context) -> tuple[list[Project], list[Prerequisite], list
         prereqs.append(Prerequisite(project=v, requires_any=(u, marker), label=data.get("why", "")))
         groups.append(ExclusiveGroup(members=(u, marker)))
     return projects, prereqs, groups
-COVER_PREFIX = "covered:"
-
-
-def targets_for(ctx: Context, implicit_target: bool) -> int | None:
-    by = ctx.plan.choices.all_electric_by
-    if by is None and ctx.plan.choices.all_electric and implicit_target:
-        by = ctx.years[-1]
-    return by
 
 
 def breakdown_projects(ctx: Context, excluded_lfl: bool = False) -> tuple[list[Project], list[Prerequisite]]:
@@ -246,8 +284,6 @@ def breakdown_projects(ctx: Context, excluded_lfl: bool = False) -> tuple[list[P
     as a project of its own (so that keeping the old fuel a while longer is priced fairly). With
     an all-electric target the like-for-like choice is not offered for combustion appliances.
     """
-    from homeplan.pipeline import lfl_cost, replaceable_items
-
     T = len(ctx.years)
     rate = ctx.plan.budget.discount_rate_pct
     infl = ctx.plan.prices.inflation_pct / 100.0
@@ -257,11 +293,11 @@ def breakdown_projects(ctx: Context, excluded_lfl: bool = False) -> tuple[list[P
         o = ctx.outlooks[key]
         alternatives = [pid]
         today = lfl_cost(ctx, key)
-        fossil = o.fuel in ("gas", "propane", "oil")
+        fossil = o.fuel in HOME_FUELS
         if key != "roof" and today > 0 and not (excluded_lfl and fossil):
             lid = f"{LFL_PREFIX}{key}"
             costs = [today * (1 + infl) ** t for t in range(T)]
-            salvage = [c * max(0.0, 1 - (T - t) / o.median_life_years) * discount(rate, T)
+            salvage = [c * remaining_value_share(T - t, o.median_life_years) * discount_factor(rate, T)
                        for t, c in enumerate(costs)]
             projects.append(Project(id=lid, label=f"Replace the {o.label} like-for-like", cost_usd=costs,
                                     value_usd=salvage, excluded=pid in ctx.plan.choices.pins))
@@ -274,31 +310,11 @@ def breakdown_projects(ctx: Context, excluded_lfl: bool = False) -> tuple[list[P
     return projects, prereqs
 
 
-def solve(problem: Problem):
+def solve(problem: Problem) -> Solution:
     """Solve with HiGHS. Presolve on: measured faster on the sample homes' problems (20-60 ms
     against 20-100 ms without, benchmarks/bench_pipeline.py); a 1e-5 relative gap is well below
     a dollar on these plans."""
-    from homeplan.schedule.milp import MilpSolver
-
     return MilpSolver(time_limit_s=20.0, mip_rel_gap=1e-5, presolve=True).solve(problem)
-
-
-def cached_capacity_model(ctx: Context, make):
-    """The capacity remedy depends on the home, the options and the exclusions, not the budget:
-    compute it once per such content and reuse it (with the variants it chose)."""
-    import json
-
-    plan = ctx.plan
-    key = "capacity:" + json.dumps([{k: v.model_dump(mode="json") for k, v in plan.options.items()},
-                                    sorted(plan.choices.exclude), sorted(ctx.details)], sort_keys=True)
-
-    def build():
-        model = make(ctx)
-        return model, dict(ctx.details)
-
-    model, details = ctx.cache.memo(key, build)
-    ctx.details = dict(details)
-    return model
 
 
 def _reachable(ctx: Context, pid: str, by: int) -> bool:
@@ -311,63 +327,58 @@ def _reachable(ctx: Context, pid: str, by: int) -> bool:
     return veh.replace_year is None or veh.replace_year <= by
 
 
-def schedule(ctx: Context) -> ScheduleOutcome:
+def schedule(ctx: Context, capacity: CapacityModel, incentives: IncentiveModel) -> ScheduleOutcome:
     """Solve, refine the project values in the order found, solve again."""
-    from homeplan.capacity import capacity_model
-    from homeplan.incentive_adapter import IncentiveModel
-    from homeplan.schedule.explain import diagnose_infeasible, explain
-
-    incentives = IncentiveModel.for_context(ctx)
-    capacity = cached_capacity_model(ctx, capacity_model)
-    for note in capacity.notes:
-        ctx.notes.append(note)
+    notes: list[str] = []
     key = (f"groups:{id(incentives.programs)}:{[(p, d.cost_today_usd) for p, d in ctx.details.items()]}:"
            f"{ctx.first_year}:{len(ctx.years)}:{ctx.plan.prices.model_dump_json()}:"
            f"{ctx.plan.household.model_dump_json()}")
     groups = ctx.cache.memo(key, incentives.groups)
     co = {pid: coefficients(ctx, pid, set(), incentives) for pid in ctx.details}
     implicit = ctx.plan.choices.all_electric_by is None and ctx.plan.choices.all_electric
-    problem, solution, delay = _solve_relaxing(ctx, co, capacity, implicit, groups)
+    notes.extend(_target_notes(ctx, implicit))
+    problem, solution, delay = _solve_relaxing(ctx, co, capacity, implicit, groups, notes)
     if not solution.feasible and implicit and problem.targets:
         why = diagnose_infeasible(problem)
-        ctx.notes.append(f"fully electric by {ctx.years[-1]} is out of reach: {why} This plan does "
-                         "the most it can within the budget.")
+        notes.append(f"fully electric by {ctx.years[-1]} is out of reach: {why} This plan does "
+                     "the most it can within the budget.")
         implicit = False
-        problem, solution, delay = _solve_relaxing(ctx, co, capacity, implicit, groups)
+        problem, solution, delay = _solve_relaxing(ctx, co, capacity, implicit, groups, notes)
     passes = 1
     if solution.feasible:
         done = {p: y for p, y in solution.done().items() if p in ctx.details}
         order = sorted(done, key=lambda p: (done[p], _order_key(ctx, p)))
         co2 = {}
         for pid in ctx.details:
-            before = {q for q in order[:order.index(pid)]} if pid in done else set(done)
+            before = set(order[:order.index(pid)]) if pid in done else set(done)
             co2[pid] = coefficients(ctx, pid, before, incentives)
         problem2 = build_problem(ctx, co2, capacity, implicit_target=implicit, delay=delay, groups=groups)
         solution2 = solve(problem2)
         if solution2.feasible:
             problem, solution, co, passes = problem2, solution2, co2, 2
     if not solution.feasible:
-        return ScheduleOutcome(problem, solution, co, infeasibility=diagnose_infeasible(problem),
-                               passes=passes, capacity=capacity)
-    return ScheduleOutcome(problem, solution, co, reasons=explain(problem, solution), passes=passes,
-                           capacity=capacity)
+        return ScheduleOutcome(problem, solution, co, capacity, infeasibility=diagnose_infeasible(problem),
+                               passes=passes, notes=tuple(notes))
+    return ScheduleOutcome(problem, solution, co, capacity, reasons=explain(problem, solution),
+                           passes=passes, notes=tuple(notes))
 
 
-def _solve_relaxing(ctx: Context, co, capacity, implicit: bool, groups: tuple = ()):
+def _solve_relaxing(ctx: Context, co: dict[str, Coefficients], capacity: CapacityModel, implicit: bool,
+                    groups: tuple[IncentiveGroup, ...], notes: list[str]
+                    ) -> tuple[Problem, Solution, int | None]:
     """Solve with the replace-by windows; if the budget cannot meet them, allow the fewest
-    extra years that make it feasible, and finally drop the windows."""
-
+    extra years that make it feasible, and finally drop the windows (saying so in ``notes``)."""
     delays: list[int | None] = list(range(0, len(ctx.years))) + [None]
     for delay in delays:
         problem = build_problem(ctx, co, capacity, implicit_target=implicit, delay=delay, groups=groups)
         solution = solve(problem)
         if solution.feasible:
             if delay:
-                ctx.notes.append(f"the budget cannot replace every appliance by its replace-by year; "
-                                 f"the plan allows up to {delay} more year(s)")
+                notes.append(f"the budget cannot replace every appliance by its replace-by year; "
+                             f"the plan allows up to {delay} more year(s)")
             elif delay is None:
-                ctx.notes.append("the budget cannot replace the appliances before their likely "
-                                 "failure; the plan accepts the risk")
+                notes.append("the budget cannot replace the appliances before their likely "
+                             "failure; the plan accepts the risk")
             return problem, solution, delay
         if not any(p.latest_year for p in problem.projects):
             break
@@ -375,8 +386,6 @@ def _solve_relaxing(ctx: Context, co, capacity, implicit: bool, groups: tuple = 
 
 
 def _order_key(ctx: Context, pid: str) -> int:
-    from homeplan.pipeline import APPLY_ORDER
-
     kind = ctx.details[pid].kind
     if catalog.upgrade_kinds()[kind].capacity_remedy:
         return -1

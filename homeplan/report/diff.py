@@ -17,6 +17,8 @@ import math
 from dataclasses import dataclass
 from typing import Any
 
+from homeplan.report.table import usd
+
 Path = tuple[Any, ...]
 
 # Plain names for the fields people change most; others are named from their keys.
@@ -242,8 +244,6 @@ def _lower_first(label: str) -> str:
 
 def _money(v: float) -> str:
     """Rounded as a household reads it: $10 steps under $1,000, else $100 steps."""
-    from homeplan.report.table import usd
-
     out = usd(v, 10 if abs(v) < 1000 else 100)
     return "$0" if out == "-$0" else out
 

@@ -1,0 +1,58 @@
+"""The ``homeplan`` command line (entry point :func:`main`).
+
+Modules: ``parser`` (every command, its arguments, the exit codes), one module per group of
+commands (``describe``: check, schema, graph, lifecycle; ``planning``: plan, capacity, costs;
+``outputs``: print, export, diff; ``app``: open), ``common`` (the load-and-plan path they share).
+
+Exit codes: 0 success, 1 failure while working, 2 bad input or usage.
+"""
+
+from __future__ import annotations
+
+import importlib
+import os
+import sys
+from collections.abc import Sequence
+
+from homeplan.cli.parser import (
+    COMMANDS,
+    EXIT_BAD_INPUT,
+    EXIT_FAILURE,
+    EXIT_INTERRUPTED,
+    EXIT_OK,
+    build_parser,
+)
+from homeplan.errors import InputError
+
+__all__ = ["build_parser", "main"]
+
+
+def main(argv: Sequence[str] | None = None) -> int:
+    """Run one command; returns its exit code. Bad input is reported without a traceback."""
+    parser = build_parser()
+    args = parser.parse_args(argv)
+    if not args.command:
+        parser.print_help()
+        return EXIT_BAD_INPUT
+    module, function = COMMANDS[args.command]
+    try:
+        # the command's group is imported only now: it loads the planner and its libraries
+        run = getattr(importlib.import_module(f"homeplan.cli.{module}"), function)
+        return int(run(args) or 0)
+    except InputError as exc:
+        for problem in exc.problems:
+            print(str(problem) if problem.path else f"homeplan: {problem.message}", file=sys.stderr)
+        n = len(exc.problems)
+        if n > 1:
+            print(f"{n} problems found", file=sys.stderr)
+        return EXIT_BAD_INPUT
+    except KeyboardInterrupt:
+        return EXIT_INTERRUPTED
+    except BrokenPipeError:
+        return EXIT_OK
+    except Exception as exc:  # a bug or an environment failure: say so briefly
+        if os.environ.get("HOMEPLAN_DEBUG"):
+            raise
+        print(f"homeplan: internal error: {type(exc).__name__}: {exc}\n"
+              "(set HOMEPLAN_DEBUG=1 to see the traceback, and please report it)", file=sys.stderr)
+        return EXIT_FAILURE

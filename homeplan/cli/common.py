@@ -1,0 +1,42 @@
+"""What the commands share: one path from a plan file to its result, and the output date."""
+
+from __future__ import annotations
+
+import datetime as dt
+import os
+from collections.abc import Mapping
+from typing import Any
+
+from homeplan.errors import InputError
+from homeplan.plan.load import LoadedPlan, load_plan
+from homeplan.planner.chain import plan_roadmap
+from homeplan.result.plan_result import PlanResult
+
+__all__ = ["load_and_plan", "now_utc"]
+
+
+def load_and_plan(path: str, values: Mapping[tuple, Any] | None = None) -> tuple[LoadedPlan, PlanResult]:
+    """Load a plan file, set command-line ``values`` (paths of keys), plan it.
+
+    Every problem - in the file, in a value, or a rule the plan breaks - is an InputError located
+    in the file (exit code 2).
+    """
+    loaded = load_plan(path).with_values(values or {})
+    return loaded, plan_roadmap(loaded)
+
+
+def now_utc() -> dt.datetime:
+    """The time printed on outputs: ``SOURCE_DATE_EPOCH`` when set (reproducible outputs), else
+    the clock.
+
+    References
+    ----------
+    Reproducible Builds, "SOURCE_DATE_EPOCH" specification, version 1.1.
+    """
+    epoch = os.environ.get("SOURCE_DATE_EPOCH")
+    if epoch:
+        try:
+            return dt.datetime.fromtimestamp(int(epoch), dt.UTC)
+        except (ValueError, OverflowError, OSError):
+            raise InputError(f"SOURCE_DATE_EPOCH must be a whole number of seconds, not {epoch!r}") from None
+    return dt.datetime.now(dt.UTC)

@@ -1,0 +1,162 @@
+"""Commands that describe a plan file before planning it: ``check``, ``schema``, ``graph``,
+``lifecycle``."""
+
+from __future__ import annotations
+
+import json
+import sys
+from dataclasses import asdict
+from pathlib import Path
+from typing import TYPE_CHECKING
+
+from homeplan.errors import PlanRuleError
+from homeplan.plan.load import LoadedPlan, load_plan
+from homeplan.plan.model import Plan
+from homeplan.plan.save import write_atomic
+from homeplan.plan.schema import plan_json_schema
+from homeplan.planner import candidates, lifecycle
+from homeplan.planner.incentives import load_programs
+from homeplan.report.table import text_table, usd
+from homeplan.units import display_area, display_temp
+
+if TYPE_CHECKING:
+    import networkx as nx
+
+__all__ = ["cmd_check", "cmd_graph", "cmd_lifecycle", "cmd_schema", "plan_summary"]
+
+
+def _graph_checked(loaded: LoadedPlan) -> nx.DiGraph:
+    try:
+        return candidates.build_graph(loaded.plan)
+    except PlanRuleError as err:
+        raise loaded.locate(err) from None
+
+
+def _check_files(loaded: LoadedPlan) -> None:
+    """The files a plan refers to must exist and hold valid data (incentives, weather)."""
+    plan = loaded.plan
+    base = loaded.base_dir
+    try:
+        load_programs(plan, base)
+        wf = plan.home.climate.weather_file
+        if wf and not (Path(wf) if Path(wf).is_absolute() else base / wf).exists():
+            raise PlanRuleError(("home", "climate", "weather_file"), f"weather file not found: {wf}",
+                                "give a path relative to the plan file, or remove the key")
+    except PlanRuleError as err:
+        raise loaded.locate(err) from None
+
+
+def plan_summary(plan: Plan, g: nx.DiGraph | None = None) -> str:
+    """A few lines describing a plan: the home, its service, appliances, cars and budget."""
+    h = plan.home
+    units = plan.display.units
+    where = (h.location.place if h.location and h.location.place else
+             f"{h.location.latitude:.2f}, {h.location.longitude:.2f}" if h.location else "climate given")
+    lines = [f"  home:       {h.name or 'unnamed'} - {display_area(h.floor_area_ft2, units)}, {where}"]
+    c = h.climate
+    if c.heating_design_f is not None or c.hdd65 is not None:
+        parts = []
+        if c.hdd65 is not None:
+            parts.append(f"HDD65 {c.hdd65:,.0f}")
+        if c.heating_design_f is not None:
+            parts.append(f"heating design {display_temp(c.heating_design_f, units)}")
+        lines.append(f"  climate:    {', '.join(parts)}")
+    e = h.electrical
+    lines.append(f"  service:    {e.service_amps} A, busbar {e.busbar_rating_amps} A, "
+                 f"main {e.main_rating_amps} A")
+    outs = {o.key: o for o in lifecycle.plan_outlooks(plan)}
+    for a in plan.appliances:
+        o = outs[a.key]
+        age = f"{o.age_years:.0f} yr" + (" (assumed)" if o.install_year_assumed else "")
+        lines.append(f"  appliance:  {a.key}: {o.label}, {age}, likely end {o.expected_end_year}")
+    for i, v in enumerate(plan.vehicles):
+        distance = (f"{v.miles_per_year * 1.609344:,.0f} km/yr" if units == "si"
+                    else f"{v.miles_per_year:,.0f} mi/yr")
+        lines.append(f"  vehicle:    {plan.vehicle_key(i)}: {v.name or v.fuel} ({v.fuel}, {distance})")
+    b = plan.budget
+    lines.append(f"  budget:     {usd(b.usd_per_year)} a year from {plan.first_year} for "
+                 f"{b.horizon_years} years" + (", unspent money carries over" if b.carryover else ""))
+    if g is not None:
+        ids = candidates.project_nodes(g)
+        lines.append(f"  upgrades:   {len(ids)} candidates: {', '.join(ids)}")
+    if plan.usage is None:
+        lines.append("  note:       no bills given; energy use will be estimated from floor area")
+    return "\n".join(lines)
+
+
+def cmd_check(args) -> int:
+    loaded = load_plan(args.file)
+    g = _graph_checked(loaded)
+    _check_files(loaded)
+    print(f"{args.file}: ok")
+    print(plan_summary(loaded.plan, g))
+    if loaded.migrated_from:
+        print(f"note: migrated from plan format {loaded.migrated_from}; saving writes the new format")
+    return 0
+
+
+def cmd_schema(args) -> int:
+    text = json.dumps(plan_json_schema(), indent=2) + "\n"
+    if args.output:
+        write_atomic(args.output, text, backup=False)
+    else:
+        sys.stdout.write(text)
+    return 0
+
+
+def cmd_graph(args) -> int:
+    loaded = load_plan(args.file)
+    g = _graph_checked(loaded)
+    if args.dot:
+        sys.stdout.write(candidates.to_dot(g))
+        return 0
+    if args.json:
+        data = {
+            "projects": {n: {"label": g.nodes[n]["candidate"].label, "kind": g.nodes[n]["candidate"].kind,
+                             "replaces": list(g.nodes[n]["candidate"].replaces)}
+                         for n in candidates.project_nodes(g)},
+            "edges": [{"from": u, "to": v, "kind": d["kind"], "why": d.get("why", "")}
+                      for u, v, d in g.edges(data=True)],
+            "layers": candidates.layers(g),
+            "any_of": candidates.any_of_groups(g),
+        }
+        print(json.dumps(data, indent=2))
+        return 0
+    print(f"Upgrades that apply to {loaded.plan.home.name or args.file}, in order of what can come first:")
+    for i, layer in enumerate(candidates.layers(g), 1):
+        print(f"\n  {i}. " + ", ".join(layer))
+        for n in layer:
+            for u, _, d in g.in_edges(n, data=True):
+                if d["kind"] == "any_of":
+                    continue
+                word = "after" if d["kind"] == "requires" else "better after"
+                print(f"       {n}: {word} {u} ({d.get('why', '')})")
+    for grp in candidates.any_of_groups(g).values():
+        print(f"\n  Any one of: {' | '.join(grp['alternatives'])}")
+        print(f"    gives {grp['label']} for: {', '.join(grp['needed_by'])}")
+        print("    (the capacity check decides which, if any, is needed)")
+    return 0
+
+
+def cmd_lifecycle(args) -> int:
+    plan = load_plan(args.file).plan
+    years = args.years
+    outs = lifecycle.plan_outlooks(plan, years)
+    first = plan.first_year
+    if args.json:
+        print(json.dumps([asdict(o) for o in outs], indent=2))
+        return 0
+    print(f"End-of-life outlook from {first} (Weibull model from catalog service lives; "
+          "planning estimates)\n")
+    rows = []
+    for o in outs:
+        age = f"{o.age_years:.0f}" + ("?" if o.install_year_assumed else "")
+        rows.append([o.key, o.label, age, f"{o.median_life_years:.0f}", o.expected_end_year,
+                     o.replace_by_year, *(f"{p:.0f}%" for p in o.yearly_failure_pct[:years])])
+    headers = ["id", "what", "age", "median life", "likely end", f"replace by ({plan.choices.replace_at_risk_pct:.0f}% risk)",
+               *(str(first + i) for i in range(years))]
+    print(text_table(headers, rows, "llrrrr" + "r" * years))
+    print("\nThe year columns give the chance it fails in that year, given it works today.")
+    if any(o.install_year_assumed for o in outs):
+        print("? install year unknown: assumed half-way through its median life.")
+    return 0

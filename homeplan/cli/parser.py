@@ -1,0 +1,133 @@
+"""The ``homeplan`` command line: every command, its arguments and the exit codes, in one place.
+
+Each command names the module of its group and its function (``COMMANDS``); :func:`homeplan.cli.main`
+imports that module only when the command runs, so ``homeplan --help`` stays fast.
+
+Exit codes: 0 success, 1 failure while working, 2 bad input or usage.
+"""
+
+from __future__ import annotations
+
+import argparse
+import math
+import sys
+from typing import NoReturn
+
+from homeplan import __version__
+
+__all__ = [
+    "COMMANDS",
+    "EXIT_BAD_INPUT",
+    "EXIT_FAILURE",
+    "EXIT_INTERRUPTED",
+    "EXIT_OK",
+    "OBJECTIVES",
+    "build_parser",
+]
+
+EXIT_OK, EXIT_FAILURE, EXIT_BAD_INPUT = 0, 1, 2
+EXIT_INTERRUPTED = 130  # 128 + SIGINT, as shells report Ctrl-C
+
+OBJECTIVES = ("npv", "emissions", "gas_off_early", "out_of_pocket")
+
+COMMANDS: dict[str, tuple[str, str]] = {
+    "check": ("describe", "cmd_check"),
+    "schema": ("describe", "cmd_schema"),
+    "graph": ("describe", "cmd_graph"),
+    "lifecycle": ("describe", "cmd_lifecycle"),
+    "plan": ("planning", "cmd_plan"),
+    "capacity": ("planning", "cmd_capacity"),
+    "costs": ("planning", "cmd_costs"),
+    "open": ("app", "cmd_open"),
+    "print": ("outputs", "cmd_print"),
+    "export": ("outputs", "cmd_export"),
+    "diff": ("outputs", "cmd_diff"),
+}
+"""Command -> (module in ``homeplan.cli``, function taking the parsed arguments)."""
+
+
+class _Parser(argparse.ArgumentParser):
+    def error(self, message: str) -> NoReturn:  # usage errors: exit 2 with a hint, as argparse does
+        self.print_usage(sys.stderr)
+        self.exit(EXIT_BAD_INPUT, f"{self.prog}: error: {message} (see '{self.prog} --help')\n")
+
+
+def _whole(text: str, most: int, what: str = "") -> int:
+    try:
+        n = int(text)
+    except ValueError:
+        raise argparse.ArgumentTypeError(f"{text!r} is not a whole number{what}") from None
+    if not 1 <= n <= most:
+        raise argparse.ArgumentTypeError(f"{n}{what} is outside 1-{most}")
+    return n
+
+
+def _years(text: str) -> int:
+    return _whole(text, 30, " of years")
+
+
+def _money(text: str) -> float:
+    try:
+        v = float(text.replace(",", "").lstrip("$"))
+    except ValueError:
+        raise argparse.ArgumentTypeError(f"{text!r} is not an amount of money") from None
+    if not math.isfinite(v) or v < 0:
+        raise argparse.ArgumentTypeError(f"{text!r} must be zero or more")
+    return v
+
+
+def build_parser() -> argparse.ArgumentParser:
+    """The parser of every command (``args.command`` names the one given)."""
+    p = _Parser(prog="homeplan", description="Plan a whole-home electrification, year by year.")
+    p.add_argument("--version", action="version", version=f"homeplan {__version__}")
+    sub = p.add_subparsers(dest="command", metavar="COMMAND", parser_class=_Parser)
+
+    def command(name: str, help_: str, file: bool = True) -> argparse.ArgumentParser:
+        sp = sub.add_parser(name, help=help_, description=help_)
+        if file:
+            sp.add_argument("file", help="plan file (YAML)")
+        return sp
+
+    def json_flag(sp: argparse.ArgumentParser) -> None:
+        sp.add_argument("--json", action="store_true", help="print JSON")
+
+    command("check", "validate a plan file and print a short summary")
+    sp = command("schema", "print the JSON Schema of the plan file format", file=False)
+    sp.add_argument("-o", "--output", help="write to this file instead of stdout")
+    sp = command("graph", "show which upgrades apply and what must come before what")
+    sp.add_argument("--dot", action="store_true", help="print Graphviz DOT")
+    json_flag(sp)
+    sp = command("lifecycle", "show each appliance's age, end of life and failure risk")
+    sp.add_argument("--years", type=_years, default=8, help="years of risk to show (1-30, default 8)")
+    json_flag(sp)
+
+    sp = command("plan", "compute the year-by-year roadmap and print it")
+    sp.add_argument("--json", action="store_true", help="print the roadmap as JSON (docs/roadmap-json.md)")
+    sp.add_argument("--budget", type=_money, help="override the yearly budget (USD)")
+    sp.add_argument("--horizon", type=_years, help="override the number of years (1-30)")
+    sp.add_argument("--objective", choices=OBJECTIVES, help="override the objective")
+    json_flag(command("capacity", "electrical load calculation today and after each roadmap step"))
+    json_flag(command("costs", "costs, incentives and net cost of each project by year"))
+
+    sp = command("open", "open the plan in the terminal app (explore, edit, re-plan); "
+                 "a FILE that does not exist yet starts the guided new-plan form", file=False)
+    sp.add_argument("file", nargs="?", help="plan file (YAML); omit it to start a new plan")
+    sp.add_argument("--light", action="store_true", help="light colours for a light terminal background")
+
+    sp = command("print", "print a summary of the roadmap (text, Markdown or a printable HTML page)")
+    sp.add_argument("-o", "--output", help="write to this file (.html, .md or .txt) instead of stdout")
+    sp.add_argument("--format", choices=("txt", "md", "html"), help="output format (default: from the "
+                    "file extension, else txt)")
+    sp = command("export", "export the roadmap as CSV files, an iCalendar file or JSON")
+    sp.add_argument("--csv", metavar="DIR", help="write steps.csv, years.csv and monthly_energy.csv here")
+    sp.add_argument("--hourly", action="store_true", help="with --csv: also hourly_energy.csv when available")
+    sp.add_argument("--ics", metavar="FILE", help="write reminders (quotes, incentive deadlines, "
+                    "replace-by dates) as an iCalendar file")
+    sp.add_argument("--json", metavar="FILE", help="write the roadmap result as JSON ('-' for stdout)")
+    sp = command("diff", "show what changed between two plan files and their roadmaps", file=False)
+    sp.add_argument("a", help="the earlier plan file (YAML)")
+    sp.add_argument("b", help="the later plan file (YAML)")
+    sp.add_argument("--inputs-only", action="store_true", help="compare the inputs only (no planning)")
+    missing = set(sub.choices) ^ set(COMMANDS)
+    assert not missing, f"commands without a module or a parser: {sorted(missing)}"
+    return p

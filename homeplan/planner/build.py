@@ -1,0 +1,380 @@
+"""Turn the scheduler's solution into the Roadmap and PlanResult the views show.
+
+Every number here comes from the full simulation of the home in each year's state and from the
+exact incentive rules for the chosen purchases - not from the scheduler's linear coefficients.
+
+Conventions (stated on the screens): a project placed in year Y is installed at the start of Y
+and saves from Y on; costs and bills are nominal dollars (costs follow inflation or a learning
+curve, each fuel's price its own escalation); the net present value is the plan's cash flows
+minus the do-nothing cash flows, discounted to the first year, plus the remaining value of the
+equipment at the end of the horizon (straight-line over its life).
+
+References
+----------
+NIST Handbook 135, "Life-Cycle Costing Manual for the Federal Energy Management Program"
+(present value, residual value by straight-line depreciation).
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, replace
+from typing import Any
+
+from homeplan import catalog
+from homeplan.money.finance import Loan, discount_factor, loan_schedule, remaining_value_share
+from homeplan.plan.fuels import BILL_FUELS
+from homeplan.plan.hashing import content_hash
+from homeplan.planner.baselines import bills_in_year, do_nothing, like_for_like
+from homeplan.planner.breakdowns import (
+    LFL_PREFIX,
+    breakdowns_by_year,
+    expected_breakdowns,
+    fossil_projects,
+)
+from homeplan.planner.capacity import (
+    CapacityModel,
+    breaker_spaces_note,
+    measured_capacity,
+    state_capacity,
+)
+from homeplan.planner.context import Context
+from homeplan.planner.finance import plan_returns, project_returns, solar_hedge
+from homeplan.planner.incentives import AwardLine, IncentiveModel
+from homeplan.planner.projects import cost_in_year_usd
+from homeplan.planner.scheduling import ORDER_PREFIX, ScheduleOutcome
+from homeplan.result.figures import (
+    CapacityState,
+    Finance,
+    HourlyProfile,
+    ProjectInfo,
+    SolverReport,
+)
+from homeplan.result.plan_result import PlanResult
+from homeplan.result.roadmap import IncentiveLine, Milestone, Roadmap, Step, YearTotals
+from homeplan.schedule.problem import evaluate
+
+__all__ = ["assumptions", "build_result", "hourly_profiles", "milestones_of", "project_infos"]
+
+MILESTONE_KIND = {"close_gas": "gas_service_closed", "remove_propane_tank": "propane_tank_removed",
+                  "remove_oil_tank": "oil_tank_removed"}
+
+
+@dataclass(frozen=True)
+class LoanFlows:
+    """Borrowing and loan payments by calendar year."""
+
+    borrowed: dict[int, float]
+    payments: dict[int, float]
+
+
+def project_infos(ctx: Context) -> tuple[ProjectInfo, ...]:
+    """Every candidate project as the views show it."""
+    ch = ctx.plan.choices
+    return tuple(
+        ProjectInfo(
+            id=d.id, kind=d.kind, label=d.label, variant=d.variant, variant_label=d.variant_label,
+            size=d.size, size_unit=d.size_unit, cost_usd=d.cost_today_usd, cost_source=d.cost_source,
+            replaces=d.candidate.replaces, cautions=d.candidate.cautions,
+            excluded=d.id in ch.exclude, pinned_year=ch.pins.get(d.id),
+        )
+        for d in ctx.details.values()
+    )
+
+
+def _state_by_year(ctx: Context, done: dict[str, int]) -> dict[int, set[str]]:
+    return {y: {p for p, py in done.items() if py <= y} for y in ctx.years}
+
+
+def _salvage(ctx: Context, pid: str, year: int, cost: float) -> float:
+    """Remaining value at the end of the horizon, straight-line over the equipment life."""
+    life = ctx.details[pid].life_years if pid in ctx.details else 15.0
+    end = ctx.first_year + len(ctx.years)
+    return max(0.0, cost * remaining_value_share(end - year, life))
+
+
+def build_result(ctx: Context, capacity: CapacityModel, incentives: IncentiveModel,
+                 outcome: ScheduleOutcome, notes: tuple[str, ...] = ()) -> PlanResult:
+    """The result of planning: the roadmap and every figure beside it.
+
+    ``notes`` are what the earlier stages had to say (weather, calibration, capacity, the
+    goal); the result's warnings are those followed by this stage's own.
+    """
+    plan = ctx.plan
+    sol = outcome.solution
+    rate = plan.budget.discount_rate_pct
+    T = len(ctx.years)
+    notes_out = list(notes)
+    base_energy = ctx.energy(frozenset(), "today")
+    infos = project_infos(ctx)
+    outlooks = tuple(ctx.outlooks.values())
+    cautions_all = catalog.cautions()
+    if not sol.feasible:
+        roadmap = Roadmap(
+            plan_name=plan.home.name or "home", first_year=ctx.first_year, horizon_years=T,
+            objective=outcome.problem.objective, status="infeasible",
+            infeasibility=outcome.infeasibility, cautions=(cautions_all["planning"],),
+            assumptions=assumptions(ctx),
+        )
+        today_cap = state_capacity(ctx, capacity, set(), "today", None)
+        return PlanResult(plan, roadmap, outlooks, infos, (today_cap,), base_energy.summary,
+                          base_energy.summary, warnings=tuple(dict.fromkeys(notes_out)),
+                          content_hash=content_hash(plan))
+    solved = sol.done()
+    done = {p: y for p, y in solved.items() if p in ctx.details}
+    lfl = {p: y for p, y in solved.items() if p.startswith(LFL_PREFIX)}
+    by_year = _state_by_year(ctx, done)
+    costs = {p: cost_in_year_usd(ctx.details[p], plan, y) for p, y in done.items()}
+    awards, incentive_result = incentives.exact(done, costs)
+    steps = _steps(ctx, capacity, outcome, done, lfl, costs, awards)
+    # years
+    loans = loan_flows(ctx, outcome)
+    years = []
+    cumulative = 0.0
+    npv = 0.0
+    for t, year in enumerate(ctx.years):
+        state = ctx.energy(frozenset(by_year[year]), f"{year}")
+        bills = bills_in_year(ctx, state.bills_usd, t)
+        base_bills = bills_in_year(ctx, base_energy.bills_usd, t)
+        spend = sum(c for p, c in costs.items() if done[p] == year)
+        spend += sum(s.cost_usd for s in steps if s.year == year and s.project_id in lfl)
+        inc_in = sum(a.amount_usd for lst in awards.values() for a in lst if a.arrival_year == year)
+        pay = loans.payments.get(year, 0.0)
+        borrowed = loans.borrowed.get(year, 0.0)
+        net = spend - inc_in
+        savings = sum(base_bills.values()) - sum(bills.values())
+        cumulative += net - borrowed + pay + sum(bills.values())
+        cap = state_capacity(ctx, capacity, by_year[year], str(year), year)
+        years.append(YearTotals(
+            year=year, spend_usd=round(spend, 2), incentives_usd=round(inc_in, 2), net_usd=round(net, 2),
+            loan_payments_usd=round(pay, 2), bills_usd={k: round(v, 2) for k, v in bills.items()},
+            bill_savings_usd=round(savings, 2), cumulative_usd=round(cumulative, 2),
+            emissions_kg=round(state.emissions_kg, 1), peak_kw=round(state.peak_kw, 2),
+            service_headroom_amps=round(cap.headroom_amps, 1),
+            energy={k: round(v, 1) for k, v in state.units.items()},
+        ))
+        npv += discount_factor(rate, t) * (savings - (net - borrowed + pay))
+    # incentives arriving after the horizon and loan payments still due are part of the plan
+    late = sum(a.amount_usd * discount_factor(rate, a.arrival_year - ctx.first_year)
+               for lst in awards.values() for a in lst if a.arrival_year > ctx.years[-1])
+    owed = sum(p * discount_factor(rate, y - ctx.first_year) for y, p in loans.payments.items()
+               if y > ctx.years[-1])
+    paid = {p: costs[p] - sum(a.amount_usd for a in awards.get(p, ())) for p in done}
+    salvage = sum(_salvage(ctx, p, done[p], paid[p]) for p in done) * discount_factor(rate, T)
+    salvage += sum(outcome.problem.project(p).value_usd[y - ctx.first_year] for p, y in lfl.items())
+    npv += late - owed + salvage - expected_breakdowns(ctx, {**done, **lfl})
+    # the same accounting as yearly flows against doing nothing (for IRR and payback)
+    dn_break = breakdowns_by_year(ctx, {})
+    plan_break = breakdowns_by_year(ctx, {**done, **lfl})
+    extra_flows = [dn_break[t] - plan_break[t] for t in range(T)]
+    extra_flows[-1] += (salvage + late - owed) / discount_factor(rate, T - 1)
+    today_cap = state_capacity(ctx, capacity, set(), "today", None)
+    # every NPV is against doing nothing: keeping today's home and paying for its breakdowns
+    reference = expected_breakdowns(ctx, {})
+    npv += reference
+    lfl_baseline = like_for_like(ctx, base_energy, today_cap.headroom_amps)
+    baselines = (do_nothing(ctx, base_energy, today_cap.headroom_amps),
+                 replace(lfl_baseline, npv_usd=round(lfl_baseline.npv_usd + reference, 2)))
+    cautions = [cautions_all["planning"]]
+    for s in steps:
+        for c in s.cautions:
+            if c not in cautions:
+                cautions.append(c)
+    roadmap = Roadmap(
+        plan_name=plan.home.name or "home", first_year=ctx.first_year, horizon_years=T,
+        objective=outcome.problem.objective, steps=tuple(steps), years=tuple(years),
+        milestones=milestones_of(ctx, done), baselines=baselines, npv_usd=round(npv, 2), status="ok",
+        assumptions=assumptions(ctx), cautions=tuple(cautions),
+    )
+    capacity_states = _capacity_states(ctx, capacity, done, by_year, today_cap, notes_out)
+    return PlanResult(
+        plan=plan, roadmap=roadmap, outlooks=outlooks, projects=infos, capacity=capacity_states,
+        energy_before=base_energy.summary, energy_after=ctx.energy(frozenset(done), "after the plan").summary,
+        programs=incentives.uses(incentive_result), content_hash=content_hash(plan),
+        warnings=tuple(dict.fromkeys(notes_out)),
+        finance=Finance(plan=plan_returns(roadmap, rate, extra_flows, roadmap.npv_usd),
+                        projects=project_returns(ctx, outcome, roadmap),
+                        solar_hedge=solar_hedge(ctx, roadmap)),
+        solver=SolverReport(status=sol.status, seconds=sol.solve_time_s, passes=outcome.passes),
+        capacity_remedy=capacity.remedy_project, solar_connection=capacity.solar_connection,
+        hourly=ctx.cache.memo(f"hourly:{sorted((p, ctx.details[p].variant) for p in done)}",
+                              lambda: hourly_profiles(ctx, done)),
+    )
+
+
+def _steps(ctx: Context, capacity: CapacityModel, outcome: ScheduleOutcome, done: dict[str, int],
+           lfl: dict[str, int], costs: dict[str, float], awards: dict[str, list[AwardLine]]) -> list[Step]:
+    """The roadmap's steps: like-for-like replacements the optimiser chose, then each project in
+    year order with its incentives, reasons and cautions."""
+    cautions_all = catalog.cautions()
+    steps = [lfl_step(ctx, outcome, pid, year) for pid, year in lfl.items()]
+    # order markers are bookkeeping for the solver; reasons that name them are not shown
+    markers = [p.name.lower() for p in outcome.problem.projects if p.id.startswith(ORDER_PREFIX)]
+    for pid, year in sorted(done.items(), key=lambda kv: (kv[1], kv[0])):
+        d = ctx.details[pid]
+        lines = tuple(IncentiveLine(a.program, a.amount_usd, a.arrives, a.kind) for a in awards.get(pid, ()))
+        cost = costs[pid]
+        extra_reasons = [r for r in outcome.reasons.get(pid, ()) if not any(m in r for m in markers)]
+        if pid in capacity.variant_notes:
+            extra_reasons.append(capacity.variant_notes[pid])
+        if d.kind == "heat_pump":
+            extra_reasons.append(_heat_pump_sizing(ctx, done, pid))
+        if pid == capacity.remedy_project:
+            extra_reasons = [r for r in extra_reasons if not r.startswith(("paying later", "better overall"))]
+            extra_reasons.insert(0, _remedy_reason(ctx, done, pid, year))
+        steps.append(Step(
+            project_id=pid, label=d.label, year=year, variant=d.variant_label, size=d.size_text(),
+            cost_usd=round(cost, 2), incentives=lines,
+            net_cost_usd=round(cost - sum(i.amount_usd for i in lines), 2),
+            reasons=tuple(extra_reasons),
+            cautions=tuple(cautions_all[c] for c in d.candidate.cautions if c in cautions_all),
+        ))
+    return steps
+
+
+def _capacity_states(ctx: Context, capacity: CapacityModel, done: dict[str, int],
+                     by_year: dict[int, set[str]], today: CapacityState,
+                     notes: list[str]) -> tuple[CapacityState, ...]:
+    """The load calculation today and after each year that adds a load, a backfeed or the
+    remedy; then the measured-peak method when the plan gives a peak. Adds its notes."""
+    kinds = catalog.upgrade_kinds()
+    states = [today]
+    seen = set()
+    for year in ctx.years:
+        state = frozenset(by_year[year])
+        changed = [p for p in state if done[p] == year and (
+            kinds[ctx.details[p].kind].capacity_load or kinds[ctx.details[p].kind].backfeed
+            or p == capacity.remedy_project)]
+        if state and state not in seen and changed:
+            seen.add(state)
+            names = ", ".join(ctx.details[p].label for p in sorted(changed))
+            states.append(state_capacity(ctx, capacity, set(state), f"{year}: after {names}", year))
+    spaces = breaker_spaces_note(ctx, set(done))
+    if spaces:
+        notes.append(spaces)
+        states[-1] = replace(states[-1], notes=states[-1].notes + (spaces,))
+    if ctx.plan.home.electrical.peak_demand_kw is not None:
+        measured = [measured_capacity(ctx, set(), None), measured_capacity(ctx, set(done), ctx.years[-1])]
+        states += [m for m in measured if m is not None]
+        last = measured[-1]
+        if last is not None and last.applies and not last.fits:
+            notes.append(f"by your measured peak (NEC 220.87) the planned loads do not fit "
+                         f"({last.amps:.0f} A on {last.service_amps:.0f} A); the plan "
+                         "uses the 220.83 calculation, which fits - ask your electrician which one "
+                         "the inspector accepts")
+    return tuple(states)
+
+
+def loan_flows(ctx: Context, outcome: ScheduleOutcome) -> LoanFlows:
+    """Borrowing per year from the solver and the resulting payments (annuity, yearly).
+
+    Borrowing is just in time: only the shortfall, in the year it occurs (the cheapest feasible
+    borrowing for this placement; the solver's own loan variables may carry slack).
+    """
+    b = ctx.plan.budget
+    borrowed: dict[int, float] = {}
+    payments: dict[int, float] = {}
+    if b.loans:
+        first = b.loans[0]
+        for t, amount in enumerate(evaluate(outcome.problem, outcome.solution.years).loans_usd):
+            if amount > 0.5:
+                year = ctx.first_year + t
+                borrowed[year] = borrowed.get(year, 0.0) + amount
+                for row in loan_schedule(Loan(amount, first.rate_pct, first.term_years, year + 1,
+                                              payments_per_year=1, name=first.name)):
+                    payments[row.year] = payments.get(row.year, 0.0) + row.payments_usd
+    return LoanFlows(borrowed, payments)
+
+
+def _heat_pump_sizing(ctx: Context, done: dict[str, int], pid: str) -> str:
+    """How the heat pump was sized and how often its backup heat runs (or heat falls short)."""
+    d = ctx.details[pid]
+    state = ctx.energy(frozenset(p for p, y in done.items() if y <= done[pid]))
+    hours = state.summary.backup_heat_hours
+    design = ctx.basis.design_load_btuh
+    t = ctx.basis.weather.heating_design_f
+    text = f"sized {d.size:g} t for a {design:,.0f} Btu/h heating load at {t:.0f} F"
+    v = catalog.upgrade_kinds()["heat_pump"].variant(d.variant)
+    if hours and v is not None and not v.strips_kw:
+        text += f"; about {hours} hours a year colder than it can carry alone (keep a backup plan)"
+    elif hours:
+        text += f"; backup heat runs about {hours} hours a year"
+    return text
+
+
+def _remedy_reason(ctx: Context, done: dict[str, int], pid: str, year: int) -> str:
+    """Why a panel, service or load-management step lands where it does: the loads it makes
+    room for (the first ones the load calculation could not take without it)."""
+    kinds = catalog.upgrade_kinds()
+    later = sorted((y, ctx.details[p].label) for p, y in done.items()
+                   if kinds[ctx.details[p].kind].capacity_load and y >= year)
+    if not later:
+        return "makes room on the service for the planned electric loads"
+    first = later[0][0]
+    names = ", ".join(n.lower() for y, n in later if y == first)
+    when = "the same year" if first == year else str(first)
+    return f"makes room on the service for the {names} ({when}): the load calculation needs it"
+
+
+def lfl_step(ctx: Context, outcome: ScheduleOutcome, pid: str, year: int) -> Step:
+    """A like-for-like replacement the optimiser chose (the old fuel stays a while longer)."""
+    pr = outcome.problem.project(pid)
+    cost = pr.cost_usd[year - ctx.first_year]
+    reasons = outcome.reasons.get(pid, ()) + (
+        "a like-for-like replacement costs less than the upgrade over the plan's years",)
+    key = pid[len(LFL_PREFIX):]
+    cautions = catalog.cautions()
+    a = next((x for x in ctx.plan.appliances if x.key == key), None)
+    notes = (cautions["combustion_removal"],) if a is not None and (a.fuel or "gas") != "electric" else ()
+    return Step(project_id=pid, label=pr.label, year=year, cost_usd=round(cost, 2), net_cost_usd=round(cost, 2),
+                reasons=tuple(dict.fromkeys(reasons)), cautions=notes)
+
+
+def hourly_profiles(ctx: Context, done: dict[str, int]) -> tuple[HourlyProfile, ...]:
+    """Hour-by-hour electricity of a typical year, today and after the plan (for the CSV export)."""
+    out = []
+    for label, ids in (("today", ()), ("after the plan", tuple(done))):
+        r = ctx.simulate(ids, label)
+        series = {k: tuple(round(float(v), 4) for v in getattr(r, k))
+                  for k in ("load_kw", "solar_kw", "grid_import_kw", "grid_export_kw")}
+        out.append(HourlyProfile(label=label, **series))
+    return tuple(out)
+
+
+def milestones_of(ctx: Context, done: dict[str, int]) -> tuple[Milestone, ...]:
+    """The roadmap's milestones: fuels closed, the last gasoline car, fully electric, the service."""
+    out = []
+    for pid, kind in MILESTONE_KIND.items():
+        if pid in done:
+            out.append(Milestone(done[pid], ctx.details[pid].label, kind))
+    evs = [p for p, d in ctx.details.items() if d.kind == "ev"]
+    if evs and all(p in done for p in evs) and not any(v.fuel == "diesel" for v in ctx.plan.vehicles):
+        out.append(Milestone(max(done[p] for p in evs), "Last gasoline car gone", "last_gasoline_car"))
+    fossil = fossil_projects(ctx)
+    if fossil and all(p in done for p in fossil):
+        out.append(Milestone(max(done[p] for p in fossil), "Fully electric", "fully_electric"))
+    if "service_upgrade" in done:
+        out.append(Milestone(done["service_upgrade"], "Service upgraded", "service_upgraded"))
+    return tuple(sorted(out, key=lambda m: m.year))
+
+
+def assumptions(ctx: Context) -> dict[str, Any]:
+    """The inputs that shaped the result, as JSON-safe values (the roadmap's ``assumptions``)."""
+    pr = ctx.plan.prices
+    b = ctx.plan.budget
+    return {
+        "discount_rate_pct": b.discount_rate_pct,
+        "inflation_pct": pr.inflation_pct,
+        "escalation_pct": {f: round(ctx.escalation(f) * 100, 2) for f in BILL_FUELS if f != "diesel"},
+        "prices": {"electricity_usd_per_kwh": pr.electricity.usd_per_kwh, "gas_usd_per_therm": pr.gas.usd_per_therm,
+                   "propane_usd_per_gal": pr.propane.usd_per_gal, "oil_usd_per_gal": pr.oil.usd_per_gal,
+                   "gasoline_usd_per_gal": pr.gasoline.usd_per_gal},
+        "cost_level": pr.cost_level,
+        "budget_usd_per_year": b.usd_per_year,
+        "carryover": b.carryover,
+        "add_bill_savings": b.add_bill_savings,
+        "weather": ctx.basis.weather_note,
+        "heat_loss_method": ctx.basis.calibration.method,
+        "design_heating_load_btuh": round(ctx.basis.design_load_btuh),
+        "conventions": "projects installed at the start of their year; nominal dollars; NPV against doing "
+                       "nothing, with the equipment's remaining value at the end of the horizon",
+    }

@@ -1,0 +1,267 @@
+"""States of the home for the energy engine: the home after any set of projects.
+
+A state is the home's base spec (:class:`homeplan.planner.basis.HomeBasis`) with each chosen
+project applied in a fixed order (:data:`APPLY_ORDER`): a heat pump of the variant's ratings and
+the size the design load needs, a heat pump water heater, induction cooking, electric cars
+sharing the planned charger, solar, a battery, air sealing, fuel accounts closed. Simulating a
+state gives the typical year the roadmap reads (:func:`summarise_energy`).
+
+References
+----------
+ACCA Manual S (equipment selection at the design condition); DOE 10 CFR 430 Subpart B
+Appendix M1 (heat pump rating points 47/17/5 F); NEC 625.42 and SAE J1772 (charger power).
+"""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Iterable
+from dataclasses import dataclass, replace
+
+from homeplan import catalog
+from homeplan.catalog import performance
+from homeplan.energy.appliances import CookingSpec, DryerSpec
+from homeplan.energy.battery import BatterySpec
+from homeplan.energy.heating import CoolingSpec, HeatPumpSpec
+from homeplan.energy.simulate import EnergyResult, HomeEnergySpec, simulate, with_heat_pump
+from homeplan.energy.solar import SolarArraySpec
+from homeplan.energy.vehicles import VehicleSpec
+from homeplan.energy.water import WaterHeaterSpec
+from homeplan.plan.fuels import FOSSIL_FUELS, UNIT_KEY, bill_fuel
+from homeplan.plan.model import Plan, ProjectOption
+from homeplan.planner.basis import HomeBasis, fuel_prices
+from homeplan.result.figures import EnergySummary
+
+__all__ = [
+    "APPLY_ORDER",
+    "Choice",
+    "StateEnergy",
+    "cooling_load_btuh",
+    "heat_pump_spec",
+    "heat_pump_tons",
+    "simulate_state",
+    "state_spec",
+    "summarise_energy",
+]
+
+APPLY_ORDER = {"envelope": 0, "heat_pump": 1, "heat_pump_water_heater": 2, "induction_range": 3,
+               "heat_pump_dryer": 4, "ev": 5, "solar": 6, "battery": 7, "close_gas": 8,
+               "remove_propane_tank": 8, "remove_oil_tank": 8}
+"""The order in which a state's projects are applied to the home's spec (and shown within a year)."""
+
+
+@dataclass(frozen=True)
+class Choice:
+    """A project as it will be installed: which variant and what size."""
+
+    project_id: str
+    kind: str
+    variant: str | None
+    size: float
+    replaces: tuple[str, ...] = ()
+
+
+def heat_pump_spec(variant: str | None, tons: float, strips_kw: float, design_temp_f: float) -> HeatPumpSpec:
+    """A new heat pump of ``tons`` nominal 47 F capacity with the variant's performance."""
+    p = performance()
+    cold = variant in ("cold_climate", "ductless")
+    pre = "hp_cold" if cold else "hp_standard"
+    cap = tons * 12000.0
+    seer = p["hp_ductless_seer2"] if variant == "ductless" else p[f"{pre}_seer2"]
+    backup = "resistance" if strips_kw > 0 else "none"
+    return HeatPumpSpec(
+        capacity_47_btuh=cap, capacity_17_btuh=cap * p[f"{pre}_cap_17_frac"],
+        capacity_5_btuh=cap * p[f"{pre}_cap_5_frac"], cop_47=p[f"{pre}_cop_47"],
+        cop_17=p[f"{pre}_cop_17"], cop_5=p[f"{pre}_cop_5"], cutout_f=p[f"{pre}_cutout_f"],
+        backup=backup, seer2=seer,
+    )
+
+
+def heat_pump_tons(design_load_btuh: float, design_temp_f: float, variant: str | None,
+                   cooling_btuh: float = 0.0) -> float:
+    """Nominal tons: enough heat at the design condition, and at least the cooling load.
+
+    Cold-climate and ductless units are sized to carry the full design heating load at the
+    design temperature (down to their cut-out). Standard single-stage units are sized to carry
+    the load at 17 F, their lower rating point, and lean on backup strips below it (sizing
+    them for the design temperature gives units that short-cycle in mild weather). Either way
+    the unit is at least as large as the cooling load. Rounded up to half tons, 1.5-5 t (common
+    practice, no source; larger homes need two systems).
+
+    References
+    ----------
+    ACCA Manual S (equipment selection at the design condition); NEEP cold-climate air-source
+    heat pump sizing guidance (from memory).
+    """
+    p = performance()
+    cold = variant in ("cold_climate", "ductless")
+    pre = "hp_cold" if cold else "hp_standard"
+    f5, f17 = p[f"{pre}_cap_5_frac"], p[f"{pre}_cap_17_frac"]
+    if cold:
+        t = max(design_temp_f, p[f"{pre}_cutout_f"])
+        frac = f17 + (1.0 - f17) * (t - 17) / 30.0 if t >= 17 else f5 + (f17 - f5) * (t - 5) / 12.0
+        heat_tons = design_load_btuh / (max(frac, 0.3) * 12000.0)
+    else:
+        t = max(design_temp_f, 17.0)
+        load_at_t = design_load_btuh * (65.0 - t) / max(65.0 - design_temp_f, 1.0)
+        frac = f17 + (1.0 - f17) * (t - 17) / 30.0
+        heat_tons = load_at_t / (frac * 12000.0)
+    tons = max(heat_tons, cooling_btuh / 12000.0)
+    return float(min(max(math.ceil(tons * 2 - 1e-9) / 2, 1.5), 5.0))
+
+
+def cooling_load_btuh(plan: Plan, basis: HomeBasis) -> float:
+    """The cooling the home needs: the existing air conditioner's size when known, else the
+    sensible load at the 1 % design temperature with a 30 % allowance for latent and solar gains
+    (common practice, no source)."""
+    sizes = [a.capacity_btuh for a in plan.appliances
+             if a.kind in ("central_ac", "heat_pump", "mini_split") and a.capacity_btuh]
+    if sizes:
+        return float(max(sizes))
+    t_cool = basis.weather.cooling_design_f
+    if t_cool is None or not any(a.kind in ("central_ac", "room_ac") for a in plan.appliances):
+        return 0.0
+    return float(basis.calibration.ua_btuh_f) * max(float(t_cool) - 75.0, 0.0) * 1.3
+
+
+def _with_quoted_ratings(hp: HeatPumpSpec, opt: ProjectOption | None) -> HeatPumpSpec:
+    """Apply the ratings of the quoted equipment (plan options) to a catalog heat pump.
+
+    HSPF2 scales the COP curve (seasonal COP = HSPF / 3.412, energy reference notes); a COP or a
+    capacity at 5 F from the equipment's data sheet replaces the 5 F rating point.
+    """
+    if opt is None:
+        return hp
+    changes = {}
+    if opt.hspf2:
+        # seasonal COP of the catalog curve, approximated by the mean of its 47 F and 17 F points
+        seasonal_cop = (hp.cop_47 + hp.cop_17) / 2.0
+        k = (opt.hspf2 / 3.412) / seasonal_cop
+        changes.update(cop_47=hp.cop_47 * k, cop_17=hp.cop_17 * k, cop_5=max(1.0, hp.cop_5 * k))
+    if opt.cop_5f:
+        changes["cop_5"] = opt.cop_5f
+    if opt.capacity_5f_pct:
+        changes["capacity_5_btuh"] = hp.capacity_47_btuh * opt.capacity_5f_pct / 100.0
+    if opt.seer2:
+        changes["seer2"] = opt.seer2
+    return replace(hp, **changes) if changes else hp
+
+
+def _share_charger(vehicles: list[VehicleSpec], done: Iterable[Choice]) -> list[VehicleSpec]:
+    """EVs charge at the planned charger's power (amps x 240 V), shared when there are several.
+
+    References
+    ----------
+    SAE J1772 Level 2 (240 V); NEC 625.42 (the charger's rating is its continuous current).
+    """
+    done = list(done)
+    charger = next((c for c in done if c.kind == "ev_charger"), None)
+    evs = [i for i, v in enumerate(vehicles) if v.fuel == "electricity"]
+    if charger is None or not evs:
+        return vehicles
+    v = catalog.upgrade_kinds()["ev_charger"].variant(charger.variant)
+    kw = (v.amps if v and v.amps else 32.0) * 240.0 / 1000.0
+    out = list(vehicles)
+    for i in evs:
+        out[i] = replace(out[i], charger_kw=kw / len(evs))
+    return out
+
+
+def state_spec(basis: HomeBasis, plan: Plan, done: Iterable[Choice], label: str = "") -> HomeEnergySpec:
+    """The home's energy spec after the projects in ``done``."""
+    done = list(done)
+
+    spec = basis.base
+    kinds = catalog.upgrade_kinds()
+    p = performance()
+    closed: set[str] = set()
+    vehicles = list(spec.vehicles)
+    gas_open = spec.gas_service_open
+    for c in done:
+        k = c.kind
+        if k == "heat_pump":
+            v = kinds["heat_pump"].variant(c.variant)
+            strips = (v.strips_kw or 0.0) if v else 0.0
+            hp = heat_pump_spec(c.variant, c.size, strips, float(basis.weather.heating_design_f))
+            hp = _with_quoted_ratings(hp, plan.options.get(c.project_id))
+            spec = with_heat_pump(spec, hp)
+        elif k == "heat_pump_water_heater":
+            uef = p["hpwh_120v_uef"] if c.variant == "v120" else p["hpwh_240v_uef"]
+            opt = plan.options.get(c.project_id)
+            uef = opt.uef if opt is not None and opt.uef else uef
+            spec = replace(spec, water_heater=WaterHeaterSpec.heat_pump(uef))
+        elif k == "induction_range":
+            useful = spec.cooking.useful_kwh if spec.cooking else None
+            spec = replace(spec, cooking=CookingSpec(kind="induction", useful_kwh_per_yr=useful))
+        elif k == "heat_pump_dryer":
+            spec = replace(spec, dryer=DryerSpec(kind="heat_pump"))
+        elif k == "ev":
+            key = c.replaces[0]
+            idx = next(i for i, _ in enumerate(plan.vehicles) if plan.vehicle_key(i) == key)
+            veh = plan.vehicles[idx]
+            vehicles[idx] = VehicleSpec(fuel="electricity", miles_per_yr=veh.miles_per_year,
+                                        kwh_per_mile=p[f"ev_kwh_per_mile_{veh.body}"])
+        elif k == "solar":
+            roof = plan.home.roof
+            spec = replace(spec, solar=SolarArraySpec(
+                dc_kw=c.size, tilt_deg=roof.tilt_deg if roof else 25.0,
+                azimuth_deg=roof.azimuth_deg if roof else 180.0))
+        elif k == "battery":
+            spec = replace(spec, battery=BatterySpec(capacity_kwh=c.size,
+                                                     power_kw=p["battery_default_kw"] * c.size / p["battery_default_kwh"]))
+        elif k == "envelope":
+            cut = float(kinds["envelope"].extra.get("heat_loss_cut_pct", 15)) / 100.0
+            spec = replace(spec, ua_btuh_f=spec.ua_btuh_f * (1.0 - cut))
+        elif k == "close_gas":
+            gas_open = False
+        elif k == "remove_propane_tank":
+            closed.add("propane")
+        elif k == "remove_oil_tank":
+            closed.add("oil")
+    if spec.cooling is None and any(c.kind == "heat_pump" for c in done):
+        spec = replace(spec, cooling=CoolingSpec(seer2=spec.heating.seer2))
+    vehicles = _share_charger(vehicles, done)
+    accounts = tuple(f for f in spec.fuel_accounts_open if bill_fuel(f) not in closed)
+    spec = replace(spec, vehicles=tuple(vehicles), fuel_prices=fuel_prices(plan, closed),
+                   fuel_accounts_open=accounts, label=label or spec.label)
+    if not gas_open and "natural_gas" not in spec.fuels_used():
+        spec = replace(spec, gas_service_open=False)
+    return spec
+
+
+def simulate_state(basis: HomeBasis, spec: HomeEnergySpec) -> EnergyResult:
+    """The hourly typical year of one state of the home."""
+    return simulate(spec, basis.site)
+
+
+@dataclass(frozen=True)
+class StateEnergy:
+    """What the roadmap needs from one simulated state (annual figures at today's prices)."""
+
+    bills_usd: dict[str, float]        # by bill fuel: electricity, gas, propane, oil, gasoline, diesel
+    units: dict[str, float]            # electricity_kwh, gas_therm, ...
+    emissions_kg: float
+    peak_kw: float
+    summary: EnergySummary
+
+
+def summarise_energy(result: EnergyResult, label: str) -> StateEnergy:
+    """The annual and monthly figures of a simulated state, keyed by the result's fuel names."""
+    monthly = {UNIT_KEY[f]: tuple(float(x) for x in v) for f, v in result.monthly_units.items()
+               if f in UNIT_KEY}
+    monthly["solar_kwh"] = tuple(float(x) for x in result.monthly_solar_kwh)
+    monthly["grid_import_kwh"] = tuple(float(x) for x in result.monthly_grid_import_kwh)
+    monthly["grid_export_kwh"] = tuple(float(x) for x in result.monthly_grid_export_kwh)
+    annual = {k: float(sum(v)) for k, v in monthly.items()}
+    bills = {bill_fuel(f): float(v.sum()) for f, v in result.monthly_bills_usd.items()
+             if bill_fuel(f) is not None}
+    emissions = float(sum(result.emissions_kg.values()))
+    money_out = sum(v for f, v in bills.items() if f in FOSSIL_FUELS)
+    summary = EnergySummary(label=label, monthly=monthly, annual=annual, bills_usd=bills,
+                            emissions_kg=emissions, peak_kw=float(result.peak_kw),
+                            fuel_money_out_usd=money_out, peak_winter_kw=float(result.peak_winter_kw),
+                            peak_summer_kw=float(result.peak_summer_kw),
+                            backup_heat_hours=int(result.backup_heat_hours))
+    units = {UNIT_KEY[f]: float(v.sum()) for f, v in result.monthly_units.items() if f in UNIT_KEY}
+    return StateEnergy(bills_usd=bills, units=units, emissions_kg=emissions,
+                       peak_kw=float(result.peak_kw), summary=summary)

@@ -1,0 +1,53 @@
+"""The one result object every view reads: a plan, its roadmap, and what explains it.
+
+The TUI, the printed summary and the exports are thin views over ``PlanResult``; none of them
+recomputes physics or money.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+from homeplan.plan.model import Plan
+from homeplan.result.figures import (
+    CapacityState,
+    EnergySummary,
+    Finance,
+    HourlyProfile,
+    ProgramUse,
+    ProjectInfo,
+    SolverReport,
+)
+from homeplan.result.outlook import LifeOutlook
+from homeplan.result.roadmap import Roadmap
+
+__all__ = ["PlanResult"]
+
+
+@dataclass(frozen=True)
+class PlanResult:
+    """A planned home: the roadmap and every figure the views show beside it.
+
+    ``finance`` and ``solver`` are None when the request has no feasible roadmap;
+    ``capacity_remedy`` names the project that makes room on the service (None: none needed);
+    ``hourly`` holds today's and the planned home's hourly electricity (for the CSV export).
+    """
+
+    plan: Plan
+    roadmap: Roadmap
+    outlooks: tuple[LifeOutlook, ...]
+    projects: tuple[ProjectInfo, ...]
+    capacity: tuple[CapacityState, ...]
+    energy_before: EnergySummary
+    energy_after: EnergySummary
+    programs: tuple[ProgramUse, ...] = ()
+    content_hash: str = ""
+    warnings: tuple[str, ...] = ()
+    finance: Finance | None = None
+    solver: SolverReport | None = None
+    capacity_remedy: str | None = None
+    solar_connection: str | None = None
+    hourly: tuple[HourlyProfile, ...] = ()
+
+    def project(self, project_id: str) -> ProjectInfo | None:
+        return next((p for p in self.projects if p.id == project_id), None)
