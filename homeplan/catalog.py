@@ -96,6 +96,7 @@ class Variant:
     strips_kw: float | None = None
     strips_interlocked: bool = False
     amps: float | None = None
+    hp_class: str | None = None    # heat pump class (ratings in homeplan/energy/data/heat_pumps.csv)
     source: str = ""
 
 

@@ -15,12 +15,12 @@ def test_cold_climate_unit_carries_the_design_load(design_f, load):
     # ACCA Manual S: the selected unit's capacity at the design temperature covers the load
     # (capacity curve through the 47/17/5 F rating points, DOE 10 CFR 430 App. M1)
     tons = heat_pump_tons(load, design_f, "cold_climate")
-    hp = heat_pump_spec("cold_climate", tons, 0.0, design_f)
+    hp = heat_pump_spec("cold_climate", tons, 0.0)
     cap = float(hp_capacity_btuh(hp, np.array([max(design_f, hp.cutout_f)]))[0])
     assert 1.5 < tons < 5.0, "the cases are chosen away from the 1.5-5 t clamps"
     assert cap >= load
     # and not more than half a ton too big (rounded up to half tons)
-    smaller = heat_pump_spec("cold_climate", tons - 0.5, 0.0, design_f)
+    smaller = heat_pump_spec("cold_climate", tons - 0.5, 0.0)
     assert float(hp_capacity_btuh(smaller, np.array([max(design_f, hp.cutout_f)]))[0]) < load
 
 
@@ -33,7 +33,7 @@ def test_standard_unit_sized_at_17f():
     # single-stage unit sized for the load at its 17 F rating point; strips carry the rest
     load_17 = 30000 * (65 - 17) / (65 - 0)
     tons = heat_pump_tons(30000, 0, "ducted")
-    hp = heat_pump_spec("ducted", tons, 10.0, 0)
+    hp = heat_pump_spec("ducted", tons, 10.0)
     assert float(hp_capacity_btuh(hp, np.array([17.0]))[0]) >= load_17
 
 
@@ -50,7 +50,7 @@ def test_migration_gap_is_reported():
 
 
 def test_project_value_by_hand():
-    """plan_schedule._value: savings for the horizon's years, later incentives a year later, and
+    """scheduling._value: savings for the horizon's years, later incentives a year later, and
     the unused share of what was paid at the end (NIST Handbook 135 present value, straight-line
     residual). Worked by hand below."""
     from types import SimpleNamespace

@@ -42,6 +42,21 @@ def emission_factor(key: str) -> float:
 
 
 @cache
+def heat_pump_class(name: str) -> MappingProxyType[str, float]:
+    """Typical ratings of a heat pump class from ``heat_pumps.csv`` (one row per class)."""
+    for r in read_table("heat_pumps"):
+        if r["class"] == name:
+            return MappingProxyType({k: float(v) for k, v in r.items() if k not in ("class", "source")})
+    raise KeyError(name)
+
+
+@cache
+def heat_pump_classes() -> tuple[str, ...]:
+    """The heat pump classes of ``heat_pumps.csv``."""
+    return tuple(r["class"] for r in read_table("heat_pumps"))
+
+
+@cache
 def hourly_profile(column: str) -> tuple[float, ...]:
     """24 hourly shares (summing to 1) of a daily end-use profile from ``hourly_profiles.csv``."""
     rows = sorted(read_table("hourly_profiles"), key=lambda r: int(r["hour"]))

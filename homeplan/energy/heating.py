@@ -10,7 +10,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from homeplan.energy._data import efficiency
+from homeplan.energy._data import heat_pump_class, heat_pump_classes
 from homeplan.energy.units import btu_per_kwh, btu_per_unit
 
 #: Fuels a combustion heater or dual-fuel backup can burn.
@@ -81,24 +81,36 @@ class HeatPumpSpec:
 
     @classmethod
     def typical(cls, kind: str, capacity_47_btuh: float, **kw: float | str | None) -> HeatPumpSpec:
-        """A typical ``cold_climate`` or ``single_stage`` unit of ``capacity_47_btuh`` (rating
-        ratios, COPs, cut-out, Cd and SEER2 from data/efficiencies.csv ``hp_<kind>_*``).
+        """A typical unit of a class and size.
+
+        Parameters
+        ----------
+        kind : str
+            Heat pump class in ``data/heat_pumps.csv``: ``single_stage``, ``cold_climate`` or
+            ``ductless``.
+        capacity_47_btuh : float
+            Nominal heating capacity at 47 F, Btu/h.
+        **kw
+            Fields that replace the class's values (``backup``, ``cutout_f``, ``seer2``...).
+
+        Returns
+        -------
+        HeatPumpSpec
+            Capacities at 17 and 5 F as the class's fractions of ``capacity_47_btuh``; COPs,
+            cut-out (F), cycling coefficient and SEER2 (Btu/Wh) from the table.
 
         References
         ----------
-        Typical values from memory (reference/energy.md "Heat pumps").
+        The sources of each class's values are in the table's ``source`` column.
         """
-        if kind not in ("cold_climate", "single_stage"):
-            raise ValueError("kind must be cold_climate or single_stage")
-
-        def e(key: str) -> float:
-            return efficiency(f"hp_{kind}_{key}")
-
+        if kind not in heat_pump_classes():
+            raise ValueError(f"kind must be one of {', '.join(heat_pump_classes())}")
+        e = heat_pump_class(kind)
         c = capacity_47_btuh
-        kw.setdefault("cutout_f", e("cutout_f"))
-        kw.setdefault("cycling_cd", e("cd"))
-        kw.setdefault("seer2", e("seer2"))
-        return cls(c, e("cap17_frac") * c, e("cap5_frac") * c, e("cop47"), e("cop17"), e("cop5"),
+        kw.setdefault("cutout_f", e["cutout_f"])
+        kw.setdefault("cycling_cd", e["cycling_cd"])
+        kw.setdefault("seer2", e["seer2"])
+        return cls(c, e["cap_17_frac"] * c, e["cap_5_frac"] * c, e["cop_47"], e["cop_17"], e["cop_5"],
                    **kw)  # type: ignore[arg-type]
 
     @classmethod
@@ -276,21 +288,64 @@ def cooling_kwh(seer2: float, load_btuh: np.ndarray) -> np.ndarray:
 
 
 def size_heat_pump(design_load_btuh: float, design_temp_f: float, kind: str = "cold_climate",
-                   coverage: float = 1.0, step_btuh: float = 6000.0, **kw: float | str | None
-                   ) -> HeatPumpSpec:
-    """Smallest heat pump (in ``step_btuh`` = 0.5 ton steps of 47 F capacity) whose capacity at the
-    design temperature covers ``coverage`` x the design load.
+                   coverage: float = 1.0, step_btuh: float = 6000.0, *,
+                   size_at_f: float | None = None, cooling_load_btuh: float = 0.0,
+                   min_btuh: float | None = None, max_btuh: float | None = None,
+                   balance_f: float = 65.0, **kw: float | str | None) -> HeatPumpSpec:
+    """Smallest unit of a class (in ``step_btuh`` steps of 47 F capacity) that carries the load.
+
+    The capacity at the sizing temperature must cover ``coverage`` x the heating load there:
+    at the design temperature by default (below the cut-out, at the cut-out); with
+    ``size_at_f``, at the warmer of it and the design temperature, the load scaled linearly
+    from the design load (degree-hour model) - a single-stage unit sized at 17 F leans on backup
+    heat below it. The unit is at least as large as ``cooling_load_btuh`` and is kept between
+    ``min_btuh`` and ``max_btuh``.
+
+    Parameters
+    ----------
+    design_load_btuh : float
+        Heating load at the design temperature, Btu/h.
+    design_temp_f : float
+        Heating design temperature (99 % dry bulb), F.
+    kind : str
+        Heat pump class (see :meth:`HeatPumpSpec.typical`).
+    coverage : float
+        Share of the load at the sizing temperature the unit must carry, fraction.
+    step_btuh : float
+        Size step of the 47 F capacity, Btu/h (6,000 = half a ton).
+    size_at_f : float, optional
+        Warmest temperature at which the unit must carry the load alone, F.
+    cooling_load_btuh : float
+        Cooling the unit must also supply, Btu/h.
+    min_btuh, max_btuh : float, optional
+        Smallest and largest 47 F capacity offered, Btu/h.
+    balance_f : float
+        Balance point of the degree-hour load model, F.
+    **kw
+        Passed to :meth:`HeatPumpSpec.typical` (``backup``, ``seer2``...).
+
+    Returns
+    -------
+    HeatPumpSpec
+        The unit, its 47 F capacity a whole number of steps.
 
     References
     ----------
     ACCA Manual S (equipment selection at the design condition); NEEP cold-climate air-source heat
-    pump sizing guidance (size to the heating load at design, from memory).
+    pump sizing guidance (size to the heating load at design, from memory); the degree-hour load
+    model of ASHRAE Handbook - Fundamentals, ch. 19.
     """
     unit = HeatPumpSpec.typical(kind, 1.0, **kw)
-    cap_at_design = float(hp_capacity_btuh(unit, np.array([design_temp_f]))[0])
-    if cap_at_design <= 0:
-        # Design temperature below cut-out: size to the cut-out temperature instead.
-        cap_at_design = float(hp_capacity_btuh(unit, np.array([unit.cutout_f]))[0])
-    need = coverage * design_load_btuh / max(cap_at_design, 1e-6)
+    t = design_temp_f if size_at_f is None else max(design_temp_f, size_at_f)
+    load = design_load_btuh * (balance_f - t) / max(balance_f - design_temp_f, 1.0)
+    cap_at_t = float(hp_capacity_btuh(unit, np.array([t]))[0])
+    if cap_at_t <= 0:
+        # sizing temperature below the cut-out: size to the cut-out temperature instead
+        cap_at_t = float(hp_capacity_btuh(unit, np.array([unit.cutout_f]))[0])
+    need = max(coverage * load / max(cap_at_t, 1e-6), cooling_load_btuh)
     nominal = max(step_btuh, math.ceil(need / step_btuh - 1e-9) * step_btuh)
+    if min_btuh is not None:
+        nominal = max(nominal, min_btuh)
+    if max_btuh is not None:
+        nominal = min(nominal, max_btuh)
     return HeatPumpSpec.typical(kind, nominal, **kw)

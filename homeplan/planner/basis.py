@@ -160,16 +160,13 @@ def _default_efficiency(a: Appliance) -> float:
 
 
 def existing_heat_pump(a: Appliance, design_load_btuh: float) -> HeatPumpSpec:
-    p = performance()
-    cap = a.capacity_btuh or max(design_load_btuh, 18000.0)
-    hspf_ratio = (a.hspf2 or 7.5) / 7.5  # scale the standard COP curve by the unit's HSPF2
-    return HeatPumpSpec(
-        capacity_47_btuh=cap, capacity_17_btuh=cap * p["hp_standard_cap_17_frac"],
-        capacity_5_btuh=cap * p["hp_standard_cap_5_frac"],
-        cop_47=p["hp_standard_cop_47"] * hspf_ratio, cop_17=p["hp_standard_cop_17"] * hspf_ratio,
-        cop_5=max(1.0, p["hp_standard_cop_5"] * hspf_ratio), cutout_f=p["hp_standard_cutout_f"],
-        backup="resistance", seer2=a.seer2 or 14.3,
-    )
+    """Today's heat pump: a typical single-stage unit of its size (else the design load, at least
+    1.5 t) with backup strips, its COP curve scaled by its HSPF2 against a 7.5 HSPF2 unit."""
+    cap = a.capacity_btuh or max(design_load_btuh, performance()["hp_min_btuh"])
+    hp = HeatPumpSpec.typical("single_stage", cap, backup="resistance", seer2=a.seer2 or 14.3)
+    hspf_ratio = (a.hspf2 or 7.5) / 7.5
+    return replace(hp, cop_47=hp.cop_47 * hspf_ratio, cop_17=hp.cop_17 * hspf_ratio,
+                   cop_5=max(1.0, hp.cop_5 * hspf_ratio))
 
 
 def heating_spec_today(plan: Plan, design_load_btuh: float) -> HeatingSpec | None:

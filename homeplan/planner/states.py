@@ -14,7 +14,6 @@ Appendix M1 (heat pump rating points 47/17/5 F); NEC 625.42 and SAE J1772 (charg
 
 from __future__ import annotations
 
-import math
 from collections.abc import Iterable
 from dataclasses import dataclass, replace
 
@@ -22,7 +21,7 @@ from homeplan import catalog
 from homeplan.catalog import performance
 from homeplan.energy.appliances import CookingSpec, DryerSpec
 from homeplan.energy.battery import BatterySpec
-from homeplan.energy.heating import CoolingSpec, HeatPumpSpec
+from homeplan.energy.heating import CoolingSpec, HeatPumpSpec, size_heat_pump
 from homeplan.energy.simulate import EnergyResult, HomeEnergySpec, simulate, with_heat_pump
 from homeplan.energy.solar import SolarArraySpec
 from homeplan.energy.vehicles import VehicleSpec
@@ -37,6 +36,7 @@ __all__ = [
     "Choice",
     "StateEnergy",
     "cooling_load_btuh",
+    "heat_pump_class",
     "heat_pump_spec",
     "heat_pump_tons",
     "simulate_state",
@@ -61,20 +61,17 @@ class Choice:
     replaces: tuple[str, ...] = ()
 
 
-def heat_pump_spec(variant: str | None, tons: float, strips_kw: float, design_temp_f: float) -> HeatPumpSpec:
-    """A new heat pump of ``tons`` nominal 47 F capacity with the variant's performance."""
-    p = performance()
-    cold = variant in ("cold_climate", "ductless")
-    pre = "hp_cold" if cold else "hp_standard"
-    cap = tons * 12000.0
-    seer = p["hp_ductless_seer2"] if variant == "ductless" else p[f"{pre}_seer2"]
+def heat_pump_class(variant: str | None) -> str:
+    """The heat pump class of a catalog variant (``single_stage`` when it names none)."""
+    v = catalog.upgrade_kinds()["heat_pump"].variant(variant)
+    return (v.hp_class if v is not None else None) or "single_stage"
+
+
+def heat_pump_spec(variant: str | None, tons: float, strips_kw: float) -> HeatPumpSpec:
+    """A new heat pump of ``tons`` nominal 47 F capacity with its class's ratings; backup strips
+    (resistance) when the variant has them, else none."""
     backup = "resistance" if strips_kw > 0 else "none"
-    return HeatPumpSpec(
-        capacity_47_btuh=cap, capacity_17_btuh=cap * p[f"{pre}_cap_17_frac"],
-        capacity_5_btuh=cap * p[f"{pre}_cap_5_frac"], cop_47=p[f"{pre}_cop_47"],
-        cop_17=p[f"{pre}_cop_17"], cop_5=p[f"{pre}_cop_5"], cutout_f=p[f"{pre}_cutout_f"],
-        backup=backup, seer2=seer,
-    )
+    return HeatPumpSpec.typical(heat_pump_class(variant), tons * 12000.0, backup=backup)
 
 
 def heat_pump_tons(design_load_btuh: float, design_temp_f: float, variant: str | None,
@@ -85,8 +82,9 @@ def heat_pump_tons(design_load_btuh: float, design_temp_f: float, variant: str |
     design temperature (down to their cut-out). Standard single-stage units are sized to carry
     the load at 17 F, their lower rating point, and lean on backup strips below it (sizing
     them for the design temperature gives units that short-cycle in mild weather). Either way
-    the unit is at least as large as the cooling load. Rounded up to half tons, 1.5-5 t (common
-    practice, no source; larger homes need two systems).
+    the unit is at least as large as the cooling load. Half-ton steps, 1.5-5 t (common practice,
+    no source; larger homes need two systems). The arithmetic is
+    :func:`homeplan.energy.heating.size_heat_pump`.
 
     References
     ----------
@@ -94,20 +92,12 @@ def heat_pump_tons(design_load_btuh: float, design_temp_f: float, variant: str |
     heat pump sizing guidance (from memory).
     """
     p = performance()
-    cold = variant in ("cold_climate", "ductless")
-    pre = "hp_cold" if cold else "hp_standard"
-    f5, f17 = p[f"{pre}_cap_5_frac"], p[f"{pre}_cap_17_frac"]
-    if cold:
-        t = max(design_temp_f, p[f"{pre}_cutout_f"])
-        frac = f17 + (1.0 - f17) * (t - 17) / 30.0 if t >= 17 else f5 + (f17 - f5) * (t - 5) / 12.0
-        heat_tons = design_load_btuh / (max(frac, 0.3) * 12000.0)
-    else:
-        t = max(design_temp_f, 17.0)
-        load_at_t = design_load_btuh * (65.0 - t) / max(65.0 - design_temp_f, 1.0)
-        frac = f17 + (1.0 - f17) * (t - 17) / 30.0
-        heat_tons = load_at_t / (frac * 12000.0)
-    tons = max(heat_tons, cooling_btuh / 12000.0)
-    return float(min(max(math.ceil(tons * 2 - 1e-9) / 2, 1.5), 5.0))
+    kind = heat_pump_class(variant)
+    spec = size_heat_pump(design_load_btuh, design_temp_f, kind, step_btuh=6000.0,
+                          size_at_f=p["hp_single_stage_sizing_f"] if kind == "single_stage" else None,
+                          cooling_load_btuh=cooling_btuh, min_btuh=p["hp_min_btuh"],
+                          max_btuh=p["hp_max_btuh"])
+    return float(spec.capacity_47_btuh / 12000.0)
 
 
 def cooling_load_btuh(plan: Plan, basis: HomeBasis) -> float:
@@ -182,7 +172,7 @@ def state_spec(basis: HomeBasis, plan: Plan, done: Iterable[Choice], label: str 
         if k == "heat_pump":
             v = kinds["heat_pump"].variant(c.variant)
             strips = (v.strips_kw or 0.0) if v else 0.0
-            hp = heat_pump_spec(c.variant, c.size, strips, float(basis.weather.heating_design_f))
+            hp = heat_pump_spec(c.variant, c.size, strips)
             hp = _with_quoted_ratings(hp, plan.options.get(c.project_id))
             spec = with_heat_pump(spec, hp)
         elif k == "heat_pump_water_heater":
