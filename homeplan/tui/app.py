@@ -18,7 +18,6 @@ from typing import TYPE_CHECKING, Any
 from rich.text import Text
 from textual import on, work
 from textual.app import App, ComposeResult
-from textual.binding import Binding
 from textual.command import DiscoveryHit, Hit, Hits, Provider
 from textual.theme import Theme
 from textual.widgets import Footer, Static, TabbedContent, TabPane
@@ -28,6 +27,7 @@ from homeplan.errors import InputError, PlanRuleError
 from homeplan.plan.model import Plan
 from homeplan.plan.save import write_atomic
 from homeplan.tui import newplan
+from homeplan.tui.actions import VIEW_TABS, bindings, help_rows, palette_entries
 from homeplan.tui.format import usd
 from homeplan.tui.screens.forms import ChoiceScreen, FieldSpec, FormScreen, TextScreen
 from homeplan.tui.session import DELETE, PlanSession, check_new_plan
@@ -46,15 +46,13 @@ if TYPE_CHECKING:
 
 Planner = Callable[[Plan, Path], "PlanResult"]
 
-VIEWS: tuple[tuple[str, str, type[View]], ...] = (
-    ("next", "Next", OverviewView),
-    ("home", "Home", HomeView),
-    ("roadmap", "Roadmap", RoadmapView),
-    ("money", "Money", MoneyView),
-    ("power", "Power", PowerView),
-    ("energy", "Energy", EnergyView),
-    ("incentives", "Incentives", IncentivesView),
-)
+_VIEW_CLASSES: dict[str, type[View]] = {
+    "next": OverviewView, "home": HomeView, "roadmap": RoadmapView, "money": MoneyView,
+    "power": PowerView, "energy": EnergyView, "incentives": IncentivesView,
+}
+VIEWS: tuple[tuple[str, str, type[View]], ...] = tuple(
+    (vid, label, _VIEW_CLASSES[vid]) for vid, label in VIEW_TABS)
+"""The views in tab order: id, label (from the key table) and widget class."""
 
 OBJECTIVES = (
     ("Lowest lifetime cost", "npv"),
@@ -130,36 +128,8 @@ class PlanCommands(Provider):
     def _commands(self) -> list[tuple[str, str, Callable[[], Any]]]:
         app = self.app
         assert isinstance(app, HomeplanApp)
-        out = [(f"Show {label}", f"Open the {label.lower()} view", partial(app.action_show, vid))
-               for vid, label, _ in VIEWS]
-        out += [
-            ("Change budget", "Set what you can spend each year", app.action_edit_budget),
-            ("Raise budget by $1,000", "Add $1,000 a year", partial(app.action_budget_step, 1)),
-            ("Lower budget by $1,000", "Take $1,000 a year off", partial(app.action_budget_step, -1)),
-            ("Plan settings", "First year, horizon, objective, risk level", app.action_settings),
-            ("Edit prices", "Energy prices and household income", app.action_prices),
-            ("Household and incentive programs", "Income, taxes, program files",
-             app.action_edit_incentives),
-            ("Pin step to a year", "Roadmap: keep the selected project in a year", app.action_pin),
-            ("Leave step out", "Roadmap: exclude the selected project", app.action_exclude),
-            ("Release step", "Roadmap: undo a pin or exclusion", app.action_release),
-            ("Step details", "Roadmap: cost, incentives and reasons", app.action_step_details),
-            ("Edit appliance or vehicle", "Home: change the selected item", app.action_edit_item),
-            ("Add appliance or vehicle", "Home: add an item", app.action_add_item),
-            ("Remove appliance or vehicle", "Home: remove the selected item", app.action_remove_item),
-            ("What if it fails now", "Home: mark the selected appliance failed this year",
-             app.action_fail_now),
-            ("Undo", "Undo the last change", app.action_undo),
-            ("Redo", "Redo the change just undone", app.action_redo),
-            ("Save", "Save the plan file (a .bak copy is kept)", app.action_save),
-            ("Save as", "Save the plan under another name", app.action_save_as),
-            ("New plan", "Start a plan from a guided form", app.action_new_plan),
-            ("Where do these numbers come from", "Sources of the numbers on this view",
-             app.action_where_from),
-            ("Switch light/dark", "Toggle the light and dark colours", app.action_toggle_theme),
-            ("Keys", "List every key", app.action_help),
-        ]
-        return out
+        return [(title, description, partial(app.run_action, action))
+                for title, description, action in palette_entries()]
 
     async def discover(self) -> Hits:
         for title, help_text, callback in self._commands():
@@ -181,25 +151,7 @@ class HomeplanApp(App[int]):
     COMMANDS = App.COMMANDS | {PlanCommands}
     ENABLE_COMMAND_PALETTE = True
 
-    BINDINGS = [
-        *(Binding(str(i + 1), f"show('{vid}')", label, show=False)
-          for i, (vid, label, _) in enumerate(VIEWS)),
-        Binding("b", "edit_budget", "Budget"),
-        Binding("plus,equals_sign", "budget_step(1)", "+$1k", show=False),
-        Binding("minus", "budget_step(-1)", "-$1k", show=False),
-        Binding("s", "settings", "Settings", show=False),
-        Binding("dollar_sign", "prices", "Prices", show=False),
-        Binding("ctrl+z,u", "undo", "Undo"),
-        Binding("ctrl+y", "redo", "Redo", show=False),
-        Binding("ctrl+s", "save", "Save"),
-        Binding("S", "save_as", "Save as", show=False),
-        Binding("n", "new_plan", "New plan", show=False),
-        Binding("w", "where_from", "Sources"),
-        Binding("t", "toggle_theme", "Light/dark", show=False),
-        Binding("question_mark", "help", "Keys"),
-        Binding("escape", "show('next')", "Back", show=False),
-        Binding("ctrl+q", "quit", "Quit"),
-    ]
+    BINDINGS = bindings("app")
 
     def __init__(self, session: PlanSession | None = None, planner: Planner | None = None,
                  new_path: str | os.PathLike | None = None, light: bool | None = None):
@@ -976,28 +928,7 @@ def help_text():
     table = Table(box=None, show_header=False, padding=(0, 1, 0, 0), expand=True)
     table.add_column(style="bold", no_wrap=True)
     table.add_column(ratio=1)
-    rows = [
-        ("1-7", "views: Next, Home, Roadmap, Money, Power, Energy, Incentives (or click the tabs)"),
-        ("b / + / -", "set the yearly budget / raise or lower it by $1,000"),
-        ("s", "plan settings: first year, years to plan, aim, risk level, deadline"),
-        ("$", "prices and household income"),
-        ("Incentives: e", "household income, taxes and the incentive program files"),
-        ("Roadmap: p", "pin the project to the year under the cursor (or ask for a year)"),
-        ("Roadmap: x / r", "leave the project out / release a pin or exclusion"),
-        ("Roadmap: enter", "cost, incentives, reasons and cautions of the step"),
-        ("Roadmap: v", "show or hide the projects the plan does not use"),
-        ("Home: e / a / d", "edit / add / remove an appliance or vehicle"),
-        ("Home: f", "what if this appliance fails now (press again to undo the what-if)"),
-        ("ctrl+z / ctrl+y", "undo / redo (u also undoes)"),
-        ("ctrl+s / S", "save (atomic, previous file kept as .bak) / save as"),
-        ("n", "a new plan from a guided form"),
-        ("w", "where the numbers on this view come from"),
-        ("t", "switch light and dark colours (NO_COLOR is respected)"),
-        ("ctrl+p", "command palette: every action by name"),
-        ("esc", "back out of a form or panel; on a view, go to Next"),
-        ("ctrl+q", "quit (asks when there are unsaved changes)"),
-    ]
-    for key, what in rows:
+    for key, what in help_rows():
         table.add_row(key, what)
     marks = Text("\nMarks: reverse block = a step and its net cost; ░ = where a step was before "
                  "the last change; ▲ pinned; ✕ left out; ◆ burns fuel; Σ yearly totals.")

@@ -7,11 +7,11 @@ from typing import TYPE_CHECKING
 
 from rich.text import Text
 from textual.app import ComposeResult
-from textual.binding import Binding
 from textual.containers import VerticalScroll
 from textual.widgets import DataTable, Static
 
 from homeplan.plan.fuels import FOSSIL_FUELS
+from homeplan.tui.actions import bindings
 from homeplan.tui.format import BLOCKS, num, trunc, usd
 from homeplan.tui.widgets.base import View, ViewData
 from homeplan.units import display_area
@@ -62,13 +62,7 @@ def inventory(data: ViewData) -> list[Item]:
 
 
 class Inventory(DataTable):
-    BINDINGS = [
-        Binding("e", "app.edit_item", "Edit"),
-        Binding("a", "app.add_item", "Add"),
-        Binding("d", "app.remove_item", "Remove"),
-        Binding("f", "app.fail_now", "Fails now?"),
-        Binding("enter", "app.edit_item", "Edit", show=False),
-    ]
+    BINDINGS = bindings("home")
 
 
 class HomeView(View):

@@ -6,10 +6,10 @@ from typing import TYPE_CHECKING
 
 from rich.text import Text
 from textual.app import ComposeResult
-from textual.binding import Binding
 from textual.containers import VerticalScroll
 from textual.widgets import DataTable, Static
 
+from homeplan.tui.actions import bindings
 from homeplan.tui.format import ESTIMATES, kusd, trunc, usd
 from homeplan.tui.widgets.base import View, ViewData, banner_text
 
@@ -34,7 +34,7 @@ def program_details(p: ProgramUse) -> Text:
 
 
 class ProgramTable(DataTable):
-    BINDINGS = [Binding("e", "app.edit_incentives", "Household & programs")]
+    BINDINGS = bindings("incentives")
 
 
 class IncentivesView(View):

@@ -7,11 +7,11 @@ from typing import TYPE_CHECKING
 
 from rich.text import Text
 from textual.app import ComposeResult
-from textual.binding import Binding
 from textual.containers import VerticalScroll
 from textual.widgets import DataTable, Static
 
 from homeplan.catalog import cautions as caution_texts
+from homeplan.tui.actions import bindings
 from homeplan.tui.format import ESTIMATES, kusd_fit, trunc, usd
 from homeplan.tui.widgets.base import (
     View,
@@ -126,13 +126,7 @@ def row_details(data: ViewData, row: Row) -> Text:
 class Timeline(DataTable):
     """The year grid. Cursor on a year cell: p pins the project to that year."""
 
-    BINDINGS = [
-        Binding("p", "app.pin", "Pin to year"),
-        Binding("x", "app.exclude", "Leave out"),
-        Binding("r", "app.release", "Release"),
-        Binding("enter", "app.step_details", "Details", show=False),
-        Binding("v", "app.toggle_all_steps", "All projects", show=False),
-    ]
+    BINDINGS = bindings("roadmap")
 
 
 class RoadmapView(View):
