@@ -4,6 +4,8 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
+__all__ = ["InputError", "PlanRuleError", "Problem"]
+
 
 @dataclass(frozen=True)
 class Problem:

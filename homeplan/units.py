@@ -13,6 +13,21 @@ from __future__ import annotations
 
 from collections.abc import Callable
 
+__all__ = [
+    "BTU_PER_KWH",
+    "FT2_PER_M2",
+    "KWH_PER_THERM",
+    "L_PER_GAL",
+    "M_PER_MILE",
+    "SI_KEYS",
+    "c_from_f",
+    "delta_c_from_f",
+    "display_area",
+    "display_heat",
+    "display_temp",
+    "f_from_c",
+]
+
 FT_PER_M = 1 / 0.3048
 FT2_PER_M2 = FT_PER_M**2
 M_PER_MILE = 1609.344

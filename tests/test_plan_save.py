@@ -38,7 +38,7 @@ def test_crash_mid_save_leaves_old_file(tmp_path, monkeypatch):
     f = tmp_path / "plan.yaml"
     f.write_text("old: content\n")
 
-    def boom(*args, **kwargs):
+    def boom(*_args, **_kwargs):
         raise OSError("disk full")
 
     monkeypatch.setattr(os, "replace", boom)

@@ -60,7 +60,7 @@ def test_project_value_by_hand():
     ctx = SimpleNamespace(
         plan=SimpleNamespace(budget=SimpleNamespace(discount_rate_pct=10.0)),
         years=[2027, 2028, 2029],
-        escalation=lambda fuel: 0.0,
+        escalation=lambda _fuel: 0.0,
     )
     co = Coefficients(cost_usd=[1000.0] * 3, pos_incentive_usd=[100.0] * 3,
                       later_incentive_usd=[200.0] * 3, savings_by_fuel={"gas": 110.0},

@@ -8,6 +8,8 @@ from __future__ import annotations
 
 from homeplan.plan.model import Plan
 
+__all__ = ["rule_problems"]
+
 FUELS_BY_KIND = {
     "furnace": {"gas", "propane", "oil", "electric", "wood"},
     "boiler": {"gas", "propane", "oil", "electric", "wood"},

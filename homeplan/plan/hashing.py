@@ -18,6 +18,8 @@ import hashlib
 import json
 from typing import Any
 
+__all__ = ["canonical_json", "content_hash"]
+
 HASH_CHARS = 12
 """Hex characters kept: 48 bits, plenty to tell plans of one household apart by eye."""
 

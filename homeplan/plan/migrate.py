@@ -12,6 +12,8 @@ from typing import Any
 
 from homeplan.plan.model import FORMAT_VERSION
 
+__all__ = ["Step", "upgrade"]
+
 Step = Callable[[dict[str, Any]], dict[str, Any]]
 
 STEPS: dict[int, Step] = {}

@@ -16,6 +16,38 @@ from typing import Annotated, Any, Literal
 
 from pydantic import BaseModel, ConfigDict, Field, model_validator
 
+__all__ = [
+    "FORMAT_VERSION",
+    "Appliance",
+    "Budget",
+    "Choices",
+    "Climate",
+    "Display",
+    "ElectricPrice",
+    "ElectricUsage",
+    "Electrical",
+    "ElectricalLoad",
+    "ExistingBattery",
+    "ExistingSolar",
+    "GallonPrice",
+    "GallonUsage",
+    "GasPrice",
+    "GasUsage",
+    "Home",
+    "Household",
+    "Loan",
+    "Location",
+    "Plan",
+    "Prices",
+    "ProjectOption",
+    "Provenance",
+    "Roof",
+    "Section",
+    "TimeOfUsePeriod",
+    "Usage",
+    "Vehicle",
+]
+
 FORMAT_VERSION = 1
 """The plan file format this homeplan writes. Older files are migrated on load."""
 

@@ -23,6 +23,8 @@ from typing import Any
 
 from homeplan.errors import InputError, Problem
 
+__all__ = ["delete_in", "dump_text", "save_document", "set_in", "write_atomic"]
+
 
 def dump_text(document: Any) -> str:
     """Serialise a round-trip document (comments and order kept)."""

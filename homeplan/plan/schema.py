@@ -7,6 +7,8 @@ from typing import Any
 from homeplan.plan.model import FORMAT_VERSION, Plan
 from homeplan.units import SI_KEYS
 
+__all__ = ["plan_json_schema"]
+
 
 def _add_si_keys(schema: dict[str, Any]) -> None:
     """Let editors accept the SI spellings the loader converts (floor_area_m2, ...): each SI key

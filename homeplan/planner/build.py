@@ -220,7 +220,7 @@ def _steps(ctx: Context, capacity: CapacityModel, outcome: ScheduleOutcome, done
             extra_reasons.append(_heat_pump_sizing(ctx, done, pid))
         if pid == capacity.remedy_project:
             extra_reasons = [r for r in extra_reasons if not r.startswith(("paying later", "better overall"))]
-            extra_reasons.insert(0, _remedy_reason(ctx, done, pid, year))
+            extra_reasons.insert(0, _remedy_reason(ctx, done, year))
         steps.append(Step(
             project_id=pid, label=d.label, year=year, variant=d.variant_label, size=d.size_text(),
             cost_usd=round(cost, 2), incentives=lines,
@@ -301,7 +301,7 @@ def _heat_pump_sizing(ctx: Context, done: dict[str, int], pid: str) -> str:
     return text
 
 
-def _remedy_reason(ctx: Context, done: dict[str, int], pid: str, year: int) -> str:
+def _remedy_reason(ctx: Context, done: dict[str, int], year: int) -> str:
     """Why a panel, service or load-management step lands where it does: the loads it makes
     room for (the first ones the load calculation could not take without it)."""
     kinds = catalog.upgrade_kinds()

@@ -25,6 +25,16 @@ from homeplan.errors import InputError, Problem
 from homeplan.plan.save import write_atomic
 from homeplan.report.fmt import clean
 
+__all__ = [
+    "csv_text",
+    "hourly_energy_csv",
+    "monthly_energy_csv",
+    "safe_cell",
+    "steps_csv",
+    "write_csv_dir",
+    "years_csv",
+]
+
 DANGEROUS_START = ("=", "+", "-", "@", "\t", "\r")
 MONTHS = ("Jan", "Feb", "Mar", "Apr", "May", "Jun", "Jul", "Aug", "Sep", "Oct", "Nov", "Dec")
 

@@ -19,6 +19,17 @@ from typing import Any
 
 from homeplan.report.table import usd
 
+__all__ = [
+    "Change",
+    "RoadmapChange",
+    "diff_inputs",
+    "diff_roadmaps",
+    "fmt_value",
+    "label_for",
+    "render_diff",
+    "single_cause",
+]
+
 Path = tuple[Any, ...]
 
 # Plain names for the fields people change most; others are named from their keys.

@@ -13,6 +13,18 @@ import re
 
 from homeplan.report.table import usd
 
+__all__ = [
+    "clean",
+    "energy_key_words",
+    "finite",
+    "money",
+    "money_signed",
+    "number",
+    "pct",
+    "short",
+    "tonnes",
+]
+
 _CONTROL = re.compile(r"[\x00-\x08\x0b-\x1f\x7f-\x9f\u2028\u2029]")
 
 

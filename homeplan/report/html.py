@@ -27,6 +27,8 @@ from homeplan.report.fmt import short
 from homeplan.report.svg import legend_items, timeline_svg
 from homeplan.report.view import Report, Table
 
+__all__ = ["e", "render_html"]
+
 
 def e(text: object) -> str:
     """Escape text for HTML content and attribute values."""

@@ -30,6 +30,8 @@ from typing import Any
 from homeplan.plan.hashing import content_hash
 from homeplan.report.fmt import clean, money
 
+__all__ = ["Reminder", "escape_text", "fold", "reminders", "render_ics"]
+
 PRODID = "-//homeplan//electrification roadmap//EN"
 
 

@@ -17,6 +17,8 @@ from typing import Any
 from homeplan import __version__
 from homeplan.plan.hashing import content_hash
 
+__all__ = ["render_json", "roadmap_document"]
+
 
 def roadmap_document(result: Any) -> dict[str, Any]:
     data = result.roadmap.to_dict()

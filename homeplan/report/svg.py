@@ -19,6 +19,8 @@ from html import escape
 from homeplan.report.fmt import short
 from homeplan.report.view import GROUP_LABELS, Timeline
 
+__all__ = ["legend_items", "timeline_svg"]
+
 # One colour per group of work; a dark ink for milestones; greys for the grid. Our own palette.
 COLOURS: dict[str, str] = {
     "appliances": "#2f7d79",   # deep teal

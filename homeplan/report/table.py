@@ -4,6 +4,8 @@ from __future__ import annotations
 
 from collections.abc import Sequence
 
+__all__ = ["text_table", "usd"]
+
 
 def text_table(headers: Sequence[str], rows: Sequence[Sequence[object]], align: str | None = None) -> str:
     """Render rows as an aligned text table. ``align``: one char per column, 'l' or 'r'."""

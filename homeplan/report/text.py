@@ -18,6 +18,8 @@ from homeplan.report.fmt import short
 from homeplan.report.table import text_table
 from homeplan.report.view import GROUP_LABELS, Report, Table, Timeline, footer_line
 
+__all__ = ["md", "render_markdown", "render_text", "timeline_text"]
+
 _GROUP_CHAR = {"appliances": "#", "electrical": "E", "solar": "S", "vehicles": "V", "building": "B",
                "other": "*"}
 

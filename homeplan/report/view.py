@@ -31,6 +31,20 @@ from homeplan.report.fmt import (
 )
 from homeplan.units import display_area, display_temp
 
+__all__ = [
+    "GROUP_LABELS",
+    "Bar",
+    "Footer",
+    "Mark",
+    "Report",
+    "Table",
+    "Timeline",
+    "build_report",
+    "collect_cautions",
+    "footer_line",
+    "group_of",
+]
+
 # Groups of upgrade categories (homeplan/data/upgrades.yaml): one colour each on the timeline.
 GROUPS: dict[str, tuple[str, ...]] = {
     "appliances": ("heating", "water", "cooking", "drying"),

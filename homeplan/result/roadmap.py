@@ -24,6 +24,21 @@ from collections.abc import Iterable, Mapping
 from dataclasses import dataclass, field
 from typing import Any, Literal
 
+__all__ = [
+    "SCHEMA_VERSION",
+    "Baseline",
+    "BaselineKind",
+    "IncentiveKind",
+    "IncentiveLine",
+    "Milestone",
+    "MilestoneKind",
+    "Objective",
+    "Roadmap",
+    "Status",
+    "Step",
+    "YearTotals",
+]
+
 SCHEMA_VERSION = "1.1"
 """Version of the JSON produced by :meth:`Roadmap.to_dict`. Bump the minor part for added
 fields, the major part for renamed/removed fields or changed meaning."""
@@ -91,7 +106,7 @@ class IncentiveLine:
     program: str
     amount_usd: float
     arrives: _dt.date | int
-    kind: str = "rebate"
+    kind: IncentiveKind = "rebate"
 
     def to_dict(self) -> dict[str, Any]:
         return {
@@ -185,9 +200,10 @@ class YearTotals:
     - ``bill_savings_usd``: total bills of the do-nothing baseline minus this plan's total bills.
     - ``cumulative_usd``: running total of net spend + loan payments + bills since ``first_year``.
     - ``emissions_kg``: CO2e from all fuels that year.
-    - ``peak_kw``: calculated peak demand (NEC 220 method) in the home's state at year end.
-    - ``service_headroom_amps``: service rating minus calculated load at year end (negative means
-      over capacity).
+    - ``peak_kw``: highest hourly electricity demand of the modelled typical year in that year's
+      state of the home.
+    - ``service_headroom_amps``: service rating minus the NEC 220.83 calculated load at year end
+      (negative means over capacity).
     - ``energy``: energy use by fuel, unit in the key (``electricity_kwh``, ``gas_therm``...).
     """
 
@@ -258,7 +274,7 @@ class Milestone:
 
     year: int
     label: str
-    kind: str = "other"
+    kind: MilestoneKind = "other"
 
     def to_dict(self) -> dict[str, Any]:
         return {"year": self.year, "label": self.label, "kind": self.kind}
@@ -321,13 +337,13 @@ class Roadmap:
     plan_name: str
     first_year: int
     horizon_years: int
-    objective: str = "max_npv"
+    objective: Objective = "max_npv"
     steps: tuple[Step, ...] = ()
     years: tuple[YearTotals, ...] = ()
     milestones: tuple[Milestone, ...] = ()
     baselines: tuple[Baseline, ...] = ()
     npv_usd: float = 0.0
-    status: str = "ok"
+    status: Status = "ok"
     infeasibility: str | None = None
     assumptions: dict[str, Any] = field(default_factory=dict)
     cautions: tuple[str, ...] = ()

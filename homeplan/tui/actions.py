@@ -13,6 +13,8 @@ from dataclasses import dataclass
 
 from textual.binding import Binding
 
+__all__ = ["ACTIONS", "APP", "VIEW_TABS", "Action", "bindings", "help_rows", "palette_entries"]
+
 # The views, in tab order: id and label (``app.VIEWS`` adds the widget classes). Keys 1-7.
 VIEW_TABS: tuple[tuple[str, str], ...] = (
     ("next", "Next"),

@@ -10,7 +10,7 @@ from __future__ import annotations
 
 import os
 import time
-from collections.abc import Callable, Iterable
+from collections.abc import Callable
 from functools import partial
 from pathlib import Path
 from typing import TYPE_CHECKING, Any
@@ -43,6 +43,18 @@ from homeplan.tui.widgets.roadmap import RoadmapView, row_details
 if TYPE_CHECKING:
     from homeplan.result import PlanResult
     from homeplan.result.roadmap import Roadmap
+
+__all__ = [
+    "VIEWS",
+    "EnginePlanner",
+    "HomeplanApp",
+    "PlanCommands",
+    "PlannerUnavailable",
+    "help_text",
+    "moved_steps",
+    "new_plan_fields",
+    "problem_words",
+]
 
 Planner = Callable[[Plan, Path], "PlanResult"]
 
@@ -933,7 +945,3 @@ def help_text():
     marks = Text("\nMarks: reverse block = a step and its net cost; ░ = where a step was before "
                  "the last change; ▲ pinned; ✕ left out; ◆ burns fuel; Σ yearly totals.")
     return Group(table, marks)
-
-
-def iter_views() -> Iterable[str]:
-    return (vid for vid, _, _ in VIEWS)

@@ -8,6 +8,19 @@ from __future__ import annotations
 
 from collections.abc import Sequence
 
+__all__ = [
+    "BLOCKS",
+    "ESTIMATES",
+    "bar",
+    "fuel_label",
+    "kusd",
+    "kusd_fit",
+    "num",
+    "spark",
+    "trunc",
+    "usd",
+]
+
 BLOCKS = " ▁▂▃▄▅▆▇█"
 ESTIMATES = "Planning estimates - confirm with licensed professionals who see the home."
 

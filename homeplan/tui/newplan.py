@@ -10,6 +10,8 @@ import json
 from collections.abc import Mapping
 from typing import Any
 
+__all__ = ["FUEL_CHOICES", "HEATING", "SERVICE_AMPS", "new_plan_text"]
+
 HEATING = {
     "gas_furnace": ("furnace", "gas", "Gas furnace"),
     "propane_furnace": ("furnace", "propane", "Propane furnace"),

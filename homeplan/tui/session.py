@@ -22,6 +22,8 @@ from homeplan.plan.load import load_plan, parse_document, validate_document
 from homeplan.plan.model import Plan
 from homeplan.plan.save import delete_in, dump_text, save_document, set_in
 
+__all__ = ["DELETE", "PlanSession", "State", "check_new_plan"]
+
 DELETE = object()
 """Value meaning "remove this key" in an edit."""
 

@@ -29,8 +29,8 @@ from homeplan.money.finance import (
 RNG = np.random.default_rng(20261201)
 
 
-@pytest.mark.parametrize("case", range(8))
-def test_loan_payment_matches_numpy_financial(case: int) -> None:
+@pytest.mark.parametrize("_case", range(8))
+def test_loan_payment_matches_numpy_financial(_case: int) -> None:
     principal = float(RNG.uniform(1_000, 80_000))
     rate = float(RNG.choice([0.0, RNG.uniform(0.5, 12.0)]))
     term = int(RNG.integers(1, 31))
@@ -56,15 +56,15 @@ def test_loan_schedule_interest_matches_numpy_financial() -> None:
     assert sched[-1].balance_end_usd == pytest.approx(0, abs=1e-6)
 
 
-@pytest.mark.parametrize("case", range(8))
-def test_npv_matches_numpy_financial(case: int) -> None:
+@pytest.mark.parametrize("_case", range(8))
+def test_npv_matches_numpy_financial(_case: int) -> None:
     flows = list(RNG.normal(0, 5_000, size=int(RNG.integers(2, 30))))
     rate = float(RNG.uniform(0, 12))
     assert npv_usd(rate, flows) == pytest.approx(npf.npv(rate / 100, flows), rel=1e-9, abs=1e-6)
 
 
-@pytest.mark.parametrize("case", range(10))
-def test_irr_matches_numpy_financial(case: int) -> None:
+@pytest.mark.parametrize("_case", range(10))
+def test_irr_matches_numpy_financial(_case: int) -> None:
     n = int(RNG.integers(3, 25))
     upfront = -float(RNG.uniform(5_000, 40_000))
     later = list(RNG.uniform(200, 6_000, size=n))

@@ -220,7 +220,7 @@ def test_25d_carryforward_limited_by_liability(federal) -> None:
     assert any("carried forward" in n for n in award.notes)
 
 
-def test_nonrefundable_without_carryforward_loses_the_rest(federal) -> None:
+def test_nonrefundable_without_carryforward_loses_the_rest() -> None:
     raw = dict(
         id="no_carry",
         name="25D-shaped credit without carryforward (invented for the test)",

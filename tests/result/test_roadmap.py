@@ -109,3 +109,16 @@ def test_importing_schedule_does_not_import_scipy() -> None:
     )
     out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True)
     assert out.stdout.split() == ["False", "False"]
+
+
+def test_baselines_are_found_by_kind_and_old_files_get_kinds_by_position() -> None:
+    r = sample()
+    assert r.baseline("do_nothing") is r.baselines[0] and r.baseline("like_for_like") is None
+    data = r.to_dict()
+    assert data["baselines"][0]["kind"] == "do_nothing"
+    # a schema 1.0 file has no kind: docs/roadmap-json.md lists doing nothing first, then
+    # like-for-like
+    old = {**data, "schema_version": "1.0",
+           "baselines": [{k: v for k, v in b.items() if k != "kind"} for b in data["baselines"] * 2]}
+    back = Roadmap.from_dict(old)
+    assert [b.kind for b in back.baselines] == ["do_nothing", "like_for_like"]

@@ -19,7 +19,7 @@ _MEMO: dict[str, object] = {}
 _CACHE: list = []
 
 
-def shared_planner(plan, base_dir):
+def shared_planner(plan, base_dir):  # noqa: ARG001 - the app's planner interface
     """The real planner with one cache for the whole test run (results memoised by content)."""
     from homeplan import PlannerCache, plan_roadmap
 

@@ -422,7 +422,7 @@ async def test_infeasible_roadmap_is_explained(plan_file):
 
 
 async def test_without_a_planner_the_home_still_works(plan_file):
-    def missing(plan, base_dir):
+    def missing(plan, base_dir):  # noqa: ARG001 - the app's planner interface
         raise PlannerUnavailable("homeplan.planner could not be imported (test)")
 
     app = make_app(plan_file, planner=missing)

@@ -1,1 +1,3 @@
 """Modal screens: forms, confirmations, details."""
+
+__all__: list[str] = []

@@ -14,6 +14,8 @@ from textual.containers import Horizontal, Vertical, VerticalScroll
 from textual.screen import ModalScreen
 from textual.widgets import Button, Input, Label, Select, Static, Switch
 
+__all__ = ["ChoiceScreen", "FieldSpec", "FormError", "FormScreen", "TextScreen", "parse_value"]
+
 Kind = str  # "text" | "int" | "float" | "choice" | "bool"
 
 

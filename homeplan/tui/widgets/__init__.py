@@ -1,1 +1,3 @@
 """The views of a plan and the small widgets they use."""
+
+__all__: list[str] = []

@@ -14,6 +14,8 @@ if TYPE_CHECKING:
     from homeplan.result import PlanResult
     from homeplan.result.outlook import LifeOutlook
 
+__all__ = ["View", "ViewData", "assumptions_text", "banner_text"]
+
 
 @dataclass(frozen=True)
 class ViewData:

@@ -16,6 +16,8 @@ from homeplan.tui.widgets.base import View, ViewData, banner_text
 if TYPE_CHECKING:
     from homeplan.result import EnergySummary
 
+__all__ = ["EnergyView", "balance_text", "emissions_text", "monthly_table"]
+
 MONTHS = "JFMAMJJASOND"
 
 

@@ -19,6 +19,8 @@ from homeplan.units import display_area
 if TYPE_CHECKING:
     from homeplan.result.outlook import LifeOutlook
 
+__all__ = ["HomeView", "Inventory", "Item", "inventory", "risk_bar"]
+
 RISK_TOP_PCT = 20.0  # a full block in the risk bar means a 20 % or higher chance that year
 RISK_YEARS = 10
 
@@ -192,7 +194,7 @@ class HomeView(View):
     def focus_main(self) -> None:
         self.query_one(Inventory).focus()
 
-    def where_from(self, data: ViewData) -> Text:
+    def where_from(self, data: ViewData) -> Text:  # noqa: ARG002 - the View interface
         it = self.current_item()
         out = Text()
         if it is not None and it.outlook is not None:

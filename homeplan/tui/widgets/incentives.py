@@ -16,6 +16,8 @@ from homeplan.tui.widgets.base import View, ViewData, banner_text
 if TYPE_CHECKING:
     from homeplan.result import ProgramUse
 
+__all__ = ["IncentivesView", "ProgramTable", "program_details"]
+
 
 def program_details(p: ProgramUse) -> Text:
     out = Text()
@@ -81,7 +83,7 @@ class IncentivesView(View):
         self._details(data)
         self._data = data
 
-    def on_data_table_row_highlighted(self, event: DataTable.RowHighlighted) -> None:
+    def on_data_table_row_highlighted(self) -> None:
         if getattr(self, "_data", None) is not None:
             self._details(self._data)
 

@@ -10,6 +10,8 @@ from textual.widgets import DataTable, Static
 from homeplan.tui.format import ESTIMATES, kusd, spark, usd
 from homeplan.tui.widgets.base import View, ViewData, banner_text
 
+__all__ = ["MoneyView", "running_chart"]
+
 BASELINES = (("do_nothing", "Do nothing"), ("like_for_like", "Replace when it breaks"))
 
 

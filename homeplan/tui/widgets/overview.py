@@ -11,6 +11,16 @@ from homeplan.plan.fuels import FOSSIL_FUELS, appliance_fuel
 from homeplan.tui.format import ESTIMATES, trunc, usd
 from homeplan.tui.widgets.base import View, ViewData, banner_text
 
+__all__ = [
+    "OverviewView",
+    "electric_text",
+    "fossil_items",
+    "next_text",
+    "replaced_by_year",
+    "this_year_text",
+    "when",
+]
+
 
 def fossil_items(data: ViewData) -> list[str]:
     """Keys of the appliances and vehicles that burn fuel today (from the plan's own inputs)."""

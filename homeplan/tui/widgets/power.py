@@ -16,6 +16,8 @@ from homeplan.tui.widgets.base import View, ViewData, banner_text
 if TYPE_CHECKING:
     from homeplan.result import CapacityState
 
+__all__ = ["PowerView", "caution_text", "state_details"]
+
 
 def caution_text() -> Text:
     out = Text()
@@ -95,7 +97,7 @@ class PowerView(View):
                               scroll=False)
         self._details()
 
-    def on_data_table_row_highlighted(self, event: DataTable.RowHighlighted) -> None:
+    def on_data_table_row_highlighted(self) -> None:
         self._details()
 
     def _details(self) -> None:
@@ -110,7 +112,7 @@ class PowerView(View):
     def focus_main(self) -> None:
         self.query_one("#power-table").focus()
 
-    def where_from(self, data: ViewData) -> Text:
+    def where_from(self, data: ViewData) -> Text:  # noqa: ARG002 - the View interface
         return Text("The load calculation follows the method named on each row (NEC article 220). "
                     "Nameplate values are yours where given, otherwise catalog defaults. "
                     "A licensed electrician must confirm it before any work.")

@@ -22,7 +22,9 @@ from homeplan.tui.widgets.base import (
 
 if TYPE_CHECKING:
     from homeplan.result import ProjectInfo
-    from homeplan.result.roadmap import Roadmap, Step
+    from homeplan.result.roadmap import Step
+
+__all__ = ["RoadmapView", "Row", "Timeline", "project_rows", "row_details"]
 
 TOTAL_ROWS = (
     ("_spend", "Projects cost", "Installed cost of the year's projects, before any incentive."),
@@ -66,7 +68,7 @@ def project_rows(data: ViewData) -> list[Row]:
     return rows
 
 
-def _money_lines(step: Step, rm: Roadmap) -> list[str]:
+def _money_lines(step: Step) -> list[str]:
     pos = sum(i.amount_usd for i in step.incentives if i.kind == "point_of_sale")
     lines = [f"Installed cost {usd(step.cost_usd)} before incentives."]
     if pos:
@@ -104,7 +106,7 @@ def row_details(data: ViewData, row: Row) -> Text:
     if row.excluded:
         out.append("You left it out (r releases it).\n")
     if row.step and rm is not None:
-        for line in _money_lines(row.step, rm):
+        for line in _money_lines(row.step):
             out.append(line + "\n")
         if row.step.reasons:
             out.append("Why this year:\n", style="bold")
@@ -291,7 +293,7 @@ class RoadmapView(View):
         first = rm.first_year if rm else self.data.plan.first_year
         return first + col - 1
 
-    def on_data_table_cell_highlighted(self, event: DataTable.CellHighlighted) -> None:
+    def on_data_table_cell_highlighted(self) -> None:
         self._update_details()
 
     def _update_details(self) -> None:
