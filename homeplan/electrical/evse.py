@@ -19,6 +19,17 @@ from homeplan.electrical import tables
 from homeplan.electrical.errors import ElectricalInputError
 from homeplan.electrical.loads import LOAD_VOLTS, Load
 
+__all__ = [
+    "EvseCircuit",
+    "ems_counted_va",
+    "ev_charger_load",
+    "evse_breaker_amps",
+    "evse_circuit",
+    "evse_load_va",
+    "next_standard_ocpd_amps",
+    "rated_charger_amps",
+]
+
 
 def _check_amps(fieldname: str, amps: float) -> None:
     if isinstance(amps, bool) or not isinstance(amps, int | float) or not math.isfinite(amps) or amps <= 0:
@@ -27,6 +38,21 @@ def _check_amps(fieldname: str, amps: float) -> None:
 
 def next_standard_ocpd_amps(min_amps: float) -> int:
     """Smallest standard breaker/fuse rating >= ``min_amps``.
+
+    Parameters
+    ----------
+    min_amps : float
+        Smallest acceptable rating, A.
+
+    Returns
+    -------
+    int
+        Standard rating, A.
+
+    Raises
+    ------
+    ElectricalInputError
+        If ``min_amps`` is not a finite current > 0 A or is above the largest standard size.
 
     References
     ----------
@@ -42,6 +68,23 @@ def next_standard_ocpd_amps(min_amps: float) -> int:
 def evse_breaker_amps(charger_amps: float, edition: int = 2023) -> int:
     """Minimum branch-circuit breaker for a charger: 125 % of its current, next standard size.
 
+    Parameters
+    ----------
+    charger_amps : float
+        Charger current, A.
+    edition : int
+        NEC edition year.
+
+    Returns
+    -------
+    int
+        Breaker rating, A.
+
+    Raises
+    ------
+    ElectricalInputError
+        If the current is not a finite value > 0 A or the edition is not supported.
+
     References
     ----------
     NEC 2020/2023 625.41, 625.42 (continuous), 240.6(A).
@@ -52,6 +95,23 @@ def evse_breaker_amps(charger_amps: float, edition: int = 2023) -> int:
 
 def rated_charger_amps(charger_amps: float, restricted_amps: float | None = None) -> float:
     """The charger current to use: the restricted (locked) setting when given.
+
+    Parameters
+    ----------
+    charger_amps : float
+        Charger maximum current, A.
+    restricted_amps : float or None
+        Restricted (locked) setting, A; None when the charger is not restricted.
+
+    Returns
+    -------
+    float
+        Current to use, A.
+
+    Raises
+    ------
+    ElectricalInputError
+        If a current is not finite and > 0 A, or the setting is above the charger's maximum.
 
     References
     ----------
@@ -78,6 +138,29 @@ def ev_charger_load(
     existing: bool = False,
 ) -> Load:
     """A Level 2 EV charger as a continuous, EMS-eligible :class:`Load` (VA = amps x volts).
+
+    Parameters
+    ----------
+    charger_amps : float
+        Charger maximum current, A.
+    name : str
+        Label of the load.
+    volts : int
+        Circuit voltage, V (120, 208 or 240).
+    restricted_amps : float or None
+        Restricted (locked) setting, A; None when not restricted.
+    existing : bool
+        True if the charger is already installed.
+
+    Returns
+    -------
+    Load
+        The charger, VA = rated current x volts.
+
+    Raises
+    ------
+    ElectricalInputError
+        If the voltage is unknown or a current is invalid.
 
     References
     ----------
@@ -106,6 +189,29 @@ def evse_load_va(charger_amps: float, *, method: str = "optional", volts: int = 
     ``method="optional"`` (220.82/220.83): nameplate. ``method="standard"``: from the 2023 edition
     the larger of 7,200 VA or nameplate (220.57); 2020 nameplate.
 
+    Parameters
+    ----------
+    charger_amps : float
+        Charger maximum current, A.
+    method : str
+        ``optional`` or ``standard``.
+    volts : int
+        Circuit voltage, V.
+    restricted_amps : float or None
+        Restricted (locked) setting, A; None when not restricted.
+    edition : int
+        NEC edition year.
+
+    Returns
+    -------
+    float
+        Charger load for the calculation, VA.
+
+    Raises
+    ------
+    ElectricalInputError
+        If the method or voltage is unknown or a current is invalid.
+
     References
     ----------
     NEC 2023 220.57; NEC 2020/2023 220.82, 220.83; 625.42(B).
@@ -122,6 +228,23 @@ def evse_load_va(charger_amps: float, *, method: str = "optional", volts: int = 
 class EvseCircuit:
     """Branch circuit for one charger (plain data).
 
+    Attributes
+    ----------
+    charger_amps : float
+        Charger maximum current, A.
+    rated_amps : float
+        Current used: the restricted setting when given, A.
+    continuous_amps : float
+        125 % of the rated current, A.
+    breaker_amps : int
+        Minimum standard breaker, A.
+    load_va : float
+        Load in the optional calculations, VA.
+    standard_method_va : float
+        Load in the standard calculation, VA.
+    sections : tuple of str
+        NEC sections applied.
+
     References
     ----------
     NEC 2020/2023 625.41, 625.42, 240.6(A); NEC 2023 220.57.
@@ -136,12 +259,40 @@ class EvseCircuit:
     sections: tuple[str, ...]
 
     def to_dict(self) -> dict[str, Any]:
+        """The fields as a JSON-ready dict (A, VA).
+
+        Returns
+        -------
+        dict of str to Any
+            One entry per field.
+        """
         return asdict(self)
 
 
 def evse_circuit(charger_amps: float, *, restricted_amps: float | None = None, volts: int = 240,
                  edition: int = 2023) -> EvseCircuit:
     """Charger current -> rated current, 125 % current, minimum breaker, and calc VA.
+
+    Parameters
+    ----------
+    charger_amps : float
+        Charger maximum current, A.
+    restricted_amps : float or None
+        Restricted (locked) setting, A; None when not restricted.
+    volts : int
+        Circuit voltage, V.
+    edition : int
+        NEC edition year.
+
+    Returns
+    -------
+    EvseCircuit
+        Currents (A), breaker (A) and loads (VA) of the circuit.
+
+    Raises
+    ------
+    ElectricalInputError
+        If a current, the voltage or the edition is invalid.
 
     References
     ----------
@@ -173,6 +324,27 @@ def ems_counted_va(setpoint_amps: float, volts: int = 240, *, continuous_at_125:
 
     ``continuous_at_125`` applies 125 % (feeder/service conductor sizing, or 220.87 if the
     inspector asks for it); the optional-method calculations count the setpoint at 100 %.
+
+    Parameters
+    ----------
+    setpoint_amps : float
+        EMS setpoint, A.
+    volts : int
+        Voltage, V.
+    continuous_at_125 : bool
+        Count the setpoint at 125 %.
+    edition : int
+        NEC edition year.
+
+    Returns
+    -------
+    float
+        Counted load, VA.
+
+    Raises
+    ------
+    ElectricalInputError
+        If the setpoint is not a finite current > 0 A.
 
     References
     ----------

@@ -19,6 +19,19 @@ from dataclasses import dataclass, replace
 from homeplan.electrical import tables
 from homeplan.electrical.errors import ElectricalInputError
 
+__all__ = [
+    "CATEGORIES",
+    "HVAC_CATEGORIES",
+    "LOAD_VOLTS",
+    "SERVICE_VOLTS",
+    "Dwelling",
+    "Ems",
+    "Load",
+    "Service",
+    "heat_pump_loads",
+    "nameplate_load",
+]
+
 CATEGORIES: tuple[str, ...] = (
     "general_lighting",
     "small_appliance",
@@ -56,21 +69,38 @@ def _finite_nonneg(fieldname: str, value: float, hint: str) -> None:
 class Load:
     """One electrical load at its nameplate rating.
 
-    Fields
-    ------
-    name: label shown in the breakdown.
-    va: nameplate volt-amperes (volts x amps; for motors and heat pumps use the nameplate
+    Attributes
+    ----------
+    name : str
+        Label shown in the breakdown.
+    va : float
+        Nameplate volt-amperes, VA (volts x amps; for motors and heat pumps use the nameplate
         rated-load or MCA current x volts).
-    category: one of :data:`CATEGORIES`.
-    volts: 120, 208 or 240.
-    continuous: runs 3 h or more at full current (EV chargers 625.42, water heaters 422.13).
-    interlocked: for ``supplemental_heat``: locked out while the heat pump compressor runs
+    category : str
+        One of :data:`CATEGORIES`.
+    volts : int
+        Load voltage, V: 120, 208 or 240.
+    continuous : bool
+        Runs 3 h or more at full current (EV chargers 625.42, water heaters 422.13).
+    interlocked : bool
+        For ``supplemental_heat``: locked out while the heat pump compressor runs
         (220.82(C)); for other loads informational.
-    ems_controlled: counted inside an energy management system group (220.70/750.30).
-    ems_eligible: may be put under an energy management system by the remedy search.
-    existing: already installed (False for a proposed new load; decides 220.83 (A) vs (B)).
-    heating_units: number of separately controlled space-heating units (``heating`` only).
-    source: where the nameplate number came from.
+    ems_controlled : bool
+        Counted inside an energy management system group (220.70/750.30).
+    ems_eligible : bool
+        May be put under an energy management system by the remedy search.
+    existing : bool
+        Already installed (False for a proposed new load; decides 220.83 (A) vs (B)).
+    heating_units : int
+        Number of separately controlled space-heating units (``heating`` only).
+    source : str
+        Where the nameplate number came from.
+
+    Raises
+    ------
+    ElectricalInputError
+        If the name is empty, ``va`` is not a finite number >= 0, or the category, voltage or
+        number of heating units is invalid.
 
     References
     ----------
@@ -121,6 +151,20 @@ class Load:
 class Dwelling:
     """The dwelling's general-load inputs.
 
+    Attributes
+    ----------
+    floor_area_ft2 : float
+        Living area, ft2.
+    small_appliance_circuits : int
+        Number of 20 A small-appliance circuits (at least 2).
+    laundry_circuits : int
+        Number of laundry circuits (at least 1).
+
+    Raises
+    ------
+    ElectricalInputError
+        If the area is not > 0 ft2 or a circuit count is below its minimum.
+
     References
     ----------
     NEC 2020/2023 210.11(C)(1)-(2): at least two 20 A small-appliance circuits and one laundry
@@ -154,6 +198,23 @@ class Service:
     ``service_amps`` is the service rating; ``main_breaker_amps`` defaults to it and may be lower
     (a derated main); ``busbar_amps`` defaults to the main breaker. The load calculation is
     compared with the smaller of the service rating and the main breaker (:attr:`limit_amps`).
+
+    Attributes
+    ----------
+    service_amps : float
+        Service rating, A.
+    busbar_amps : float or None
+        Panel busbar rating, A; None takes the main breaker rating.
+    main_breaker_amps : float or None
+        Main breaker rating, A; None takes the service rating.
+    volts : int
+        Service voltage, V: 240 (120/240 V) or 208.
+
+    Raises
+    ------
+    ElectricalInputError
+        If a rating is not > 0 A, the main is above the service rating, the busbar is below the
+        main, or the voltage is unknown.
 
     References
     ----------
@@ -207,6 +268,18 @@ class Ems:
 
     The setpoint is the counted load (continuous) in place of the managed loads.
 
+    Attributes
+    ----------
+    setpoint_va : float
+        Protected maximum setpoint, VA.
+    name : str
+        Label shown in the breakdown.
+
+    Raises
+    ------
+    ElectricalInputError
+        If the setpoint is not a finite value > 0 VA.
+
     References
     ----------
     NEC 2023 220.70 and 750.30 (setpoint used as the load; settings protected from the user,
@@ -223,13 +296,54 @@ class Ems:
 
     @classmethod
     def from_amps(cls, setpoint_amps: float, volts: int = 240, name: str = "Energy management system") -> Ems:
-        """EMS with a setpoint given in amperes at ``volts``."""
+        """EMS with a setpoint given in amperes at ``volts``.
+
+        Parameters
+        ----------
+        setpoint_amps : float
+            Setpoint, A.
+        volts : int
+            Voltage, V.
+        name : str
+            Label shown in the breakdown.
+
+        Returns
+        -------
+        Ems
+            The system, setpoint in VA = amps x volts.
+
+        Raises
+        ------
+        ElectricalInputError
+            If the setpoint is not a finite value > 0.
+        """
         _finite_nonneg("ems.setpoint_amps", setpoint_amps, "enter the EMS setpoint in A")
         return cls(setpoint_va=setpoint_amps * volts, name=name)
 
 
 def nameplate_load(key: str, *, name: str | None = None, existing: bool = True, **overrides: object) -> Load:
     """A :class:`Load` from a row of ``nameplates.csv`` (``key`` column), with optional overrides.
+
+    Parameters
+    ----------
+    key : str
+        Row key of ``nameplates.csv``, e.g. ``heat_pump_compressor_2_5t``.
+    name : str or None
+        Label of the load; None takes the row's name.
+    existing : bool
+        True if the load is already installed.
+    **overrides : object
+        :class:`Load` fields to replace, e.g. ``va`` in VA.
+
+    Returns
+    -------
+    Load
+        The load, VA at nameplate.
+
+    Raises
+    ------
+    ElectricalInputError
+        If the key is unknown or an override is invalid.
 
     References
     ----------
@@ -265,6 +379,29 @@ def heat_pump_loads(
 
     ``compressor_va`` defaults to the Annex D D2(c) 24 A at 240 V row; ``interlocked`` means the
     strips are locked out while the compressor runs.
+
+    Parameters
+    ----------
+    compressor_va : float or None
+        Compressor nameplate, VA; None takes the Annex D row.
+    strips_kw : float
+        Supplemental heat strips, kW (0 for none).
+    interlocked : bool
+        True if the strips are locked out while the compressor runs.
+    existing : bool
+        True if the heat pump is already installed.
+    name : str
+        Label prefix of the loads.
+
+    Returns
+    -------
+    tuple of Load
+        The compressor, then the strips when ``strips_kw`` > 0 (VA).
+
+    Raises
+    ------
+    ElectricalInputError
+        If ``strips_kw`` is not a finite number >= 0, or ``compressor_va`` is invalid.
 
     References
     ----------

@@ -25,6 +25,17 @@ from homeplan.electrical import tables
 from homeplan.electrical.errors import ElectricalInputError, MethodNotApplicableError
 from homeplan.electrical.loads import HVAC_CATEGORIES, Dwelling, Ems, Load, Service
 
+__all__ = [
+    "CAUTION",
+    "BreakdownRow",
+    "LoadCalcResult",
+    "MeasuredDemand",
+    "nec220_82",
+    "nec220_83",
+    "nec220_87",
+    "peak_kw_bound_from_hourly_kwh",
+]
+
 CAUTION = (
     "Planning estimate only, not a code load calculation of record. A licensed electrician must "
     "check the service and circuits; panel, service and circuit work needs a permit, and the local "
@@ -40,6 +51,21 @@ class BreakdownRow:
 
     ``factor``/``counted_va`` are None for loads listed inside a group (the group's subtotal rows
     carry the factor), so the total is the sum of the non-None ``counted_va``.
+
+    Attributes
+    ----------
+    load_name : str
+        Load or subtotal label.
+    va : float
+        Nameplate or subtotal, VA.
+    factor : float or None
+        Demand factor applied, dimensionless (1.0 = 100 %).
+    counted_va : float or None
+        Amount counted in the total, VA.
+    section : str
+        NEC section applied.
+    note : str
+        Plain-words note.
     """
 
     load_name: str
@@ -56,6 +82,35 @@ class LoadCalcResult:
 
     ``amps`` = ``total_va`` / ``volts``; ``service_amps`` is the smaller of the service rating
     and the main breaker; ``headroom_amps`` = ``service_amps`` - ``amps``.
+
+    Attributes
+    ----------
+    method : str
+        Title of the calculation.
+    section : str
+        NEC section of the method.
+    edition : int
+        NEC edition year.
+    case : str
+        ``A`` or ``B`` for 220.83, otherwise empty.
+    rows : tuple of BreakdownRow
+        The breakdown.
+    total_va : float
+        Calculated load, VA.
+    volts : int
+        Service voltage, V.
+    amps : float
+        Calculated load, A.
+    service_amps : float
+        Limit compared with, A.
+    headroom_amps : float
+        Limit minus load, A (negative = over).
+    fits : bool
+        True if the load is within the limit.
+    caution : str
+        The planning caution.
+    notes : tuple of str
+        Options chosen and other notes.
 
     References
     ----------
@@ -77,7 +132,13 @@ class LoadCalcResult:
     notes: tuple[str, ...] = ()
 
     def to_dict(self) -> dict[str, Any]:
-        """JSON-ready dict (rows as a list of dicts)."""
+        """JSON-ready dict (rows as a list of dicts).
+
+        Returns
+        -------
+        dict of str to Any
+            One entry per field (VA, A).
+        """
         out = asdict(self)
         out["rows"] = [asdict(r) for r in self.rows]
         out["notes"] = list(self.notes)
@@ -94,6 +155,23 @@ class MeasuredDemand:
     loads not seen in the recording - 0 if truly none).
     ``basis``: ``"15min"`` (meter interval data) or ``"hourly_kwh_x4"`` (an upper bound from hourly
     data: an inspector's call, not code).
+
+    Attributes
+    ----------
+    peak_kw : float
+        Highest 15-minute average demand, kW.
+    period : str
+        ``12_months`` or ``30_days``.
+    seasonal_adjustment_va : float or None
+        Seasonal load not seen in a 30-day recording, VA.
+    basis : str
+        ``15min`` or ``hourly_kwh_x4``.
+
+    Raises
+    ------
+    ElectricalInputError
+        If the peak is not a finite number >= 0, the period or basis is unknown, or the
+        seasonal adjustment is missing, negative or given for a 12-month period.
 
     References
     ----------
@@ -135,6 +213,23 @@ def peak_kw_bound_from_hourly_kwh(hourly_kwh: Iterable[float], edition: int = 20
     """Upper bound of the 15-minute peak from hourly kWh: max hourly kWh x 4.
 
     Not a code rule: some engineers use it when only hourly data exist; the inspector decides.
+
+    Parameters
+    ----------
+    hourly_kwh : iterable of float
+        Hourly energy readings, kWh.
+    edition : int
+        NEC edition year.
+
+    Returns
+    -------
+    float
+        Upper bound of the 15-minute peak demand, kW.
+
+    Raises
+    ------
+    ElectricalInputError
+        If there are no readings or a reading is not a finite number >= 0.
 
     References
     ----------
@@ -184,7 +279,7 @@ def _general_items(dwelling: Dwelling, edition: int) -> list[tuple[str, float, s
     ]
 
 
-def _split_ems(loads: tuple[Load, ...], ems: Ems | None, edition: int) -> tuple[list[Load], list[Load], float]:
+def _split_ems(loads: tuple[Load, ...], ems: Ems | None) -> tuple[list[Load], list[Load], float]:
     """Return (unmanaged loads, managed loads, counted EMS VA)."""
     managed = [ld for ld in loads if ld.ems_controlled]
     rest = [ld for ld in loads if not ld.ems_controlled]
@@ -372,6 +467,34 @@ def nec220_83(
     compressor plus strips that can run with it, practice from memory), other load 8 kVA/40 %;
     four or more separately controlled heating units go into the other load.
 
+    Parameters
+    ----------
+    dwelling : Dwelling
+        Floor area and general-load circuits.
+    loads : sequence of Load
+        Every fixed load of the home in the state checked, VA at nameplate.
+    service : Service
+        The service and main panel.
+    edition : int
+        NEC edition year.
+    case : str
+        ``auto``, ``A`` or ``B``.
+    existing_hvac_in_a : str
+        ``other_load`` or ``100_percent``.
+    ems : Ems or None
+        Energy management system over the ``ems_controlled`` loads.
+
+    Returns
+    -------
+    LoadCalcResult
+        Breakdown (VA), total (VA and A) and headroom (A).
+
+    Raises
+    ------
+    ElectricalInputError
+        If an option or the edition is unknown, load names repeat, or EMS loads and ``ems``
+        do not match.
+
     References
     ----------
     NEC 2020/2023 220.83(A) and (B); 220.60 noncoincident loads; 220.14(J) (2020) / 220.41 (2023)
@@ -386,7 +509,7 @@ def nec220_83(
             "existing_hvac_in_a", f"unknown option {existing_hvac_in_a!r}; use 'other_load' or '100_percent'"
         )
     base = tables.section("existing_optional", edition)
-    rest, managed, ems_va = _split_ems(loads_t, ems, edition)
+    rest, managed, ems_va = _split_ems(loads_t, ems)
     if case == "auto":
         new_hvac = any(ld.category in HVAC_CATEGORIES and not ld.existing for ld in loads_t)
         case = "B" if new_hvac else "A"
@@ -462,6 +585,30 @@ def nec220_82(
     (fewer than four separately controlled units) or 40 % (four or more); thermal storage 100 %.
     Components of one heating system are added together.
 
+    Parameters
+    ----------
+    dwelling : Dwelling
+        Floor area and general-load circuits.
+    loads : sequence of Load
+        Every fixed load of the home, VA at nameplate.
+    service : Service
+        The new service and main panel.
+    edition : int
+        NEC edition year.
+    ems : Ems or None
+        Energy management system over the ``ems_controlled`` loads.
+
+    Returns
+    -------
+    LoadCalcResult
+        Breakdown (VA), total (VA and A) and headroom (A).
+
+    Raises
+    ------
+    ElectricalInputError
+        If the service is below 100 A, the edition is unknown, load names repeat, or EMS loads
+        and ``ems`` do not match.
+
     References
     ----------
     NEC 2020/2023 220.82(A)-(C); NEC Informative Annex D, Examples D2(a)-(c); 230.79(C).
@@ -476,7 +623,7 @@ def nec220_82(
             f"{service.service_amps:g} A - use nec220_83 for an existing smaller service",
         )
     base = tables.section("new_optional", edition)
-    rest, managed, ems_va = _split_ems(loads_t, ems, edition)
+    rest, managed, ems_va = _split_ems(loads_t, ems)
     other = _general_items(dwelling, edition)
     sec_b = f"{base}(B)"
     for ld in rest:
@@ -526,6 +673,38 @@ def nec220_87(
     Homes with solar or batteries are refused (the measured peak hides the load behind on-site
     generation; the 2020 text excludes them) unless ``allow_with_solar_or_battery`` is True.
 
+    Parameters
+    ----------
+    measured : MeasuredDemand
+        Measured maximum demand of the existing load.
+    new_loads : sequence of Load
+        Loads added since the recording, VA at nameplate.
+    service : Service
+        The service and main panel.
+    edition : int
+        NEC edition year.
+    has_solar_or_battery : bool
+        True if the home has solar or a battery.
+    allow_with_solar_or_battery : bool
+        Use the method anyway (only if the inspector accepts it).
+    continuous_new_load_at_125 : bool
+        Count continuous new loads at 125 %.
+    ems : Ems or None
+        Energy management system over the ``ems_controlled`` new loads.
+
+    Returns
+    -------
+    LoadCalcResult
+        Breakdown (VA), total (VA and A) and headroom (A).
+
+    Raises
+    ------
+    MethodNotApplicableError
+        If the home has solar or a battery and that is not allowed.
+    ElectricalInputError
+        If ``measured`` is not a :class:`MeasuredDemand`, the edition is unknown, load names
+        repeat, or EMS loads and ``ems`` do not match.
+
     References
     ----------
     NEC 2020/2023 220.87 and its exception (30-day recording); 220.60; 625.42.
@@ -542,7 +721,7 @@ def nec220_87(
             "if the inspector (AHJ) accepts it",
         )
     loads_t = _check_loads(new_loads)
-    rest, managed, ems_va = _split_ems(loads_t, ems, edition)
+    rest, managed, ems_va = _split_ems(loads_t, ems)
     f_peak = tables.factor("measured_peak_factor", edition)
     f_cont = tables.factor("continuous_factor", edition) if continuous_new_load_at_125 else 1.0
     basis = "15-minute interval data" if measured.basis == "15min" else "hourly kWh x 4 (bound; AHJ's call)"

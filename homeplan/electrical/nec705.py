@@ -24,12 +24,48 @@ from homeplan.electrical.errors import ElectricalInputError
 from homeplan.electrical.loads import Service
 from homeplan.electrical.nec220 import CAUTION
 
+__all__ = [
+    "RULES",
+    "BackfeedResult",
+    "DeratedMainOption",
+    "backfeed_check",
+    "derated_main_options",
+    "max_inverter_amps",
+]
+
 RULES: tuple[str, ...] = ("100", "120", "sum_of_breakers", "supply_side")
 
 
 @dataclass(frozen=True)
 class BackfeedResult:
     """Result of a 705.12 / 705.11 check (plain data).
+
+    Attributes
+    ----------
+    rule : str
+        Rule applied, one of :data:`RULES`.
+    section : str
+        NEC section of the rule.
+    busbar_amps : float
+        Busbar rating, A.
+    main_breaker_amps : float
+        Main breaker rating, A.
+    inverter_output_amps : float
+        Total inverter output current (or the power control limit), A.
+    counted_amps : float
+        Output counted against the busbar (125 % for load-side rules), A.
+    max_inverter_amps : float
+        Largest inverter output current allowed, A.
+    max_inverter_kw : float
+        The same at the service voltage, kW.
+    headroom_amps : float
+        Allowed minus actual output current, A.
+    fits : bool
+        True if the output is within the limit.
+    explanation : str
+        The rule in plain words.
+    caution : str
+        The planning caution.
 
     References
     ----------
@@ -50,6 +86,13 @@ class BackfeedResult:
     caution: str
 
     def to_dict(self) -> dict[str, Any]:
+        """The fields as a JSON-ready dict (A, kW).
+
+        Returns
+        -------
+        dict of str to Any
+            One entry per field.
+        """
         return asdict(self)
 
 
@@ -77,6 +120,32 @@ def max_inverter_amps(
     ``"100"``: (bus - main) / 1.25. ``"120"``: (1.2 x bus - main) / 1.25. ``"sum_of_breakers"``:
     the largest standard breaker fitting in bus - sum(load breakers), / 1.25.
     ``"supply_side"``: the service conductor ampacity (``service_amps``; default the main).
+
+    Parameters
+    ----------
+    busbar_amps : float
+        Busbar rating, A.
+    main_breaker_amps : float
+        Main breaker rating, A.
+    rule : str
+        One of :data:`RULES`.
+    load_breakers_amps : sequence of float
+        Ratings of every load breaker in the panel, A (``sum_of_breakers`` only).
+    service_amps : float or None
+        Service rating, A; None takes the main breaker rating.
+    edition : int
+        NEC edition year.
+
+    Returns
+    -------
+    float
+        Largest total inverter output current, A.
+
+    Raises
+    ------
+    ElectricalInputError
+        If the edition or rule is unknown, the ratings are inconsistent, or the load breakers
+        are missing for ``sum_of_breakers``.
 
     References
     ----------
@@ -118,6 +187,31 @@ def backfeed_check(
 
     ``pcs_limit_amps``: a listed power control system (705.13) limiting the output current; the
     limit is used in place of the inverters' total.
+
+    Parameters
+    ----------
+    service : Service
+        The service and main panel.
+    inverter_output_amps : float or sequence of float
+        Output current of each inverter, A.
+    rule : str
+        One of :data:`RULES`.
+    load_breakers_amps : sequence of float
+        Ratings of every load breaker in the panel, A (``sum_of_breakers`` only).
+    pcs_limit_amps : float or None
+        Output limit of a listed power control system, A.
+    edition : int
+        NEC edition year.
+
+    Returns
+    -------
+    BackfeedResult
+        The check, currents in A.
+
+    Raises
+    ------
+    ElectricalInputError
+        If the rule or edition is unknown or a current is not finite and >= 0 A.
 
     References
     ----------
@@ -167,6 +261,19 @@ def backfeed_check(
 class DeratedMainOption:
     """A smaller main breaker in the same panel and what it allows.
 
+    Attributes
+    ----------
+    main_breaker_amps : int
+        Derated main breaker rating, A.
+    max_inverter_amps : float
+        Largest inverter output current it allows, A.
+    max_inverter_kw : float
+        The same at the service voltage, kW.
+    backfeed_fits : bool
+        True if the planned inverter output fits.
+    load_fits : bool
+        True if the calculated load still fits under the smaller main.
+
     References
     ----------
     NEC 2023 705.12(B); 230.79(C).
@@ -179,6 +286,13 @@ class DeratedMainOption:
     load_fits: bool
 
     def to_dict(self) -> dict[str, Any]:
+        """The fields as a JSON-ready dict (A, kW).
+
+        Returns
+        -------
+        dict of str to Any
+            One entry per field.
+        """
         return asdict(self)
 
 
@@ -193,6 +307,29 @@ def derated_main_options(
     """Standard main breaker sizes below the present main (not below the 100 A one-family
     minimum), largest first, with the inverter output each allows and whether the calculated load
     still fits under it.
+
+    Parameters
+    ----------
+    service : Service
+        The service and main panel.
+    calculated_load_amps : float
+        Calculated load of the home, A.
+    inverter_output_amps : float or sequence of float
+        Output current of each inverter, A.
+    rule : str
+        ``100`` or ``120``.
+    edition : int
+        NEC edition year.
+
+    Returns
+    -------
+    list of DeratedMainOption
+        One option per standard size, largest first.
+
+    Raises
+    ------
+    ElectricalInputError
+        If the rule is not ``100`` or ``120``, or a current is invalid.
 
     References
     ----------

@@ -30,6 +30,8 @@ from homeplan.electrical.loads import Dwelling, Ems, Load, Service
 from homeplan.electrical.nec220 import CAUTION, LoadCalcResult, _check_loads, nec220_82, nec220_83
 from homeplan.electrical.nec705 import BackfeedResult, backfeed_check, max_inverter_amps
 
+__all__ = ["ProposedLoad", "Remedy", "RemedyCosts", "ServiceUpgrade", "Variant", "find_remedy"]
+
 
 def _check_cost(fieldname: str, value: float | None) -> None:
     if value is None:
@@ -40,7 +42,22 @@ def _check_cost(fieldname: str, value: float | None) -> None:
 
 @dataclass(frozen=True)
 class Variant:
-    """One way to install a proposed load: its loads and the extra cost over the wanted one."""
+    """One way to install a proposed load: its loads and the extra cost over the wanted one.
+
+    Attributes
+    ----------
+    label : str
+        Name of the variant.
+    loads : tuple of Load
+        Its loads, VA at nameplate.
+    extra_cost_usd : float
+        Extra cost over the wanted variant, USD.
+
+    Raises
+    ------
+    ElectricalInputError
+        If the extra cost is not a finite number.
+    """
 
     label: str
     loads: tuple[Load, ...]
@@ -52,7 +69,22 @@ class Variant:
 
 @dataclass(frozen=True)
 class ProposedLoad:
-    """A proposed new load with its variants (first = wanted) and existing loads it replaces."""
+    """A proposed new load with its variants (first = wanted) and existing loads it replaces.
+
+    Attributes
+    ----------
+    name : str
+        Name of the proposed load.
+    variants : tuple of Variant
+        Ways to install it, the wanted one first.
+    replaces : tuple of str
+        Names of the existing loads it replaces.
+
+    Raises
+    ------
+    ElectricalInputError
+        If no variant is given.
+    """
 
     name: str
     variants: tuple[Variant, ...]
@@ -65,7 +97,22 @@ class ProposedLoad:
 
 @dataclass(frozen=True)
 class ServiceUpgrade:
-    """A larger service (new panel): rating, busbar (default = rating) and cost."""
+    """A larger service (new panel): rating, busbar (default = rating) and cost.
+
+    Attributes
+    ----------
+    service_amps : float
+        New service rating, A.
+    cost_usd : float
+        Cost of the upgrade, USD.
+    busbar_amps : float or None
+        New busbar rating, A; None takes the service rating.
+
+    Raises
+    ------
+    ElectricalInputError
+        If the cost is not a finite number.
+    """
 
     service_amps: float
     cost_usd: float
@@ -77,7 +124,26 @@ class ServiceUpgrade:
 
 @dataclass(frozen=True)
 class RemedyCosts:
-    """Costs of the remedies on offer (None = not offered)."""
+    """Costs of the remedies on offer (None = not offered).
+
+    Attributes
+    ----------
+    ems_usd : float or None
+        Cost of an energy management system, USD.
+    derate_main_usd : float or None
+        Cost of derating the main breaker, USD.
+    supply_side_usd : float or None
+        Cost of a supply-side solar/battery connection, USD.
+    service_upgrades : tuple of ServiceUpgrade
+        Larger services on offer.
+    ems_min_setpoint_amps : float or None
+        Lowest useful EMS setpoint, A; None takes the practice value in ``practice.csv``.
+
+    Raises
+    ------
+    ElectricalInputError
+        If a cost is not a finite number >= 0.
+    """
 
     ems_usd: float | None = None
     derate_main_usd: float | None = None
@@ -95,7 +161,41 @@ class RemedyCosts:
 
 @dataclass(frozen=True)
 class Remedy:
-    """The chosen remedy (plain data; :meth:`to_dict` for JSON)."""
+    """The chosen remedy (plain data; :meth:`to_dict` for JSON).
+
+    Attributes
+    ----------
+    fits : bool
+        True if some combination fits.
+    needed : bool
+        True if a change to the plan is needed.
+    cost_usd : float or None
+        Extra cost of the chosen combination, USD; None when nothing fits.
+    choices : tuple of (str, str)
+        (proposed load, variant label) pairs chosen.
+    ems : Ems or None
+        Energy management system added, setpoint in VA.
+    service : Service
+        The service checked (the upgraded one when upgraded).
+    service_upgrade : ServiceUpgrade or None
+        Service upgrade chosen.
+    derated_main_amps : float or None
+        Derated main breaker rating, A.
+    supply_side : bool
+        True if solar/battery is connected on the supply side.
+    calc : LoadCalcResult
+        Load calculation of the chosen combination (the plan as proposed when nothing fits).
+    backfeed : BackfeedResult or None
+        705.12 check of the chosen combination.
+    changes : tuple of str
+        The changes in plain words.
+    reasons : tuple of str
+        The reasoning in plain words.
+    candidates_checked : int
+        Number of combinations checked.
+    caution : str
+        The planning caution.
+    """
 
     fits: bool
     needed: bool
@@ -114,6 +214,13 @@ class Remedy:
     caution: str = CAUTION
 
     def to_dict(self) -> dict[str, Any]:
+        """The remedy as a JSON-ready dict (USD, A, VA).
+
+        Returns
+        -------
+        dict of str to Any
+            One entry per field; nested results as dicts.
+        """
         return {
             "fits": self.fits,
             "needed": self.needed,
@@ -213,6 +320,42 @@ def find_remedy(
     existing loads it replaces. ``inverter_output_amps`` is the total solar + battery inverter
     output current for the 705.12 check (0 = none). ``margin_amps``: headroom required on top of
     the calculation (0 = the code limit; a planning margin is common practice, no source).
+
+    Parameters
+    ----------
+    dwelling : Dwelling
+        Floor area and general-load circuits.
+    existing_loads : sequence of Load
+        The home's fixed loads today, VA at nameplate.
+    service : Service
+        The existing service and main panel.
+    proposed : sequence of ProposedLoad
+        The new loads, each with its variants.
+    costs : RemedyCosts
+        Remedies on offer and their costs, USD.
+    inverter_output_amps : float
+        Total solar + battery inverter output current, A (0 = none).
+    edition : int
+        NEC edition year.
+    backfeed_rule : str
+        705.12 rule: ``100`` or ``120``.
+    existing_hvac_in_a : str
+        ``other_load`` or ``100_percent`` (see :func:`~homeplan.electrical.nec220.nec220_83`).
+    margin_amps : float
+        Headroom required on top of the calculation, A.
+    max_combinations : int
+        Largest number of combinations to check.
+
+    Returns
+    -------
+    Remedy
+        The cheapest combination that fits, or ``fits=False`` with the plan as proposed.
+
+    Raises
+    ------
+    ElectricalInputError
+        If an input is invalid, a proposed load repeats or replaces an unknown load, or there
+        are more than ``max_combinations`` combinations.
 
     References
     ----------

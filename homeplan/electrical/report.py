@@ -23,6 +23,8 @@ from homeplan.electrical.nec220 import (
 )
 from homeplan.electrical.nec705 import backfeed_check
 
+__all__ = ["PlanState", "capacity_report", "format_breakdown_text"]
+
 
 @dataclass(frozen=True)
 class PlanState:
@@ -30,6 +32,19 @@ class PlanState:
 
     Loads with ``existing=False`` are the ones added since today (they decide 220.83 (A)/(B) and are
     the new load under 220.87). ``inverter_output_amps``: total solar + battery inverter output.
+
+    Attributes
+    ----------
+    label : str
+        Name of the state, e.g. ``today`` or ``2028``.
+    loads : tuple of Load
+        Every fixed load of the state, VA at nameplate.
+    inverter_output_amps : float
+        Total solar + battery inverter output current, A.
+    has_solar_or_battery : bool
+        True if the home has solar or a battery (220.87 is then refused).
+    ems : Ems or None
+        Energy management system over the ``ems_controlled`` loads.
     """
 
     label: str
@@ -52,6 +67,36 @@ def capacity_report(
 ) -> list[dict[str, Any]]:
     """For each state: the 220.83 calculation, optionally 220.87 from a measured peak (or the
     reason it is refused), and the 705.12 check when there is inverter output. JSON-ready dicts.
+
+    Parameters
+    ----------
+    dwelling : Dwelling
+        Floor area and general-load circuits.
+    service : Service
+        The service and main panel.
+    states : sequence of PlanState
+        The plan states, today first.
+    edition : int
+        NEC edition year.
+    measured : MeasuredDemand or None
+        Measured peak demand for 220.87; None skips it.
+    existing_hvac_in_a : str
+        ``other_load`` or ``100_percent`` (see :func:`~homeplan.electrical.nec220.nec220_83`).
+    continuous_new_load_at_125 : bool
+        Count continuous new loads at 125 % under 220.87.
+    backfeed_rule : str
+        705.12 rule: ``100``, ``120``, ``sum_of_breakers`` or ``supply_side``.
+
+    Returns
+    -------
+    list of dict
+        One dict per state: ``state``, ``calc``, ``measured``, ``backfeed`` (VA and A) and
+        ``caution``.
+
+    Raises
+    ------
+    ElectricalInputError
+        If no state is given or an input is invalid.
 
     References
     ----------
@@ -87,7 +132,18 @@ def _fmt_num(x: float | None, fmt: str) -> str:
 
 
 def format_breakdown_text(result: LoadCalcResult) -> str:
-    """Render a load calculation as a plain-text table with totals and the caution."""
+    """Render a load calculation as a plain-text table with totals and the caution.
+
+    Parameters
+    ----------
+    result : LoadCalcResult
+        The calculation.
+
+    Returns
+    -------
+    str
+        The table (VA, demand factors, total VA and A, headroom A), ending in a newline.
+    """
     head = ("Load", "VA", "Factor", "Counted VA", "Section")
     body = [
         (r.load_name + (f"  [{r.note}]" if r.note else ""), _fmt_num(r.va, ",.0f"), _fmt_num(r.factor, ".2f"),

@@ -18,6 +18,16 @@ from typing import Any
 
 from homeplan.electrical.errors import ElectricalInputError
 
+__all__ = [
+    "EDITIONS",
+    "check_edition",
+    "factor",
+    "nameplates",
+    "practice",
+    "section",
+    "standard_ocpd_amps",
+]
+
 EDITIONS: tuple[int, ...] = (2020, 2023, 2026)
 
 
@@ -27,7 +37,23 @@ def _rows(filename: str) -> tuple[dict[str, str], ...]:
 
 
 def check_edition(edition: int) -> int:
-    """Return ``edition`` or raise :class:`ElectricalInputError` if it is not supported."""
+    """Return ``edition`` or raise :class:`ElectricalInputError` if it is not supported.
+
+    Parameters
+    ----------
+    edition : int
+        NEC edition year, one of :data:`EDITIONS`.
+
+    Returns
+    -------
+    int
+        The same edition year.
+
+    Raises
+    ------
+    ElectricalInputError
+        If the edition is not supported.
+    """
     if edition not in EDITIONS:
         raise ElectricalInputError(
             "edition", f"NEC edition {edition!r} is not supported; use one of {list(EDITIONS)}"
@@ -44,7 +70,27 @@ def _by_edition(filename: str, key_col: str, value_col: str) -> MappingProxyType
 
 
 def factor(key: str, edition: int) -> float:
-    """A numeric code factor for ``edition`` from ``code_factors.csv``."""
+    """A numeric code factor for ``edition`` from ``code_factors.csv``.
+
+    Parameters
+    ----------
+    key : str
+        Row key in ``code_factors.csv``, e.g. ``continuous_factor``.
+    edition : int
+        NEC edition year.
+
+    Returns
+    -------
+    float
+        The factor, in the unit of its row (VA, VA/ft2, A, or a dimensionless multiplier).
+
+    Raises
+    ------
+    ElectricalInputError
+        If the edition is not supported.
+    KeyError
+        If the table has no such factor for the edition.
+    """
     check_edition(edition)
     table = _by_edition("code_factors.csv", "key", "value")
     for ed in (str(edition), "all"):
@@ -54,7 +100,27 @@ def factor(key: str, edition: int) -> float:
 
 
 def section(rule: str, edition: int) -> str:
-    """The NEC section label for ``rule`` in ``edition`` from ``code_sections.csv``."""
+    """The NEC section label for ``rule`` in ``edition`` from ``code_sections.csv``.
+
+    Parameters
+    ----------
+    rule : str
+        Rule key in ``code_sections.csv``, e.g. ``existing_optional``.
+    edition : int
+        NEC edition year.
+
+    Returns
+    -------
+    str
+        Label such as ``NEC 2023 220.83``.
+
+    Raises
+    ------
+    ElectricalInputError
+        If the edition is not supported.
+    KeyError
+        If the table has no such rule for the edition.
+    """
     check_edition(edition)
     table = _by_edition("code_sections.csv", "rule", "section")
     for ed in (str(edition), "all"):
@@ -65,20 +131,48 @@ def section(rule: str, edition: int) -> str:
 
 @cache
 def standard_ocpd_amps() -> tuple[int, ...]:
-    """Standard breaker and fuse ratings, ascending (NEC 240.6(A))."""
+    """Standard breaker and fuse ratings, ascending (NEC 240.6(A)).
+
+    Returns
+    -------
+    tuple of int
+        Ratings, A.
+    """
     return tuple(sorted(int(row["amps"]) for row in _rows("standard_ocpd.csv")))
 
 
 @cache
 def nameplates() -> MappingProxyType[str, MappingProxyType[str, str]]:
-    """Nameplate defaults by key from ``nameplates.csv``."""
+    """Nameplate defaults by key from ``nameplates.csv``.
+
+    Returns
+    -------
+    mapping of str to mapping of str to str
+        Rows by key, values as text (``va`` in VA, ``volts`` in V).
+    """
     return MappingProxyType(
         {row["key"]: MappingProxyType(row) for row in _rows("nameplates.csv")}
     )
 
 
 def practice(key: str) -> float:
-    """A trade-practice number from ``practice.csv`` (marked 'common practice, no source')."""
+    """A trade-practice number from ``practice.csv`` (marked 'common practice, no source').
+
+    Parameters
+    ----------
+    key : str
+        Row key in ``practice.csv``, e.g. ``ems_min_setpoint_amps``.
+
+    Returns
+    -------
+    float
+        The value, in the unit of its row.
+
+    Raises
+    ------
+    KeyError
+        If the table has no such row.
+    """
     for row in _rows("practice.csv"):
         if row["key"] == key:
             return float(row["value"])

@@ -14,6 +14,8 @@ from homeplan.electrical.errors import ElectricalInputError
 from homeplan.electrical.evse import ev_charger_load
 from homeplan.electrical.loads import Load, heat_pump_loads
 
+__all__ = ["loads_for_upgrade"]
+
 _CATEGORY = {
     "water": "water_heater",
     "cooking": "range",
@@ -41,6 +43,39 @@ def loads_for_upgrade(
     ``upgrade_category``: ``heating`` (heat pump: compressor ``va`` or ``va_per_ton`` x ``tons``,
     plus ``strips_kw`` supplemental heat), ``water``, ``cooking``, ``drying``, ``appliance``,
     ``motor`` (need ``va``), ``vehicles`` (EV charger, needs ``amps``).
+
+    Parameters
+    ----------
+    upgrade_category : str
+        Category of the upgrade, as listed above.
+    name : str
+        Name of the upgrade, used as the load label.
+    va : float or None
+        Nameplate of the appliance or heat pump compressor, VA.
+    va_per_ton : float or None
+        Heat pump compressor nameplate per ton of capacity, VA/ton.
+    tons : float or None
+        Heat pump capacity, tons.
+    strips_kw : float or None
+        Supplemental heat strips, kW.
+    strips_interlocked : bool
+        True if the strips are locked out while the compressor runs.
+    amps : float or None
+        EV charger current, A.
+    volts : int
+        Load voltage, V (120, 208 or 240).
+    existing : bool
+        True if the load is already installed.
+
+    Returns
+    -------
+    tuple of Load
+        The variant's loads, VA at nameplate.
+
+    Raises
+    ------
+    ElectricalInputError
+        If a needed rating is missing, ``tons`` is not positive or the category is unknown.
 
     References
     ----------

@@ -5,3 +5,5 @@ Entry point: :func:`homeplan.energy.simulate.simulate` with a
 :class:`homeplan.energy.simulate.SiteCache`. Modules import numpy only; pandas, scipy and pvlib
 are imported inside the functions that need them.
 """
+
+__all__: list[str] = []

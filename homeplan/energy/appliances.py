@@ -10,6 +10,18 @@ from homeplan.energy import timegrid
 from homeplan.energy._data import efficiency, hourly_profile
 from homeplan.energy.units import btu_per_kwh, btu_per_unit
 
+__all__ = [
+    "COOKING_KINDS",
+    "DRYER_KINDS",
+    "CookingSpec",
+    "DryerSpec",
+    "cooking_annual_input",
+    "dryer_annual_input",
+    "spread_daily",
+    "transfer_efficiency",
+    "useful_cooking_kwh_from_gas",
+]
+
 COOKING_KINDS = ("natural_gas", "propane", "resistance", "induction")
 DRYER_KINDS = ("electric", "natural_gas", "propane", "heat_pump")
 
@@ -17,6 +29,18 @@ DRYER_KINDS = ("electric", "natural_gas", "propane", "heat_pump")
 @dataclass(frozen=True)
 class CookingSpec:
     """A range/cooktop of ``kind`` delivering ``useful_kwh_per_yr`` of heat into the food.
+
+    Attributes
+    ----------
+    kind : str
+        One of :data:`COOKING_KINDS`.
+    useful_kwh_per_yr : float or None
+        Useful heat into the food, kWh per year; None uses a typical gas range's use.
+
+    Raises
+    ------
+    ValueError
+        If ``kind`` is not one of :data:`COOKING_KINDS`.
 
     References
     ----------
@@ -40,13 +64,39 @@ class CookingSpec:
 
 
 def transfer_efficiency(kind: str) -> float:
-    """Cooking transfer efficiency of ``kind`` (ENERGY STAR ETA 2021 via data/efficiencies.csv)."""
+    """Cooking transfer efficiency of ``kind`` (ENERGY STAR ETA 2021 via data/efficiencies.csv).
+
+    Parameters
+    ----------
+    kind : str
+        One of :data:`COOKING_KINDS`.
+
+    Returns
+    -------
+    float
+        Share of the input energy that reaches the food, fraction.
+
+    Raises
+    ------
+    KeyError
+        If ``kind`` has no transfer efficiency in the data table.
+    """
     key = {"natural_gas": "gas", "propane": "gas"}.get(kind, kind)
     return efficiency(f"cooking_transfer_{key}")
 
 
 def useful_cooking_kwh_from_gas(therm_per_yr: float) -> float:
     """Useful heat of a gas range's annual use: therms * 29.307 kWh/therm * 0.32.
+
+    Parameters
+    ----------
+    therm_per_yr : float
+        Gas used by the range, therm per year.
+
+    Returns
+    -------
+    float
+        Useful cooking heat, kWh per year.
 
     References
     ----------
@@ -57,6 +107,18 @@ def useful_cooking_kwh_from_gas(therm_per_yr: float) -> float:
 
 def cooking_annual_input(spec: CookingSpec) -> tuple[str, float]:
     """(fuel, annual input in trade units) = useful / transfer efficiency.
+
+    Parameters
+    ----------
+    spec : CookingSpec
+        The range or cooktop.
+
+    Returns
+    -------
+    fuel : str
+        ``natural_gas``, ``propane`` or ``electricity``.
+    units : float
+        Annual input, trade units per year (therm, gal or kWh).
 
     References
     ----------
@@ -72,6 +134,18 @@ def cooking_annual_input(spec: CookingSpec) -> tuple[str, float]:
 @dataclass(frozen=True)
 class DryerSpec:
     """Clothes dryer of ``kind``; energy = loads * lb/load / CEF (lb/kWh).
+
+    Attributes
+    ----------
+    kind : str
+        One of :data:`DRYER_KINDS`.
+    loads_per_yr : float or None
+        Loads dried per year; None uses the default in ``data/efficiencies.csv``.
+
+    Raises
+    ------
+    ValueError
+        If ``kind`` is not one of :data:`DRYER_KINDS`.
 
     References
     ----------
@@ -89,6 +163,17 @@ class DryerSpec:
 
 def dryer_annual_input(spec: DryerSpec) -> dict[str, float]:
     """Annual dryer energy by fuel: {'electricity': kWh, fuel: units}.
+
+    Parameters
+    ----------
+    spec : DryerSpec
+        The dryer.
+
+    Returns
+    -------
+    dict of str to float
+        Annual input by fuel, trade units per year: electricity in kWh and, for a gas dryer,
+        the gas in therm (natural gas) or gal (propane).
 
     References
     ----------
@@ -108,6 +193,24 @@ def dryer_annual_input(spec: DryerSpec) -> dict[str, float]:
 
 
 def spread_daily(annual_units: float, profile_name: str) -> np.ndarray:
-    """Spread an annual amount evenly over days and by a 24-hour profile into 8760 hours."""
+    """Spread an annual amount evenly over days and by a 24-hour profile into 8760 hours.
+
+    Parameters
+    ----------
+    annual_units : float
+        Annual amount, any unit per year (e.g. kWh or therm).
+    profile_name : str
+        Column of ``data/hourly_profiles.csv``, e.g. ``cooking``, ``dryer`` or ``plug``.
+
+    Returns
+    -------
+    numpy.ndarray
+        Amount in each hour, same unit (8760 values).
+
+    Raises
+    ------
+    KeyError
+        If ``profile_name`` is not a column of the profile table.
+    """
     profile = np.asarray(hourly_profile(profile_name))
     return np.tile(profile * (annual_units / timegrid.DAYS_PER_YEAR), timegrid.DAYS_PER_YEAR)

@@ -12,6 +12,8 @@ from dataclasses import dataclass
 
 import numpy as np
 
+__all__ = ["BatteryResult", "BatterySpec", "clamped_cumsum", "dispatch"]
+
 
 @dataclass(frozen=True)
 class BatterySpec:
@@ -21,6 +23,30 @@ class BatterySpec:
     ``reserve_frac`` is kept for backup. ``mode`` is ``self_consumption`` (store surplus solar,
     cover load) or ``tou`` (also charge from the grid in ``charge_hours`` and discharge only in
     ``discharge_hours``).
+
+    Attributes
+    ----------
+    capacity_kwh : float
+        Usable energy capacity, kWh.
+    power_kw : float
+        Charge and discharge power limit (AC), kW.
+    round_trip_eff : float
+        AC-to-AC round-trip efficiency, fraction in (0, 1].
+    reserve_frac : float
+        Share of the capacity kept for backup, fraction.
+    mode : str
+        Dispatch strategy: ``self_consumption`` or ``tou``.
+    charge_hours : tuple of int
+        Hours of day (0-23) of grid charging in ``tou`` mode.
+    discharge_hours : tuple of int
+        Hours of day (0-23) of discharging in ``tou`` mode.
+    initial_frac : float
+        State of charge at the start of the year, fraction of the capacity.
+
+    Raises
+    ------
+    ValueError
+        If ``mode`` is unknown or ``round_trip_eff`` is outside (0, 1].
 
     References
     ----------
@@ -46,7 +72,17 @@ class BatterySpec:
 
 @dataclass(frozen=True, eq=False)
 class BatteryResult:
-    """Hourly battery AC charge (from home/grid), AC discharge and end-of-hour SOC (kWh)."""
+    """Hourly battery AC charge (from home/grid), AC discharge and end-of-hour SOC (kWh).
+
+    Attributes
+    ----------
+    charge_kwh : numpy.ndarray
+        AC energy taken to charge in each hour, kWh (8760 values).
+    discharge_kwh : numpy.ndarray
+        AC energy delivered in each hour, kWh (8760 values).
+    soc_kwh : numpy.ndarray
+        State of charge at the end of each hour, kWh (8760 values).
+    """
 
     charge_kwh: np.ndarray
     discharge_kwh: np.ndarray
@@ -55,6 +91,22 @@ class BatteryResult:
 
 def clamped_cumsum(x: np.ndarray, lo: float, hi: float, s0: float) -> np.ndarray:
     """s_t = min(max(s_{t-1} + x_t, lo), hi) for all t, by a parallel prefix scan of clamp maps.
+
+    Parameters
+    ----------
+    x : numpy.ndarray
+        Increment of each step, any unit (e.g. kWh per hour; the same unit as the bounds).
+    lo : float
+        Lower bound of the state, e.g. the battery reserve in kWh.
+    hi : float
+        Upper bound of the state, e.g. the capacity in kWh.
+    s0 : float
+        State before the first step.
+
+    Returns
+    -------
+    numpy.ndarray
+        State after each step, same unit and length as ``x``.
 
     References
     ----------
@@ -83,6 +135,20 @@ def dispatch(spec: BatterySpec, net_load_kw: np.ndarray, hour_of_day: np.ndarray
 
     Charging stores ``eta`` of the AC energy taken and discharging delivers ``eta`` of the energy
     drawn, eta = sqrt(round-trip efficiency); power and energy limits and the reserve hold.
+
+    Parameters
+    ----------
+    spec : BatterySpec
+        The battery.
+    net_load_kw : numpy.ndarray
+        Load minus solar of each hour, kW = kWh per hour (8760 values; negative = surplus).
+    hour_of_day : numpy.ndarray
+        Hour of day (0-23) of each hour (8760 values).
+
+    Returns
+    -------
+    BatteryResult
+        Hourly AC charge, AC discharge and state of charge, kWh.
 
     References
     ----------

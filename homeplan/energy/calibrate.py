@@ -13,10 +13,39 @@ import numpy as np
 from homeplan.energy._data import efficiency
 from homeplan.energy.units import btu_to_kwh
 
+__all__ = [
+    "Calibration",
+    "calibrate_annual",
+    "calibrate_from_floor_area",
+    "calibrate_regression",
+    "calibrate_summer_baseload",
+    "design_heating_load_btuh",
+    "split_summer_baseload",
+    "ua_from_heating_fuel",
+]
+
 
 @dataclass(frozen=True)
 class Calibration:
-    """Result of a bill calibration. ``estimated`` is True for the floor-area fallback."""
+    """Result of a bill calibration. ``estimated`` is True for the floor-area fallback.
+
+    Attributes
+    ----------
+    ua_btuh_f : float
+        Heat-loss coefficient UA, Btu/h-F.
+    design_load_btuh : float
+        Design heating load, Btu/h.
+    baseload_per_day : float
+        Non-heating use of the heating fuel, trade units per day (0 for the fallback).
+    heating_fuel_per_yr : float
+        Fuel used for space heating over the bills, trade units per year (NaN for the fallback).
+    method : str
+        Method used, e.g. ``summer baseload``.
+    estimated : bool
+        True for the floor-area fallback (no bills).
+    r2 : float or None
+        Coefficient of determination of the regression, dimensionless (None for other methods).
+    """
 
     ua_btuh_f: float
     design_load_btuh: float
@@ -36,6 +65,29 @@ def ua_from_heating_fuel(heating_fuel_units: float, btu_per_unit: float, efficie
                          hdd65: float, distribution_eff: float = 1.0) -> float:
     """UA in Btu/h-F from a year's heating fuel: UA = F_h * Btu/unit * eff / (24 * HDD65).
 
+    Parameters
+    ----------
+    heating_fuel_units : float
+        Fuel used for space heating in the year, trade units (therm, gal or kWh).
+    btu_per_unit : float
+        Heat content of the fuel, Btu per trade unit.
+    efficiency_frac : float
+        Seasonal efficiency of the heating equipment (AFUE, or COP for electric), fraction.
+    hdd65 : float
+        Heating degree-days base 65 F of the same year, F-days.
+    distribution_eff : float
+        Distribution (duct or pipe) efficiency, fraction.
+
+    Returns
+    -------
+    float
+        UA, Btu/h-F.
+
+    Raises
+    ------
+    ValueError
+        If ``hdd65`` is not positive.
+
     References
     ----------
     ASHRAE Handbook - Fundamentals, ch. 19 "Energy Estimating and Modeling Methods"
@@ -50,6 +102,20 @@ def ua_from_heating_fuel(heating_fuel_units: float, btu_per_unit: float, efficie
 def design_heating_load_btuh(ua_btuh_f: float, design_temp_f: float, indoor_f: float = 65.0) -> float:
     """Design heating load = UA * (T_base - T_99).
 
+    Parameters
+    ----------
+    ua_btuh_f : float
+        Heat-loss coefficient UA, Btu/h-F.
+    design_temp_f : float
+        99 % heating design dry-bulb temperature, F.
+    indoor_f : float
+        Base (balance) temperature, F.
+
+    Returns
+    -------
+    float
+        Design heating load, Btu/h (0 when ``design_temp_f`` is not below ``indoor_f``).
+
     References
     ----------
     ACCA Manual J (99 % heating design dry-bulb); reference/energy.md (65 F base; 70 F adds ~8 %).
@@ -60,6 +126,22 @@ def design_heating_load_btuh(ua_btuh_f: float, design_temp_f: float, indoor_f: f
 def split_summer_baseload(use_units: np.ndarray, days: np.ndarray, n_base_months: int = 3
                           ) -> tuple[float, np.ndarray]:
     """Baseload per day (mean use/day of the ``n_base_months`` lowest months) and monthly heating.
+
+    Parameters
+    ----------
+    use_units : numpy.ndarray
+        Fuel use of each bill, trade units (e.g. 12 monthly values).
+    days : numpy.ndarray
+        Days covered by each bill, days.
+    n_base_months : int
+        Number of lowest-use bills averaged for the baseload.
+
+    Returns
+    -------
+    base : float
+        Baseload, trade units per day.
+    heating : numpy.ndarray
+        Heating use of each bill, trade units (never negative).
 
     References
     ----------
@@ -80,6 +162,35 @@ def calibrate_summer_baseload(use_units: np.ndarray, days: np.ndarray, hdd65: fl
                               distribution_eff: float = 1.0) -> Calibration:
     """UA and design load by the summer-baseload split of 12 monthly bills.
 
+    Parameters
+    ----------
+    use_units : numpy.ndarray
+        Fuel use of each monthly bill, trade units (12 values).
+    days : numpy.ndarray
+        Days covered by each bill, days (12 values).
+    hdd65 : float
+        Heating degree-days base 65 F of the billed year, F-days.
+    design_temp_f : float
+        99 % heating design dry-bulb temperature, F.
+    efficiency_frac : float
+        Seasonal efficiency of the heating equipment, fraction.
+    btu_per_unit : float
+        Heat content of the fuel, Btu per trade unit (default: one therm).
+    n_base_months : int
+        Number of lowest-use bills averaged for the baseload.
+    distribution_eff : float
+        Distribution efficiency, fraction.
+
+    Returns
+    -------
+    Calibration
+        UA, design load, baseload and heating fuel (method ``summer baseload``).
+
+    Raises
+    ------
+    ValueError
+        If ``hdd65`` is not positive.
+
     References
     ----------
     ASHRAE Handbook - Fundamentals, ch. 19 (degree-day method); reference/energy.md.
@@ -95,6 +206,33 @@ def calibrate_annual(annual_units: float, baseload_units_per_yr: float, hdd65: f
                      design_temp_f: float, efficiency_frac: float,
                      btu_per_unit: float = 100_000.0, distribution_eff: float = 1.0) -> Calibration:
     """Annual form of the baseload split: F_h = annual - baseload (reference/energy.md check value).
+
+    Parameters
+    ----------
+    annual_units : float
+        Annual use of the heating fuel, trade units per year.
+    baseload_units_per_yr : float
+        Non-heating use of the same fuel, trade units per year.
+    hdd65 : float
+        Heating degree-days base 65 F of the year, F-days.
+    design_temp_f : float
+        99 % heating design dry-bulb temperature, F.
+    efficiency_frac : float
+        Seasonal efficiency of the heating equipment, fraction.
+    btu_per_unit : float
+        Heat content of the fuel, Btu per trade unit (default: one therm).
+    distribution_eff : float
+        Distribution efficiency, fraction.
+
+    Returns
+    -------
+    Calibration
+        UA, design load, baseload and heating fuel (method ``annual baseload``).
+
+    Raises
+    ------
+    ValueError
+        If ``hdd65`` is not positive.
 
     References
     ----------
@@ -113,6 +251,35 @@ def calibrate_regression(use_units: np.ndarray, days: np.ndarray, hdd65_by_bill:
     """Degree-day regression: use/day = b0 + b1 * HDD/day over bills with >= ``min_hdd_per_day``.
 
     UA = b1 * Btu/unit * efficiency / 24. The baseload per day is b0.
+
+    Parameters
+    ----------
+    use_units : numpy.ndarray
+        Fuel use of each bill, trade units.
+    days : numpy.ndarray
+        Days covered by each bill, days.
+    hdd65_by_bill : numpy.ndarray
+        Heating degree-days base 65 F in each bill period, F-days.
+    design_temp_f : float
+        99 % heating design dry-bulb temperature, F.
+    efficiency_frac : float
+        Seasonal efficiency of the heating equipment, fraction.
+    btu_per_unit : float
+        Heat content of the fuel, Btu per trade unit (default: one therm).
+    min_hdd_per_day : float
+        Bills with fewer heating degree-days per day are left out, F-days per day.
+    distribution_eff : float
+        Distribution efficiency, fraction.
+
+    Returns
+    -------
+    Calibration
+        UA, design load, baseload, heating fuel and ``r2`` (method ``degree-day regression``).
+
+    Raises
+    ------
+    ValueError
+        If fewer than 3 bills have at least ``min_hdd_per_day``.
 
     References
     ----------
@@ -143,6 +310,25 @@ def calibrate_from_floor_area(floor_area_ft2: float, design_temp_f: float,
     """Fallback without bills: UA from floor area and a vintage default. Flagged as estimated.
 
     ``vintage`` is one of ``pre1980``, ``1980_2000``, ``post2000``.
+
+    Parameters
+    ----------
+    floor_area_ft2 : float
+        Conditioned floor area, ft2.
+    design_temp_f : float
+        99 % heating design dry-bulb temperature, F.
+    vintage : str
+        Construction period of the house.
+
+    Returns
+    -------
+    Calibration
+        UA and design load with ``estimated=True``; no baseload or heating fuel.
+
+    Raises
+    ------
+    KeyError
+        If ``vintage`` has no default in ``data/efficiencies.csv``.
 
     References
     ----------

@@ -1,6 +1,8 @@
 """Space heating and cooling: furnaces/boilers (AFUE), resistance, heat pumps, central AC (SEER2).
 
 Hourly loads come from the degree-hour model: load_btuh = UA * max(T_balance - T_out, 0).
+Heat pumps are described by their ratings at 47, 17 and 5 F; the typical ratings of each class
+are in ``data/heat_pumps.csv``.
 """
 
 from __future__ import annotations
@@ -13,14 +15,43 @@ import numpy as np
 from homeplan.energy._data import heat_pump_class, heat_pump_classes
 from homeplan.energy.units import btu_per_kwh, btu_per_unit
 
+__all__ = [
+    "COMBUSTION_FUELS",
+    "CoolingSpec",
+    "FurnaceSpec",
+    "HeatPumpSpec",
+    "HeatingHourly",
+    "HeatingSpec",
+    "ResistanceHeatSpec",
+    "balance_point_f",
+    "cooling_kwh",
+    "cooling_load_btuh",
+    "heat_pump_hourly",
+    "heating_hourly",
+    "heating_load_btuh",
+    "hp_capacity_btuh",
+    "hp_cop",
+    "size_heat_pump",
+]
+
 #: Fuels a combustion heater or dual-fuel backup can burn.
 COMBUSTION_FUELS = ("natural_gas", "propane", "heating_oil")
 
 
 @dataclass(frozen=True)
 class FurnaceSpec:
-    """Furnace or boiler burning ``fuel`` at ``afue``; ``aux_kwh_per_therm_out`` covers the blower
-    or circulator (electricity per therm of delivered heat; 0 to ignore).
+    """Furnace or boiler burning ``fuel`` at ``afue``.
+
+    Attributes
+    ----------
+    fuel : str
+        ``natural_gas``, ``propane`` or ``heating_oil``.
+    afue : float
+        Annual fuel utilisation efficiency, fraction (0.3-1.0).
+    aux_kwh_per_therm_out : float
+        Blower or circulator electricity per therm of delivered heat, kWh/therm (0 to ignore).
+    kind : str
+        ``furnace`` or ``boiler`` (labels only).
 
     References
     ----------
@@ -41,18 +72,39 @@ class FurnaceSpec:
 
 @dataclass(frozen=True)
 class ResistanceHeatSpec:
-    """Electric resistance heat (baseboard, electric furnace); efficiency 1.0 at the point of use."""
+    """Electric resistance heat (baseboard, electric furnace).
+
+    Attributes
+    ----------
+    efficiency : float
+        Delivered heat per unit of electricity, fraction (1.0 at the point of use).
+    """
 
     efficiency: float = 1.0
 
 
 @dataclass(frozen=True)
 class HeatPumpSpec:
-    """Air-source heat pump rated at 47/17/5 F (Btu/h and COP), with backup and cut-out.
+    """Air-source heat pump rated at 47/17/5 F, with backup and cut-out.
 
-    ``backup`` is ``"resistance"``, ``"none"`` or a combustion fuel (dual fuel, burned at
-    ``backup_afue``). Below ``switchover_f`` (dual fuel) the heat pump stops and the backup carries
-    the whole load. ``cycling_cd`` is the part-load degradation coefficient (0 for inverter units).
+    Attributes
+    ----------
+    capacity_47_btuh, capacity_17_btuh, capacity_5_btuh : float
+        Heating capacity at 47, 17 and 5 F outdoor, Btu/h.
+    cop_47, cop_17, cop_5 : float
+        Coefficient of performance at the same points, dimensionless.
+    cutout_f : float
+        Outdoor temperature below which the compressor stops, F.
+    backup : str
+        ``resistance``, ``none`` or a combustion fuel (dual fuel, burned at ``backup_afue``).
+    backup_afue : float
+        Efficiency of a combustion backup, fraction.
+    switchover_f : float or None
+        Dual fuel: below this outdoor temperature the backup carries the whole load, F.
+    cycling_cd : float
+        Part-load degradation coefficient, dimensionless (0 for inverter units).
+    seer2 : float
+        Cooling seasonal efficiency, Btu/Wh.
 
     References
     ----------
@@ -129,7 +181,12 @@ HeatingSpec = FurnaceSpec | ResistanceHeatSpec | HeatPumpSpec
 
 @dataclass(frozen=True)
 class CoolingSpec:
-    """Central air conditioner (or the cooling side of a heat pump) rated by SEER2 (Btu/Wh).
+    """Central air conditioner (or the cooling side of a heat pump) rated by SEER2.
+
+    Attributes
+    ----------
+    seer2 : float
+        Seasonal energy efficiency ratio 2, Btu/Wh.
 
     References
     ----------
@@ -142,6 +199,20 @@ class CoolingSpec:
 def heating_load_btuh(ua_btuh_f: float, temp_f: np.ndarray, balance_f: float = 65.0) -> np.ndarray:
     """Hourly heating load = UA * max(T_balance - T_out, 0).
 
+    Parameters
+    ----------
+    ua_btuh_f : float
+        Heat-loss coefficient of the house, Btu/h-F.
+    temp_f : numpy.ndarray
+        Outdoor dry-bulb temperature, F (one value per hour).
+    balance_f : float
+        Balance-point temperature, F.
+
+    Returns
+    -------
+    numpy.ndarray
+        Heating load, Btu/h (one value per hour).
+
     References
     ----------
     ASHRAE Handbook - Fundamentals, ch. 19 (variable-base degree-hour method).
@@ -151,6 +222,20 @@ def heating_load_btuh(ua_btuh_f: float, temp_f: np.ndarray, balance_f: float = 6
 
 def cooling_load_btuh(ua_btuh_f: float, temp_f: np.ndarray, balance_f: float = 65.0) -> np.ndarray:
     """Hourly sensible cooling load = UA * max(T_out - T_balance, 0) (degree-hour method).
+
+    Parameters
+    ----------
+    ua_btuh_f : float
+        Heat-loss coefficient of the house, Btu/h-F.
+    temp_f : numpy.ndarray
+        Outdoor dry-bulb temperature, F (one value per hour).
+    balance_f : float
+        Balance-point temperature, F.
+
+    Returns
+    -------
+    numpy.ndarray
+        Sensible cooling load, Btu/h (one value per hour).
 
     References
     ----------
@@ -170,10 +255,23 @@ def _piecewise(temp_f: np.ndarray, v5: float, v17: float, v47: float) -> np.ndar
 def hp_capacity_btuh(spec: HeatPumpSpec, temp_f: np.ndarray) -> np.ndarray:
     """Maximum heating capacity at outdoor ``temp_f``; zero below the cut-out temperature.
 
+    Parameters
+    ----------
+    spec : HeatPumpSpec
+        The heat pump.
+    temp_f : numpy.ndarray
+        Outdoor dry-bulb temperature, F.
+
+    Returns
+    -------
+    numpy.ndarray
+        Capacity, Btu/h: linear through the 5, 17 and 47 F ratings, with the 5-17 F slope below
+        5 F, and 0 below the cut-out.
+
     References
     ----------
-    DOE 10 CFR 430 Appendix M1 rating points; reference/energy.md hourly model (piecewise linear
-    through 5/17/47 F, 5-17 slope below 5 F, Cap = 0 below cut-out).
+    DOE 10 CFR 430 Subpart B Appendix M1 (AHRI 210/240-2023): capacity linear in outdoor
+    temperature between the rating points in the HSPF2 bin calculation (from memory).
     """
     cap = np.maximum(_piecewise(temp_f, spec.capacity_5_btuh, spec.capacity_17_btuh,
                                 spec.capacity_47_btuh), 0.0)
@@ -183,9 +281,22 @@ def hp_capacity_btuh(spec: HeatPumpSpec, temp_f: np.ndarray) -> np.ndarray:
 def hp_cop(spec: HeatPumpSpec, temp_f: np.ndarray) -> np.ndarray:
     """Steady-state heating COP at outdoor ``temp_f`` (piecewise linear, clamped at >= 1).
 
+    Parameters
+    ----------
+    spec : HeatPumpSpec
+        The heat pump.
+    temp_f : numpy.ndarray
+        Outdoor dry-bulb temperature, F.
+
+    Returns
+    -------
+    numpy.ndarray
+        COP, dimensionless, at least 1.
+
     References
     ----------
-    DOE 10 CFR 430 Appendix M1 rating points; reference/energy.md hourly model.
+    DOE 10 CFR 430 Subpart B Appendix M1 (AHRI 210/240-2023) rating points; linear between them
+    as in the HSPF2 bin calculation (from memory).
     """
     return np.maximum(_piecewise(temp_f, spec.cop_5, spec.cop_17, spec.cop_47), 1.0)
 
@@ -193,10 +304,23 @@ def hp_cop(spec: HeatPumpSpec, temp_f: np.ndarray) -> np.ndarray:
 def balance_point_f(spec: HeatPumpSpec, ua_btuh_f: float, indoor_balance_f: float = 65.0) -> float:
     """Thermal balance point T*: UA (T_bal - T*) = Cap(T*). Below it backup heat is needed.
 
+    Parameters
+    ----------
+    spec : HeatPumpSpec
+        The heat pump.
+    ua_btuh_f : float
+        Heat-loss coefficient of the house, Btu/h-F.
+    indoor_balance_f : float
+        Balance point of the house's heating load, F.
+
+    Returns
+    -------
+    float
+        The thermal balance point, F (found on a 0.01 F grid from -60 F).
+
     References
     ----------
-    ASHRAE Handbook - HVAC Systems and Equipment, ch. 49 (heat pump balance point);
-    reference/energy.md.
+    ASHRAE Handbook - HVAC Systems and Equipment, ch. 49 (heat pump balance point).
     """
     grid = np.arange(-60.0, indoor_balance_f + 0.005, 0.01)
     short = heating_load_btuh(ua_btuh_f, grid, indoor_balance_f) - hp_capacity_btuh(spec, grid)
@@ -208,7 +332,21 @@ def balance_point_f(spec: HeatPumpSpec, ua_btuh_f: float, indoor_balance_f: floa
 
 @dataclass(frozen=True, eq=False)
 class HeatingHourly:
-    """Hourly heating energy by carrier (kWh electricity, trade units of the fuel)."""
+    """Hourly heating energy by carrier.
+
+    Attributes
+    ----------
+    electric_kwh : numpy.ndarray
+        Electricity each hour, kWh.
+    fuel_units : numpy.ndarray
+        Fuel each hour in its trade unit (therm, gallon).
+    fuel : str or None
+        The fuel burned, if any.
+    backup_btuh : numpy.ndarray
+        Heat supplied by the backup each hour, Btu/h.
+    delivered_btuh : numpy.ndarray
+        Heat delivered each hour, Btu/h.
+    """
 
     electric_kwh: np.ndarray
     fuel_units: np.ndarray
@@ -228,10 +366,25 @@ def heat_pump_hourly(spec: HeatPumpSpec, temp_f: np.ndarray, load_btuh: np.ndarr
     Q_hp = min(Load, Cap(T)); backup = Load - Q_hp; kWh = Q_hp / (COP PLF 3412.14) + resistance
     backup / 3412.14, or dual-fuel backup / (AFUE Btu/unit). PLF = 1 - Cd (1 - PLR).
 
+    Parameters
+    ----------
+    spec : HeatPumpSpec
+        The heat pump.
+    temp_f : numpy.ndarray
+        Outdoor dry-bulb temperature, F (one value per hour).
+    load_btuh : numpy.ndarray
+        Heating load, Btu/h (one value per hour).
+
+    Returns
+    -------
+    HeatingHourly
+        Electricity (kWh), backup fuel (trade units) and heat delivered each hour. Without a
+        backup, load above the unit's capacity is left unmet.
+
     References
     ----------
-    reference/energy.md "Heat pumps" (hourly model); AHRI 210/240 part-load factor
-    PLF = 1 - Cd (1 - PLR).
+    AHRI 210/240-2023 (DOE 10 CFR 430 Subpart B Appendix M1): part-load factor
+    PLF = 1 - Cd (1 - PLR); 1 kWh = 3,412.14 Btu (US EIA, "Units and calculators explained").
     """
     kbtu = btu_per_kwh()
     cap = hp_capacity_btuh(spec, temp_f)
@@ -260,6 +413,25 @@ def heat_pump_hourly(spec: HeatPumpSpec, temp_f: np.ndarray, load_btuh: np.ndarr
 def heating_hourly(spec: HeatingSpec, temp_f: np.ndarray, load_btuh: np.ndarray) -> HeatingHourly:
     """Hourly energy of any heating system for a heating load.
 
+    Parameters
+    ----------
+    spec : FurnaceSpec, ResistanceHeatSpec or HeatPumpSpec
+        The heating system.
+    temp_f : numpy.ndarray
+        Outdoor dry-bulb temperature, F (one value per hour).
+    load_btuh : numpy.ndarray
+        Heating load, Btu/h (one value per hour).
+
+    Returns
+    -------
+    HeatingHourly
+        Electricity (kWh) and fuel (trade units) each hour.
+
+    Raises
+    ------
+    TypeError
+        For a spec of another type.
+
     References
     ----------
     DOE 10 CFR 430 Appendix N (AFUE): fuel = load / (AFUE * Btu/unit);
@@ -279,6 +451,18 @@ def heating_hourly(spec: HeatingSpec, temp_f: np.ndarray, load_btuh: np.ndarray)
 
 def cooling_kwh(seer2: float, load_btuh: np.ndarray) -> np.ndarray:
     """Cooling electricity: kWh = load (Btu) / (SEER2 * 1000) (seasonal average efficiency).
+
+    Parameters
+    ----------
+    seer2 : float
+        Seasonal energy efficiency ratio 2, Btu/Wh.
+    load_btuh : numpy.ndarray
+        Cooling load, Btu/h (one value per hour: Btu in that hour).
+
+    Returns
+    -------
+    numpy.ndarray
+        Electricity, kWh per hour.
 
     References
     ----------

@@ -10,11 +10,37 @@ import numpy as np
 from homeplan.energy import timegrid
 from homeplan.energy._data import price_row
 
+__all__ = [
+    "FOSSIL_FUELS",
+    "ElectricBill",
+    "ElectricRate",
+    "FuelPrice",
+    "FuelPrices",
+    "TouPeriod",
+    "electric_bill",
+    "fuel_bill",
+    "hourly_price",
+]
+
 
 @dataclass(frozen=True)
 class TouPeriod:
     """A priced time-of-use period: ``hours`` (0-23) in ``months`` (1-12), optionally weekdays only.
-    Later periods override earlier ones where they overlap."""
+    Later periods override earlier ones where they overlap.
+
+    Attributes
+    ----------
+    name : str
+        Period label, e.g. ``peak``.
+    usd_per_kwh : float
+        Energy price in the period, USD/kWh.
+    hours : tuple of int
+        Hours of day in the period, 0-23 (hour starting).
+    months : tuple of int
+        Months in the period, 1-12.
+    weekdays_only : bool
+        If True, the period applies Monday to Friday only.
+    """
 
     name: str
     usd_per_kwh: float
@@ -27,11 +53,34 @@ class TouPeriod:
 class ElectricRate:
     """A residential electric tariff.
 
-    Defaults come from data/prices.csv. ``usd_per_kwh`` is the flat (or base, outside every TOU period) energy price. ``export`` is
+    Defaults come from data/prices.csv. ``usd_per_kwh`` is the flat (or base, outside every TOU
+    period) energy price. ``export`` is
     ``net_metering`` (exports credited at the retail price of their hour, monthly netting, credits
     carried to the annual true-up, where leftovers are paid at ``true_up_usd_per_kwh``),
     ``net_billing`` (exports credited at ``export_usd_per_kwh``, credits carried within the year)
     or ``none``. Credits never offset the fixed charge; ``min_bill_usd`` is a monthly minimum.
+
+    Attributes
+    ----------
+    usd_per_kwh : float
+        Flat (or base) energy price, USD/kWh.
+    fixed_usd_per_month : float
+        Fixed customer charge, USD per month.
+    tou_periods : tuple of TouPeriod
+        Time-of-use periods (empty = flat rate).
+    export : str
+        Export compensation: ``net_metering``, ``net_billing`` or ``none``.
+    export_usd_per_kwh : float
+        Export credit under net billing, USD/kWh.
+    true_up_usd_per_kwh : float
+        True-up payout for leftover net metering credit, USD per kWh of annual net export.
+    min_bill_usd : float
+        Minimum bill, USD per month.
+
+    Raises
+    ------
+    ValueError
+        If ``export`` is not one of the three designs.
 
     References
     ----------
@@ -54,7 +103,15 @@ class ElectricRate:
 
 @dataclass(frozen=True)
 class FuelPrice:
-    """Price per trade unit (therm, gal) and a fixed monthly charge (meter fee, tank rental)."""
+    """Price per trade unit (therm, gal) and a fixed monthly charge (meter fee, tank rental).
+
+    Attributes
+    ----------
+    usd_per_unit : float
+        Price, USD per trade unit (therm or gal).
+    fixed_usd_per_month : float
+        Fixed charge, USD per month.
+    """
 
     usd_per_unit: float
     fixed_usd_per_month: float = 0.0
@@ -71,6 +128,11 @@ def _default_prices() -> dict[str, FuelPrice]:
 class FuelPrices:
     """Prices of every fossil fuel by name (``natural_gas``, ``propane``, ``heating_oil``,
     ``gasoline``, ``diesel``). Defaults: US averages in data/prices.csv (EIA 2023-25).
+
+    Attributes
+    ----------
+    prices : dict of str to FuelPrice
+        Price of each fossil fuel by name, USD per trade unit and USD per month.
     """
 
     prices: dict[str, FuelPrice] = field(default_factory=_default_prices)
@@ -79,11 +141,42 @@ class FuelPrices:
         return hash(tuple(sorted(self.prices.items())))
 
     def get(self, fuel: str) -> FuelPrice:
+        """Price of one fuel.
+
+        Parameters
+        ----------
+        fuel : str
+            Fuel name, e.g. ``propane``.
+
+        Returns
+        -------
+        FuelPrice
+            Price, USD per trade unit, and fixed charge, USD per month.
+
+        Raises
+        ------
+        KeyError
+            If ``fuel`` has no price.
+        """
         return self.prices[fuel]
 
 
 def hourly_price(rate: ElectricRate, weekday: np.ndarray | None = None) -> np.ndarray:
-    """Energy price of every hour of the typical year (USD/kWh)."""
+    """Energy price of every hour of the typical year (USD/kWh).
+
+    Parameters
+    ----------
+    rate : ElectricRate
+        The tariff.
+    weekday : numpy.ndarray or None
+        Day of week of every hour, 0 = Monday (8760 values); None uses
+        :func:`homeplan.energy.timegrid.weekday`.
+
+    Returns
+    -------
+    numpy.ndarray
+        Energy price of each hour, USD/kWh (8760 values).
+    """
     price = np.full(timegrid.HOURS_PER_YEAR, rate.usd_per_kwh)
     if not rate.tou_periods:
         return price
@@ -100,7 +193,22 @@ def hourly_price(rate: ElectricRate, weekday: np.ndarray | None = None) -> np.nd
 
 @dataclass(frozen=True, eq=False)
 class ElectricBill:
-    """Monthly electric bill pieces (12 values each, USD) and the annual true-up payout."""
+    """Monthly electric bill pieces (12 values each, USD) and the annual true-up payout.
+
+    Attributes
+    ----------
+    energy_usd : numpy.ndarray
+        Energy charge of each month, USD (12 values).
+    export_credit_usd : numpy.ndarray
+        Export credit earned in each month, USD (12 values).
+    fixed_usd : numpy.ndarray
+        Fixed charge of each month, USD (12 values).
+    total_usd : numpy.ndarray
+        Amount billed each month after carried credits and the minimum bill, USD (12 values;
+        December less the true-up payout).
+    true_up_payout_usd : float
+        Payout of leftover net metering credit at the true-up, USD.
+    """
 
     energy_usd: np.ndarray
     export_credit_usd: np.ndarray
@@ -110,6 +218,7 @@ class ElectricBill:
 
     @property
     def annual_usd(self) -> float:
+        """Total billed over the year, USD."""
         return float(self.total_usd.sum())
 
 
@@ -122,6 +231,24 @@ def electric_bill(rate: ElectricRate, import_kwh: np.ndarray, export_kwh: np.nda
     carried forward; the fixed charge is always paid. At the December true-up, leftover net
     metering credit is paid out at ``true_up_usd_per_kwh`` per kWh of annual net export; leftover
     net billing credit is forfeited.
+
+    Parameters
+    ----------
+    rate : ElectricRate
+        The tariff.
+    import_kwh : numpy.ndarray
+        Grid import of each hour, kWh (8760 values).
+    export_kwh : numpy.ndarray
+        Grid export of each hour, kWh (8760 values).
+    price : numpy.ndarray or None
+        Energy price of each hour, USD/kWh (8760 values); None computes :func:`hourly_price`.
+    connected : bool
+        False for a home off the grid: no fixed charge and no minimum bill.
+
+    Returns
+    -------
+    ElectricBill
+        Monthly bill pieces and the true-up payout, USD.
 
     References
     ----------
@@ -162,6 +289,20 @@ def fuel_bill(price: FuelPrice, monthly_units: np.ndarray, service_open: bool) -
     """Monthly fuel bill = units x price + fixed charge while the service/account is open.
 
     The gas fixed charge ends only when the gas service is closed, not when use reaches zero.
+
+    Parameters
+    ----------
+    price : FuelPrice
+        Price, USD per trade unit, and fixed charge, USD per month.
+    monthly_units : numpy.ndarray
+        Fuel use of each month, trade units (12 values).
+    service_open : bool
+        Whether the service or account is open (the fixed charge is billed).
+
+    Returns
+    -------
+    numpy.ndarray
+        Bill of each month, USD (12 values).
 
     References
     ----------

@@ -62,6 +62,58 @@ class HomeEnergySpec:
     (tank lease, service contract) continues with zero use until the tank is removed.
     ``cooling_load_multiplier`` scales the sensible degree-hour cooling load for solar and latent
     gains (1.0 = none; calibrate it against summer electric bills).
+
+    Attributes
+    ----------
+    weather : Weather
+        Typical-year weather at the site.
+    ua_btuh_f : float
+        Heat-loss coefficient UA, Btu/h-F.
+    heating : HeatingSpec or None
+        Space heating system; None means no heating.
+    cooling : CoolingSpec or None
+        Cooling system; None means no cooling.
+    water_heater : WaterHeaterSpec or None
+        Water heater; None means none.
+    cooking : CookingSpec or None
+        Range or cooktop; None means none.
+    dryer : DryerSpec or None
+        Clothes dryer; None means none.
+    vehicles : tuple of VehicleSpec
+        The household's vehicles.
+    plug_kwh_per_yr : float
+        Every other electric use, kWh per year.
+    solar : SolarArraySpec or None
+        Rooftop solar array; None means none.
+    battery : BatterySpec or None
+        Home battery; None means none.
+    electric_rate : ElectricRate
+        Electric tariff.
+    fuel_prices : FuelPrices
+        Fossil fuel prices, USD per trade unit and USD per month.
+    emission_factors : EmissionFactors
+        Emission factors, kg CO2 per trade unit.
+    occupants : float
+        Number of occupants (sets the default hot water use).
+    hot_water_gal_per_day : float or None
+        Hot water use, gal/day; None derives it from ``occupants``.
+    heating_balance_f : float
+        Balance temperature of the heating degree-hours, F.
+    cooling_balance_f : float
+        Balance temperature of the cooling degree-hours, F.
+    cooling_load_multiplier : float
+        Multiplier on the sensible cooling load, dimensionless.
+    gas_service_open : bool
+        Whether the gas service, and its fixed charge, continues.
+    fuel_accounts_open : tuple of str
+        Other fuels whose fixed charge continues with zero use.
+    label : str
+        Name of the state in results.
+
+    Raises
+    ------
+    ValueError
+        If ``ua_btuh_f`` is negative, or gas appliances remain with the gas service closed.
     """
 
     weather: Weather
@@ -97,7 +149,13 @@ class HomeEnergySpec:
                              "service is closed")
 
     def fuels_used(self) -> set[str]:
-        """Fuels burned by some appliance of this state (electricity excluded)."""
+        """Fuels burned by some appliance of this state (electricity excluded).
+
+        Returns
+        -------
+        set of str
+            Fuel names, e.g. ``{"natural_gas", "gasoline"}``.
+        """
         fuels: set[str] = set()
         h = self.heating
         if isinstance(h, FurnaceSpec):
@@ -120,13 +178,27 @@ class HomeEnergySpec:
 
     @property
     def gal_per_day(self) -> float:
+        """Hot water use, gal/day (given, or from the number of occupants)."""
         if self.hot_water_gal_per_day is not None:
             return self.hot_water_gal_per_day
         return hot_water_gal_per_day(self.occupants)
 
 
 def with_heat_pump(spec: HomeEnergySpec, hp: HeatPumpSpec) -> HomeEnergySpec:
-    """The same home with ``hp`` heating and cooling (cooling at the heat pump's SEER2)."""
+    """The same home with ``hp`` heating and cooling (cooling at the heat pump's SEER2).
+
+    Parameters
+    ----------
+    spec : HomeEnergySpec
+        The home in one state.
+    hp : HeatPumpSpec
+        The heat pump.
+
+    Returns
+    -------
+    HomeEnergySpec
+        A copy of ``spec`` heated by ``hp`` and cooled at its SEER2.
+    """
     return replace(spec, heating=hp, cooling=CoolingSpec(seer2=hp.seer2))
 
 
@@ -136,6 +208,11 @@ class SiteCache:
 
     Build once per home (``SiteCache(weather)``) and pass to every :func:`simulate` of that home.
     It memoises by value of small frozen specs; it is not thread-safe for concurrent first use.
+
+    Parameters
+    ----------
+    weather : Weather
+        The home's typical-year weather.
     """
 
     def __init__(self, weather: Weather) -> None:
@@ -156,35 +233,126 @@ class SiteCache:
             return val
 
     def heating_degree_hours(self, balance_f: float) -> np.ndarray:
-        """max(T_bal - T, 0) per hour (F)."""
+        """max(T_bal - T, 0) per hour (F).
+
+        Parameters
+        ----------
+        balance_f : float
+            Balance temperature, F.
+
+        Returns
+        -------
+        numpy.ndarray
+            Heating degree-hours of each hour, F-h (8760 values).
+        """
         return self._get(("hdh", balance_f),
                          lambda: np.maximum(balance_f - self.weather.temp_f, 0.0))
 
     def cooling_degree_hours(self, balance_f: float) -> np.ndarray:
-        """max(T - T_bal, 0) per hour (F)."""
+        """max(T - T_bal, 0) per hour (F).
+
+        Parameters
+        ----------
+        balance_f : float
+            Balance temperature, F.
+
+        Returns
+        -------
+        numpy.ndarray
+            Cooling degree-hours of each hour, F-h (8760 values).
+        """
         return self._get(("cdh", balance_f),
                          lambda: np.maximum(self.weather.temp_f - balance_f, 0.0))
 
     def mains_f(self) -> np.ndarray:
-        """Daily mains water temperature (Burch & Christensen 2007)."""
+        """Daily mains water temperature (Burch & Christensen 2007).
+
+        Returns
+        -------
+        numpy.ndarray
+            Mains water temperature of each day, F (365 values).
+        """
         return self._get(("mains",), lambda: mains_temperature_f(self.weather.temp_f,
                                                                  self.weather.latitude_deg))
 
     def price(self, rate: ElectricRate) -> np.ndarray:
-        """Hourly energy price of ``rate``."""
+        """Hourly energy price of ``rate``.
+
+        Parameters
+        ----------
+        rate : ElectricRate
+            The tariff.
+
+        Returns
+        -------
+        numpy.ndarray
+            Energy price of each hour, USD/kWh (8760 values).
+        """
         return self._get(("price", rate), lambda: hourly_price(rate))
 
     def water_hourly(self, spec: WaterHeaterSpec, gal_per_day: float) -> np.ndarray:
+        """Hourly water heating input at this site (memoised).
+
+        Parameters
+        ----------
+        spec : WaterHeaterSpec
+            The water heater.
+        gal_per_day : float
+            Hot water use, gal/day.
+
+        Returns
+        -------
+        numpy.ndarray
+            Input of each hour, trade units (kWh, therm or gal; 8760 values).
+        """
         return self._get(("water", spec, gal_per_day),
                          lambda: water_heating_hourly(spec, gal_per_day, self.mains_f()))
 
     def ev_hourly(self, spec: VehicleSpec) -> np.ndarray:
+        """Hourly home charging of an electric vehicle (memoised).
+
+        Parameters
+        ----------
+        spec : VehicleSpec
+            The electric vehicle.
+
+        Returns
+        -------
+        numpy.ndarray
+            Charging energy of each hour, kWh from the wall (8760 values).
+        """
         return self._get(("ev", spec), lambda: ev_charging_hourly(spec))
 
     def profile(self, name: str, annual: float) -> np.ndarray:
+        """An annual amount spread over the hours by a daily profile (memoised).
+
+        Parameters
+        ----------
+        name : str
+            Column of ``data/hourly_profiles.csv``, e.g. ``plug``.
+        annual : float
+            Annual amount, trade units per year (e.g. kWh).
+
+        Returns
+        -------
+        numpy.ndarray
+            Amount in each hour, same unit (8760 values).
+        """
         return self._get(("profile", name, annual), lambda: spread_daily(annual, name))
 
     def pv_ac_kw(self, spec: SolarArraySpec) -> np.ndarray:
+        """Hourly AC output of a solar array at this site.
+
+        Parameters
+        ----------
+        spec : SolarArraySpec
+            The array.
+
+        Returns
+        -------
+        numpy.ndarray
+            AC output of each hour, kW (8760 values).
+        """
         return self.solar.ac_kw(spec)
 
 
@@ -199,6 +367,47 @@ class EnergyResult:
     consumption. ``monthly_bills_usd[fuel]`` include fixed charges; electricity is billed on the
     grid imports/exports. Peaks are hourly-average kW of site load (``peak_*``) and grid import.
     Emissions: kg CO2 per fuel, electricity on grid imports.
+
+    Attributes
+    ----------
+    load_kw : numpy.ndarray
+        Site electric load of each hour, kW (8760 values).
+    solar_kw : numpy.ndarray
+        AC solar production of each hour, kW (8760 values).
+    grid_import_kw : numpy.ndarray
+        Grid import of each hour, kW (8760 values).
+    grid_export_kw : numpy.ndarray
+        Grid export of each hour, kW (8760 values).
+    battery_soc_kwh : numpy.ndarray or None
+        Battery state of charge at the end of each hour, kWh (8760 values).
+    monthly_units : dict of str to numpy.ndarray
+        Use of each month by fuel, trade units (12 values; electricity in site kWh).
+    monthly_grid_import_kwh : numpy.ndarray
+        Grid import of each month, kWh (12 values).
+    monthly_grid_export_kwh : numpy.ndarray
+        Grid export of each month, kWh (12 values).
+    monthly_solar_kwh : numpy.ndarray
+        Solar production of each month, kWh (12 values).
+    end_use_units : dict of str to dict of str to float
+        Annual use by end use and fuel, trade units per year.
+    monthly_bills_usd : dict of str to numpy.ndarray
+        Bill of each month by fuel, USD (12 values).
+    peak_kw : float
+        Highest hourly-average site load, kW.
+    peak_winter_kw : float
+        Highest hourly-average site load in December-February, kW.
+    peak_summer_kw : float
+        Highest hourly-average site load in June-August, kW.
+    peak_import_kw : float
+        Highest hourly-average grid import, kW.
+    emissions_kg : dict of str to float
+        Emissions by fuel, kg CO2 per year.
+    backup_heat_hours : int
+        Hours of the year with backup heat running, hours.
+    heating_delivered_kwh : float
+        Space heat delivered, kWh (thermal) per year.
+    label : str
+        Name of the state.
     """
 
     load_kw: np.ndarray
@@ -228,14 +437,17 @@ class EnergyResult:
 
     @property
     def annual_bills_usd(self) -> dict[str, float]:
+        """Annual bill by fuel, USD per year (fixed charges included)."""
         return {f: float(v.sum()) for f, v in self.monthly_bills_usd.items()}
 
     @property
     def total_bill_usd(self) -> float:
+        """Sum of every annual bill, USD per year."""
         return float(sum(self.annual_bills_usd.values()))
 
     @property
     def total_emissions_kg(self) -> float:
+        """Emissions of every fuel, kg CO2 per year."""
         return float(sum(self.emissions_kg.values()))
 
     @property
@@ -245,14 +457,22 @@ class EnergyResult:
 
     @property
     def grid_import_kwh(self) -> float:
+        """Annual grid import, kWh."""
         return float(self.monthly_grid_import_kwh.sum())
 
     @property
     def grid_export_kwh(self) -> float:
+        """Annual grid export, kWh."""
         return float(self.monthly_grid_export_kwh.sum())
 
     def summary(self) -> dict[str, float]:
-        """Plain annual figures (JSON-friendly) for reports and the scheduler."""
+        """Plain annual figures (JSON-friendly) for reports and the scheduler.
+
+        Returns
+        -------
+        dict of str to float
+            Annual figures, each key naming its unit (e.g. ``total_bill_usd``, ``peak_kW``).
+        """
         out: dict[str, float] = {}
         for fuel, v in self.annual_units.items():
             out[f"{fuel}_{FUEL_UNITS[fuel]}"] = v
@@ -274,7 +494,14 @@ class EnergyResult:
         return out
 
     def monthly_frame(self) -> pd.DataFrame:
-        """Months x (use per fuel, grid import/export, solar, bill per fuel, peak load kW)."""
+        """Months x (use per fuel, grid import/export, solar, bill per fuel, peak load kW).
+
+        Returns
+        -------
+        pandas.DataFrame
+            12 rows indexed by month name; each column name ends in its unit (kWh, USD, kW or
+            the fuel's trade unit).
+        """
         import pandas as pd
 
         cols: dict[str, np.ndarray] = {}
@@ -290,7 +517,14 @@ class EnergyResult:
         return df
 
     def annual_frame(self) -> pd.DataFrame:
-        """Fuels x (use, unit, bill_usd, kg_co2)."""
+        """Fuels x (use, unit, bill_usd, kg_co2).
+
+        Returns
+        -------
+        pandas.DataFrame
+            One row per fuel: ``use`` (trade units per year, named in ``unit``), ``bill_usd``
+            (USD per year) and ``kg_co2`` (kg CO2 per year).
+        """
         import pandas as pd
 
         units = self.annual_units
@@ -312,6 +546,24 @@ def _add(store: dict[str, np.ndarray], fuel: str, arr: np.ndarray) -> None:
 
 def simulate(spec: HomeEnergySpec, cache: SiteCache | None = None) -> EnergyResult:
     """Simulate a typical year of ``spec`` hour by hour (numpy-vectorised).
+
+    Parameters
+    ----------
+    spec : HomeEnergySpec
+        The home in one plan state.
+    cache : SiteCache or None
+        The home's cache, built for ``spec.weather``; None builds a new one.
+
+    Returns
+    -------
+    EnergyResult
+        Hourly, monthly and annual energy (kW, kWh, trade units), bills (USD) and emissions
+        (kg CO2).
+
+    Raises
+    ------
+    ValueError
+        If ``cache`` was built for a different :class:`Weather`.
 
     References
     ----------
@@ -469,6 +721,25 @@ def plug_kwh_from_bills(spec: HomeEnergySpec, billed_site_kwh_per_yr: float,
     ``billed_site_kwh_per_yr`` is consumption: with existing solar add the self-consumed production
     back to the billed grid kWh first.
 
+    Parameters
+    ----------
+    spec : HomeEnergySpec
+        The home in its current state.
+    billed_site_kwh_per_yr : float
+        Annual site electricity consumption from the bills, kWh per year.
+    cache : SiteCache or None
+        The home's cache, built for ``spec.weather``; None builds a new one.
+
+    Returns
+    -------
+    float
+        Other electric use, kWh per year (never negative).
+
+    Raises
+    ------
+    ValueError
+        If ``cache`` was built for a different :class:`Weather`.
+
     References
     ----------
     Utility-bill disaggregation by subtraction (ASHRAE Guideline 14-2014 whole-building approach,
@@ -479,6 +750,7 @@ def plug_kwh_from_bills(spec: HomeEnergySpec, billed_site_kwh_per_yr: float,
 
 
 __all__ = [
+    "END_USES", "FUELS",
     "BatterySpec", "CookingSpec", "CoolingSpec", "DryerSpec", "ElectricRate", "EmissionFactors",
     "EnergyResult", "FuelPrices", "FurnaceSpec", "HeatPumpSpec", "HomeEnergySpec",
     "ResistanceHeatSpec", "SiteCache", "SolarArraySpec", "VehicleSpec", "WaterHeaterSpec",

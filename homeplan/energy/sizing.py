@@ -9,10 +9,31 @@ import numpy as np
 from homeplan.energy import timegrid
 from homeplan.energy.solar import SolarArraySpec
 
+__all__ = ["MonthlyBalance", "array_kw_for_coverage", "monthly_balance", "size_array"]
+
 
 def array_kw_for_coverage(annual_load_kwh: float, specific_yield_kwh_per_kwdc: float,
                           coverage: float = 1.0) -> float:
     """kWdc that produces ``coverage`` x the annual load: coverage * load / specific yield.
+
+    Parameters
+    ----------
+    annual_load_kwh : float
+        Annual electric load, kWh.
+    specific_yield_kwh_per_kwdc : float
+        Annual AC output per kW of DC nameplate, kWh/kWdc.
+    coverage : float
+        Share of the annual load to produce, fraction (1.0 = 100 %).
+
+    Returns
+    -------
+    float
+        Array size, kWdc.
+
+    Raises
+    ------
+    ValueError
+        If ``specific_yield_kwh_per_kwdc`` is not positive.
 
     References
     ----------
@@ -26,7 +47,15 @@ def array_kw_for_coverage(annual_load_kwh: float, specific_yield_kwh_per_kwdc: f
 
 @dataclass(frozen=True, eq=False)
 class MonthlyBalance:
-    """Monthly load and production (kWh), their difference and the coverage ratio."""
+    """Monthly load and production (kWh), their difference and the coverage ratio.
+
+    Attributes
+    ----------
+    load_kwh : numpy.ndarray
+        Load of each month, kWh (12 values).
+    production_kwh : numpy.ndarray
+        Solar production of each month, kWh (12 values).
+    """
 
     load_kwh: np.ndarray
     production_kwh: np.ndarray
@@ -44,15 +73,30 @@ class MonthlyBalance:
 
     @property
     def annual_coverage(self) -> float:
+        """Annual production / annual load, fraction."""
         return float(self.production_kwh.sum() / max(self.load_kwh.sum(), 1e-9))
 
     @property
     def worst_month(self) -> str:
+        """Name of the month with the lowest coverage (e.g. ``Dec``)."""
         return timegrid.MONTH_NAMES[int(np.argmin(self.coverage))]
 
 
 def monthly_balance(load_kw: np.ndarray, solar_kw: np.ndarray) -> MonthlyBalance:
-    """Monthly balance of hourly load against hourly production."""
+    """Monthly balance of hourly load against hourly production.
+
+    Parameters
+    ----------
+    load_kw : numpy.ndarray
+        Load of each hour, kW = kWh per hour (8760 values).
+    solar_kw : numpy.ndarray
+        AC solar production of each hour, kW (8760 values).
+
+    Returns
+    -------
+    MonthlyBalance
+        Monthly load and production, kWh.
+    """
     starts = timegrid.month_start_hours()
     return MonthlyBalance(np.add.reduceat(load_kw, starts), np.add.reduceat(solar_kw, starts))
 
@@ -63,6 +107,29 @@ def size_array(load_kw: np.ndarray, ac_kw_per_kwdc: np.ndarray, coverage: float 
 
     ``basis="annual"`` matches annual totals; ``basis="worst_month"`` makes the lowest
     month's production reach ``coverage`` x its load (winter-peaking homes need far more).
+
+    Parameters
+    ----------
+    load_kw : numpy.ndarray
+        Load of each hour, kW = kWh per hour (8760 values).
+    ac_kw_per_kwdc : numpy.ndarray
+        AC output of each hour per kW of DC nameplate, kW/kWdc (8760 values).
+    coverage : float
+        Share of the load to cover, fraction.
+    basis : str
+        ``annual`` or ``worst_month``.
+    shape : SolarArraySpec or None
+        Orientation and losses of the array; None uses :class:`SolarArraySpec` defaults.
+
+    Returns
+    -------
+    SolarArraySpec
+        ``shape`` with ``dc_kw`` set to the size found, kWdc.
+
+    Raises
+    ------
+    ValueError
+        If ``basis`` is unknown, or the annual specific yield is not positive.
 
     References
     ----------

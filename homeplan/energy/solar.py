@@ -14,6 +14,14 @@ import numpy as np
 
 from homeplan.energy.units import f_to_c
 
+__all__ = [
+    "SolarArraySpec",
+    "SolarSite",
+    "default_losses_pct",
+    "pvwatts_dc_kw",
+    "pvwatts_inverter_kw",
+]
+
 
 @dataclass(frozen=True)
 class SolarArraySpec:
@@ -21,6 +29,29 @@ class SolarArraySpec:
 
     ``losses_pct`` None means pvlib's ``pvwatts_losses()`` defaults (14.08 %).
     ``gamma_pdc`` is the PVWatts "standard" module temperature coefficient (-0.37 %/C).
+
+    Attributes
+    ----------
+    dc_kw : float
+        DC nameplate at STC, kWdc.
+    tilt_deg : float
+        Tilt from horizontal, degrees.
+    azimuth_deg : float
+        Azimuth, degrees clockwise from north (180 = south).
+    dc_ac_ratio : float
+        DC nameplate / inverter AC rating, dimensionless.
+    inverter_eff_nom : float
+        Nominal inverter efficiency, fraction.
+    gamma_pdc : float
+        Module power temperature coefficient, 1/C.
+    losses_pct : float or None
+        System losses, percent; None uses pvlib's default.
+    temp_model : str
+        pvlib SAPM temperature model parameter set.
+    transposition : str
+        pvlib transposition model, e.g. ``haydavies`` or ``perez``.
+    albedo : float
+        Ground reflectance, fraction.
 
     References
     ----------
@@ -39,13 +70,24 @@ class SolarArraySpec:
     albedo: float = 0.25
 
     def shape_key(self) -> tuple:
-        """Everything except the size: arrays with the same key share a per-kWdc profile."""
+        """Everything except the size: arrays with the same key share a per-kWdc profile.
+
+        Returns
+        -------
+        tuple
+            Orientation, inverter, loss and model fields (a cache key).
+        """
         return (self.tilt_deg, self.azimuth_deg, self.dc_ac_ratio, self.inverter_eff_nom,
                 self.gamma_pdc, self.losses_pct, self.temp_model, self.transposition, self.albedo)
 
 
 def default_losses_pct() -> float:
     """pvlib.pvsystem.pvwatts_losses() with its default loss categories (14.08 %).
+
+    Returns
+    -------
+    float
+        System losses, percent.
 
     References
     ----------
@@ -60,6 +102,22 @@ def pvwatts_dc_kw(poa_wm2: np.ndarray, temp_cell_c: np.ndarray, pdc0_kw: float,
                   gamma_pdc: float) -> np.ndarray:
     """PVWatts DC power: P = G/1000 * Pdc0 * (1 + gamma (Tc - 25)).
 
+    Parameters
+    ----------
+    poa_wm2 : numpy.ndarray
+        Plane-of-array irradiance, W/m2.
+    temp_cell_c : numpy.ndarray
+        Cell temperature, C.
+    pdc0_kw : float
+        DC nameplate at STC, kW.
+    gamma_pdc : float
+        Module power temperature coefficient, 1/C.
+
+    Returns
+    -------
+    numpy.ndarray
+        DC power, kW (same shape as ``poa_wm2``).
+
     References
     ----------
     Dobos (2014) NREL/TP-6A20-62641, eq. 2; pvlib.pvsystem.pvwatts_dc.
@@ -71,6 +129,22 @@ def pvwatts_inverter_kw(pdc_kw: np.ndarray, pdc0_kw: float, eta_inv_nom: float =
                         eta_inv_ref: float = 0.9637) -> np.ndarray:
     """PVWatts inverter: eta(zeta) = eta_nom/eta_ref (-0.0162 zeta - 0.0059/zeta + 0.9858),
     AC = min(eta * Pdc, eta_nom * Pdc0), floored at 0 (clipping at the AC rating).
+
+    Parameters
+    ----------
+    pdc_kw : numpy.ndarray
+        DC input power, kW.
+    pdc0_kw : float
+        Inverter DC input limit, kW (AC rating / nominal efficiency).
+    eta_inv_nom : float
+        Nominal inverter efficiency, fraction.
+    eta_inv_ref : float
+        Reference efficiency of the PVWatts efficiency curve, fraction.
+
+    Returns
+    -------
+    numpy.ndarray
+        AC power, kW (same shape as ``pdc_kw``).
 
     References
     ----------
@@ -88,6 +162,11 @@ class SolarSite:
     Holds the solar position (at mid-hour) and, memoised per array shape, plane-of-array
     irradiance, cell temperature and the AC output per kWdc. Not shared between homes.
 
+    Parameters
+    ----------
+    weather : homeplan.energy.weather.Weather
+        The home's typical-year weather.
+
     References
     ----------
     Reda & Andreas (2004) NREL SPA via pvlib.solarposition.get_solarposition;
@@ -103,7 +182,14 @@ class SolarSite:
 
     def solar_position(self) -> dict[str, np.ndarray]:
         """Apparent zenith, zenith and azimuth (deg) at mid-hour; also extraterrestrial DNI and
-        relative airmass."""
+        relative airmass.
+
+        Returns
+        -------
+        dict of str to numpy.ndarray
+            ``apparent_zenith``, ``zenith``, ``azimuth`` (degrees), ``dni_extra`` (W/m2) and
+            ``airmass`` (dimensionless), 8760 values each.
+        """
         if self._solpos is None:
             from pvlib import atmosphere, irradiance, solarposition
 
@@ -122,7 +208,20 @@ class SolarSite:
         return self._solpos
 
     def poa_and_cell_temp(self, spec: SolarArraySpec) -> tuple[np.ndarray, np.ndarray]:
-        """(POA global W/m2, cell temperature C) for the array's orientation and mounting."""
+        """(POA global W/m2, cell temperature C) for the array's orientation and mounting.
+
+        Parameters
+        ----------
+        spec : SolarArraySpec
+            The array (its size is not used).
+
+        Returns
+        -------
+        poa : numpy.ndarray
+            Plane-of-array global irradiance, W/m2 (8760 values, read-only).
+        temp_cell : numpy.ndarray
+            Cell temperature, C (8760 values, read-only).
+        """
         key = (spec.tilt_deg, spec.azimuth_deg, spec.transposition, spec.albedo, spec.temp_model)
         if key not in self._poa:
             from pvlib.irradiance import get_total_irradiance
@@ -144,7 +243,18 @@ class SolarSite:
         return self._poa[key]
 
     def ac_kw_per_kwdc(self, spec: SolarArraySpec) -> np.ndarray:
-        """Hourly AC output (kW = kWh per hour) per kWdc of nameplate for this array shape."""
+        """Hourly AC output (kW = kWh per hour) per kWdc of nameplate for this array shape.
+
+        Parameters
+        ----------
+        spec : SolarArraySpec
+            The array (its size is not used).
+
+        Returns
+        -------
+        numpy.ndarray
+            AC output of each hour, kW/kWdc (8760 values, read-only).
+        """
         key = spec.shape_key()
         if key not in self._ac:
             g, tc = self.poa_and_cell_temp(spec)
@@ -157,9 +267,31 @@ class SolarSite:
         return self._ac[key]
 
     def ac_kw(self, spec: SolarArraySpec) -> np.ndarray:
-        """Hourly AC output of the array in kW: the cached per-kWdc profile times ``dc_kw``."""
+        """Hourly AC output of the array in kW: the cached per-kWdc profile times ``dc_kw``.
+
+        Parameters
+        ----------
+        spec : SolarArraySpec
+            The array.
+
+        Returns
+        -------
+        numpy.ndarray
+            AC output of each hour, kW (8760 values).
+        """
         return self.ac_kw_per_kwdc(spec) * spec.dc_kw
 
     def specific_yield_kwh_per_kwdc(self, spec: SolarArraySpec) -> float:
-        """Annual AC kWh per kWdc."""
+        """Annual AC kWh per kWdc.
+
+        Parameters
+        ----------
+        spec : SolarArraySpec
+            The array (its size is not used).
+
+        Returns
+        -------
+        float
+            Specific yield, kWh/kWdc per year.
+        """
         return float(self.ac_kw_per_kwdc(spec).sum())

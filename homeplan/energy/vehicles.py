@@ -9,6 +9,16 @@ import numpy as np
 from homeplan.energy import timegrid
 from homeplan.energy._data import constant, efficiency
 
+__all__ = [
+    "CHARGING_SCHEDULES",
+    "VehicleSpec",
+    "daily_charging_profile",
+    "ev_charging_hourly",
+    "ev_wall_kwh_per_mile",
+    "mpge",
+    "vehicle_annual_input",
+]
+
 CHARGING_SCHEDULES = ("overnight", "solar", "tou", "immediate")
 
 
@@ -20,6 +30,36 @@ class VehicleSpec:
     battery unless ``label_is_wall``: EPA label kWh/100 mi already includes charging losses).
     Charging happens ``schedule``: ``overnight`` (from ``plug_in_hour``), ``solar`` (from 10:00),
     ``tou`` (from ``window_start_hour``) or ``immediate`` (on arrival, 18:00).
+
+    Attributes
+    ----------
+    fuel : str
+        ``gasoline``, ``diesel`` or ``electricity``.
+    miles_per_yr : float
+        Distance driven, miles per year.
+    mpg : float
+        Fuel economy of a combustion vehicle, miles per gallon.
+    kwh_per_mile : float
+        EV consumption, kWh per mile.
+    label_is_wall : bool
+        True when ``kwh_per_mile`` is an EPA label value (charging losses included).
+    charging_efficiency : float or None
+        Wall-to-battery efficiency, fraction; None uses the default in ``data/efficiencies.csv``.
+    charger_kw : float
+        Charging power, kW.
+    schedule : str
+        One of :data:`CHARGING_SCHEDULES`.
+    plug_in_hour : int
+        Hour of day (0-23) overnight charging starts.
+    window_start_hour : int
+        Hour of day (0-23) the ``tou`` charging window starts.
+    home_charging_share : float
+        Share of the charging done at home, fraction.
+
+    Raises
+    ------
+    ValueError
+        If ``fuel`` or ``schedule`` is unknown.
 
     References
     ----------
@@ -48,6 +88,16 @@ class VehicleSpec:
 def mpge(kwh_per_mile: float) -> float:
     """Miles per gallon equivalent = 33.7 / (kWh per mile).
 
+    Parameters
+    ----------
+    kwh_per_mile : float
+        EV consumption, kWh per mile.
+
+    Returns
+    -------
+    float
+        Miles per gallon of gasoline equivalent, MPGe.
+
     References
     ----------
     EPA fuel economy label: 33.7 kWh = 1 gallon gasoline equivalent.
@@ -58,6 +108,16 @@ def mpge(kwh_per_mile: float) -> float:
 def ev_wall_kwh_per_mile(spec: VehicleSpec) -> float:
     """Electricity from the wall per mile: battery kWh/mile / charging efficiency (unless the figure
     is already an EPA label value).
+
+    Parameters
+    ----------
+    spec : VehicleSpec
+        The electric vehicle.
+
+    Returns
+    -------
+    float
+        Electricity from the wall, kWh per mile.
 
     References
     ----------
@@ -72,6 +132,18 @@ def ev_wall_kwh_per_mile(spec: VehicleSpec) -> float:
 def vehicle_annual_input(spec: VehicleSpec) -> tuple[str, float]:
     """(fuel, annual units): gallons for combustion vehicles, home kWh from the wall for EVs.
 
+    Parameters
+    ----------
+    spec : VehicleSpec
+        The vehicle.
+
+    Returns
+    -------
+    fuel : str
+        ``gasoline``, ``diesel`` or ``electricity``.
+    units : float
+        Annual use: gal per year, or kWh per year from the wall at home.
+
     References
     ----------
     EPA fuel economy label (mpg; kWh/mile); reference/energy.md "Vehicles".
@@ -84,6 +156,20 @@ def vehicle_annual_input(spec: VehicleSpec) -> tuple[str, float]:
 def daily_charging_profile(daily_kwh: float, start_hour: int, charger_kw: float) -> np.ndarray:
     """24-hour profile: charge at ``charger_kw`` from ``start_hour`` until ``daily_kwh`` is in,
     wrapping past midnight (every day is the same, so the wrap lands on the same day's early hours).
+
+    Parameters
+    ----------
+    daily_kwh : float
+        Energy to charge each day, kWh.
+    start_hour : int
+        Hour of day (0-23) charging starts.
+    charger_kw : float
+        Charging power, kW.
+
+    Returns
+    -------
+    numpy.ndarray
+        Energy charged in each hour of the day, kWh (24 values).
     """
     order = (start_hour + np.arange(24)) % 24
     per_hour = np.minimum(charger_kw, np.maximum(daily_kwh - charger_kw * np.arange(24), 0.0))
@@ -95,7 +181,18 @@ def daily_charging_profile(daily_kwh: float, start_hour: int, charger_kw: float)
 
 
 def ev_charging_hourly(spec: VehicleSpec) -> np.ndarray:
-    """Hourly home charging energy (kWh from the wall) for the whole year."""
+    """Hourly home charging energy (kWh from the wall) for the whole year.
+
+    Parameters
+    ----------
+    spec : VehicleSpec
+        The electric vehicle.
+
+    Returns
+    -------
+    numpy.ndarray
+        Home charging energy of each hour, kWh from the wall (8760 values).
+    """
     _, annual = vehicle_annual_input(spec)
     start = {"overnight": spec.plug_in_hour, "solar": 10, "tou": spec.window_start_hour,
              "immediate": 18}[spec.schedule]

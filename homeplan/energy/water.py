@@ -10,6 +10,16 @@ from homeplan.energy import timegrid
 from homeplan.energy._data import constant, efficiency, hourly_profile
 from homeplan.energy.units import btu_per_unit
 
+__all__ = [
+    "WATER_FUELS",
+    "WaterHeaterSpec",
+    "hot_water_delivered_btu_per_yr",
+    "hot_water_gal_per_day",
+    "mains_temperature_f",
+    "water_heater_annual_input",
+    "water_heating_hourly",
+]
+
 WATER_FUELS = ("electricity", "natural_gas", "propane", "heating_oil")
 
 
@@ -17,6 +27,22 @@ WATER_FUELS = ("electricity", "natural_gas", "propane", "heating_oil")
 class WaterHeaterSpec:
     """A water heater burning/using ``fuel`` at ``uef``; ``kind`` is informative
     (``storage``, ``tankless``, ``heat_pump``).
+
+    Attributes
+    ----------
+    fuel : str
+        One of :data:`WATER_FUELS`.
+    uef : float
+        Uniform energy factor, dimensionless (0.3-6).
+    kind : str
+        Informative type: ``storage``, ``tankless`` or ``heat_pump``.
+    setpoint_f : float
+        Delivery (tank) temperature, F.
+
+    Raises
+    ------
+    ValueError
+        If ``fuel`` is unknown or ``uef`` is outside 0.3-6.
 
     References
     ----------
@@ -36,17 +62,33 @@ class WaterHeaterSpec:
 
     @classmethod
     def heat_pump(cls, uef: float = 3.75) -> WaterHeaterSpec:
-        """Heat pump water heater (typical UEF 2.0-4.0, reference/energy.md)."""
-        return cls("electricity", uef, "heat_pump")
+        """Heat pump water heater (typical UEF 2.0-4.0, reference/energy.md).
 
-    @classmethod
-    def electric_resistance(cls, uef: float = 0.92) -> WaterHeaterSpec:
-        """Electric resistance storage tank (typical UEF 0.90-0.95, reference/energy.md)."""
-        return cls("electricity", uef, "storage")
+        Parameters
+        ----------
+        uef : float
+            Uniform energy factor, dimensionless.
+
+        Returns
+        -------
+        WaterHeaterSpec
+            An electric heat pump water heater.
+        """
+        return cls("electricity", uef, "heat_pump")
 
 
 def hot_water_gal_per_day(occupants: float) -> float:
     """Hot water use from household size (linear default through the DOE 55 gal/day medium draw).
+
+    Parameters
+    ----------
+    occupants : float
+        Number of occupants.
+
+    Returns
+    -------
+    float
+        Hot water use, gal/day.
 
     References
     ----------
@@ -59,6 +101,18 @@ def hot_water_gal_per_day(occupants: float) -> float:
 def hot_water_delivered_btu_per_yr(gal_per_day: float, rise_f: float) -> float:
     """Q_hw = gal/day * 8.34 lb/gal * rise * 365 (Btu/yr).
 
+    Parameters
+    ----------
+    gal_per_day : float
+        Hot water use, gal/day.
+    rise_f : float
+        Temperature rise from mains to delivery, F.
+
+    Returns
+    -------
+    float
+        Heat delivered to the water, Btu per year.
+
     References
     ----------
     reference/energy.md "Water heating" (Q_hw formula).
@@ -68,6 +122,20 @@ def hot_water_delivered_btu_per_yr(gal_per_day: float, rise_f: float) -> float:
 
 def water_heater_annual_input(spec: WaterHeaterSpec, gal_per_day: float, rise_f: float) -> float:
     """Annual input in the fuel's trade unit (kWh, therm or gal) = Q_hw / UEF.
+
+    Parameters
+    ----------
+    spec : WaterHeaterSpec
+        The water heater.
+    gal_per_day : float
+        Hot water use, gal/day.
+    rise_f : float
+        Temperature rise from mains to delivery, F.
+
+    Returns
+    -------
+    float
+        Annual input, trade units per year (kWh, therm or gal).
 
     References
     ----------
@@ -81,6 +149,18 @@ def mains_temperature_f(temp_f: np.ndarray, latitude_deg: float = 40.0) -> np.nd
 
     T_mains = (T_avg + 6) + ratio * (dT_max / 2) * sin(0.986 (day - 15 - lag) - 90) degrees, with
     ratio = 0.4 + 0.01 (T_avg - 44) and lag = 35 - (T_avg - 44); southern sites shift 180 days.
+
+    Parameters
+    ----------
+    temp_f : numpy.ndarray
+        Outdoor dry-bulb temperature of each hour, F (8760 values).
+    latitude_deg : float
+        Site latitude, degrees (negative = southern hemisphere).
+
+    Returns
+    -------
+    numpy.ndarray
+        Mains water temperature of each day, F (365 values).
 
     References
     ----------
@@ -103,6 +183,20 @@ def water_heating_hourly(spec: WaterHeaterSpec, gal_per_day: float, mains_f: np.
                          ) -> np.ndarray:
     """Hourly input (fuel trade units) for a daily draw, the daily mains temperature and a draw
     profile (data/hourly_profiles.csv ``water``).
+
+    Parameters
+    ----------
+    spec : WaterHeaterSpec
+        The water heater.
+    gal_per_day : float
+        Hot water use, gal/day.
+    mains_f : numpy.ndarray
+        Mains water temperature of each day, F (365 values).
+
+    Returns
+    -------
+    numpy.ndarray
+        Input of each hour, trade units (kWh, therm or gal; 8760 values).
 
     References
     ----------

@@ -16,6 +16,17 @@ import numpy as np
 from homeplan.energy import timegrid
 from homeplan.energy.units import c_to_f
 
+__all__ = [
+    "ClimateNormals",
+    "Weather",
+    "parse_epw_design_conditions",
+    "read_epw",
+    "read_tmy2",
+    "read_tmy3",
+    "read_weather",
+    "synthetic_weather",
+]
+
 
 def _as_year(name: str, values: object) -> np.ndarray:
     arr = np.array(values, dtype=float)
@@ -34,6 +45,40 @@ class Weather:
     ``heating_design_f`` is the 99 % heating dry-bulb and ``cooling_design_f`` the 1 % cooling
     dry-bulb (ACCA Manual J convention); ``None`` means "take them from this year's hourly
     percentiles". Instances compare by identity so they can key per-home caches.
+
+    Attributes
+    ----------
+    temp_f : numpy.ndarray
+        Dry-bulb temperature of each hour, F (8760 values).
+    ghi_wm2 : numpy.ndarray
+        Global horizontal irradiance, W/m2 (8760 values).
+    dni_wm2 : numpy.ndarray
+        Direct normal irradiance, W/m2 (8760 values).
+    dhi_wm2 : numpy.ndarray
+        Diffuse horizontal irradiance, W/m2 (8760 values).
+    wind_ms : numpy.ndarray
+        Wind speed, m/s (8760 values).
+    latitude_deg : float
+        Latitude, degrees north.
+    longitude_deg : float
+        Longitude, degrees east.
+    tz_offset_h : float
+        Standard-time offset from UTC, hours.
+    altitude_m : float
+        Site elevation, m.
+    heating_design_f : float or None
+        99 % heating design dry-bulb, F.
+    cooling_design_f : float or None
+        1 % cooling design dry-bulb, F.
+    source : str
+        Where the hourly data came from.
+    design_source : str
+        Where the design temperatures came from.
+
+    Raises
+    ------
+    ValueError
+        If an hourly array does not hold 8760 finite values.
 
     References
     ----------
@@ -68,6 +113,16 @@ class Weather:
     def temp_percentile_f(self, pct: float) -> float:
         """Hourly dry-bulb percentile (1.0 gives the 99 % heating value, 99.0 the 1 % cooling).
 
+        Parameters
+        ----------
+        pct : float
+            Percentile, percent (0-100).
+
+        Returns
+        -------
+        float
+            Dry-bulb temperature, F.
+
         References
         ----------
         ASHRAE Handbook - Fundamentals, ch. 14: the 99 % heating value is exceeded in 99 % of the
@@ -98,6 +153,11 @@ class Weather:
     def monthly_hdd65(self) -> np.ndarray:
         """HDD65 of each month (12 values), daily-mean method.
 
+        Returns
+        -------
+        numpy.ndarray
+            Heating degree-days base 65 F of each month, F-days (12 values).
+
         References
         ----------
         NOAA/NWS degree-day definition (as :attr:`hdd65`).
@@ -107,7 +167,18 @@ class Weather:
         return np.add.reduceat(dd, starts)
 
     def times(self, mid_hour: bool = False):  # -> pandas.DatetimeIndex
-        """Hour-start (or mid-hour) timestamps in local standard time for a non-leap year."""
+        """Hour-start (or mid-hour) timestamps in local standard time for a non-leap year.
+
+        Parameters
+        ----------
+        mid_hour : bool
+            If True, the timestamps are at half past each hour.
+
+        Returns
+        -------
+        pandas.DatetimeIndex
+            8760 timestamps with a fixed UTC offset of ``tz_offset_h``.
+        """
         import pandas as pd
 
         start = "2023-01-01 00:30" if mid_hour else "2023-01-01 00:00"
@@ -129,6 +200,16 @@ def parse_epw_design_conditions(header_line: str) -> tuple[float, float] | None:
 
     The line holds ``...,Heating,<coldest month>,<DB 99.6 %>,<DB 99 %>,...,Cooling,<hottest
     month>,<DB range>,<DB 0.4 %>,<MCWB 0.4 %>,<DB 1 %>,...`` in C. Returns None when absent.
+
+    Parameters
+    ----------
+    header_line : str
+        One header line of an EPW file.
+
+    Returns
+    -------
+    tuple of (float, float) or None
+        99 % heating and 1 % cooling dry-bulb, F; None when the line has no design conditions.
 
     References
     ----------
@@ -157,6 +238,21 @@ def _drop_feb29(data):  # pandas.DataFrame -> DataFrame
 
 def read_epw(path: str | Path) -> Weather:
     """Read an EnergyPlus EPW file with pvlib and parse its design-conditions header line.
+
+    Parameters
+    ----------
+    path : str or pathlib.Path
+        The EPW file.
+
+    Returns
+    -------
+    Weather
+        The typical year (F, W/m2, m/s) with the file's design temperatures when present.
+
+    Raises
+    ------
+    ValueError
+        If the file does not give 8760 finite hourly values.
 
     References
     ----------
@@ -195,6 +291,21 @@ def _from_pvlib(temp_c, ghi, dni, dhi, wind, meta, source: str, **extra) -> Weat
 def read_tmy3(path: str | Path) -> Weather:
     """Read an NSRDB TMY3 CSV with pvlib; design temperatures come from its hourly percentiles.
 
+    Parameters
+    ----------
+    path : str or pathlib.Path
+        The TMY3 CSV file.
+
+    Returns
+    -------
+    Weather
+        The typical year (F, W/m2, m/s).
+
+    Raises
+    ------
+    ValueError
+        If the file does not give 8760 finite hourly values.
+
     References
     ----------
     pvlib.iotools.read_tmy3 (pvlib 0.16); Wilcox & Marion, "Users Manual for TMY3 Data Sets",
@@ -210,6 +321,21 @@ def read_tmy3(path: str | Path) -> Weather:
 def read_tmy2(path: str | Path) -> Weather:
     """Read an NSRDB TMY2 file with pvlib (dry-bulb and wind are stored in tenths).
 
+    Parameters
+    ----------
+    path : str or pathlib.Path
+        The TMY2 file.
+
+    Returns
+    -------
+    Weather
+        The typical year (F, W/m2, m/s).
+
+    Raises
+    ------
+    ValueError
+        If the file does not give 8760 finite hourly values.
+
     References
     ----------
     pvlib.iotools.read_tmy2 (pvlib 0.16); Marion & Urban, "User's Manual for TMY2s", NREL (1995).
@@ -222,7 +348,23 @@ def read_tmy2(path: str | Path) -> Weather:
 
 
 def read_weather(path: str | Path) -> Weather:
-    """Read EPW (``.epw``), TMY3 CSV (``.csv``) or TMY2 (``.tm2``) by extension."""
+    """Read EPW (``.epw``), TMY3 CSV (``.csv``) or TMY2 (``.tm2``) by extension.
+
+    Parameters
+    ----------
+    path : str or pathlib.Path
+        The weather file.
+
+    Returns
+    -------
+    Weather
+        The typical year (F, W/m2, m/s).
+
+    Raises
+    ------
+    ValueError
+        If the extension is not supported or the file does not give 8760 finite hourly values.
+    """
     suffix = Path(path).suffix.lower()
     if suffix == ".epw":
         return read_epw(path)
@@ -238,7 +380,29 @@ def read_weather(path: str | Path) -> Weather:
 
 @dataclass(frozen=True)
 class ClimateNormals:
-    """The few climate numbers the synthetic generator needs (F, degree-days base 65 F)."""
+    """The few climate numbers the synthetic generator needs (F, degree-days base 65 F).
+
+    Attributes
+    ----------
+    latitude_deg : float
+        Latitude, degrees north.
+    longitude_deg : float
+        Longitude, degrees east.
+    hdd65 : float
+        Heating degree-days base 65 F, F-days per year.
+    cdd65 : float
+        Cooling degree-days base 65 F, F-days per year.
+    heating_design_f : float
+        99 % heating design dry-bulb, F.
+    cooling_design_f : float
+        1 % cooling design dry-bulb, F.
+    cloudiness : float
+        Mean cloud cover, fraction (0-1).
+    tz_offset_h : float or None
+        Standard-time offset from UTC, hours; None takes longitude / 15.
+    altitude_m : float
+        Site elevation, m.
+    """
 
     latitude_deg: float
     longitude_deg: float
@@ -367,6 +531,16 @@ def synthetic_weather(normals: ClimateNormals) -> Weather:
     CDD65 (daily-mean method) and the 1st/99th hourly percentiles match the targets. Irradiance is
     pvlib's Ineichen clear sky scaled by the Kasten-Czeplak cloud-cover factor and split into
     DNI/DHI with the Erbs model. The random generator is seeded from the inputs.
+
+    Parameters
+    ----------
+    normals : ClimateNormals
+        The site's climate targets.
+
+    Returns
+    -------
+    Weather
+        The synthetic typical year (F, W/m2, m/s) with the given design temperatures.
 
     References
     ----------

@@ -8,3 +8,5 @@ finance     loans, NPV, IRR, payback, yearly household cash flows, levelised cos
 
 Everything here is a pure function or a small frozen dataclass; amounts are USD.
 """
+
+__all__: list[str] = []

@@ -16,6 +16,24 @@ from collections.abc import Mapping, Sequence
 from dataclasses import dataclass, field
 from typing import Any
 
+__all__ = [
+    "ESTIMATES",
+    "FOSSIL_FUELS",
+    "SIZE_UNITS",
+    "CostRange",
+    "CostTrend",
+    "PriceEscalation",
+    "base_cost_usd",
+    "cost_in_year",
+    "cost_range_from_record",
+    "cost_trend_from_record",
+    "doublings_per_year",
+    "inflation_factor",
+    "learning_annual_change_pct",
+    "price_path",
+    "wright_cost_factor",
+]
+
 SIZE_UNITS: tuple[str, ...] = ("each", "ton", "kw", "kwh", "ft2")
 ESTIMATES: tuple[str, ...] = ("low", "typical", "high")
 FOSSIL_FUELS: frozenset[str] = frozenset(
@@ -28,6 +46,26 @@ class CostRange:
     """Installed cost range of one project kind, per ``unit`` of size (``each`` = per item).
 
     ``fixed_usd`` is added once (e.g. the first head of a mini-split, a new circuit).
+
+    Attributes
+    ----------
+    unit : str
+        Size unit, one of :data:`SIZE_UNITS`.
+    low_usd : float
+        Low cost, USD per unit of size.
+    typical_usd : float
+        Typical cost, USD per unit of size.
+    high_usd : float
+        High cost, USD per unit of size.
+    fixed_usd : float
+        Cost added once, USD.
+    source : str
+        Where the range comes from.
+
+    Raises
+    ------
+    ValueError
+        If the unit is unknown or not 0 <= low <= typical <= high.
     """
 
     unit: str
@@ -59,12 +97,28 @@ def base_cost_usd(
 
     Parameters
     ----------
-    cost_range : the catalog range (may be None when a quote is given).
-    size : number of units in ``cost_range.unit`` (tons, kW, kWh, ft2; 1 for per item).
-    estimate : "low", "typical" or "high".
-    quote_usd : a contractor's quote for the whole project; it wins over the range (and
-        over ``cost_factor``).
-    cost_factor : multiplier for a variant (cold-climate heat pump 1.25, ...).
+    cost_range : CostRange or None
+        The catalog range (may be None when a quote is given).
+    size : float
+        Number of units in ``cost_range.unit`` (tons, kW, kWh, ft2; 1 for per item).
+    estimate : str
+        ``low``, ``typical`` or ``high``.
+    quote_usd : float or None
+        A contractor's quote for the whole project, USD; it wins over the range (and over
+        ``cost_factor``).
+    cost_factor : float
+        Multiplier for a variant, dimensionless (cold-climate heat pump 1.25, ...).
+
+    Returns
+    -------
+    float
+        Cost today, USD.
+
+    Raises
+    ------
+    ValueError
+        If the quote or size is negative, neither a range nor a quote is given, or the
+        estimate is unknown.
 
     References
     ----------
@@ -91,7 +145,26 @@ def base_cost_usd(
 
 def cost_range_from_record(record: Mapping[str, Any]) -> CostRange:
     """Build a :class:`CostRange` from a catalog record
-    ``{low, typical, high, per, source, fixed}`` (the ``cost`` entry of ``data/upgrades.yaml``)."""
+    ``{low, typical, high, per, source, fixed}`` (the ``cost`` entry of ``data/upgrades.yaml``).
+
+    Parameters
+    ----------
+    record : mapping of str to Any
+        ``low``, ``typical``, ``high`` (USD per unit), ``per`` (size unit, default ``each``),
+        ``fixed`` (USD) and ``source``.
+
+    Returns
+    -------
+    CostRange
+        The range, USD per unit of size.
+
+    Raises
+    ------
+    KeyError
+        If ``low``, ``typical`` or ``high`` is missing.
+    ValueError
+        If a value is not a number, the unit is unknown or the range is out of order.
+    """
     return CostRange(
         unit=str(record.get("per", "each")),
         low_usd=float(record["low"]),
@@ -105,6 +178,18 @@ def cost_range_from_record(record: Mapping[str, Any]) -> CostRange:
 def inflation_factor(rate_pct: float, years: float) -> float:
     """Compound growth factor (1 + r)^years; negative years discount back in time.
 
+    Parameters
+    ----------
+    rate_pct : float
+        Growth rate, percent per year.
+    years : float
+        Time, years.
+
+    Returns
+    -------
+    float
+        Growth factor, dimensionless.
+
     References
     ----------
     Compound interest / CPI escalation, e.g. NIST Handbook 135 (Life-Cycle Costing Manual), ch. 4.
@@ -114,6 +199,23 @@ def inflation_factor(rate_pct: float, years: float) -> float:
 
 def wright_cost_factor(learning_rate_pct: float, doublings: float) -> float:
     """Cost multiplier after ``doublings`` of cumulative production: (1 - LR)^n.
+
+    Parameters
+    ----------
+    learning_rate_pct : float
+        Cost drop per doubling of cumulative production, percent.
+    doublings : float
+        Number of doublings.
+
+    Returns
+    -------
+    float
+        Cost multiplier, dimensionless.
+
+    Raises
+    ------
+    ValueError
+        If the learning rate is outside [0, 100).
 
     References
     ----------
@@ -131,6 +233,21 @@ def doublings_per_year(deployment_growth_pct: float) -> float:
     Assumes steady exponential growth, in which yearly deployment and cumulative production
     grow at the same rate.
 
+    Parameters
+    ----------
+    deployment_growth_pct : float
+        Growth of deployment, percent per year.
+
+    Returns
+    -------
+    float
+        Doublings of cumulative production per year.
+
+    Raises
+    ------
+    ValueError
+        If the growth is -100 % or below.
+
     References
     ----------
     Way, Ives, Mealy, Farmer, "Empirically grounded technology forecasts and the energy
@@ -145,6 +262,23 @@ def learning_annual_change_pct(learning_rate_pct: float, deployment_growth_pct: 
     """Equivalent yearly cost change (negative = falling) of Wright's law with steady growth.
 
     ``(1 - LR)^(log2(1 + g)) - 1``, in percent.
+
+    Parameters
+    ----------
+    learning_rate_pct : float
+        Cost drop per doubling of cumulative production, percent.
+    deployment_growth_pct : float
+        Growth of deployment, percent per year.
+
+    Returns
+    -------
+    float
+        Cost change, percent per year (negative = falling).
+
+    Raises
+    ------
+    ValueError
+        If the learning rate is outside [0, 100) or the growth is -100 % or below.
 
     References
     ----------
@@ -162,6 +296,22 @@ class CostTrend:
     ``deployment_growth_pct``: Wright's law in real terms (0 = no learning). ``learning_share``:
     the part of the installed cost that learns (hardware); the rest (labour, permits, soft
     costs) follows inflation only.
+
+    Attributes
+    ----------
+    inflation_pct : float
+        General inflation, percent per year.
+    learning_rate_pct : float
+        Cost drop per doubling of cumulative production, percent.
+    deployment_growth_pct : float
+        Growth of deployment, percent per year.
+    learning_share : float
+        Share of the cost that learns, fraction.
+
+    Raises
+    ------
+    ValueError
+        If ``learning_share`` is outside [0, 1].
     """
 
     inflation_pct: float
@@ -179,7 +329,30 @@ def cost_trend_from_record(
 ) -> CostTrend:
     """Build a :class:`CostTrend` from a catalog ``cost_change`` record:
     ``{kind: inflation}`` or ``{kind: learning, learning_rate_pct, growth_pct_per_year}``
-    (``data/upgrades.yaml``), with the plan's general inflation."""
+    (``data/upgrades.yaml``), with the plan's general inflation.
+
+    Parameters
+    ----------
+    record : mapping of str to Any or None
+        The ``cost_change`` record (percent per doubling, percent per year); None means
+        inflation only.
+    inflation_pct : float
+        General inflation, percent per year.
+    learning_share : float
+        Share of the cost that learns, fraction (used when the record gives none).
+
+    Returns
+    -------
+    CostTrend
+        The trend.
+
+    Raises
+    ------
+    ValueError
+        If the kind is unknown or ``learning_share`` is outside [0, 1].
+    KeyError
+        If a learning record lacks ``learning_rate_pct`` or ``growth_pct_per_year``.
+    """
     if not record or record.get("kind", "inflation") == "inflation":
         return CostTrend(inflation_pct=inflation_pct)
     if record.get("kind") != "learning":
@@ -198,6 +371,27 @@ def cost_in_year(base_cost_usd: float, base_year: int, year: int, trend: CostTre
     """Nominal cost in ``year`` of a project costing ``base_cost_usd`` in ``base_year``.
 
     cost = base x (1 + i)^t x [s x (1 - LR)^(t log2(1 + g)) + (1 - s)],  t = year - base_year.
+
+    Parameters
+    ----------
+    base_cost_usd : float
+        Cost in ``base_year``, USD.
+    base_year : int
+        Calendar year of the base cost.
+    year : int
+        Calendar year wanted.
+    trend : CostTrend
+        How the cost changes.
+
+    Returns
+    -------
+    float
+        Cost in ``year``, nominal USD.
+
+    Raises
+    ------
+    ValueError
+        If the trend's learning rate or growth is out of range.
 
     References
     ----------
@@ -219,6 +413,19 @@ class PriceEscalation:
     fossil fuels (a higher-volatility / higher-escalation scenario); ``fossil_volatility_pct``
     is the yearly standard deviation of random log-price shocks for fossil fuels (0 = none),
     drawn from a seeded generator so a scenario is repeatable.
+
+    Attributes
+    ----------
+    cpi_pct : float
+        Default escalation, percent per year.
+    by_fuel_pct : mapping of str to float
+        Escalation by fuel, percent per year.
+    fossil_extra_pct : float
+        Extra escalation of fossil fuels, percent per year.
+    fossil_volatility_pct : float
+        Standard deviation of the yearly log-price shocks of fossil fuels, percent.
+    seed : int
+        Seed of the random generator.
     """
 
     cpi_pct: float
@@ -228,6 +435,18 @@ class PriceEscalation:
     seed: int = 0
 
     def rate_pct(self, fuel: str) -> float:
+        """Deterministic escalation of ``fuel``.
+
+        Parameters
+        ----------
+        fuel : str
+            Fuel name, e.g. ``electricity``.
+
+        Returns
+        -------
+        float
+            Escalation, percent per year (fossil extra included).
+        """
         base = self.by_fuel_pct.get(fuel, self.cpi_pct)
         return base + (self.fossil_extra_pct if fuel in FOSSIL_FUELS else 0.0)
 
@@ -240,6 +459,24 @@ def price_path(
     Deterministic compound escalation; for fossil fuels with ``fossil_volatility_pct`` > 0 a
     seeded random walk of log-price shocks (mean-corrected so the expected price follows the
     escalation) is applied from ``base_year`` on.
+
+    Parameters
+    ----------
+    price_now : float
+        Price in ``base_year``, USD per trade unit.
+    fuel : str
+        Fuel name, e.g. ``natural_gas``.
+    base_year : int
+        Calendar year of ``price_now``.
+    years : sequence of int
+        Calendar years wanted.
+    escalation : PriceEscalation
+        Escalation scenario.
+
+    Returns
+    -------
+    list of float
+        Price in each of ``years``, nominal USD per trade unit.
 
     References
     ----------

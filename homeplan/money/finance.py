@@ -11,6 +11,23 @@ import math
 from collections.abc import Mapping, Sequence
 from dataclasses import dataclass
 
+__all__ = [
+    "EnergyHedge",
+    "Loan",
+    "LoanYear",
+    "discount_factor",
+    "discounted_payback_years",
+    "energy_hedge",
+    "irr_pct",
+    "levelised_cost_usd_per_kwh",
+    "levelised_price_usd_per_kwh",
+    "loan_payment_usd",
+    "loan_schedule",
+    "npv_usd",
+    "remaining_value_share",
+    "simple_payback_years",
+]
+
 # --------------------------------------------------------------------------- loans
 
 
@@ -20,6 +37,27 @@ def loan_payment_usd(
     """Level payment of an amortised loan (annuity formula); 0 % loans pay principal / n.
 
     P = L r / (1 - (1 + r)^-n), r = rate_pct / 100 / payments_per_year, n = term x payments.
+
+    Parameters
+    ----------
+    principal_usd : float
+        Amount borrowed, USD.
+    rate_pct : float
+        Interest rate, percent per year.
+    term_years : float
+        Term, years.
+    payments_per_year : int
+        Payments per year.
+
+    Returns
+    -------
+    float
+        Payment, USD per payment period.
+
+    Raises
+    ------
+    ValueError
+        If the term is shorter than one payment.
 
     References
     ----------
@@ -37,7 +75,23 @@ def loan_payment_usd(
 @dataclass(frozen=True)
 class Loan:
     """A loan that pays for projects in ``start_year``; payments run ``term_years`` calendar
-    years from ``start_year`` (``payments_per_year`` each)."""
+    years from ``start_year`` (``payments_per_year`` each).
+
+    Attributes
+    ----------
+    principal_usd : float
+        Amount borrowed, USD.
+    rate_pct : float
+        Interest rate, percent per year.
+    term_years : int
+        Term, years.
+    start_year : int
+        Calendar year the money is borrowed.
+    payments_per_year : int
+        Payments per year.
+    name : str
+        Label of the loan.
+    """
 
     principal_usd: float
     rate_pct: float
@@ -49,6 +103,22 @@ class Loan:
 
 @dataclass(frozen=True)
 class LoanYear:
+    """One calendar year of a loan's schedule.
+
+    Attributes
+    ----------
+    year : int
+        Calendar year.
+    payments_usd : float
+        Payments made in the year, USD.
+    interest_usd : float
+        Interest paid in the year, USD.
+    principal_usd : float
+        Principal repaid in the year, USD.
+    balance_end_usd : float
+        Balance owed at the end of the year, USD.
+    """
+
     year: int
     payments_usd: float
     interest_usd: float
@@ -58,6 +128,21 @@ class LoanYear:
 
 def loan_schedule(loan: Loan) -> tuple[LoanYear, ...]:
     """Yearly totals of an amortised loan: payments, interest, principal, balance at year end.
+
+    Parameters
+    ----------
+    loan : Loan
+        The loan.
+
+    Returns
+    -------
+    tuple of LoanYear
+        One entry per year of the term, USD.
+
+    Raises
+    ------
+    ValueError
+        If the term is shorter than one payment.
 
     References
     ----------
@@ -133,6 +218,18 @@ def remaining_value_share(years_used: float, life_years: float) -> float:
 def npv_usd(rate_pct: float, cash_flows_usd: Sequence[float]) -> float:
     """Net present value, first flow at t = 0: sum CF_t / (1 + r)^t.
 
+    Parameters
+    ----------
+    rate_pct : float
+        Discount rate, percent per year.
+    cash_flows_usd : sequence of float
+        Cash flow of each year from t = 0, USD.
+
+    Returns
+    -------
+    float
+        Net present value at t = 0, USD.
+
     References
     ----------
     NIST Handbook 135 (Life-Cycle Costing Manual), present value; numpy-financial ``npv``.
@@ -146,6 +243,16 @@ def irr_pct(cash_flows_usd: Sequence[float]) -> float | None:
 
     Finds every sign change of NPV(r) over r in (-99 %, 10,000 %] on a fine grid, refines
     each by bisection and returns the root closest to 0 (numpy-financial's convention).
+
+    Parameters
+    ----------
+    cash_flows_usd : sequence of float
+        Cash flow of each year from t = 0, USD.
+
+    Returns
+    -------
+    float or None
+        Internal rate of return, percent per year; None when there is none.
 
     References
     ----------
@@ -213,6 +320,16 @@ def simple_payback_years(cash_flows_usd: Sequence[float]) -> float | None:
     """Years until the cumulative (undiscounted) cash flow first reaches zero, interpolated
     within the year; flows[0] is the up-front year. None if it never pays back.
 
+    Parameters
+    ----------
+    cash_flows_usd : sequence of float
+        Cash flow of each year from t = 0, USD.
+
+    Returns
+    -------
+    float or None
+        Payback time, years; None if it never pays back.
+
     References
     ----------
     NIST Handbook 135, simple payback (SPB); ASTM E1121 (payback method).
@@ -223,147 +340,24 @@ def simple_payback_years(cash_flows_usd: Sequence[float]) -> float | None:
 def discounted_payback_years(rate_pct: float, cash_flows_usd: Sequence[float]) -> float | None:
     """Like :func:`simple_payback_years` on flows discounted at ``rate_pct``.
 
+    Parameters
+    ----------
+    rate_pct : float
+        Discount rate, percent per year.
+    cash_flows_usd : sequence of float
+        Cash flow of each year from t = 0, USD.
+
+    Returns
+    -------
+    float or None
+        Discounted payback time, years; None if it never pays back.
+
     References
     ----------
     NIST Handbook 135, discounted payback (DPB); ASTM E1121.
     """
     r = rate_pct / 100.0
     return _payback([cf / (1.0 + r) ** t for t, cf in enumerate(cash_flows_usd)])
-
-
-# --------------------------------------------------------------------------- household flows
-
-
-@dataclass(frozen=True)
-class YearFlow:
-    """One year of household cash flow (USD; positive = to the household).
-
-    ``spend_usd``: invoices paid that year after point-of-sale rebates; ``borrowed_usd``: loan
-    principal that paid part of them; ``out_of_pocket_usd`` = spend - borrowed;
-    ``incentives_usd``: rebates paid later and tax credits received; ``net_usd`` =
-    incentives + bill savings - out of pocket - loan payments.
-    """
-
-    year: int
-    spend_usd: float
-    borrowed_usd: float
-    out_of_pocket_usd: float
-    incentives_usd: float
-    loan_payments_usd: float
-    bill_savings_usd: float
-    net_usd: float
-    cumulative_usd: float
-
-
-def household_cash_flows(
-    years: Sequence[int],
-    spend_usd: Mapping[int, float],
-    incentives_usd: Mapping[int, float] | None = None,
-    loans: Sequence[Loan] = (),
-    baseline_bills_usd: Mapping[int, float] | None = None,
-    plan_bills_usd: Mapping[int, float] | None = None,
-) -> tuple[YearFlow, ...]:
-    """Per-year cash flows of a plan (or one project) against a baseline.
-
-    Parameters
-    ----------
-    years : the horizon, in order.
-    spend_usd : project invoices per year, after point-of-sale rebates.
-    incentives_usd : cash received per year (e.g. ``IncentiveResult.cash_after_purchase_by_year()``).
-    loans : loans drawn in their ``start_year`` to pay part of that year's spend.
-    baseline_bills_usd / plan_bills_usd : energy bills per year for the baseline ("do nothing"
-        or "like-for-like") and for the plan; savings = baseline - plan.
-
-    References
-    ----------
-    NIST Handbook 135 (Life-Cycle Costing Manual): savings measured against a base case;
-    cash-basis timing (incentives counted in the year the cash arrives).
-    """
-    incentives = incentives_usd or {}
-    base = baseline_bills_usd or {}
-    plan = plan_bills_usd or {}
-    borrowed: dict[int, float] = {}
-    payments: dict[int, float] = {}
-    for loan in loans:
-        borrowed[loan.start_year] = borrowed.get(loan.start_year, 0.0) + loan.principal_usd
-        for ly in loan_schedule(loan):
-            payments[ly.year] = payments.get(ly.year, 0.0) + ly.payments_usd
-    out = []
-    cumulative = 0.0
-    for y in years:
-        spend = spend_usd.get(y, 0.0)
-        borrow = borrowed.get(y, 0.0)
-        savings = base.get(y, 0.0) - plan.get(y, 0.0)
-        net = incentives.get(y, 0.0) + savings - (spend - borrow) - payments.get(y, 0.0)
-        cumulative += net
-        out.append(
-            YearFlow(
-                year=y,
-                spend_usd=spend,
-                borrowed_usd=borrow,
-                out_of_pocket_usd=spend - borrow,
-                incentives_usd=incentives.get(y, 0.0),
-                loan_payments_usd=payments.get(y, 0.0),
-                bill_savings_usd=savings,
-                net_usd=net,
-                cumulative_usd=cumulative,
-            )
-        )
-    return tuple(out)
-
-
-@dataclass(frozen=True)
-class FinanceSummary:
-    npv_usd: float
-    irr_pct: float | None
-    simple_payback_years: float | None
-    discounted_payback_years: float | None
-    discount_rate_pct: float
-
-
-def summarise(flows: Sequence[YearFlow], discount_rate_pct: float) -> FinanceSummary:
-    """NPV, IRR and paybacks of the ``net_usd`` column (first year = t 0).
-
-    References
-    ----------
-    See :func:`npv_usd`, :func:`irr_pct`, :func:`simple_payback_years`,
-    :func:`discounted_payback_years`.
-    """
-    nets = [f.net_usd for f in flows]
-    return FinanceSummary(
-        npv_usd=npv_usd(discount_rate_pct, nets),
-        irr_pct=irr_pct(nets),
-        simple_payback_years=simple_payback_years(nets),
-        discounted_payback_years=discounted_payback_years(discount_rate_pct, nets),
-        discount_rate_pct=discount_rate_pct,
-    )
-
-
-def difference(plan: Sequence[YearFlow], baseline: Sequence[YearFlow]) -> list[float]:
-    """Year-by-year ``net_usd`` of a plan minus a baseline (e.g. like-for-like replacement),
-    matched by year; the result feeds :func:`npv_usd`, :func:`irr_pct` and the paybacks."""
-    base = {f.year: f.net_usd for f in baseline}
-    return [f.net_usd - base.get(f.year, 0.0) for f in plan]
-
-
-def budgets_with_reinvested_savings(
-    base_budget_usd: Mapping[int, float],
-    bill_savings_usd: Mapping[int, float],
-    share: float = 1.0,
-) -> dict[int, float]:
-    """Each year's budget plus ``share`` of the previous year's bill savings.
-
-    Savings are not compounded: year y gets base[y] + share x savings[y - 1].
-
-    References
-    ----------
-    Issue 5 (household finance): "add each year's bill savings to the next year's budget".
-    """
-    if not 0 <= share <= 1:
-        raise ValueError("share must be between 0 and 1")
-    return {
-        y: b + share * bill_savings_usd.get(y - 1, 0.0) for y, b in sorted(base_budget_usd.items())
-    }
 
 
 # --------------------------------------------------------------------------- levelised cost
@@ -392,6 +386,37 @@ def levelised_cost_usd_per_kwh(
     LCOE = [capex - incentives + sum_t (O&M_t + R_t)/(1+r)^t] / sum_t E_t/(1+r)^t, t = 1..N,
     E_t = E_1 (1 - d)^(t-1), O&M_t = O&M_1 (1 + e)^(t-1); ``replacements_usd`` maps a
     year of life (1..N) to a cost (e.g. an inverter or battery module).
+
+    Parameters
+    ----------
+    capex_usd : float
+        Up-front cost, USD.
+    first_year_kwh : float
+        Energy produced in the first year, kWh.
+    life_years : int
+        Service life, years.
+    discount_rate_pct : float
+        Discount rate, percent per year.
+    om_usd_per_year : float
+        Operation and maintenance in the first year, USD per year.
+    om_escalation_pct : float
+        Escalation of operation and maintenance, percent per year.
+    degradation_pct : float
+        Output degradation, percent per year.
+    replacements_usd : mapping of int to float or None
+        Replacement cost by year of life, USD.
+    incentives_usd : float
+        Incentives deducted from the up-front cost, USD.
+
+    Returns
+    -------
+    float
+        Levelised cost of energy, USD/kWh.
+
+    Raises
+    ------
+    ValueError
+        If the life or the first-year energy is not positive.
 
     References
     ----------
@@ -425,6 +450,26 @@ def levelised_price_usd_per_kwh(
     """Utility price levelised over the same kWh stream: sum p_t E_t d_t / sum E_t d_t,
     p_t = p_1 (1 + e)^(t-1), d_t = (1 + r)^-t.
 
+    Parameters
+    ----------
+    first_year_price_usd_per_kwh : float
+        Price in the first year, USD/kWh.
+    escalation_pct : float
+        Price escalation, percent per year.
+    first_year_kwh : float
+        Energy in the first year, kWh.
+    life_years : int
+        Period, years.
+    discount_rate_pct : float
+        Discount rate, percent per year.
+    degradation_pct : float
+        Decline of the energy stream, percent per year.
+
+    Returns
+    -------
+    float
+        Levelised price, USD/kWh.
+
     References
     ----------
     Short, Packey & Holt, NREL/TP-462-5173 (1995): levelising an escalating price.
@@ -441,7 +486,21 @@ def levelised_price_usd_per_kwh(
 
 @dataclass(frozen=True)
 class EnergyHedge:
-    """The "locked-in" cost of solar + battery beside the utility price over the same life."""
+    """The "locked-in" cost of solar + battery beside the utility price over the same life.
+
+    Attributes
+    ----------
+    lcoe_usd_per_kwh : float
+        Levelised cost of the system's energy, USD/kWh.
+    utility_levelised_usd_per_kwh : float
+        Levelised utility price over the same kWh, USD/kWh.
+    utility_first_year_usd_per_kwh : float
+        Utility price in the first year, USD/kWh.
+    utility_last_year_usd_per_kwh : float
+        Utility price in the last year of the life, USD/kWh.
+    life_years : int
+        Service life, years.
+    """
 
     lcoe_usd_per_kwh: float
     utility_levelised_usd_per_kwh: float
@@ -465,6 +524,39 @@ def energy_hedge(
 ) -> EnergyHedge:
     """Levelised cost of a solar + battery system next to the utility price rising at
     ``utility_escalation_pct`` (e.g. CPI) over the same kWh - the inflation hedge in one figure.
+
+    Parameters
+    ----------
+    capex_usd : float
+        Up-front cost, USD.
+    first_year_kwh : float
+        Energy produced in the first year, kWh.
+    life_years : int
+        Service life, years.
+    discount_rate_pct : float
+        Discount rate, percent per year.
+    utility_price_usd_per_kwh : float
+        Utility price in the first year, USD/kWh.
+    utility_escalation_pct : float
+        Utility price escalation (also applied to O&M), percent per year.
+    om_usd_per_year : float
+        Operation and maintenance in the first year, USD per year.
+    degradation_pct : float
+        Output degradation, percent per year.
+    replacements_usd : mapping of int to float or None
+        Replacement cost by year of life, USD.
+    incentives_usd : float
+        Incentives deducted from the up-front cost, USD.
+
+    Returns
+    -------
+    EnergyHedge
+        Levelised system cost and utility prices, USD/kWh.
+
+    Raises
+    ------
+    ValueError
+        If the life or the first-year energy is not positive.
 
     References
     ----------

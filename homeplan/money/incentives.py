@@ -56,6 +56,37 @@ from pathlib import Path
 from types import MappingProxyType
 from typing import Any
 
+__all__ = [
+    "CREDIT_KINDS",
+    "KIND_ALIASES",
+    "PANEL_KINDS",
+    "PERFORMANCE_KINDS",
+    "PROGRAM_KINDS",
+    "PROJECT_KINDS",
+    "TAX_LEVELS",
+    "WINDOW_BASES",
+    "Award",
+    "CapGroup",
+    "CapUse",
+    "Conditions",
+    "Household",
+    "IncentiveDataError",
+    "IncentiveResult",
+    "IncomeTier",
+    "Payment",
+    "Program",
+    "ProgramTotal",
+    "Purchase",
+    "YearIncentive",
+    "describe_caps",
+    "evaluate",
+    "incentives_by_install_year",
+    "parse_catalog",
+    "parse_program",
+    "program_totals",
+    "read_catalog",
+]
+
 PROJECT_KINDS: frozenset[str] = frozenset(
     {
         "heat_pump",
@@ -107,6 +138,19 @@ class IncentiveDataError(ValueError):
     Attributes ``program_id`` and ``field`` (a dotted path such as ``tiers[1].ami_min_pct``),
     ``index`` (position of the record in the catalog list, set by :func:`parse_catalog`) and
     :attr:`keys` let a loader point at the line and column of the offending value.
+
+    Parameters
+    ----------
+    program_id : str
+        Id of the program at fault (``?`` when it has none).
+    field_path : str
+        Dotted path of the field, e.g. ``tiers[1].ami_min_pct``.
+    problem : str
+        What is wrong.
+    fix : str
+        How to fix it.
+    index : int or None
+        Position of the record in the catalog list.
     """
 
     def __init__(
@@ -139,6 +183,17 @@ class CapGroup:
 
     ``sub_caps_usd`` holds (kind, cap) pairs: a yearly cap for one kind inside the group
     (26 USC 25C(b)(2)(C): $600 for a panel inside the $1,200 group).
+
+    Attributes
+    ----------
+    name : str
+        Name of the group.
+    kinds : frozenset of str
+        Project kinds sharing the cap.
+    cap_usd : float
+        Cap, USD per tax year.
+    sub_caps_usd : tuple of (str, float)
+        Caps of single kinds inside the group, USD per tax year.
     """
 
     name: str
@@ -147,6 +202,18 @@ class CapGroup:
     sub_caps_usd: tuple[tuple[str, float], ...] = ()
 
     def sub_cap_usd(self, kind: str) -> float | None:
+        """The group's yearly sub-cap of one kind.
+
+        Parameters
+        ----------
+        kind : str
+            Project kind.
+
+        Returns
+        -------
+        float or None
+            Sub-cap, USD per tax year; None when the kind has none.
+        """
         for k, cap in self.sub_caps_usd:
             if k == kind:
                 return cap
@@ -159,6 +226,23 @@ class IncomeTier:
 
     ``includes_max`` makes the upper bound inclusive (42 USC 18795a: "not more than 150
     percent"). ``None`` fields inherit the program's values.
+
+    Attributes
+    ----------
+    ami_min_pct : float
+        Lower bound, percent of area median income.
+    ami_max_pct : float or None
+        Upper bound, percent of area median income; None = no upper bound.
+    rate_pct : float or None
+        Share of the cost paid, percent.
+    includes_max : bool
+        True if the upper bound is inclusive.
+    per_item_cap_usd : float or None
+        Cap per purchase, USD.
+    per_kind_caps_usd : tuple of (str, float) or None
+        Cap per purchase by project kind, USD.
+    lifetime_cap_usd : float or None
+        Household lifetime cap, USD.
     """
 
     ami_min_pct: float
@@ -170,6 +254,18 @@ class IncomeTier:
     lifetime_cap_usd: float | None = None
 
     def contains(self, ami_pct: float) -> bool:
+        """Whether a household income falls in this tier.
+
+        Parameters
+        ----------
+        ami_pct : float
+            Household income, percent of area median income.
+
+        Returns
+        -------
+        bool
+            True if the income is within the tier's bounds.
+        """
         if ami_pct < self.ami_min_pct:
             return False
         if self.ami_max_pct is None:
@@ -177,6 +273,13 @@ class IncomeTier:
         return ami_pct <= self.ami_max_pct if self.includes_max else ami_pct < self.ami_max_pct
 
     def label(self) -> str:
+        """The tier in words.
+
+        Returns
+        -------
+        str
+            E.g. ``80 to 150 % AMI``.
+        """
         if self.ami_max_pct is None:
             return f"{self.ami_min_pct:g} % AMI and above"
         return f"{self.ami_min_pct:g} to {self.ami_max_pct:g} % AMI"
@@ -184,7 +287,19 @@ class IncomeTier:
 
 @dataclass(frozen=True)
 class Conditions:
-    """Eligibility conditions on a purchase (None / False = no condition)."""
+    """Eligibility conditions on a purchase (None / False = no condition).
+
+    Attributes
+    ----------
+    min_panel_amps : float or None
+        Smallest panel rating accepted for panel and service upgrades, A.
+    min_battery_kwh : float or None
+        Smallest battery accepted, kWh.
+    no_fuel_switching : bool
+        True if purchases that replace a fossil-fuel appliance are excluded.
+    requires_same_year : tuple of (str, frozenset of str)
+        Kind -> kinds one of which must be installed in the same tax year.
+    """
 
     min_panel_amps: float | None = None
     min_battery_kwh: float | None = None
@@ -192,6 +307,18 @@ class Conditions:
     requires_same_year: tuple[tuple[str, frozenset[str]], ...] = ()
 
     def required_with(self, kind: str) -> frozenset[str] | None:
+        """Kinds that must be installed in the same tax year as ``kind``.
+
+        Parameters
+        ----------
+        kind : str
+            Project kind.
+
+        Returns
+        -------
+        frozenset of str or None
+            The partner kinds; None when ``kind`` has no such condition.
+        """
         for k, others in self.requires_same_year:
             if k == kind:
                 return others
@@ -200,7 +327,59 @@ class Conditions:
 
 @dataclass(frozen=True)
 class Program:
-    """One incentive program, as data. See the module docstring for how fields are applied."""
+    """One incentive program, as data. See the module docstring for how fields are applied.
+
+    Attributes
+    ----------
+    id : str
+        Short unique id.
+    name : str
+        Program name.
+    administrator : str
+        Who runs the program.
+    kind : str
+        One of :data:`PROGRAM_KINDS`.
+    kinds : frozenset of str
+        Project kinds covered.
+    rate_pct : float or None
+        Share of the cost paid, percent.
+    rate_usd_per_unit : float or None
+        Performance payment, USD per kW or USD per kWh.
+    per_item_cap_usd : float or None
+        Cap per purchase, USD.
+    per_kind_caps_usd : tuple of (str, float)
+        Cap per purchase by project kind, USD.
+    yearly_caps : tuple of CapGroup
+        Caps shared by several kinds, USD per tax year.
+    lifetime_cap_usd : float or None
+        Household lifetime cap, USD.
+    tiers : tuple of IncomeTier
+        Income tiers by percent of area median income.
+    starts : datetime.date or None
+        First eligible date.
+    ends : datetime.date or None
+        Last eligible date.
+    window_basis : str
+        Date checked against the window: ``placed_in_service`` or ``paid``.
+    conditions : Conditions
+        Eligibility conditions.
+    grant_family : str or None
+        Family of programs that do not stack.
+    reduces_credit_basis : bool
+        True if this rebate lowers the cost basis of tax credits.
+    paid_after_days : int
+        Delay from payment to the rebate or performance payment, days.
+    credit_paid_on : tuple of (int, int)
+        Month and day a credit arrives in the year after the tax year.
+    carryforward_years : int or None
+        Years unused credit may be carried forward; None = no limit.
+    tax_level : str
+        ``federal`` or ``state``.
+    source : str
+        Where the program's rules come from.
+    notes : str
+        Free-text notes.
+    """
 
     id: str
     name: str
@@ -229,6 +408,7 @@ class Program:
 
     @property
     def is_credit(self) -> bool:
+        """True for tax credits (``tax_credit`` or ``tax_credit_carryforward``)."""
         return self.kind in CREDIT_KINDS
 
 
@@ -236,7 +416,34 @@ class Program:
 class Purchase:
     """One purchase (an installed project). ``size_kw`` / ``size_kwh`` feed performance
     payments and conditions (battery capacity in kWh); ``fuel_switch`` is True when it
-    replaces a fossil-fuel appliance."""
+    replaces a fossil-fuel appliance.
+
+    Attributes
+    ----------
+    project_id : str
+        Id of the project.
+    kind : str
+        Project kind (aliases in :data:`KIND_ALIASES` are mapped to their kind).
+    cost_usd : float
+        Cost, USD.
+    installed_on : datetime.date
+        Date placed in service.
+    paid_on : datetime.date or None
+        Date paid; None = ``installed_on``.
+    panel_amps : float or None
+        Panel rating of a panel or service upgrade, A.
+    size_kw : float or None
+        Size, kW.
+    size_kwh : float or None
+        Size (battery capacity), kWh.
+    fuel_switch : bool
+        True if it replaces a fossil-fuel appliance.
+
+    Raises
+    ------
+    ValueError
+        If ``cost_usd`` is negative.
+    """
 
     project_id: str
     kind: str
@@ -255,6 +462,7 @@ class Purchase:
 
     @property
     def paid_date(self) -> dt.date:
+        """Date paid: ``paid_on``, or ``installed_on`` when not given."""
         return self.paid_on or self.installed_on
 
 
@@ -265,6 +473,21 @@ class Household:
     ``tax_liability_usd`` / ``state_tax_liability_usd``: yearly federal / state income tax
     before credits (None = no limit); ``*_by_year_usd``: overrides by tax year;
     ``prior_use_usd``: amounts already received from programs with lifetime caps, by program id.
+
+    Attributes
+    ----------
+    ami_pct : float or None
+        Household income, percent of area median income.
+    tax_liability_usd : float or None
+        Federal income tax before credits, USD per tax year.
+    state_tax_liability_usd : float or None
+        State income tax before credits, USD per tax year.
+    tax_liability_by_year_usd : mapping of int to float
+        Federal liability by tax year, USD.
+    state_tax_liability_by_year_usd : mapping of int to float
+        State liability by tax year, USD.
+    prior_use_usd : mapping of str to float
+        Amounts already received by program id, USD.
     """
 
     ami_pct: float | None = None
@@ -275,6 +498,20 @@ class Household:
     prior_use_usd: Mapping[str, float] = field(default_factory=dict)
 
     def liability_usd(self, year: int, level: str = "federal") -> float | None:
+        """Income tax liability before credits in one tax year.
+
+        Parameters
+        ----------
+        year : int
+            Tax year.
+        level : str
+            ``federal`` or ``state``.
+
+        Returns
+        -------
+        float or None
+            Liability, USD; None = no limit.
+        """
         if level == "state":
             return self.state_tax_liability_by_year_usd.get(year, self.state_tax_liability_usd)
         return self.tax_liability_by_year_usd.get(year, self.tax_liability_usd)
@@ -282,6 +519,16 @@ class Household:
 
 @dataclass(frozen=True)
 class Payment:
+    """One payment of incentive cash.
+
+    Attributes
+    ----------
+    on : datetime.date
+        Date the cash arrives.
+    amount_usd : float
+        Amount, USD.
+    """
+
     on: dt.date
     amount_usd: float
 
@@ -293,6 +540,31 @@ class Award:
     ``earned_usd`` is after rates, caps and stacking; ``paid_usd`` is what actually arrives
     (after the tax-liability limit, summed over ``payments``); ``lost_usd`` is earned credit
     that can never be used; ``carried_unused_usd`` is carryforward still unused at the end.
+
+    Attributes
+    ----------
+    project_id : str
+        Id of the purchase.
+    program_id : str
+        Id of the program.
+    program_kind : str
+        Kind of the program.
+    tax_year : int
+        Tax year of the purchase.
+    basis_usd : float
+        Cost basis, USD.
+    earned_usd : float
+        Amount earned, USD.
+    paid_usd : float
+        Amount that arrives, USD.
+    payments : tuple of Payment
+        The payments.
+    lost_usd : float
+        Credit that can never be used, USD.
+    carried_unused_usd : float
+        Carryforward still unused at the end of the horizon, USD.
+    notes : tuple of str
+        Reasons and caps in plain words.
     """
 
     project_id: str
@@ -309,12 +581,27 @@ class Award:
 
     @property
     def at_point_of_sale(self) -> bool:
+        """True for a point-of-sale rebate (taken off the invoice)."""
         return self.program_kind == "point_of_sale_rebate"
 
 
 @dataclass(frozen=True)
 class CapUse:
-    """How much of one cap was used: ``tax_year`` is None for lifetime caps."""
+    """How much of one cap was used: ``tax_year`` is None for lifetime caps.
+
+    Attributes
+    ----------
+    program_id : str
+        Id of the program.
+    cap : str
+        Name of the cap.
+    tax_year : int or None
+        Tax year of a yearly cap.
+    limit_usd : float
+        The cap, USD.
+    used_usd : float
+        Amount used, USD.
+    """
 
     program_id: str
     cap: str
@@ -325,41 +612,53 @@ class CapUse:
 
 @dataclass(frozen=True)
 class IncentiveResult:
+    """What :func:`evaluate` found: one award per purchase and program, and the caps used.
+
+    Attributes
+    ----------
+    awards : tuple of Award
+        One award per (purchase, program covering its kind).
+    cap_uses : tuple of CapUse
+        Caps used, by program and tax year.
+    """
+
     awards: tuple[Award, ...]
     cap_uses: tuple[CapUse, ...]
 
     @property
     def total_paid_usd(self) -> float:
+        """Incentive cash paid over every award, USD."""
         return sum(a.paid_usd for a in self.awards)
 
     def for_item(self, project_id: str) -> tuple[Award, ...]:
+        """The awards of one purchase.
+
+        Parameters
+        ----------
+        project_id : str
+            Id of the purchase.
+
+        Returns
+        -------
+        tuple of Award
+            Its awards, USD.
+        """
         return tuple(a for a in self.awards if a.project_id == project_id)
 
-    def item_paid_usd(self, project_id: str) -> float:
-        return sum(a.paid_usd for a in self.for_item(project_id))
-
     def point_of_sale_usd(self, project_id: str) -> float:
-        """Rebates taken off the invoice: they reduce what must be paid up front."""
+        """Rebates taken off the invoice: they reduce what must be paid up front.
+
+        Parameters
+        ----------
+        project_id : str
+            Id of the purchase.
+
+        Returns
+        -------
+        float
+            Point-of-sale rebates, USD.
+        """
         return sum(a.paid_usd for a in self.for_item(project_id) if a.at_point_of_sale)
-
-    def cash_by_year(self) -> dict[int, float]:
-        """Incentive cash received per calendar year (all kinds, by arrival date)."""
-        out: dict[int, float] = {}
-        for a in self.awards:
-            for p in a.payments:
-                out[p.on.year] = out.get(p.on.year, 0.0) + p.amount_usd
-        return dict(sorted(out.items()))
-
-    def cash_after_purchase_by_year(self) -> dict[int, float]:
-        """Like :meth:`cash_by_year` but without point-of-sale rebates (already off the price)."""
-        out: dict[int, float] = {}
-        for a in self.awards:
-            if a.at_point_of_sale:
-                continue
-            for p in a.payments:
-                out[p.on.year] = out.get(p.on.year, 0.0) + p.amount_usd
-        return dict(sorted(out.items()))
-
 
 # --------------------------------------------------------------------------- parsing
 
@@ -504,6 +803,16 @@ def _kinds_fix() -> str:
 
 def parse_program(raw: Mapping[str, Any]) -> Program:
     """Validate one program record (a dict as loaded from YAML) and build a :class:`Program`.
+
+    Parameters
+    ----------
+    raw : mapping of str to Any
+        The record (rates in percent, caps in USD, dates as YYYY-MM-DD).
+
+    Returns
+    -------
+    Program
+        The validated program.
 
     Raises
     ------
@@ -742,7 +1051,20 @@ def _parse_month_day(value: Any, r: _Reader) -> tuple[int, int]:
 def parse_catalog(raw: Mapping[str, Any] | Sequence[Mapping[str, Any]]) -> tuple[Program, ...]:
     """Parse a catalog: ``{"programs": [...]}`` or a plain list of program records.
 
-    Raises :class:`IncentiveDataError` for an invalid record or a duplicate id.
+    Parameters
+    ----------
+    raw : mapping of str to Any, or sequence of mapping
+        The catalog.
+
+    Returns
+    -------
+    tuple of Program
+        The programs, in catalog order.
+
+    Raises
+    ------
+    IncentiveDataError
+        For an invalid record or a duplicate id.
     """
     records = raw.get("programs") if isinstance(raw, Mapping) else raw
     if not isinstance(records, list | tuple):
@@ -768,7 +1090,23 @@ def parse_catalog(raw: Mapping[str, Any] | Sequence[Mapping[str, Any]]) -> tuple
 
 
 def read_catalog(path: str | Path) -> tuple[Program, ...]:
-    """Read and parse a YAML catalog file (an edge helper; the core uses parse_catalog)."""
+    """Read and parse a YAML catalog file (an edge helper; the core uses parse_catalog).
+
+    Parameters
+    ----------
+    path : str or pathlib.Path
+        The YAML file.
+
+    Returns
+    -------
+    tuple of Program
+        The programs, in file order.
+
+    Raises
+    ------
+    IncentiveDataError
+        For an invalid record or a duplicate id.
+    """
     from ruamel.yaml import YAML
 
     data = YAML(typ="safe").load(Path(path).read_text(encoding="utf-8"))
@@ -805,7 +1143,7 @@ class _Draft:
 
 
 def _ineligible_reason(
-    item: Purchase, prog: Program, household: Household, items: Sequence[Purchase]
+    item: Purchase, prog: Program, items: Sequence[Purchase]
 ) -> str | None:
     when = item.installed_on if prog.window_basis == "placed_in_service" else item.paid_date
     word = "installed" if prog.window_basis == "placed_in_service" else "paid"
@@ -861,17 +1199,22 @@ def evaluate(
 
     Parameters
     ----------
-    items : purchases; evaluated in order of installed date (then input order), which decides
+    items : iterable of Purchase
+        Purchases; evaluated in order of installed date (then input order), which decides
         who uses a shared yearly cap first.
-    programs : in priority order (earlier wins inside a grant family).
-    household : AMI %, yearly tax liability, prior use of lifetime caps.
-    carry_horizon_years : how many tax years after the last purchase a carried credit is
-        followed before being reported as unused.
+    programs : iterable of Program
+        Programs in priority order (earlier wins inside a grant family).
+    household : Household
+        AMI %, yearly tax liability (USD), prior use of lifetime caps (USD).
+    carry_horizon_years : int
+        How many tax years after the last purchase a carried credit is followed before being
+        reported as unused, years.
 
     Returns
     -------
-    IncentiveResult with one :class:`Award` per (purchase, program covering its kind), zero
-    amounts included with the reason in ``notes``, and the caps used per tax year.
+    IncentiveResult
+        One :class:`Award` per (purchase, program covering its kind), zero amounts included
+        with the reason in ``notes``, and the caps used per tax year (USD).
 
     References
     ----------
@@ -935,7 +1278,7 @@ def evaluate(
         )
         for d in drafts
     )
-    cap_uses = _cap_uses(progs, group_used, sub_used, life_used, life_limit, household)
+    cap_uses = _cap_uses(progs, group_used, sub_used, life_used, life_limit)
     return IncentiveResult(awards=awards, cap_uses=cap_uses)
 
 
@@ -961,7 +1304,7 @@ def _award_one(
         basis = max(0.0, item.cost_usd - cut)
     draft = _Draft(item, prog, year, basis, 0.0, notes)
 
-    reason = _ineligible_reason(item, prog, household, items)
+    reason = _ineligible_reason(item, prog, items)
     tier, tier_reason = _tier_for(prog, household)
     reason = reason or tier_reason
     if reason is None and prog.grant_family:
@@ -1128,7 +1471,6 @@ def _cap_uses(
     sub_used: Mapping[tuple[str, str, str, int], float],
     life_used: Mapping[str, float],
     life_limit: Mapping[str, float],
-    household: Household,
 ) -> tuple[CapUse, ...]:
     limits = {(p.id, g.name): g for p in progs for g in p.yearly_caps}
     out = [
@@ -1154,6 +1496,21 @@ class YearIncentive:
 
     ``point_of_sale_usd`` comes off the invoice; ``later_usd`` arrives afterwards (rebates paid
     later, performance payments, tax credits) with its arrival years in ``by_arrival_year``.
+
+    Attributes
+    ----------
+    year : int
+        Calendar year of installation.
+    cost_usd : float
+        Cost in that year, USD.
+    point_of_sale_usd : float
+        Point-of-sale rebates, USD.
+    later_usd : float
+        Incentives that arrive afterwards, USD.
+    by_arrival_year : tuple of (int, float)
+        (calendar year, USD) of the later incentives.
+    notes : tuple of str
+        Reasons and caps in plain words.
     """
 
     year: int
@@ -1165,6 +1522,7 @@ class YearIncentive:
 
     @property
     def total_usd(self) -> float:
+        """Point-of-sale and later incentives together, USD."""
         return self.point_of_sale_usd + self.later_usd
 
 
@@ -1184,6 +1542,24 @@ def incentives_by_install_year(
     project adds. Yearly caps shared with other projects of the plan are NOT seen here: the
     scheduler models them (e.g. ``schedule.problem.IncentiveGroup``) or the final plan is
     re-checked with :func:`evaluate`.
+
+    Parameters
+    ----------
+    purchase : Purchase
+        The project; its installed date gives the month and day.
+    cost_by_year_usd : mapping of int to float
+        Cost if installed in each calendar year, USD.
+    programs : sequence of Program
+        Programs in priority order.
+    household : Household
+        Household facts.
+    companions : sequence of Purchase
+        Purchases installed in the same year as ``purchase``.
+
+    Returns
+    -------
+    dict of int to YearIncentive
+        Incentives by calendar year of installation, USD.
     """
     out: dict[int, YearIncentive] = {}
     for year, cost in sorted(cost_by_year_usd.items()):
@@ -1231,86 +1607,28 @@ def _moved(p: Purchase, year: int, cost_usd: float | None = None) -> Purchase:
 # --------------------------------------------------------------------------- per-project summary
 
 
-@dataclass(frozen=True)
-class NetCost:
-    """One purchase's cost, incentives and net cost: a row of ``homeplan costs``.
-
-    ``upfront_usd`` = cost - point-of-sale rebates (what is paid at purchase);
-    ``later_by_year_usd`` = (calendar year, cash) of rebates paid later and tax credits;
-    ``net_usd`` = cost - every incentive actually paid; ``lost_usd`` = credit never usable.
-    """
-
-    project_id: str
-    kind: str
-    year: int
-    cost_usd: float
-    point_of_sale_usd: float
-    upfront_usd: float
-    later_usd: float
-    later_by_year_usd: tuple[tuple[int, float], ...]
-    net_usd: float
-    lost_usd: float
-    notes: tuple[str, ...]
-
-    def as_dict(self) -> dict[str, Any]:
-        """Plain JSON-ready mapping (for ``--json``)."""
-        return {
-            "project_id": self.project_id,
-            "kind": self.kind,
-            "year": self.year,
-            "cost_usd": round(self.cost_usd, 2),
-            "point_of_sale_usd": round(self.point_of_sale_usd, 2),
-            "upfront_usd": round(self.upfront_usd, 2),
-            "later_usd": round(self.later_usd, 2),
-            "later_by_year_usd": {str(y): round(v, 2) for y, v in self.later_by_year_usd},
-            "net_usd": round(self.net_usd, 2),
-            "lost_usd": round(self.lost_usd, 2),
-            "notes": list(self.notes),
-        }
-
-
-def net_costs(items: Iterable[Purchase], result: IncentiveResult) -> tuple[NetCost, ...]:
-    """Per purchase: cost, point-of-sale rebates, cash that arrives later (by year), net cost.
-
-    References
-    ----------
-    Issue 5 interface: per-project costs, incentives and net cost by year.
-    """
-    rows = []
-    for item in items:
-        awards = result.for_item(item.project_id)
-        pos = sum(a.paid_usd for a in awards if a.at_point_of_sale)
-        later: dict[int, float] = {}
-        for a in awards:
-            if a.at_point_of_sale:
-                continue
-            for p in a.payments:
-                later[p.on.year] = later.get(p.on.year, 0.0) + p.amount_usd
-        paid = pos + sum(later.values())
-        rows.append(
-            NetCost(
-                project_id=item.project_id,
-                kind=item.kind,
-                year=item.installed_on.year,
-                cost_usd=item.cost_usd,
-                point_of_sale_usd=pos,
-                upfront_usd=item.cost_usd - pos,
-                later_usd=sum(later.values()),
-                later_by_year_usd=tuple(sorted(later.items())),
-                net_usd=item.cost_usd - paid,
-                lost_usd=sum(a.lost_usd for a in awards),
-                notes=tuple(f"{a.program_id}: {n}" for a in awards for n in a.notes),
-            )
-        )
-    return tuple(rows)
-
-
 # --------------------------------------------------------------------------- per-program summary
 
 
 @dataclass(frozen=True)
 class ProgramTotal:
-    """What one program pays in a result (same fields as ``homeplan.result.ProgramUse``)."""
+    """What one program pays in a result (same fields as ``homeplan.result.ProgramUse``).
+
+    Attributes
+    ----------
+    program_id : str
+        Id of the program.
+    name : str
+        Program name.
+    kind : str
+        Program kind.
+    paid_by_year : dict of int to float
+        Cash paid by calendar year, USD.
+    caps_note : str
+        Rate and caps in plain words.
+    ends : str or None
+        Last eligible date, ISO format.
+    """
 
     program_id: str
     name: str
@@ -1322,7 +1640,18 @@ class ProgramTotal:
 
 def describe_caps(program: Program) -> str:
     """The program's rate and caps in plain words, e.g. "30 % of cost; $2,000 a year for
-    heat_pump, heat_pump_water_heater"."""
+    heat_pump, heat_pump_water_heater".
+
+    Parameters
+    ----------
+    program : Program
+        The program.
+
+    Returns
+    -------
+    str
+        Rate (percent or USD per unit) and caps (USD), separated by ``; ``.
+    """
     parts: list[str] = []
     if program.kind in PERFORMANCE_KINDS:
         unit = "kW" if program.kind == "performance_per_kw" else "kWh"
@@ -1350,7 +1679,20 @@ def describe_caps(program: Program) -> str:
 def program_totals(
     result: IncentiveResult, programs: Iterable[Program]
 ) -> tuple[ProgramTotal, ...]:
-    """Per program that pays something: cash by calendar year, caps in words, end date."""
+    """Per program that pays something: cash by calendar year, caps in words, end date.
+
+    Parameters
+    ----------
+    result : IncentiveResult
+        What :func:`evaluate` found.
+    programs : iterable of Program
+        The programs, in the order wanted.
+
+    Returns
+    -------
+    tuple of ProgramTotal
+        One row per program that pays something, USD by calendar year.
+    """
     out = []
     for prog in programs:
         by_year: dict[int, float] = {}

@@ -22,15 +22,37 @@ import numpy as np
 from homeplan.schedule.milp import Solution
 from homeplan.schedule.problem import Problem, evaluate_batch, objective_of
 
+__all__ = ["BruteForceSolver"]
+
 
 @dataclass(frozen=True)
 class BruteForceSolver:
-    """Enumerates at most ``max_combinations`` placements (raises ``ValueError`` beyond)."""
+    """Enumerates at most ``max_combinations`` placements (raises ``ValueError`` beyond).
+
+    Attributes
+    ----------
+    max_combinations : int
+        Largest number of placements enumerated.
+    chunk : int
+        Placements evaluated per batch.
+    """
 
     max_combinations: int = 2_000_000
     chunk: int = 100_000
 
     def options(self, problem: Problem) -> list[np.ndarray]:
+        """Year indices each project may take, with -1 (not done) unless it must be done.
+
+        Parameters
+        ----------
+        problem : Problem
+            The problem.
+
+        Returns
+        -------
+        list of numpy.ndarray
+            One int64 array of year indices per project.
+        """
         opts = []
         for i in range(len(problem.projects)):
             years = list(problem.allowed_years(i))
@@ -40,6 +62,23 @@ class BruteForceSolver:
         return opts
 
     def solve(self, problem: Problem) -> Solution:
+        """Best feasible placement by exhaustive search.
+
+        Parameters
+        ----------
+        problem : Problem
+            The problem.
+
+        Returns
+        -------
+        Solution
+            ``optimal`` with years, objective value and NPV (USD), or ``infeasible``.
+
+        Raises
+        ------
+        ValueError
+            If there are more than ``max_combinations`` placements.
+        """
         started = time.perf_counter()
         opts = self.options(problem)
         sizes = [len(o) for o in opts]

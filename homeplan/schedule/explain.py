@@ -31,6 +31,8 @@ from dataclasses import dataclass
 from homeplan.schedule.milp import MilpSolver, Solution, Solver
 from homeplan.schedule.problem import FAMILIES, Problem, evaluate, evaluate_batch, placement_of
 
+__all__ = ["Diagnosis", "diagnose", "diagnose_infeasible", "explain", "minimum_extra_budget"]
+
 _SOFT = {"window", "pin", "target"}
 
 
@@ -165,7 +167,20 @@ def _why_not_later(problem: Problem, i: int, y: int) -> list[str]:
 
 
 def explain(problem: Problem, solution: Solution) -> dict[str, tuple[str, ...]]:
-    """Plain-words reasons per project id (done or not) for a feasible solution."""
+    """Plain-words reasons per project id (done or not) for a feasible solution.
+
+    Parameters
+    ----------
+    problem : Problem
+        The problem.
+    solution : Solution
+        A feasible solution of ``problem``.
+
+    Returns
+    -------
+    dict of str to tuple of str
+        Reasons per project id.
+    """
     years = {pid: solution.years.get(pid) for pid in problem.ids}
     # every single-project move of the solution, evaluated at once (vectorised)
     memo = _all_moves(problem, years)
@@ -218,6 +233,21 @@ class Diagnosis:
     ``extra_budget_usd_per_year``: smallest extra money per year (same for every year) found by
     bisection, rounded up to $10; re-solving with it is feasible. ``target_year``: the earliest
     year every target can be moved to (all targets moved by the same number of years).
+
+    Attributes
+    ----------
+    feasible : bool
+        True if the request is feasible after all.
+    message : str
+        The diagnosis in plain words.
+    blocking : tuple of str
+        Blocking constraint families.
+    conflicts : tuple of str
+        Contradictions in the request itself, in plain words.
+    extra_budget_usd_per_year : float or None
+        Smallest extra budget that makes it feasible, USD per year.
+    target_year : int or None
+        Earliest workable target year, calendar year.
     """
 
     feasible: bool
@@ -307,7 +337,22 @@ def minimum_extra_budget(
     problem: Problem, feasible: Callable[[Problem], bool], step_usd: float = 10.0
 ) -> float | None:
     """Smallest extra budget per year (multiple of ``step_usd``) that makes ``problem``
-    feasible, by bisection, or ``None`` if even a very large budget does not."""
+    feasible, by bisection, or ``None`` if even a very large budget does not.
+
+    Parameters
+    ----------
+    problem : Problem
+        The problem.
+    feasible : callable
+        Returns True if a :class:`Problem` is feasible.
+    step_usd : float
+        Resolution of the search, USD per year.
+
+    Returns
+    -------
+    float or None
+        Extra budget, USD per year.
+    """
 
     def with_extra(e: float) -> Problem:
         return problem.replace(budget_usd=tuple(b + e for b in problem.budget_usd))
@@ -334,7 +379,20 @@ def minimum_extra_budget(
 
 
 def diagnose(problem: Problem, solver: Solver | None = None) -> Diagnosis:
-    """Explain why ``problem`` is infeasible and the smallest change that makes it feasible."""
+    """Explain why ``problem`` is infeasible and the smallest change that makes it feasible.
+
+    Parameters
+    ----------
+    problem : Problem
+        The problem.
+    solver : Solver or None
+        Solver for the feasibility checks; None uses a fast :class:`MilpSolver`.
+
+    Returns
+    -------
+    Diagnosis
+        Blocking families, conflicts and the smallest changes found.
+    """
     solver = solver or MilpSolver(time_limit_s=10.0, mip_rel_gap=1.0)
     base = _feasibility_problem(problem)
 
@@ -383,5 +441,18 @@ def diagnose(problem: Problem, solver: Solver | None = None) -> Diagnosis:
 
 
 def diagnose_infeasible(problem: Problem, solver: Solver | None = None) -> str:
-    """The diagnosis message only (see :func:`diagnose`)."""
+    """The diagnosis message only (see :func:`diagnose`).
+
+    Parameters
+    ----------
+    problem : Problem
+        The problem.
+    solver : Solver or None
+        Solver for the feasibility checks; None uses a fast :class:`MilpSolver`.
+
+    Returns
+    -------
+    str
+        The diagnosis in plain words.
+    """
     return diagnose(problem, solver).message

@@ -74,6 +74,8 @@ import numpy as np
 
 from homeplan.schedule.problem import Problem, evaluate
 
+__all__ = ["MilpSolver", "Solution", "Solver", "build_model", "solve"]
+
 
 @dataclass(frozen=True)
 class Solution:
@@ -84,6 +86,29 @@ class Solution:
     ``years``: calendar year per project id, or ``None`` (not done). ``objective_value`` is in
     the objective's natural sense (NPV USD, kg saved, calendar year, out-of-pocket USD);
     ``npv_usd`` is the NPV of the plan under the linear model (all objectives).
+
+    Attributes
+    ----------
+    status : str
+        Outcome, as listed above.
+    years : dict of str to int or None
+        Calendar year per project id (None = not done).
+    objective_value : float or None
+        Objective in its natural unit (USD, kg or calendar year).
+    npv_usd : float or None
+        Net present value of the plan, USD.
+    solve_time_s : float
+        Wall-clock solve time, s.
+    mip_gap : float or None
+        Relative MIP gap reported by the solver, fraction.
+    loans_usd : tuple of float
+        Borrowing per year, USD.
+    incentives_usd : dict of str to tuple of float
+        Capped incentive earned per group and year, USD.
+    solver : str
+        Name of the solver.
+    message : str
+        Solver message.
     """
 
     status: str
@@ -99,17 +124,37 @@ class Solution:
 
     @property
     def feasible(self) -> bool:
+        """True if the solution holds a plan (``optimal`` or ``time_limit``)."""
         return self.status in ("optimal", "time_limit")
 
     def done(self) -> dict[str, int]:
-        """Only the projects that are done, by id."""
+        """Only the projects that are done, by id.
+
+        Returns
+        -------
+        dict of str to int
+            Calendar year per project id.
+        """
         return {k: v for k, v in self.years.items() if v is not None}
 
 
 class Solver(Protocol):
     """Anything that can solve a :class:`Problem`."""
 
-    def solve(self, problem: Problem) -> Solution: ...
+    def solve(self, problem: Problem) -> Solution:
+        """Solve ``problem``.
+
+        Parameters
+        ----------
+        problem : Problem
+            The scheduling problem.
+
+        Returns
+        -------
+        Solution
+            Status, years and objective values.
+        """
+        ...
 
 
 @dataclass(frozen=True)
@@ -191,7 +236,29 @@ def build_model(
     pr: Problem, kind: str | None = None, latest_index: dict[int, int] | None = None
 ) -> _Model:
     """Build the sparse model (see module docstring). ``kind`` overrides the objective
-    (``earliest`` = stage one of earliest closure); ``latest_index`` caps a project's year."""
+    (``earliest`` = stage one of earliest closure); ``latest_index`` caps a project's year.
+
+    Parameters
+    ----------
+    pr : Problem
+        The problem.
+    kind : str or None
+        ``max_npv``, ``min_emissions``, ``min_out_of_pocket`` or ``earliest``; None takes
+        the problem's objective.
+    latest_index : dict of int to int or None
+        Latest year index by project index.
+
+    Returns
+    -------
+    _Model
+        Objective (minimised), bounds, integrality and sparse constraint rows for
+        ``scipy.optimize.milp``.
+
+    Raises
+    ------
+    ValueError
+        If ``kind`` is unknown.
+    """
     from scipy import sparse
 
     kind = kind or ("max_npv" if pr.objective == "earliest_gas_closure" else pr.objective)
@@ -349,7 +416,17 @@ def build_model(
 @dataclass(frozen=True)
 class MilpSolver:
     """HiGHS via ``scipy.optimize.milp``. ``mip_rel_gap`` 0 asks for a proven optimum; when the
-    time limit stops the search with a plan in hand, the status is ``time_limit``."""
+    time limit stops the search with a plan in hand, the status is ``time_limit``.
+
+    Attributes
+    ----------
+    time_limit_s : float
+        Wall-clock limit of a solve, s.
+    mip_rel_gap : float
+        Relative MIP gap at which HiGHS stops, fraction.
+    presolve : bool
+        True to run HiGHS presolve.
+    """
 
     time_limit_s: float = 30.0
     mip_rel_gap: float = 1e-7
@@ -379,6 +456,18 @@ class MilpSolver:
         return res, time.perf_counter() - t0
 
     def solve(self, problem: Problem) -> Solution:
+        """Solve ``problem`` (in two stages for ``earliest_gas_closure``).
+
+        Parameters
+        ----------
+        problem : Problem
+            The scheduling problem.
+
+        Returns
+        -------
+        Solution
+            Status, years, objective value, NPV (USD), loans and incentives (USD per year).
+        """
         pr = problem
         started = time.perf_counter()
         latest: dict[int, int] | None = None
@@ -450,5 +539,18 @@ class MilpSolver:
 
 
 def solve(problem: Problem, solver: Solver | None = None) -> Solution:
-    """Solve ``problem`` with ``solver`` (default :class:`MilpSolver`)."""
+    """Solve ``problem`` with ``solver`` (default :class:`MilpSolver`).
+
+    Parameters
+    ----------
+    problem : Problem
+        The scheduling problem.
+    solver : Solver or None
+        The solver; None uses :class:`MilpSolver` defaults.
+
+    Returns
+    -------
+    Solution
+        Status, years and objective values.
+    """
     return (solver or MilpSolver()).solve(problem)

@@ -1,7 +1,7 @@
 """The abstract scheduling problem and its exact evaluator.
 
 A :class:`Problem` is independent of homes: it holds candidate projects with per-year numbers
-(computed by the lead's adapter from the energy, money and electrical engines), yearly budgets and
+(computed by the planner from the energy, money and electrical engines), yearly budgets and
 the constraint families below. Solvers (``milp.py``, ``bruteforce.py``) place each project in one
 year of the horizon or leave it out. :func:`evaluate` / :func:`evaluate_batch` compute, for any
 placement, every constraint violation and every objective value *exactly as the MILP models them*;
@@ -34,7 +34,7 @@ Semantics (shared by every solver):
       - sum_t L[t] df[t] K,   K = max(0, PV at discount_rate of one dollar's repayments - 1)
       + sum_i,t D[a_i,t] D[b_i,t] interaction_value_usd[i][t]
 
-  ``value_usd`` is already a present value (the lead's engines discount benefits).
+  ``value_usd`` is already a present value (the caller discounts benefits).
 - *emissions* (``min_emissions``): maximise ``sum x[p,t] emissions_kg[p][t]`` (lifetime kg saved).
 - *out of pocket* (``min_out_of_pocket``), nominal, within the horizon: spend + penalties +
   loan interest (``L * (n a - 1)``) - capped incentives earned - bill savings ``savings_usd[p][t]``
@@ -61,6 +61,25 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
+__all__ = [
+    "FAMILIES",
+    "OBJECTIVES",
+    "TOL_USD",
+    "Evaluation",
+    "ExclusiveGroup",
+    "IncentiveGroup",
+    "Interaction",
+    "Prerequisite",
+    "Problem",
+    "Project",
+    "Target",
+    "evaluate",
+    "evaluate_batch",
+    "objective_of",
+    "placement_of",
+    "years_from_sequence",
+]
+
 OBJECTIVES = ("max_npv", "min_emissions", "earliest_gas_closure", "min_out_of_pocket")
 TOL_USD = 1e-6
 """Absolute tolerance for money comparisons in :func:`evaluate_batch` (scaled by magnitude)."""
@@ -74,19 +93,45 @@ def _floats(values: Iterable[float] | None) -> tuple[float, ...]:
 class Project:
     """One candidate project. Per-year tuples have one entry per horizon year (empty = zeros).
 
-    - ``cost_usd[t]``: price if done in year t, after point-of-sale incentives (nominal USD).
-    - ``value_usd[t]``: present value (at ``first_year``) of all benefits if done in year t.
-    - ``emissions_kg[t]``: lifetime CO2e saved if done in year t.
-    - ``savings_usd[t]``: bill savings realised in year t if done in an earlier year.
-    - ``undone_penalty_usd[t]``: expected cost in year t if not done by year t (end of life).
-    - ``mandatory``: must be done in some year. ``excluded``: must not be done.
-    - ``earliest_year`` / ``latest_year``: calendar window (incentive windows); ``pinned_year``.
-    - ``capacity_use`` / ``capacity_provided``: e.g. amps added to / freed on the service
-      (see ``Problem.capacity_base``).
-    - For explanations only: ``failure_item`` ("the water heater") with
-      ``failure_prob_by_year[t]`` (cumulative failure probability by the end of year t) and
-      ``window_reason`` ("the rebate ends"), ``pin_reason`` (replaces "pinned by you to Y",
-      e.g. "it failed: replaced in 2026").
+    Attributes
+    ----------
+    id : str
+        Unique project id.
+    cost_usd : tuple of float
+        Price if done in year t, after point-of-sale incentives, nominal USD.
+    label : str
+        Display name (empty = ``id``).
+    value_usd : tuple of float
+        Present value (at ``first_year``) of all benefits if done in year t, USD.
+    emissions_kg : tuple of float
+        Lifetime CO2e saved if done in year t, kg.
+    savings_usd : tuple of float
+        Bill savings realised in year t if done in an earlier year, nominal USD.
+    undone_penalty_usd : tuple of float
+        Expected cost in year t if not done by year t (end of life), nominal USD.
+    mandatory : bool
+        Must be done in some year.
+    excluded : bool
+        Must not be done.
+    earliest_year : int or None
+        First calendar year of the window (e.g. an incentive window).
+    latest_year : int or None
+        Last calendar year of the window.
+    pinned_year : int or None
+        Calendar year the project is fixed to.
+    capacity_use : float
+        Capacity added on the service, e.g. A (see ``Problem.capacity_base``).
+    capacity_provided : float
+        Capacity freed on the service, same unit.
+    failure_item : str
+        For explanations only: the item that may fail ("the water heater").
+    failure_prob_by_year : tuple of float
+        For explanations only: cumulative failure probability by the end of year t, fraction.
+    window_reason : str
+        For explanations only: why the window ends ("the rebate ends").
+    pin_reason : str
+        For explanations only: replaces "pinned by you to Y" (e.g. "it failed: replaced in
+        2026").
     """
 
     id: str
@@ -121,6 +166,7 @@ class Project:
 
     @property
     def name(self) -> str:
+        """Display name: ``label``, or ``id`` when there is no label."""
         return self.label or self.id
 
 
@@ -128,7 +174,19 @@ class Project:
 class Prerequisite:
     """``project`` may only be done once at least one of ``requires_any`` is done: in the same
     or an earlier year, or (``strict``) an earlier year. One element = a plain prerequisite;
-    several = an any-of group (panel upgrade OR load management)."""
+    several = an any-of group (panel upgrade OR load management).
+
+    Attributes
+    ----------
+    project : str
+        Id of the dependent project.
+    requires_any : tuple of str
+        Ids of the projects, one of which must be done first.
+    strict : bool
+        True if the prerequisite must be done in an earlier year.
+    label : str
+        Name of the rule in explanations.
+    """
 
     project: str
     requires_any: tuple[str, ...]
@@ -143,7 +201,17 @@ class Prerequisite:
 @dataclass(frozen=True)
 class ExclusiveGroup:
     """At most one of ``members`` is done (variants of one project); exactly one if
-    ``exactly_one``."""
+    ``exactly_one``.
+
+    Attributes
+    ----------
+    members : tuple of str
+        Project ids of the group.
+    exactly_one : bool
+        True if exactly one must be done.
+    label : str
+        Name of the group in explanations.
+    """
 
     members: tuple[str, ...]
     exactly_one: bool = False
@@ -161,6 +229,23 @@ class IncentiveGroup:
     ``min(cap_usd_per_year, sum_p rate_p cost[p,t] x[p,t])``; the money arrives
     ``arrives_after_years`` later and, if ``adds_to_budget``, adds to that year's budget.
     ``active_years``: the calendar years the program pays in (its window); empty = every year.
+
+    Attributes
+    ----------
+    id : str
+        Unique group id.
+    rates : tuple of (str, float)
+        Project id and share of its cost earned, fraction.
+    cap_usd_per_year : float
+        Cap, USD per year.
+    arrives_after_years : int
+        Delay from earning to receiving the money, years.
+    adds_to_budget : bool
+        True if the money adds to the budget of the year it arrives.
+    name : str
+        Name of the incentive.
+    active_years : tuple of int
+        Calendar years the program pays in.
     """
 
     id: str
@@ -172,7 +257,18 @@ class IncentiveGroup:
     active_years: tuple[int, ...] = ()
 
     def cap_in(self, year: int) -> float:
-        """The cap in a calendar year: 0 outside the program's window."""
+        """The cap in a calendar year: 0 outside the program's window.
+
+        Parameters
+        ----------
+        year : int
+            Calendar year.
+
+        Returns
+        -------
+        float
+            Cap, USD.
+        """
         return self.cap_usd_per_year if not self.active_years or year in self.active_years else 0.0
 
     def __post_init__(self) -> None:
@@ -185,7 +281,19 @@ class IncentiveGroup:
 class Interaction:
     """Extra present value ``value_usd[t]`` in each year t in which *both* projects are done
     (by t): positive for synergy (solar is worth more once the heat pump and EV exist), negative
-    for overlap (insulation lowers the heat pump's savings). Enters the NPV only."""
+    for overlap (insulation lowers the heat pump's savings). Enters the NPV only.
+
+    Attributes
+    ----------
+    a : str
+        Id of the first project.
+    b : str
+        Id of the second project.
+    value_usd : tuple of float
+        Extra present value in each horizon year, USD.
+    label : str
+        Name of the interaction.
+    """
 
     a: str
     b: str
@@ -198,7 +306,17 @@ class Interaction:
 
 @dataclass(frozen=True)
 class Target:
-    """Every project in ``project_ids`` done by calendar year ``by_year`` (e.g. fully electric)."""
+    """Every project in ``project_ids`` done by calendar year ``by_year`` (e.g. fully electric).
+
+    Attributes
+    ----------
+    project_ids : tuple of str
+        Projects the target covers.
+    by_year : int
+        Calendar year by which they are done.
+    label : str
+        Name of the target, e.g. ``fully electric``.
+    """
 
     project_ids: tuple[str, ...]
     by_year: int
@@ -215,6 +333,50 @@ class Problem:
     See the module docstring for the exact meaning of every field. ``capacity_base`` ``None``
     means no capacity constraint; ``max_per_year`` ``None`` means no limit; ``loan_limit_usd``
     0 means no loans.
+
+    Attributes
+    ----------
+    first_year : int
+        Calendar year of t = 0.
+    budget_usd : tuple of float
+        Budget of each horizon year, USD.
+    projects : tuple of Project
+        The candidate projects.
+    carryover : bool
+        True if unspent money carries to the next year.
+    discount_rate : float
+        Discount rate, fraction per year (0.03 = 3 %).
+    loan_limit_usd : float
+        Total borrowing allowed, USD.
+    loan_rate : float
+        Loan interest rate, fraction per year.
+    loan_term_years : int
+        Loan term, years.
+    savings_to_budget : bool
+        True if bill savings add to later budgets.
+    prerequisites : tuple of Prerequisite
+        Prerequisite rules.
+    exclusive_groups : tuple of ExclusiveGroup
+        Choose-one groups.
+    capacity_base : float or None
+        Service capacity available, e.g. A.
+    max_per_year : int or None
+        Most projects in one year.
+    incentive_groups : tuple of IncentiveGroup
+        Incentives with yearly caps.
+    targets : tuple of Target
+        Done-by targets.
+    interactions : tuple of Interaction
+        Value of project pairs.
+    objective : str
+        One of :data:`OBJECTIVES`.
+    objective_project : str or None
+        Project whose year ``earliest_gas_closure`` minimises.
+
+    Raises
+    ------
+    ValueError
+        For malformed data (see :meth:`validate`).
     """
 
     first_year: int
@@ -252,24 +414,68 @@ class Problem:
     # -- basic facts ---------------------------------------------------------------------
     @property
     def n_years(self) -> int:
+        """Number of horizon years, T."""
         return len(self.budget_usd)
 
     @property
     def years(self) -> tuple[int, ...]:
+        """Calendar years of the horizon."""
         return tuple(range(self.first_year, self.first_year + self.n_years))
 
     @property
     def ids(self) -> tuple[str, ...]:
+        """Project ids, in project order."""
         return tuple(p.id for p in self.projects)
 
     def index(self, project_id: str) -> int:
+        """Position of a project.
+
+        Parameters
+        ----------
+        project_id : str
+            Project id.
+
+        Returns
+        -------
+        int
+            Index into ``projects``.
+
+        Raises
+        ------
+        ValueError
+            If there is no such project.
+        """
         return self.ids.index(project_id)
 
     def project(self, project_id: str) -> Project:
+        """A project by id.
+
+        Parameters
+        ----------
+        project_id : str
+            Project id.
+
+        Returns
+        -------
+        Project
+            The project.
+
+        Raises
+        ------
+        ValueError
+            If there is no such project.
+        """
         return self.projects[self.index(project_id)]
 
     def validate(self) -> None:
-        """Raise ``ValueError`` for malformed data (not for infeasible requests)."""
+        """Raise ``ValueError`` for malformed data (not for infeasible requests).
+
+        Raises
+        ------
+        ValueError
+            If the horizon is empty, the objective is unknown, ids repeat or are unknown,
+            per-year tuples have the wrong length, or a setting needs another one.
+        """
         n = self.n_years
         if n < 1:
             raise ValueError("the horizon needs at least one year (budget_usd is empty)")
@@ -310,22 +516,80 @@ class Problem:
             raise ValueError("loan_term_years must be >= 1")
 
     def replace(self, **changes: object) -> Problem:
+        """A copy with fields changed (``dataclasses.replace``).
+
+        Parameters
+        ----------
+        **changes : object
+            New field values.
+
+        Returns
+        -------
+        Problem
+            The validated copy.
+
+        Raises
+        ------
+        ValueError
+            If the copy is malformed.
+        """
         return dataclasses.replace(self, **changes)  # type: ignore[arg-type]
 
     def with_project(self, project_id: str, **changes: object) -> Problem:
         """A copy with one project's fields changed, e.g. ``with_project("hpwh",
-        pinned_year=2026, pin_reason="it failed: replaced now")`` for "what if X fails now"."""
+        pinned_year=2026, pin_reason="it failed: replaced now")`` for "what if X fails now".
+
+        Parameters
+        ----------
+        project_id : str
+            Project id.
+        **changes : object
+            New field values of the project.
+
+        Returns
+        -------
+        Problem
+            The validated copy.
+
+        Raises
+        ------
+        ValueError
+            If there is no such project or the copy is malformed.
+        """
         i = self.index(project_id)
         projects = list(self.projects)
         projects[i] = dataclasses.replace(projects[i], **changes)  # type: ignore[arg-type]
         return self.replace(projects=tuple(projects))
 
     def with_extra_budget(self, extra_usd_per_year: float) -> Problem:
+        """A copy with the same extra money added to every year's budget.
+
+        Parameters
+        ----------
+        extra_usd_per_year : float
+            Extra budget, USD per year.
+
+        Returns
+        -------
+        Problem
+            The copy.
+        """
         return self.replace(budget_usd=tuple(b + extra_usd_per_year for b in self.budget_usd))
 
     # -- arrays --------------------------------------------------------------------------
     def matrix(self, name: str) -> np.ndarray:
-        """``[P, T]`` array of a per-year project field (zeros where empty)."""
+        """``[P, T]`` array of a per-year project field (zeros where empty).
+
+        Parameters
+        ----------
+        name : str
+            Per-year field of :class:`Project`, e.g. ``cost_usd``.
+
+        Returns
+        -------
+        numpy.ndarray
+            Values in the field's unit (USD, kg or fraction), shape ``[P, T]``.
+        """
         out = np.zeros((len(self.projects), self.n_years))
         for i, p in enumerate(self.projects):
             values = getattr(p, name)
@@ -334,26 +598,67 @@ class Problem:
         return out
 
     def discount_factors(self, extra_years: int = 0) -> np.ndarray:
+        """Discount factors ``(1 + discount_rate) ** -t`` from t = 0.
+
+        Parameters
+        ----------
+        extra_years : int
+            Years beyond the horizon to include.
+
+        Returns
+        -------
+        numpy.ndarray
+            Factors, dimensionless (``T + extra_years`` values).
+        """
         t = np.arange(self.n_years + extra_years, dtype=float)
         return (1.0 + self.discount_rate) ** -t
 
     def annuity_factor(self) -> float:
-        """Yearly repayment per dollar borrowed (``a = r / (1 - (1 + r)^-n)``, ``1/n`` at r=0)."""
+        """Yearly repayment per dollar borrowed (``a = r / (1 - (1 + r)^-n)``, ``1/n`` at r=0).
+
+        Returns
+        -------
+        float
+            Repayment, USD per year per USD borrowed.
+        """
         r, n = self.loan_rate, max(self.loan_term_years, 1)
         return 1.0 / n if r == 0 else r / (1.0 - (1.0 + r) ** -n)
 
     def loan_npv_cost_per_usd(self) -> np.ndarray:
-        """``df[t] * K`` per dollar borrowed in year t (see module docstring), length T."""
+        """``df[t] * K`` per dollar borrowed in year t (see module docstring), length T.
+
+        Returns
+        -------
+        numpy.ndarray
+            NPV cost, USD per USD borrowed (T values).
+        """
         a, n = self.annuity_factor(), self.loan_term_years
         k = sum(a * (1.0 + self.discount_rate) ** -j for j in range(1, n + 1)) - 1.0
         return self.discount_factors() * max(k, 0.0)
 
     def loan_interest_per_usd(self) -> float:
-        """Nominal interest paid per dollar borrowed (``n a - 1``)."""
+        """Nominal interest paid per dollar borrowed (``n a - 1``).
+
+        Returns
+        -------
+        float
+            Interest, USD per USD borrowed.
+        """
         return self.loan_term_years * self.annuity_factor() - 1.0
 
     def allowed_years(self, i: int) -> tuple[int, ...]:
-        """Year indices project i may be done in (windows, pins, exclusions, targets)."""
+        """Year indices project i may be done in (windows, pins, exclusions, targets).
+
+        Parameters
+        ----------
+        i : int
+            Project index.
+
+        Returns
+        -------
+        tuple of int
+            Year indices (0 = ``first_year``).
+        """
         p = self.projects[i]
         if p.excluded:
             return ()
@@ -371,6 +676,19 @@ class Problem:
         return tuple(range(lo, hi + 1))
 
     def must_do(self, i: int) -> bool:
+        """Whether project i must be done (mandatory, pinned, in a target, or the objective
+        project of ``earliest_gas_closure``).
+
+        Parameters
+        ----------
+        i : int
+            Project index.
+
+        Returns
+        -------
+        bool
+            True if the project must be done.
+        """
         p = self.projects[i]
         if p.mandatory or p.pinned_year is not None:
             return True
@@ -382,7 +700,29 @@ class Problem:
 @dataclass(frozen=True)
 class Evaluation:
     """Exact evaluation of one placement. ``violations`` names each violated constraint family
-    (empty = feasible). ``loans_usd`` is the just-in-time borrowing per year."""
+    (empty = feasible). ``loans_usd`` is the just-in-time borrowing per year.
+
+    Attributes
+    ----------
+    years : dict of str to int or None
+        Calendar year per project id (None = not done).
+    violations : tuple of str
+        Violated constraint families.
+    npv_usd : float
+        Net present value, USD.
+    emissions_saved_kg : float
+        Lifetime CO2e saved, kg.
+    out_of_pocket_usd : float
+        Nominal out-of-pocket cost within the horizon, USD.
+    objective_value : float
+        Objective in its natural unit (USD, kg or calendar year).
+    loans_usd : tuple of float
+        Borrowing per year, USD.
+    incentives_usd : dict of str to tuple of float
+        Capped incentive earned per group and year, USD.
+    money_left_usd : tuple of float
+        Money left after each year, USD.
+    """
 
     years: dict[str, int | None]
     violations: tuple[str, ...]
@@ -396,6 +736,7 @@ class Evaluation:
 
     @property
     def feasible(self) -> bool:
+        """True if no constraint family is violated."""
         return not self.violations
 
 
@@ -421,6 +762,18 @@ def evaluate_batch(problem: Problem, placements: np.ndarray) -> dict[str, np.nda
     ``year_index`` (of ``objective_project``, or -1), ``loans_usd`` ``[N, T]``,
     ``money_left_usd`` ``[N, T]`` (carry after each year, or unspent money without carryover)
     and ``incentives_usd`` ``[N, G, T]``.
+
+    Parameters
+    ----------
+    problem : Problem
+        The problem.
+    placements : numpy.ndarray
+        Year index per project, ``[N, P]`` (or ``[P]`` for one placement); -1 = not done.
+
+    Returns
+    -------
+    dict of str to numpy.ndarray
+        The arrays named above: money in USD, emissions in kg, years as indices.
     """
     pr = problem
     y = np.asarray(placements, dtype=np.int64)
@@ -584,7 +937,20 @@ def evaluate_batch(problem: Problem, placements: np.ndarray) -> dict[str, np.nda
 
 def objective_of(problem: Problem, ev: Mapping[str, np.ndarray]) -> np.ndarray:
     """The objective value in its natural sense: NPV USD (higher is better), kg saved (higher),
-    calendar year of ``objective_project`` (lower), out-of-pocket USD (lower)."""
+    calendar year of ``objective_project`` (lower), out-of-pocket USD (lower).
+
+    Parameters
+    ----------
+    problem : Problem
+        The problem.
+    ev : mapping of str to numpy.ndarray
+        Result of :func:`evaluate_batch`.
+
+    Returns
+    -------
+    numpy.ndarray
+        Objective value of each placement (USD, kg or calendar year).
+    """
     obj = problem.objective
     if obj == "max_npv":
         return ev["npv_usd"]
@@ -596,7 +962,20 @@ def objective_of(problem: Problem, ev: Mapping[str, np.ndarray]) -> np.ndarray:
 
 
 def placement_of(problem: Problem, years: Mapping[str, int | None]) -> np.ndarray:
-    """Calendar years by project id -> ``[P]`` array of year indices (-1 = not done)."""
+    """Calendar years by project id -> ``[P]`` array of year indices (-1 = not done).
+
+    Parameters
+    ----------
+    problem : Problem
+        The problem.
+    years : mapping of str to int or None
+        Calendar year per project id (None or missing = not done).
+
+    Returns
+    -------
+    numpy.ndarray
+        Year index per project, int64.
+    """
     return np.array(
         [
             -1 if years.get(pid) is None else int(years[pid]) - problem.first_year  # type: ignore[operator]
@@ -607,7 +986,20 @@ def placement_of(problem: Problem, years: Mapping[str, int | None]) -> np.ndarra
 
 
 def evaluate(problem: Problem, years: Mapping[str, int | None]) -> Evaluation:
-    """Evaluate one placement given as calendar year (or None) per project id."""
+    """Evaluate one placement given as calendar year (or None) per project id.
+
+    Parameters
+    ----------
+    problem : Problem
+        The problem.
+    years : mapping of str to int or None
+        Calendar year per project id (None or missing = not done).
+
+    Returns
+    -------
+    Evaluation
+        Violations and objective values (USD, kg).
+    """
     ev = evaluate_batch(problem, placement_of(problem, years)[None, :])
     violations = tuple(f for f in FAMILIES if ev[f][0])
     return Evaluation(
@@ -627,5 +1019,23 @@ def evaluate(problem: Problem, years: Mapping[str, int | None]) -> Evaluation:
 
 
 def years_from_sequence(problem: Problem, values: Sequence[int | None]) -> dict[str, int | None]:
-    """Helper: list of calendar years (or None) in project order -> dict by id."""
+    """Helper: list of calendar years (or None) in project order -> dict by id.
+
+    Parameters
+    ----------
+    problem : Problem
+        The problem.
+    values : sequence of int or None
+        Calendar year of each project, in project order.
+
+    Returns
+    -------
+    dict of str to int or None
+        Calendar year per project id.
+
+    Raises
+    ------
+    ValueError
+        If there are not exactly as many values as projects.
+    """
     return dict(zip(problem.ids, values, strict=True))

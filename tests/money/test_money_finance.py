@@ -11,11 +11,8 @@ from hypothesis import strategies as st
 
 from homeplan.money.finance import (
     Loan,
-    budgets_with_reinvested_savings,
-    difference,
     discounted_payback_years,
     energy_hedge,
-    household_cash_flows,
     irr_pct,
     levelised_cost_usd_per_kwh,
     levelised_price_usd_per_kwh,
@@ -23,7 +20,6 @@ from homeplan.money.finance import (
     loan_schedule,
     npv_usd,
     simple_payback_years,
-    summarise,
 )
 
 RNG = np.random.default_rng(20261201)
@@ -103,40 +99,6 @@ def test_simple_and_discounted_payback() -> None:
     assert dpb == pytest.approx((k - 1) + (-before) / (flows[k] / 1.05**k))
     assert simple_payback_years([-1_000, 100, 100]) is None
     assert discounted_payback_years(5, [-1_000, 300, 300, 300, 300]) > simple_payback_years(flows)
-
-
-def test_household_cash_flows_with_loan_and_incentives() -> None:
-    years = list(range(2026, 2031))
-    loan = Loan(10_000, 0.0, 2, 2026)  # a 0 % programme loan
-    flows = household_cash_flows(
-        years,
-        spend_usd={2026: 18_000},
-        incentives_usd={2027: 2_000},  # a credit received the next spring
-        loans=[loan],
-        baseline_bills_usd={y: 3_000 for y in years},
-        plan_bills_usd={y: 1_900 for y in years},
-    )
-    f26, f27, f28 = flows[0], flows[1], flows[2]
-    assert f26.out_of_pocket_usd == pytest.approx(8_000)
-    pay_year = 12 * npf.pmt(0, 24, -10_000)  # numpy-financial pmt, 12 payments a year
-    assert f26.loan_payments_usd == pytest.approx(pay_year)
-    assert f26.net_usd == pytest.approx(-8_000 - pay_year + 1_100)
-    assert f27.net_usd == pytest.approx(2_000 + 1_100 - pay_year)
-    assert f28.loan_payments_usd == 0 and f28.net_usd == pytest.approx(1_100)
-    assert flows[-1].cumulative_usd == pytest.approx(sum(f.net_usd for f in flows))
-    s = summarise(flows, 4.0)
-    assert s.npv_usd == pytest.approx(npf.npv(0.04, [f.net_usd for f in flows]))
-    base = household_cash_flows(years, spend_usd={2029: 9_000})  # like-for-like replacement
-    diff = difference(flows, base)
-    assert diff[3] == pytest.approx(flows[3].net_usd + 9_000)
-
-
-def test_reinvested_savings_budget() -> None:
-    got = budgets_with_reinvested_savings(
-        {2026: 5_000, 2027: 5_000, 2028: 5_000}, {2026: 800, 2027: 1_200}
-    )
-    assert got == {2026: 5_000, 2027: 5_800, 2028: 6_200}
-    assert budgets_with_reinvested_savings({2027: 5_000}, {2026: 800}, share=0.5) == {2027: 5_400}
 
 
 def test_lcoe_against_numpy_financial_annuities() -> None:

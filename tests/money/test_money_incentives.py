@@ -503,18 +503,16 @@ def test_30c_charger_ends_mid_2026(federal) -> None:
     assert july.total_paid_usd == 0
 
 
-def test_net_costs_rows(federal) -> None:
-    from homeplan.money.incentives import net_costs
-
+def test_point_of_sale_rebate_then_credit_on_the_rest(federal) -> None:
     items = [Purchase("hpwh", "heat_pump_water_heater", 4_000, _d("2025-03-01"))]
     progs = [federal["us_50122_heehra"], federal["us_25c_2023_2025"]]
     res = evaluate(items, progs, Household(ami_pct=120))
-    (row,) = net_costs(items, res)
+    by_program = {a.program_id: a for a in res.awards}
     # money.md: 50122 $1,750 at the point of sale, 25C 30 % of (4,000 - 1,750) = 675 next spring
-    assert row.upfront_usd == pytest.approx(2_250)
-    assert row.later_by_year_usd == ((2026, pytest.approx(675)),)
-    assert row.net_usd == pytest.approx(4_000 - 1_750 - 675)
-    assert row.as_dict()["later_by_year_usd"] == {"2026": 675.0}
+    rebate, credit = by_program["us_50122_heehra"], by_program["us_25c_2023_2025"]
+    assert rebate.at_point_of_sale and rebate.paid_usd == pytest.approx(1_750)
+    assert credit.paid_usd == pytest.approx(675)
+    assert [p.on.year for p in credit.payments if p.amount_usd > 0] == [2026]
 
 
 def test_program_totals_and_caps_in_words(federal) -> None:
