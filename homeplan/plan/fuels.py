@@ -25,7 +25,9 @@ __all__ = [
     "DEFAULT_APPLIANCE_FUEL",
     "ENGINE_FUEL",
     "FOSSIL_FUELS",
+    "GASOLINE_VEHICLES",
     "HOME_FUELS",
+    "TANK_FUELS",
     "UNIT_KEY",
     "VEHICLE_FUELS",
     "appliance_fuel",
@@ -36,6 +38,9 @@ __all__ = [
 
 HOME_FUELS: tuple[str, ...] = ("gas", "propane", "oil")
 """Combustion fuels delivered to the house (a gas service or a tank); closing one is a milestone."""
+
+TANK_FUELS: tuple[str, ...] = ("propane", "oil")
+"""Home fuels kept in a tank on the property (priced per gallon; the tank is removed at the end)."""
 
 VEHICLE_FUELS: tuple[str, ...] = ("gasoline", "diesel")
 """Combustion fuels of the household's cars."""
@@ -89,4 +94,8 @@ def appliance_fuel(appliance: Appliance) -> str:
 
 def vehicle_fuel(fuel: str) -> str:
     """The fuel a vehicle buys at the pump: hybrids burn gasoline; ``electric`` stays."""
-    return "gasoline" if fuel in ("hybrid", "plug_in_hybrid") else fuel
+    return "gasoline" if fuel in GASOLINE_VEHICLES else fuel
+
+
+GASOLINE_VEHICLES: tuple[str, ...] = ("gasoline", "hybrid", "plug_in_hybrid")
+"""Vehicle fuels (plan file) of cars that fill up with gasoline."""

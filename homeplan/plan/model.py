@@ -255,6 +255,7 @@ ApplianceKind = Literal[
     "dryer",
 ]
 Fuel = Literal["gas", "propane", "oil", "electric", "wood"]
+VehicleFuel = Literal["gasoline", "diesel", "hybrid", "plug_in_hybrid", "electric"]
 Condition = Literal["good", "fair", "poor", "failing", "failed"]
 
 
@@ -284,7 +285,7 @@ class Appliance(Section):
 class Vehicle(Section):
     id: str | None = Field(None, pattern=r"^[a-z][a-z0-9_]*$")
     name: str | None = None
-    fuel: Literal["gasoline", "diesel", "hybrid", "plug_in_hybrid", "electric"] = "gasoline"
+    fuel: VehicleFuel = "gasoline"
     body: Literal["car", "suv", "truck"] = "car"
     mpg: float | None = Field(None, gt=5, le=150)
     kwh_per_mile: float | None = Field(None, gt=0.1, le=1.0)

@@ -47,7 +47,7 @@ from homeplan.energy.vehicles import VehicleSpec
 from homeplan.energy.water import WaterHeaterSpec, hot_water_gal_per_day, water_heater_annual_input
 from homeplan.energy.weather import Weather
 from homeplan.errors import PlanRuleError
-from homeplan.plan.fuels import appliance_fuel, engine_fuel
+from homeplan.plan.fuels import TANK_FUELS, appliance_fuel, engine_fuel
 from homeplan.plan.model import Appliance, Plan
 from homeplan.planner.lifecycle import appliance_type
 
@@ -282,7 +282,7 @@ def _heating_fuel_bills(plan: Plan, fuel: str) -> tuple[np.ndarray | None, float
     if fuel == "gas" and u.gas is not None:
         m = np.array(u.gas.monthly_therms, float) if u.gas.monthly_therms else None
         return m, u.gas.annual_therms if m is None else float(m.sum())
-    if fuel in ("propane", "oil"):
+    if fuel in TANK_FUELS:
         g = getattr(u, fuel)
         if g is not None:
             m = np.array(g.monthly_gal, float) if g.monthly_gal else None
@@ -402,7 +402,7 @@ def home_basis(plan: Plan, base_dir: Path | None = None) -> HomeBasis:
         fuel_prices=fuel_prices(plan), emission_factors=emission_factors(plan),
         occupants=float(plan.home.occupants),
         gas_service_open=any(appliance_fuel(a) == "gas" for a in plan.appliances),
-        fuel_accounts_open=tuple(engine_fuel(f) for f in ("propane", "oil")
+        fuel_accounts_open=tuple(engine_fuel(f) for f in TANK_FUELS
                                  if any(appliance_fuel(a) == f for a in plan.appliances)),
         label="today", **parts,
     )

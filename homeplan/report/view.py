@@ -18,6 +18,7 @@ from dataclasses import dataclass
 from typing import Any
 
 from homeplan import __version__, catalog
+from homeplan.plan.fuels import BILL_FUELS, GASOLINE_VEHICLES, TANK_FUELS
 from homeplan.plan.hashing import content_hash
 from homeplan.report.fmt import (
     clean,
@@ -383,15 +384,15 @@ def _assumptions(plan: Any, result: Any) -> list[tuple[str, str]]:
         fuels.add("gas")
     if "gas" in fuels:
         out.append(("Gas price", f"${p.gas.usd_per_therm:.2f}/therm + ${p.gas.fixed_usd_per_month:.2f}/month"))
-    for fuel in ("propane", "oil"):
+    for fuel in TANK_FUELS:
         if fuel in fuels:
             out.append((f"{fuel.capitalize()} price", f"${getattr(p, fuel).usd_per_gal:.2f}/gallon"))
-    if any(v.fuel in ("gasoline", "hybrid", "plug_in_hybrid") for v in plan.vehicles):
+    if any(v.fuel in GASOLINE_VEHICLES for v in plan.vehicles):
         out.append(("Gasoline price", f"${p.gasoline.usd_per_gal:.2f}/gallon"))
     esc = [f"inflation {pct(p.inflation_pct)} a year"]
     if p.fossil_extra_escalation_pct:
         esc.append(f"fossil fuels {pct(p.fossil_extra_escalation_pct)} a year above inflation")
-    for fuel in ("electricity", "gas", "propane", "oil", "gasoline"):
+    for fuel in BILL_FUELS:
         rate = getattr(p, fuel).escalation_pct
         if rate is not None:
             esc.append(f"{fuel} {pct(rate)} a year")

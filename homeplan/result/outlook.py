@@ -9,6 +9,8 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
+from homeplan.plan.fuels import FOSSIL_FUELS
+
 __all__ = ["LifeOutlook"]
 
 
@@ -38,4 +40,4 @@ class LifeOutlook:
 
     @property
     def fossil(self) -> bool:
-        return self.fuel in ("gas", "propane", "oil", "gasoline", "diesel")
+        return self.fuel in FOSSIL_FUELS

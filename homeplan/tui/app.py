@@ -13,7 +13,7 @@ import time
 from collections.abc import Callable
 from functools import partial
 from pathlib import Path
-from typing import TYPE_CHECKING, Any
+from typing import TYPE_CHECKING, Any, get_args
 
 from rich.text import Text
 from textual import on, work
@@ -24,7 +24,7 @@ from textual.widgets import Footer, Static, TabbedContent, TabPane
 from textual.worker import Worker, WorkerState
 
 from homeplan.errors import InputError, PlanRuleError
-from homeplan.plan.model import Plan
+from homeplan.plan.model import Fuel, Plan, VehicleFuel
 from homeplan.plan.save import write_atomic
 from homeplan.tui import newplan
 from homeplan.tui.actions import VIEW_TABS, bindings, help_rows, palette_entries
@@ -74,7 +74,8 @@ OBJECTIVES = (
 )
 APPLIANCE_KINDS = ("furnace", "boiler", "central_ac", "room_ac", "heat_pump", "mini_split",
                    "baseboard", "water_heater", "range", "cooktop", "wall_oven", "dryer")
-FUELS = ("gas", "propane", "oil", "electric", "wood")
+FUELS: tuple[str, ...] = get_args(Fuel)
+VEHICLE_FUELS: tuple[str, ...] = get_args(VehicleFuel)
 CONDITIONS = ("good", "fair", "poor", "failing", "failed")
 BUDGET_STEP_USD = 1000
 
@@ -632,8 +633,7 @@ class HomeplanApp(App[int]):
             self._form(f"Edit {item.key}", [
                 FieldSpec((*base, "name"), "Name", "text", v.name, optional=True),
                 FieldSpec((*base, "fuel"), "Fuel", "choice", v.fuel, choices=tuple(
-                    (f.replace("_", " "), f) for f in
-                    ("gasoline", "diesel", "hybrid", "plug_in_hybrid", "electric"))),
+                    (f.replace("_", " "), f) for f in VEHICLE_FUELS)),
                 FieldSpec((*base, "mpg"), "Miles per gallon", "float", v.mpg, optional=True),
                 FieldSpec((*base, "miles_per_year"), "Miles per year", "float", v.miles_per_year),
                 FieldSpec((*base, "model_year"), "Model year", "int", v.model_year, optional=True),
@@ -685,8 +685,7 @@ class HomeplanApp(App[int]):
             FieldSpec("fuel", "Fuel (appliance)", "choice", "",
                       choices=(("(default for the kind)", ""), *((f, f) for f in FUELS))),
             FieldSpec("vfuel", "Fuel (vehicle)", "choice", "gasoline", choices=tuple(
-                (f.replace("_", " "), f) for f in
-                ("gasoline", "diesel", "hybrid", "plug_in_hybrid", "electric"))),
+                (f.replace("_", " "), f) for f in VEHICLE_FUELS)),
             FieldSpec("year", "Year installed or model year", "int", None, optional=True),
         ], check, note="Details can be edited afterwards with e."))
 

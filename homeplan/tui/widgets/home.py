@@ -10,7 +10,7 @@ from textual.app import ComposeResult
 from textual.containers import VerticalScroll
 from textual.widgets import DataTable, Static
 
-from homeplan.plan.fuels import FOSSIL_FUELS
+from homeplan.plan.fuels import FOSSIL_FUELS, TANK_FUELS
 from homeplan.tui.actions import bindings
 from homeplan.tui.format import BLOCKS, num, trunc, usd
 from homeplan.tui.widgets.base import View, ViewData
@@ -167,7 +167,7 @@ class HomeView(View):
             if u.gas is not None:
                 th = u.gas.annual_therms or (sum(u.gas.monthly_therms or []) or None)
                 parts.append(f"{num(th, 'therm')} gas")
-            for fuel in ("propane", "oil"):
+            for fuel in TANK_FUELS:
                 g = getattr(u, fuel)
                 if g is not None:
                     gal = g.annual_gal or (sum(g.monthly_gal or []) or None)
