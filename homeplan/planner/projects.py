@@ -14,6 +14,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass, replace
+from typing import Any
 
 from homeplan import catalog
 from homeplan.catalog import performance
@@ -49,7 +50,7 @@ class ProjectDetail:
     cost_today_usd: float
     cost_source: str
     life_years: float
-    cost_change: dict
+    cost_change: dict[str, Any]
     quoted: bool = False
 
     @property
