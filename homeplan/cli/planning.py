@@ -10,6 +10,7 @@ from typing import Any
 from homeplan import catalog
 from homeplan.cli.common import load_and_plan
 from homeplan.cli.parser import EXIT_BAD_INPUT
+from homeplan.report.fmt import service_verdict
 from homeplan.report.table import text_table, usd
 
 __all__ = ["cmd_capacity", "cmd_costs", "cmd_plan"]
@@ -50,7 +51,8 @@ def cmd_plan(args) -> int:
     for y in rm.years:
         rows.append([y.year, usd(y.spend_usd, 10), usd(y.incentives_usd, 10), usd(y.loan_payments_usd, 10),
                      usd(y.total_bills_usd, 10), usd(y.bill_savings_usd, 10), f"{y.emissions_kg / 1000:.1f} t",
-                     f"{y.service_headroom_amps:.0f} A"])
+                     f"{y.service_headroom_amps:.0f} A"
+                     + (f" ({y.service_load_pct:.0f} %, near its limit)" if y.service_near_limit else "")])
     print(text_table(["year", "spend", "incentives in", "loan payments", "energy bills", "bill savings",
                       "CO2", "service headroom"], rows, "lrrrrrrr"))
     print()
@@ -87,14 +89,15 @@ def cmd_capacity(args) -> int:
         rows = [[r.name, f"{r.va:,.0f}", "" if r.factor is None else f"{r.factor:.0%}",
                  "" if r.counted_va is None else f"{r.counted_va:,.0f}", r.section] for r in s.rows]
         print(text_table(["load", "VA", "factor", "counted VA", "section"], rows, "lrrrl"))
-        verdict = "fits" if s.fits else "DOES NOT FIT"
+        verdict = service_verdict(s.fits, s.near_limit, s.load_pct)
         print(f"total {s.total_va:,.0f} VA = {s.amps:.1f} A on a {s.service_amps:.0f} A service: "
               f"{verdict}, headroom {s.headroom_amps:.1f} A" + (f" ({s.remedy})" if s.remedy else ""))
         for n in s.notes:
             print(f"note: {n}")
         print()
-    print(f"caution: {catalog.cautions()['electrical']}")
-    print(f"caution: {catalog.cautions()['planning']}")
+    texts = catalog.cautions(result.plan.home.electrical.code_edition)
+    for cid in ("electrical", "code_edition", "planning"):
+        print(f"caution: {texts[cid]}")
     return 0
 
 

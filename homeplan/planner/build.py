@@ -22,7 +22,7 @@ from typing import Any
 
 from homeplan import catalog
 from homeplan.money.finance import Loan, discount_factor, loan_schedule, remaining_value_share
-from homeplan.plan.fuels import BILL_FUELS
+from homeplan.plan.fuels import BILL_FUELS, HOME_FUELS, appliance_fuel
 from homeplan.plan.hashing import content_hash
 from homeplan.planner.baselines import bills_in_year, do_nothing, like_for_like
 from homeplan.planner.breakdowns import (
@@ -30,6 +30,7 @@ from homeplan.planner.breakdowns import (
     breakdowns_by_year,
     expected_breakdowns,
     fossil_projects,
+    replaceable_items,
 )
 from homeplan.planner.capacity import (
     CapacityModel,
@@ -41,7 +42,7 @@ from homeplan.planner.context import Context
 from homeplan.planner.finance import plan_returns, project_returns, solar_hedge
 from homeplan.planner.incentives import AwardLine, IncentiveModel
 from homeplan.planner.projects import cost_in_year_usd
-from homeplan.planner.scheduling import ORDER_PREFIX, ScheduleOutcome
+from homeplan.planner.scheduling import ORDER_PREFIX, ScheduleOutcome, work_order
 from homeplan.result.figures import (
     CapacityState,
     Finance,
@@ -107,7 +108,7 @@ def build_result(ctx: Context, capacity: CapacityModel, incentives: IncentiveMod
     base_energy = ctx.energy(frozenset(), "today")
     infos = project_infos(ctx)
     outlooks = tuple(ctx.outlooks.values())
-    cautions_all = catalog.cautions()
+    cautions_all = catalog.cautions(plan.home.electrical.code_edition)
     if not sol.feasible:
         roadmap = Roadmap(
             plan_name=plan.home.name or "home", first_year=ctx.first_year, horizon_years=T,
@@ -151,6 +152,7 @@ def build_result(ctx: Context, capacity: CapacityModel, incentives: IncentiveMod
             emissions_kg=round(state.emissions_kg, 1), peak_kw=round(state.peak_kw, 2),
             service_headroom_amps=round(cap.headroom_amps, 1),
             energy={k: round(v, 1) for k, v in state.units.items()},
+            service_load_pct=cap.load_pct, service_near_limit=cap.near_limit,
         ))
         npv += discount_factor(rate, t) * (savings - (net - borrowed + pay))
     # incentives arriving after the horizon and loan payments still due are part of the plan
@@ -171,14 +173,16 @@ def build_result(ctx: Context, capacity: CapacityModel, incentives: IncentiveMod
     # every NPV is against doing nothing: keeping today's home and paying for its breakdowns
     reference = expected_breakdowns(ctx, {})
     npv += reference
-    lfl_baseline = like_for_like(ctx, base_energy, today_cap.headroom_amps)
-    baselines = (do_nothing(ctx, base_energy, today_cap.headroom_amps),
+    lfl_baseline = like_for_like(ctx, base_energy, today_cap.headroom_amps, today_cap.load_pct)
+    baselines = (do_nothing(ctx, base_energy, today_cap.headroom_amps, today_cap.load_pct),
                  replace(lfl_baseline, npv_usd=round(lfl_baseline.npv_usd + reference, 2)))
     cautions = [cautions_all["planning"]]
     for s in steps:
         for c in s.cautions:
             if c not in cautions:
                 cautions.append(c)
+    if cautions_all["electrical"] in cautions:
+        cautions.append(cautions_all["code_edition"])
     roadmap = Roadmap(
         plan_name=plan.home.name or "home", first_year=ctx.first_year, horizon_years=T,
         objective=outcome.problem.objective, steps=tuple(steps), years=tuple(years),
@@ -203,13 +207,17 @@ def build_result(ctx: Context, capacity: CapacityModel, incentives: IncentiveMod
 
 def _steps(ctx: Context, capacity: CapacityModel, outcome: ScheduleOutcome, done: dict[str, int],
            lfl: dict[str, int], costs: dict[str, float], awards: dict[str, list[AwardLine]]) -> list[Step]:
-    """The roadmap's steps: like-for-like replacements the optimiser chose, then each project in
-    year order with its incentives, reasons and cautions."""
-    cautions_all = catalog.cautions()
-    steps = [lfl_step(ctx, outcome, pid, year) for pid, year in lfl.items()]
+    """The roadmap's steps in the order of the work (:func:`work_order`): each project with its
+    incentives, reasons and cautions, and the like-for-like replacements the optimiser chose."""
+    cautions_all = catalog.cautions(ctx.plan.home.electrical.code_edition)
+    steps = []
     # order markers are bookkeeping for the solver; reasons that name them are not shown
     markers = [p.name.lower() for p in outcome.problem.projects if p.id.startswith(ORDER_PREFIX)]
-    for pid, year in sorted(done.items(), key=lambda kv: (kv[1], kv[0])):
+    for pid in work_order(ctx, {**done, **lfl}):
+        if pid in lfl:
+            steps.append(lfl_step(ctx, outcome, pid, lfl[pid]))
+            continue
+        year = done[pid]
         d = ctx.details[pid]
         lines = tuple(IncentiveLine(a.program, a.amount_usd, a.arrives, a.kind) for a in awards.get(pid, ()))
         cost = costs[pid]
@@ -221,14 +229,32 @@ def _steps(ctx: Context, capacity: CapacityModel, outcome: ScheduleOutcome, done
         if pid == capacity.remedy_project:
             extra_reasons = [r for r in extra_reasons if not r.startswith(("paying later", "better overall"))]
             extra_reasons.insert(0, _remedy_reason(ctx, done, year))
+        caution_ids = list(d.candidate.cautions)
+        if d.kind == "envelope" and _burns_fuel_during(ctx, {**done, **lfl}, year):
+            caution_ids.append("combustion_test")
         steps.append(Step(
             project_id=pid, label=d.label, year=year, variant=d.variant_label, size=d.size_text(),
             cost_usd=round(cost, 2), incentives=lines,
             net_cost_usd=round(cost - sum(i.amount_usd for i in lines), 2),
             reasons=tuple(extra_reasons),
-            cautions=tuple(cautions_all[c] for c in d.candidate.cautions if c in cautions_all),
+            cautions=tuple(cautions_all[c] for c in caution_ids if c in cautions_all),
+            replaces=d.candidate.replaces,
         ))
     return steps
+
+
+def _burns_fuel_during(ctx: Context, placed: dict[str, int], year: int) -> bool:
+    """Whether a fuel-burning appliance is still in the house at the start of ``year`` (not
+    replaced, by its upgrade or like for like, in an earlier year)."""
+    items = replaceable_items(ctx)
+    for a in ctx.plan.appliances:
+        if appliance_fuel(a) not in HOME_FUELS:
+            continue
+        upgrade = items.get(a.key, ("", None))[0]
+        years = [placed[p] for p in (upgrade, f"{LFL_PREFIX}{a.key}") if p in placed]
+        if not years or min(years) >= year:
+            return True
+    return False
 
 
 def _capacity_states(ctx: Context, capacity: CapacityModel, done: dict[str, int],
@@ -248,6 +274,11 @@ def _capacity_states(ctx: Context, capacity: CapacityModel, done: dict[str, int]
             seen.add(state)
             names = ", ".join(ctx.details[p].label for p in sorted(changed))
             states.append(state_capacity(ctx, capacity, set(state), f"{year}: after {names}", year))
+    near = next((s for s in states[1:] if s.near_limit), None)
+    if near is not None and near.year is not None:
+        notes.append(f"from {near.year} the service carries {near.load_pct:.0f} % of its rating by the "
+                     "load calculation: near its limit, with little room for the next load - ask an "
+                     "electrician whether load management or a larger service is wiser")
     spaces = breaker_spaces_note(ctx, set(done))
     if spaces:
         notes.append(spaces)
@@ -322,11 +353,11 @@ def lfl_step(ctx: Context, outcome: ScheduleOutcome, pid: str, year: int) -> Ste
     reasons = outcome.reasons.get(pid, ()) + (
         "a like-for-like replacement costs less than the upgrade over the plan's years",)
     key = pid[len(LFL_PREFIX):]
-    cautions = catalog.cautions()
+    cautions = catalog.cautions(ctx.plan.home.electrical.code_edition)
     a = next((x for x in ctx.plan.appliances if x.key == key), None)
     notes = (cautions["combustion_removal"],) if a is not None and (a.fuel or "gas") != "electric" else ()
     return Step(project_id=pid, label=pr.label, year=year, cost_usd=round(cost, 2), net_cost_usd=round(cost, 2),
-                reasons=tuple(dict.fromkeys(reasons)), cautions=notes)
+                reasons=tuple(dict.fromkeys(reasons)), cautions=notes, replaces=(key,))
 
 
 def hourly_profiles(ctx: Context, done: dict[str, int]) -> tuple[HourlyProfile, ...]:

@@ -19,6 +19,7 @@ common practice, no source: air sealing before heat pump sizing, roof before sol
 from __future__ import annotations
 
 import difflib
+from collections.abc import Mapping
 from dataclasses import dataclass, field
 
 from homeplan import catalog
@@ -29,12 +30,14 @@ from homeplan.planner import lifecycle
 
 __all__ = [
     "CAPACITY_GROUP",
+    "INSTALL_ORDER",
     "MILESTONE_FOR_FUEL",
     "Candidate",
     "any_of_groups",
     "build_graph",
     "candidates",
     "heat_pump_variant",
+    "install_order",
     "layers",
     "prerequisites_closure",
     "project_nodes",
@@ -45,6 +48,17 @@ HEATING_KINDS = ("furnace", "boiler", "central_ac", "room_ac", "baseboard")
 CAPACITY_GROUP = "any_of:capacity"
 LOWER_POWER = "lower_power_variants"
 MILESTONE_FOR_FUEL = {"gas": "close_gas", "propane": "remove_propane_tank", "oil": "remove_oil_tank"}
+
+INSTALL_ORDER: dict[str, int] = {
+    "panel_upgrade": 0, "service_upgrade": 0, "load_management": 0, "breaker_spaces": 0,
+    "roof": 1, "envelope": 2, "heat_pump": 3, "heat_pump_water_heater": 4, "induction_range": 5,
+    "heat_pump_dryer": 6, "ev_charger": 7, "ev": 8, "solar": 9, "battery": 10,
+    "close_gas": 20, "remove_propane_tank": 20, "remove_oil_tank": 20,
+}
+"""Safe order of work within a year, by upgrade kind: room on the service first, the roof before
+anything goes on it, the building shell before the equipment sized for it, the new heat source
+and appliances before the fuel they replace is shut off, the charger before the car (common
+practice, no source). The upgrade graph's own edges come first (:func:`install_order`)."""
 
 
 @dataclass(frozen=True)
@@ -270,6 +284,19 @@ def prerequisites_closure(g, pid: str) -> set[str]:
                 out.add(u)
                 stack.append(u)
     return out
+
+
+def install_order(g, ranks: Mapping[str, int]) -> list[str]:
+    """The items of ``ranks`` (project id -> rank, e.g. from :data:`INSTALL_ORDER`) in a safe
+    order: every "requires" and "better before" edge of the graph between two of them is kept,
+    and otherwise lower ranks come first (then ids, for a stable answer)."""
+    import networkx as nx
+
+    h = nx.DiGraph()
+    h.add_nodes_from(ranks)
+    h.add_edges_from((u, v) for u, v, d in g.edges(data=True)
+                     if d["kind"] in ("requires", "better_before") and u in ranks and v in ranks)
+    return list(nx.lexicographical_topological_sort(h, key=lambda n: (ranks[n], n)))
 
 
 def project_nodes(g) -> list[str]:

@@ -37,6 +37,7 @@ from homeplan.electrical.remedies import (
     Variant,
     find_remedy,
 )
+from homeplan.electrical.tables import practice
 from homeplan.electrical.upgrade_loads import loads_for_upgrade
 from homeplan.plan.fuels import appliance_fuel
 from homeplan.plan.model import Plan
@@ -358,7 +359,7 @@ def state_capacity(ctx: Context, model: CapacityModel, done: set[str], label: st
                      + ("" if bf.fits else " - DOES NOT FIT"))
         fits = fits and bool(bf.fits)
     state = _state(calc, label, year, remedy_note, tuple(calc.notes) + tuple(notes))
-    return replace(state, fits=fits) if fits != state.fits else state
+    return replace(state, fits=fits, near_limit=state.near_limit and fits) if fits != state.fits else state
 
 
 def _state(calc: LoadCalcResult, label: str, year: int | None, remedy: str | None,
@@ -367,10 +368,12 @@ def _state(calc: LoadCalcResult, label: str, year: int | None, remedy: str | Non
     rows = tuple(CapacityRow(r.load_name, float(r.va), None if r.factor is None else float(r.factor),
                              None if r.counted_va is None else float(r.counted_va), r.section)
                  for r in calc.rows)
+    pct = 100.0 * float(calc.amps) / float(calc.service_amps)
     return CapacityState(label=label, year=year, method=calc.method, total_va=float(calc.total_va),
                          amps=float(calc.amps), service_amps=float(calc.service_amps),
                          headroom_amps=float(calc.headroom_amps), fits=bool(calc.fits), rows=rows,
-                         remedy=remedy, notes=notes)
+                         remedy=remedy, notes=notes, load_pct=round(pct, 1),
+                         near_limit=bool(calc.fits) and pct > practice("near_limit_pct"))
 
 
 def measured_capacity(ctx: Context, done: set[str], year: int | None) -> CapacityState | None:

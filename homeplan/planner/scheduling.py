@@ -23,7 +23,6 @@ from __future__ import annotations
 
 from dataclasses import dataclass, field
 
-from homeplan import catalog
 from homeplan.money.finance import discount_factor, remaining_value_share
 from homeplan.plan.fuels import HOME_FUELS
 from homeplan.planner.breakdowns import (
@@ -33,12 +32,16 @@ from homeplan.planner.breakdowns import (
     lfl_cost,
     replaceable_items,
 )
-from homeplan.planner.candidates import MILESTONE_FOR_FUEL, prerequisites_closure
+from homeplan.planner.candidates import (
+    INSTALL_ORDER,
+    MILESTONE_FOR_FUEL,
+    install_order,
+    prerequisites_closure,
+)
 from homeplan.planner.capacity import CapacityModel
 from homeplan.planner.context import Context
 from homeplan.planner.incentives import IncentiveModel
 from homeplan.planner.projects import cost_in_year_usd
-from homeplan.planner.states import APPLY_ORDER
 from homeplan.schedule.explain import diagnose_infeasible, explain
 from homeplan.schedule.milp import MilpSolver, Solution
 from homeplan.schedule.problem import (
@@ -59,6 +62,7 @@ __all__ = [
     "build_problem",
     "coefficients",
     "schedule",
+    "work_order",
 ]
 
 OBJECTIVE = {"npv": "max_npv", "emissions": "min_emissions", "gas_off_early": "earliest_gas_closure",
@@ -317,6 +321,25 @@ def solve(problem: Problem) -> Solution:
     return MilpSolver(time_limit_s=20.0, mip_rel_gap=1e-5, presolve=True).solve(problem)
 
 
+def work_order(ctx: Context, placed: dict[str, int]) -> list[str]:
+    """Projects and like-for-like replacements (id -> year) in the order the work is done: by
+    year, and within a year in the safe order of :func:`~homeplan.planner.candidates.install_order`
+    (a like-for-like replacement ranks with the upgrade it stands in for)."""
+    items = replaceable_items(ctx)
+    out: list[str] = []
+    for year in sorted(set(placed.values())):
+        ranks = {}
+        for pid in (p for p, y in placed.items() if y == year):
+            if pid.startswith(LFL_PREFIX):
+                upgrade = items.get(pid[len(LFL_PREFIX):], ("", None))[0]
+                kind = ctx.details[upgrade].kind if upgrade in ctx.details else ""
+            else:
+                kind = ctx.details[pid].kind
+            ranks[pid] = INSTALL_ORDER.get(kind, 15)
+        out.extend(install_order(ctx.graph, ranks))
+    return out
+
+
 def _reachable(ctx: Context, pid: str, by: int) -> bool:
     """A car the owner will not replace before ``by`` is not part of the all-electric target."""
     d = ctx.details[pid]
@@ -347,7 +370,7 @@ def schedule(ctx: Context, capacity: CapacityModel, incentives: IncentiveModel) 
     passes = 1
     if solution.feasible:
         done = {p: y for p, y in solution.done().items() if p in ctx.details}
-        order = sorted(done, key=lambda p: (done[p], _order_key(ctx, p)))
+        order = work_order(ctx, done)
         co2 = {}
         for pid in ctx.details:
             before = set(order[:order.index(pid)]) if pid in done else set(done)
@@ -383,10 +406,3 @@ def _solve_relaxing(ctx: Context, co: dict[str, Coefficients], capacity: Capacit
         if not any(p.latest_year for p in problem.projects):
             break
     return problem, solution, None
-
-
-def _order_key(ctx: Context, pid: str) -> int:
-    kind = ctx.details[pid].kind
-    if catalog.upgrade_kinds()[kind].capacity_remedy:
-        return -1
-    return APPLY_ORDER.get(kind, 50)

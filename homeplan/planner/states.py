@@ -29,6 +29,7 @@ from homeplan.energy.water import WaterHeaterSpec
 from homeplan.plan.fuels import FOSSIL_FUELS, UNIT_KEY, bill_fuel
 from homeplan.plan.model import Plan, ProjectOption
 from homeplan.planner.basis import HomeBasis, fuel_prices
+from homeplan.planner.candidates import INSTALL_ORDER
 from homeplan.result.figures import EnergySummary
 
 __all__ = [
@@ -44,10 +45,8 @@ __all__ = [
     "summarise_energy",
 ]
 
-APPLY_ORDER = {"envelope": 0, "heat_pump": 1, "heat_pump_water_heater": 2, "induction_range": 3,
-               "heat_pump_dryer": 4, "ev": 5, "solar": 6, "battery": 7, "close_gas": 8,
-               "remove_propane_tank": 8, "remove_oil_tank": 8}
-"""The order in which a state's projects are applied to the home's spec (and shown within a year)."""
+APPLY_ORDER = INSTALL_ORDER
+"""The order in which a state's projects are applied to the home's spec: the order of the work."""
 
 
 @dataclass(frozen=True)

@@ -21,6 +21,7 @@ __all__ = [
     "money_signed",
     "number",
     "pct",
+    "service_verdict",
     "short",
     "tonnes",
 ]
@@ -40,6 +41,16 @@ def clean(text: object, one_line: bool = True) -> str:
 def short(text: str, limit: int) -> str:
     """Cut long text to ``limit`` characters with an ellipsis."""
     return text if len(text) <= limit else text[: max(limit - 3, 1)].rstrip() + "..."
+
+
+def service_verdict(fits: bool, near_limit: bool = False, load_pct: float | None = None) -> str:
+    """How a load calculation ends, in words: "fits", "fits, near its limit (98 % of the rating)"
+    or "DOES NOT FIT"."""
+    if not fits:
+        return "DOES NOT FIT"
+    if near_limit and load_pct is not None:
+        return f"fits, near its limit ({load_pct:.0f} % of the rating)"
+    return "fits"
 
 
 def finite(value: float | None) -> bool:

@@ -28,6 +28,7 @@ from homeplan.report.fmt import (
     money_signed,
     number,
     pct,
+    service_verdict,
     tonnes,
 )
 from homeplan.units import display_area, display_temp
@@ -44,6 +45,7 @@ __all__ = [
     "collect_cautions",
     "footer_line",
     "group_of",
+    "step_safety",
 ]
 
 # Groups of upgrade categories (homeplan/data/upgrades.yaml): one colour each on the timeline.
@@ -150,13 +152,10 @@ def group_of(result: Any, project_id: str) -> str:
     return next((g for g, cats in GROUPS.items() if cat in cats), "other")
 
 
-def _caution_title(cid: str) -> str:
-    return cid.replace("_", " ").capitalize()
-
-
 def collect_cautions(result: Any) -> tuple[tuple[str, str], ...]:
     """Cautions for the work in this roadmap: catalog ids expanded, free text kept; planning first."""
-    known = catalog.cautions()
+    known = catalog.cautions(result.plan.home.electrical.code_edition)
+    titles = catalog.caution_titles()
     ids: list[str] = ["planning"]
     road = result.roadmap
     for s in road.steps:
@@ -178,7 +177,7 @@ def collect_cautions(result: Any) -> tuple[tuple[str, str], ...]:
         if not text or text in seen:
             continue
         seen.add(text)
-        out.append((_caution_title(key) if key is not None else "Note", text))
+        out.append((titles[key] if key is not None else "Note", text))
     return tuple(out)
 
 
@@ -257,13 +256,25 @@ def _headline(result: Any) -> list[tuple[str, str]]:
     return out
 
 
+def step_safety(step: Any, edition: int) -> str:
+    """The short titles of a step's cautions ("Licensed electrician and permit; ..."), or ""."""
+    titles = catalog.caution_titles()
+    ids = catalog.caution_ids_of(step.cautions, edition)
+    return "; ".join(titles[i] if i is not None else "see the safety notes"
+                     for i in dict.fromkeys(ids))
+
+
 def _steps_table(result: Any) -> Table:
     rows = []
     road = result.roadmap
+    edition = result.plan.home.electrical.code_edition
     for s in road.steps:
         label, detail = _step_what(s)
         what = f"{label} ({detail})" if detail else label
         reason = "; ".join(clean(r) for r in s.reasons if clean(r))
+        safety = step_safety(s, edition)
+        if safety:
+            reason += (". " if reason else "") + f"Safety: {safety}."
         rows.append((str(s.year), what, money(s.cost_usd), money(s.incentives_usd),
                      money(s.net_cost_usd), reason))
     total = None
@@ -338,7 +349,7 @@ def _capacity_table(result: Any) -> tuple[Table, tuple[str, ...]]:
     for c in result.capacity:
         rows.append((clean(c.label), clean(c.method), number(c.amps, 0, "A"),
                      number(c.service_amps, 0, "A"), number(c.headroom_amps, 0, "A"),
-                     "yes" if c.fits else "NO", clean(c.remedy) or ""))
+                     service_verdict(c.fits, c.near_limit, c.load_pct), clean(c.remedy) or ""))
         notes.extend(clean(n) for n in c.notes if clean(n))
     table = Table(("Home as of", "Method", "Calculated load", "Service", "Headroom", "Fits",
                    "What the plan does"), tuple(rows), "llrrrll", None,

@@ -66,8 +66,8 @@ class CapacityRow:
 class CapacityState:
     """The service load calculation for one state of the home.
 
-    ``total_va``, ``amps`` and ``headroom_amps`` are None when the method does not apply to the
-    home (the notes say why).
+    ``total_va``, ``amps``, ``headroom_amps`` and ``load_pct`` are None when the method does not
+    apply to the home (the notes say why).
     """
 
     label: str                     # "today", "2028: after Heat pump"
@@ -81,6 +81,8 @@ class CapacityState:
     rows: tuple[CapacityRow, ...] = ()
     remedy: str | None = None      # what the plan does to make it fit, in words
     notes: tuple[str, ...] = ()
+    load_pct: float | None = None  # calculated load as a share of the service rating, percent
+    near_limit: bool = False       # fits, but above the near-limit share (electrical/data/practice.csv)
 
     @property
     def applies(self) -> bool:

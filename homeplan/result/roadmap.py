@@ -39,7 +39,7 @@ __all__ = [
     "YearTotals",
 ]
 
-SCHEMA_VERSION = "1.1"
+SCHEMA_VERSION = "1.2"
 """Version of the JSON produced by :meth:`Roadmap.to_dict`. Bump the minor part for added
 fields, the major part for renamed/removed fields or changed meaning."""
 
@@ -131,7 +131,9 @@ class Step:
     ``cost_usd`` is the installed price before any incentive; ``net_cost_usd`` is what the
     household pays after all incentives (whenever they arrive); ``financed_usd`` is the part paid
     by a loan. ``reasons`` are plain-words explanations of the year (see ``explain.py``);
-    ``cautions`` are safety notes (see ``homeplan/data/cautions.yaml``).
+    ``cautions`` are safety notes (see ``homeplan/data/cautions.yaml``); ``replaces`` are the ids
+    of the appliances, vehicles or roof the step takes over (empty for additions). Within a year
+    the roadmap lists steps in the order the work is done.
     """
 
     project_id: str
@@ -145,11 +147,13 @@ class Step:
     financed_usd: float = 0.0
     reasons: tuple[str, ...] = ()
     cautions: tuple[str, ...] = ()
+    replaces: tuple[str, ...] = ()
 
     def __post_init__(self) -> None:
         object.__setattr__(self, "incentives", _tuple(self.incentives))
         object.__setattr__(self, "reasons", _tuple(self.reasons))
         object.__setattr__(self, "cautions", _tuple(self.cautions))
+        object.__setattr__(self, "replaces", _tuple(self.replaces))
 
     @property
     def incentives_usd(self) -> float:
@@ -168,6 +172,7 @@ class Step:
             "financed_usd": _json_number(self.financed_usd),
             "reasons": list(self.reasons),
             "cautions": list(self.cautions),
+            "replaces": list(self.replaces),
         }
 
     @classmethod
@@ -184,6 +189,7 @@ class Step:
             financed_usd=_num(data.get("financed_usd", 0.0)),
             reasons=tuple(data.get("reasons", ())),
             cautions=tuple(data.get("cautions", ())),
+            replaces=tuple(data.get("replaces", ())),
         )
 
 
@@ -205,6 +211,8 @@ class YearTotals:
     - ``service_headroom_amps``: service rating minus the NEC 220.83 calculated load at year end
       (negative means over capacity).
     - ``energy``: energy use by fuel, unit in the key (``electricity_kwh``, ``gas_therm``...).
+    - ``service_load_pct``: the NEC 220.83 calculated load as a percentage of the service rating
+      at year end; ``service_near_limit``: it fits but above 90 % of the rating.
     """
 
     year: int
@@ -219,6 +227,8 @@ class YearTotals:
     peak_kw: float = 0.0
     service_headroom_amps: float = 0.0
     energy: dict[str, float] = field(default_factory=dict)
+    service_load_pct: float | None = None
+    service_near_limit: bool = False
 
     def __post_init__(self) -> None:
         object.__setattr__(self, "bills_usd", dict(self.bills_usd))
@@ -242,6 +252,8 @@ class YearTotals:
             "peak_kw": _json_number(self.peak_kw),
             "service_headroom_amps": _json_number(self.service_headroom_amps),
             "energy": _json_value(self.energy),
+            "service_load_pct": _json_number(self.service_load_pct),
+            "service_near_limit": self.service_near_limit,
         }
 
     @classmethod
@@ -260,10 +272,13 @@ class YearTotals:
                 "service_headroom_amps",
             )
         }
+        pct = data.get("service_load_pct")
         return cls(
             year=int(data["year"]),
             bills_usd={k: _num(v) for k, v in data.get("bills_usd", {}).items()},
             energy={k: _num(v) for k, v in data.get("energy", {}).items()},
+            service_load_pct=None if pct is None else float(pct),
+            service_near_limit=bool(data.get("service_near_limit", False)),
             **nums,
         )
 
