@@ -12,6 +12,7 @@ from homeplan.cli.common import load_and_plan
 from homeplan.cli.parser import EXIT_BAD_INPUT
 from homeplan.report.fmt import service_verdict
 from homeplan.report.table import text_table, usd
+from homeplan.report.view import emergency_lines
 
 __all__ = ["cmd_capacity", "cmd_costs", "cmd_plan"]
 
@@ -37,6 +38,8 @@ def cmd_plan(args) -> int:
         return 0
     print(f"Roadmap for {rm.plan_name}, {rm.first_year}-{rm.last_year} "
           f"(objective: {rm.objective.replace('_', ' ')}). Planning estimates.\n")
+    for text in emergency_lines(rm):
+        print(f"EMERGENCY: {text}\n")
     if rm.status != "ok":
         print(rm.infeasibility or "No plan meets every requirement.", file=sys.stderr)
         return EXIT_BAD_INPUT  # the request cannot be met as asked: change the plan file
@@ -127,6 +130,8 @@ def cmd_costs(args) -> int:
         rows.append([p.label, usd(p.cost_usd, 10), s.year if s else "-", usd(s.cost_usd, 10) if s else "",
                      usd(s.incentives_usd, 10) if s else "", usd(s.net_cost_usd, 10) if s else "",
                      p.cost_source[:60]])
+    for text in emergency_lines(rm):
+        print(f"EMERGENCY: {text}\n")
     print("Costs today and in the planned year (before and after incentives). Planning estimates.\n")
     print(text_table(["project", "cost today", "year", "cost then", "incentives", "net", "cost from"],
                      rows, "lrrrrrl"))

@@ -27,6 +27,7 @@ __all__ = [
     "ElectricUsage",
     "Electrical",
     "ElectricalLoad",
+    "EmergencyFunds",
     "ExistingBattery",
     "ExistingSolar",
     "GallonPrice",
@@ -405,6 +406,21 @@ class Loan(Section):
     term_years: int = Field(ge=1, le=40)
 
 
+class EmergencyFunds(Section):
+    """How the household pays for an essential replacement (heat, hot water) beyond the year's
+    budget: savings first, then a loan on these terms; what neither covers is over budget."""
+
+    savings_usd: Money = Field(0, description="Savings that can go to an emergency replacement.")
+    loan_rate_pct: float | None = Field(None, ge=0, le=40, description="Emergency loan rate.")
+    loan_term_years: int | None = Field(None, ge=1, le=40, description="Emergency loan term.")
+
+    @model_validator(mode="after")
+    def _loan_complete(self) -> EmergencyFunds:
+        if (self.loan_rate_pct is None) != (self.loan_term_years is None):
+            raise ValueError("an emergency loan needs both loan_rate_pct and loan_term_years")
+        return self
+
+
 class Budget(Section):
     usd_per_year: Money = Field(description="What the household can spend each year.")
     first_year: Year | None = Field(None, description="Default: next calendar year.")
@@ -414,6 +430,9 @@ class Budget(Section):
     discount_rate_pct: float = Field(3.0, ge=0, le=30)
     by_year: dict[Year, Money] | None = Field(None, description="Budgets that differ by year.")
     loans: list[Loan] = []
+    emergency: EmergencyFunds | None = Field(
+        None, description="How a failed heating system or water heater is paid for beyond the budget."
+    )
 
 
 class ProjectOption(Section):

@@ -28,6 +28,7 @@ from homeplan.planner.baselines import bills_in_year, do_nothing, like_for_like
 from homeplan.planner.breakdowns import (
     LFL_PREFIX,
     breakdowns_by_year,
+    emergency_items,
     expected_breakdowns,
     fossil_projects,
     replaceable_items,
@@ -51,7 +52,7 @@ from homeplan.result.figures import (
     SolverReport,
 )
 from homeplan.result.plan_result import PlanResult
-from homeplan.result.roadmap import IncentiveLine, Milestone, Roadmap, Step, YearTotals
+from homeplan.result.roadmap import Emergency, IncentiveLine, Milestone, Roadmap, Step, YearTotals
 from homeplan.schedule.problem import evaluate
 
 __all__ = ["assumptions", "build_result", "hourly_profiles", "milestones_of", "project_infos"]
@@ -126,9 +127,10 @@ def build_result(ctx: Context, capacity: CapacityModel, incentives: IncentiveMod
     by_year = _state_by_year(ctx, done)
     costs = {p: cost_in_year_usd(ctx.details[p], plan, y) for p, y in done.items()}
     awards, incentive_result = incentives.exact(done, costs)
-    steps = _steps(ctx, capacity, outcome, done, lfl, costs, awards)
+    emergencies = emergency_records(ctx, outcome)
+    steps = _steps(ctx, capacity, outcome, done, lfl, costs, awards, emergencies)
     # years
-    loans = loan_flows(ctx, outcome)
+    loans = loan_flows(ctx, outcome, emergencies)
     years = []
     cumulative = 0.0
     npv = 0.0
@@ -187,7 +189,7 @@ def build_result(ctx: Context, capacity: CapacityModel, incentives: IncentiveMod
         plan_name=plan.home.name or "home", first_year=ctx.first_year, horizon_years=T,
         objective=outcome.problem.objective, steps=tuple(steps), years=tuple(years),
         milestones=milestones_of(ctx, done), baselines=baselines, npv_usd=round(npv, 2), status="ok",
-        assumptions=assumptions(ctx), cautions=tuple(cautions),
+        assumptions=assumptions(ctx), cautions=tuple(cautions), emergencies=emergencies,
     )
     capacity_states = _capacity_states(ctx, capacity, done, by_year, today_cap, notes_out)
     return PlanResult(
@@ -206,16 +208,21 @@ def build_result(ctx: Context, capacity: CapacityModel, incentives: IncentiveMod
 
 
 def _steps(ctx: Context, capacity: CapacityModel, outcome: ScheduleOutcome, done: dict[str, int],
-           lfl: dict[str, int], costs: dict[str, float], awards: dict[str, list[AwardLine]]) -> list[Step]:
+           lfl: dict[str, int], costs: dict[str, float], awards: dict[str, list[AwardLine]],
+           emergencies: tuple[Emergency, ...] = ()) -> list[Step]:
     """The roadmap's steps in the order of the work (:func:`work_order`): each project with its
     incentives, reasons and cautions, and the like-for-like replacements the optimiser chose."""
     cautions_all = catalog.cautions(ctx.plan.home.electrical.code_edition)
     steps = []
     # order markers are bookkeeping for the solver; reasons that name them are not shown
     markers = [p.name.lower() for p in outcome.problem.projects if p.id.startswith(ORDER_PREFIX)]
+    urgent = {e.step_id: e for e in emergencies}
     for pid in work_order(ctx, {**done, **lfl}):
         if pid in lfl:
-            steps.append(lfl_step(ctx, outcome, pid, lfl[pid]))
+            step = lfl_step(ctx, outcome, pid, lfl[pid])
+            if pid in urgent:
+                step = replace(step, reasons=(_emergency_words(urgent[pid]),))
+            steps.append(step)
             continue
         year = done[pid]
         d = ctx.details[pid]
@@ -229,6 +236,9 @@ def _steps(ctx: Context, capacity: CapacityModel, outcome: ScheduleOutcome, done
         if pid == capacity.remedy_project:
             extra_reasons = [r for r in extra_reasons if not r.startswith(("paying later", "better overall"))]
             extra_reasons.insert(0, _remedy_reason(ctx, done, year))
+        if pid in urgent:  # the failure decides the year: the engine's other reasons do not apply
+            extra_reasons = [_emergency_words(urgent[pid])] + [
+                r for r in extra_reasons if r.startswith(("sized ", "a lower-power")) or "lower-power" in r]
         caution_ids = list(d.candidate.cautions)
         if d.kind == "envelope" and _burns_fuel_during(ctx, {**done, **lfl}, year):
             caution_ids.append("combustion_test")
@@ -295,8 +305,63 @@ def _capacity_states(ctx: Context, capacity: CapacityModel, done: dict[str, int]
     return tuple(states)
 
 
-def loan_flows(ctx: Context, outcome: ScheduleOutcome) -> LoanFlows:
-    """Borrowing per year from the solver and the resulting payments (annuity, yearly).
+def emergency_records(ctx: Context, outcome: ScheduleOutcome) -> tuple[Emergency, ...]:
+    """The failed heat sources and water heaters, how the roadmap replaces them in the first year,
+    the other way and its price, and how the money beyond the year's budget is found: the plan's
+    emergency savings, then its emergency loan, else it is over budget."""
+    items = emergency_items(ctx)
+    if not items:
+        return ()
+    problem, years = outcome.problem, outcome.solution.years
+    t0 = ctx.first_year
+    b = ctx.plan.budget
+    budget0 = float((b.by_year or {}).get(t0, b.usd_per_year))
+    first = [p for p in problem.projects if years.get(p.id) == t0]
+    spend0 = sum(p.cost_usd[0] for p in first)
+    borrowed0 = evaluate(problem, years).loans_usd[0] if b.loans else 0.0
+    excess = max(0.0, spend0 - budget0 - borrowed0)
+    funds = b.emergency
+    savings = min(excess, funds.savings_usd if funds else 0.0)
+    loan = excess - savings if funds is not None and funds.loan_rate_pct is not None else 0.0
+    unfunded = excess - savings - loan
+
+    ids = {p.id for p in problem.projects}
+
+    def label(pid: str) -> str:
+        return problem.project(pid).name if pid in ids else pid
+
+    def cost(pid: str) -> float | None:
+        return problem.project(pid).cost_usd[0] if pid in ids else None
+
+    out = []
+    for e in items:
+        chosen = e.upgrade if years.get(e.upgrade) == t0 else (e.like_for_like or e.upgrade)
+        other = e.like_for_like if chosen == e.upgrade else e.upgrade
+        out.append(Emergency(
+            item=e.key, label=e.label, service=e.service, year=t0, step_id=chosen,
+            step_label=label(chosen), step_cost_usd=round(cost(chosen) or 0.0, 2), other_id=other,
+            other_label=label(other) if other else "",
+            other_cost_usd=None if other is None or cost(other) is None else round(cost(other), 2),
+            over_budget_usd=round(excess, 2), from_savings_usd=round(savings, 2),
+            from_loan_usd=round(loan, 2), unfunded_usd=round(unfunded, 2),
+        ))
+    return tuple(out)
+
+
+def _emergency_words(e: Emergency) -> str:
+    text = f"the {e.label} has failed: replaced at once, a home needs {e.service}"
+    if e.other_cost_usd is not None and e.other_id:
+        gap = e.other_cost_usd - e.step_cost_usd
+        which = "less" if gap < 0 else "more"
+        text += (f" ({e.other_label.lower()} instead: {abs(gap):,.0f} USD {which} now, after "
+                 "point-of-sale incentives)")
+    return text
+
+
+def loan_flows(ctx: Context, outcome: ScheduleOutcome,
+               emergencies: tuple[Emergency, ...] = ()) -> LoanFlows:
+    """Borrowing per year from the solver and the resulting payments (annuity, yearly), and the
+    plan's emergency loan for a failed heat source or water heater (repaid from the next year).
 
     Borrowing is just in time: only the shortfall, in the year it occurs (the cheapest feasible
     borrowing for this placement; the solver's own loan variables may carry slack).
@@ -304,6 +369,13 @@ def loan_flows(ctx: Context, outcome: ScheduleOutcome) -> LoanFlows:
     b = ctx.plan.budget
     borrowed: dict[int, float] = {}
     payments: dict[int, float] = {}
+    loan = emergencies[0].from_loan_usd if emergencies else 0.0
+    if loan > 0 and b.emergency is not None and b.emergency.loan_rate_pct is not None:
+        year = emergencies[0].year
+        borrowed[year] = loan
+        for row in loan_schedule(Loan(loan, b.emergency.loan_rate_pct, b.emergency.loan_term_years or 1,
+                                      year + 1, payments_per_year=1, name="emergency loan")):
+            payments[row.year] = payments.get(row.year, 0.0) + row.payments_usd
     if b.loans:
         first = b.loans[0]
         for t, amount in enumerate(evaluate(outcome.problem, outcome.solution.years).loans_usd):

@@ -78,7 +78,7 @@ class Candidate:
 def _has_ducts(plan: Plan) -> bool:
     if plan.home.has_ducts is not None:
         return plan.home.has_ducts
-    return any(a.kind in ("furnace", "central_ac") for a in plan.appliances)
+    return any(a.kind in ("furnace", "central_ac", "heat_pump") for a in plan.appliances)
 
 
 def heat_pump_variant(plan: Plan, design_temp_f: float | None) -> str:
@@ -101,10 +101,10 @@ def candidates(plan: Plan) -> list[Candidate]:
         out.append(Candidate(cid, kind, label, cautions=k.cautions, milestone=k.milestone, **kw))
 
     apps = plan.appliances
-    heating = [a for a in apps if a.kind in HEATING_KINDS]
-    if heating or not any(a.kind in ("heat_pump", "mini_split") for a in apps):
-        add("heat_pump", "heat_pump", replaces=tuple(a.key for a in heating),
-            variant=heat_pump_variant(plan, plan.home.climate.heating_design_f))
+    # a new heat pump replaces the heating and cooling equipment there is, an old heat pump included
+    heating = [a for a in apps if a.kind in (*HEATING_KINDS, "heat_pump", "mini_split")]
+    add("heat_pump", "heat_pump", replaces=tuple(a.key for a in heating),
+        variant=heat_pump_variant(plan, plan.home.climate.heating_design_f))
     for a in apps:
         fuel = appliance_fuel(a)
         if a.kind == "water_heater" and lifecycle.appliance_type(a) != "heat_pump":
@@ -286,16 +286,18 @@ def prerequisites_closure(g, pid: str) -> set[str]:
     return out
 
 
-def install_order(g, ranks: Mapping[str, int]) -> list[str]:
+def install_order(g, ranks: Mapping[str, float], urgent: frozenset[str] = frozenset()) -> list[str]:
     """The items of ``ranks`` (project id -> rank, e.g. from :data:`INSTALL_ORDER`) in a safe
     order: every "requires" and "better before" edge of the graph between two of them is kept,
-    and otherwise lower ranks come first (then ids, for a stable answer)."""
+    and otherwise lower ranks come first (then ids, for a stable answer). An ``urgent`` project
+    (an emergency replacement) does not wait for "better before" work."""
     import networkx as nx
 
     h = nx.DiGraph()
     h.add_nodes_from(ranks)
     h.add_edges_from((u, v) for u, v, d in g.edges(data=True)
-                     if d["kind"] in ("requires", "better_before") and u in ranks and v in ranks)
+                     if u in ranks and v in ranks and (d["kind"] == "requires" or (
+                         d["kind"] == "better_before" and v not in urgent)))
     return list(nx.lexicographical_topological_sort(h, key=lambda n: (ranks[n], n)))
 
 

@@ -27,7 +27,9 @@ from homeplan.money.finance import discount_factor, remaining_value_share
 from homeplan.plan.fuels import HOME_FUELS
 from homeplan.planner.breakdowns import (
     LFL_PREFIX,
+    EmergencyItem,
     breakdown_cost,
+    emergency_items,
     fossil_projects,
     lfl_cost,
     replaceable_items,
@@ -61,6 +63,8 @@ __all__ = [
     "ScheduleOutcome",
     "build_problem",
     "coefficients",
+    "emergency_allowance",
+    "emergency_reason",
     "schedule",
     "work_order",
 ]
@@ -156,6 +160,7 @@ def build_problem(ctx: Context, co: dict[str, Coefficients], capacity: CapacityM
     years = ctx.years
     T = len(years)
     projects = []
+    urgent = {e.upgrade for e in emergency_items(ctx)}  # a failure overrides a later pin
     for pid, d in ctx.details.items():
         c = co[pid]
         life = d.life_years
@@ -190,7 +195,8 @@ def build_problem(ctx: Context, co: dict[str, Coefficients], capacity: CapacityM
             id=pid, label=d.label, cost_usd=[c.cost_usd[t] - c.pos_incentive_usd[t] for t in range(T)],
             value_usd=value, emissions_kg=emissions, savings_usd=savings,
             undone_penalty_usd=penalty, excluded=pid in plan.choices.exclude or pid in capacity.excluded,
-            earliest_year=earliest, latest_year=latest, pinned_year=plan.choices.pins.get(pid),
+            earliest_year=earliest, latest_year=latest,
+            pinned_year=None if pid in urgent else plan.choices.pins.get(pid),
             window_reason=(f"{item or 'the old one'} reaches {plan.choices.replace_at_risk_pct:.0f} % "
                            "failure risk") if latest else "",
             capacity_use=capacity.use.get(pid, 0.0), capacity_provided=capacity.provided.get(pid, 0.0),
@@ -216,6 +222,7 @@ def build_problem(ctx: Context, co: dict[str, Coefficients], capacity: CapacityM
     objective, objective_project = _objective(ctx)
     b = plan.budget
     budget = [float((b.by_year or {}).get(y, b.usd_per_year)) for y in years]
+    budget[0] += emergency_allowance(ctx, co)
     loan_limit = sum(loan.amount_usd for loan in b.loans)
     first_loan = b.loans[0] if b.loans else None
     return Problem(
@@ -244,8 +251,14 @@ def _objective(ctx: Context) -> tuple[str, str | None]:
 
 
 def _target_notes(ctx: Context, implicit_target: bool) -> list[str]:
-    """What the plan says about its goal: the cars left out of it, an objective that cannot apply."""
+    """What the plan says about its goal: the cars left out of it, an objective that cannot apply,
+    a pin that a failure overrides."""
     notes = []
+    for e in emergency_items(ctx):
+        pinned = ctx.plan.choices.pins.get(e.upgrade)
+        if pinned is not None and pinned != ctx.first_year:
+            notes.append(f"the {e.label} has failed: {ctx.details[e.upgrade].label.lower()}, which you "
+                         f"pinned to {pinned}, may come in {ctx.first_year} instead")
     by = all_electric_by(ctx, implicit_target)
     if by is not None:
         kept = [ctx.details[p].label for p in fossil_projects(ctx) if not _reachable(ctx, p, by)]
@@ -293,25 +306,51 @@ def breakdown_projects(ctx: Context, excluded_lfl: bool = False) -> tuple[list[P
     infl = ctx.plan.prices.inflation_pct / 100.0
     projects: list[Project] = []
     prereqs: list[Prerequisite] = []
+    emergencies = {e.key: e for e in emergency_items(ctx)}
     for key, (pid, item_cost) in replaceable_items(ctx).items():
         o = ctx.outlooks[key]
         alternatives = [pid]
         today = lfl_cost(ctx, key)
         fossil = o.fuel in HOME_FUELS
-        if key != "roof" and today > 0 and not (excluded_lfl and fossil):
+        # a failed heat source or water heater is always offered like for like as well
+        if key != "roof" and today > 0 and (key in emergencies or not (excluded_lfl and fossil)):
             lid = f"{LFL_PREFIX}{key}"
             costs = [today * (1 + infl) ** t for t in range(T)]
             salvage = [c * remaining_value_share(T - t, o.median_life_years) * discount_factor(rate, T)
                        for t, c in enumerate(costs)]
             projects.append(Project(id=lid, label=f"Replace the {o.label} like-for-like", cost_usd=costs,
-                                    value_usd=salvage, excluded=pid in ctx.plan.choices.pins))
+                                    value_usd=salvage,
+                                    excluded=pid in ctx.plan.choices.pins and key not in emergencies))
             alternatives.append(lid)
         penalty = [breakdown_cost(ctx, key, t, item_cost) for t in range(T)]
         cid = f"{COVER_PREFIX}{key}"
+        e = emergencies.get(key)
         projects.append(Project(id=cid, label=f"{o.label} replaced", cost_usd=[0.0] * T,
-                                undone_penalty_usd=penalty))
+                                undone_penalty_usd=penalty,
+                                pinned_year=ctx.first_year if e is not None else None,
+                                pin_reason=emergency_reason(e) if e is not None else ""))
         prereqs.append(Prerequisite(project=cid, requires_any=tuple(alternatives)))
     return projects, prereqs
+
+
+def emergency_reason(e: EmergencyItem) -> str:
+    """Why a failed essential appliance is replaced in the first year, in words."""
+    return f"the {e.label} has failed: replaced at once, a home needs {e.service}"
+
+
+def emergency_allowance(ctx: Context, co: dict[str, Coefficients]) -> float:
+    """Money beyond the first year's budget for the failed heat source or water heater: the
+    cheapest way to restore each service (like for like when the catalog prices it, else the
+    upgrade after point-of-sale incentives), paid from savings, an emergency loan or over budget
+    (:func:`homeplan.planner.build.emergency_funding`)."""
+    total = 0.0
+    for e in emergency_items(ctx):
+        if e.like_for_like is not None:
+            total += lfl_cost(ctx, e.key)
+        else:
+            c = co[e.upgrade]
+            total += c.cost_usd[0] - c.pos_incentive_usd[0]
+    return total
 
 
 def solve(problem: Problem) -> Solution:
@@ -326,17 +365,19 @@ def work_order(ctx: Context, placed: dict[str, int]) -> list[str]:
     year, and within a year in the safe order of :func:`~homeplan.planner.candidates.install_order`
     (a like-for-like replacement ranks with the upgrade it stands in for)."""
     items = replaceable_items(ctx)
+    urgent = frozenset(p for e in emergency_items(ctx) for p in (e.upgrade, e.like_for_like) if p)
     out: list[str] = []
     for year in sorted(set(placed.values())):
-        ranks = {}
+        ranks: dict[str, float] = {}
         for pid in (p for p, y in placed.items() if y == year):
             if pid.startswith(LFL_PREFIX):
                 upgrade = items.get(pid[len(LFL_PREFIX):], ("", None))[0]
                 kind = ctx.details[upgrade].kind if upgrade in ctx.details else ""
             else:
                 kind = ctx.details[pid].kind
-            ranks[pid] = INSTALL_ORDER.get(kind, 15)
-        out.extend(install_order(ctx.graph, ranks))
+            # an emergency replacement comes first, after any room it needs on the service
+            ranks[pid] = 0.5 if pid in urgent else INSTALL_ORDER.get(kind, 15)
+        out.extend(install_order(ctx.graph, ranks, urgent))
     return out
 
 

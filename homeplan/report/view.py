@@ -43,6 +43,7 @@ __all__ = [
     "Timeline",
     "build_report",
     "collect_cautions",
+    "emergency_lines",
     "footer_line",
     "group_of",
     "step_safety",
@@ -119,6 +120,7 @@ class Report:
     subtitle: str
     status: str                                 # "ok" or "infeasible"
     infeasibility: str
+    emergencies: tuple[str, ...]                # failed heat or hot water: shown first
     home: tuple[tuple[str, str], ...]
     headline: tuple[tuple[str, str], ...]
     timeline: Timeline
@@ -254,6 +256,32 @@ def _headline(result: Any) -> list[tuple[str, str]]:
         if m.kind == "fully_electric":
             out.append(("all-electric", str(m.year)))
     return out
+
+
+def emergency_lines(road: Any) -> tuple[str, ...]:
+    """What the roadmap does about each failed heat source or water heater, in words (shown at
+    the top of every view and printout)."""
+    out = []
+    for e in road.emergencies:
+        text = (f"The {clean(e.label)} has failed: {clean(e.step_label).lower()} in {e.year} "
+                f"({money(e.step_cost_usd)} after point-of-sale incentives), before anything else "
+                f"that year, so the home keeps its {clean(e.service)}.")
+        if e.other_id and e.other_cost_usd is not None:
+            gap = e.other_cost_usd - e.step_cost_usd
+            text += (f" The other way, {clean(e.other_label).lower()}, costs "
+                     f"{money(abs(gap))} {'more' if gap > 0 else 'less'} now.")
+        if e.over_budget_usd > 0.5:
+            paid = []
+            if e.from_savings_usd > 0.5:
+                paid.append(f"{money(e.from_savings_usd)} from savings")
+            if e.from_loan_usd > 0.5:
+                paid.append(f"{money(e.from_loan_usd)} from the emergency loan (its payments come on "
+                            "top of the yearly budget)")
+            if e.unfunded_usd > 0.5:
+                paid.append(f"{money(e.unfunded_usd)} over budget - no savings or loan given for it")
+            text += f" {e.year} spends {money(e.over_budget_usd)} beyond its budget: " + "; ".join(paid) + "."
+        out.append(text)
+    return tuple(dict.fromkeys(out))
 
 
 def step_safety(step: Any, edition: int) -> str:
@@ -490,6 +518,7 @@ def build_report(result: Any, today: dt.date | None = None, tool_version: str | 
         subtitle=subtitle,
         status=clean(road.status),
         infeasibility=clean(road.infeasibility),
+        emergencies=emergency_lines(road),
         home=tuple(_home_lines(plan, result)),
         headline=tuple(_headline(result)),
         timeline=timeline,

@@ -28,6 +28,7 @@ __all__ = [
     "SCHEMA_VERSION",
     "Baseline",
     "BaselineKind",
+    "Emergency",
     "IncentiveKind",
     "IncentiveLine",
     "Milestone",
@@ -39,7 +40,7 @@ __all__ = [
     "YearTotals",
 ]
 
-SCHEMA_VERSION = "1.2"
+SCHEMA_VERSION = "1.3"
 """Version of the JSON produced by :meth:`Roadmap.to_dict`. Bump the minor part for added
 fields, the major part for renamed/removed fields or changed meaning."""
 
@@ -338,6 +339,56 @@ class Baseline:
 
 
 @dataclass(frozen=True)
+class Emergency:
+    """A failed appliance that provides heat or hot water, replaced in the first plan year.
+
+    ``step_id`` is the step the roadmap takes (the upgrade or the like-for-like replacement) at
+    ``step_cost_usd`` after point-of-sale incentives; ``other_id`` the other way, at
+    ``other_cost_usd`` (None when the catalog has no price for it). ``over_budget_usd`` is what
+    the first year spends beyond its budget, paid ``from_savings_usd``, ``from_loan_usd`` (the
+    plan's emergency loan, repaid from the next year) and ``unfunded_usd`` (neither covers it).
+    """
+
+    item: str
+    label: str
+    service: str
+    year: int
+    step_id: str
+    step_label: str
+    step_cost_usd: float
+    other_id: str | None = None
+    other_label: str = ""
+    other_cost_usd: float | None = None
+    over_budget_usd: float = 0.0
+    from_savings_usd: float = 0.0
+    from_loan_usd: float = 0.0
+    unfunded_usd: float = 0.0
+
+    def to_dict(self) -> dict[str, Any]:
+        return {k: (_json_number(v) if isinstance(v, float) else v) for k, v in {
+            "item": self.item, "label": self.label, "service": self.service, "year": self.year,
+            "step_id": self.step_id, "step_label": self.step_label,
+            "step_cost_usd": self.step_cost_usd, "other_id": self.other_id,
+            "other_label": self.other_label, "other_cost_usd": self.other_cost_usd,
+            "over_budget_usd": self.over_budget_usd, "from_savings_usd": self.from_savings_usd,
+            "from_loan_usd": self.from_loan_usd, "unfunded_usd": self.unfunded_usd,
+        }.items()}
+
+    @classmethod
+    def from_dict(cls, data: Mapping[str, Any]) -> Emergency:
+        other = data.get("other_cost_usd")
+        return cls(
+            item=data["item"], label=data["label"], service=data["service"], year=int(data["year"]),
+            step_id=data["step_id"], step_label=data["step_label"],
+            step_cost_usd=_num(data["step_cost_usd"]), other_id=data.get("other_id"),
+            other_label=data.get("other_label", ""),
+            other_cost_usd=None if other is None else float(other),
+            **{k: _num(data.get(k, 0.0)) for k in ("over_budget_usd", "from_savings_usd",
+                                                    "from_loan_usd", "unfunded_usd")},
+        )
+
+
+@dataclass(frozen=True)
 class Roadmap:
     """The full result of planning one home.
 
@@ -362,9 +413,11 @@ class Roadmap:
     infeasibility: str | None = None
     assumptions: dict[str, Any] = field(default_factory=dict)
     cautions: tuple[str, ...] = ()
+    emergencies: tuple[Emergency, ...] = ()
     schema_version: str = SCHEMA_VERSION
 
     def __post_init__(self) -> None:
+        object.__setattr__(self, "emergencies", _tuple(self.emergencies))
         object.__setattr__(self, "steps", tuple(sorted(_tuple(self.steps), key=lambda s: s.year)))
         object.__setattr__(self, "years", _tuple(self.years))
         object.__setattr__(self, "milestones", _tuple(self.milestones))
@@ -400,6 +453,7 @@ class Roadmap:
             "baselines": [b.to_dict() for b in self.baselines],
             "assumptions": _json_value(self.assumptions),
             "cautions": list(self.cautions),
+            "emergencies": [e.to_dict() for e in self.emergencies],
         }
 
     @classmethod
@@ -425,5 +479,6 @@ class Roadmap:
             infeasibility=data.get("infeasibility"),
             assumptions=dict(data.get("assumptions", {})),
             cautions=tuple(data.get("cautions", ())),
+            emergencies=tuple(Emergency.from_dict(e) for e in data.get("emergencies", ())),
             schema_version=version,
         )
