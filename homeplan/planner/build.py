@@ -43,7 +43,7 @@ from homeplan.planner.context import Context
 from homeplan.planner.finance import plan_returns, project_returns, solar_hedge
 from homeplan.planner.incentives import AwardLine, IncentiveModel
 from homeplan.planner.projects import cost_in_year_usd
-from homeplan.planner.scheduling import ORDER_PREFIX, ScheduleOutcome, work_order
+from homeplan.planner.scheduling import COVER_PREFIX, ORDER_PREFIX, ScheduleOutcome, work_order
 from homeplan.result.figures import (
     CapacityState,
     Finance,
@@ -215,7 +215,8 @@ def _steps(ctx: Context, capacity: CapacityModel, outcome: ScheduleOutcome, done
     cautions_all = catalog.cautions(ctx.plan.home.electrical.code_edition)
     steps = []
     # order markers are bookkeeping for the solver; reasons that name them are not shown
-    markers = [p.name.lower() for p in outcome.problem.projects if p.id.startswith(ORDER_PREFIX)]
+    markers = [p.name.lower() for p in outcome.problem.projects
+               if p.id.startswith((ORDER_PREFIX, COVER_PREFIX))]
     urgent = {e.step_id: e for e in emergencies}
     for pid in work_order(ctx, {**done, **lfl}):
         if pid in lfl:
@@ -396,11 +397,11 @@ def _heat_pump_sizing(ctx: Context, done: dict[str, int], pid: str) -> str:
     design = ctx.basis.design_load_btuh
     t = ctx.basis.weather.heating_design_f
     text = f"sized {d.size:g} t for a {design:,.0f} Btu/h heating load at {t:.0f} F"
-    v = catalog.upgrade_kinds()["heat_pump"].variant(d.variant)
-    if hours and v is not None and not v.strips_kw:
+    if hours and not d.backup_kw:
         text += f"; about {hours} hours a year colder than it can carry alone (keep a backup plan)"
     elif hours:
-        text += f"; backup heat runs about {hours} hours a year"
+        what = "electric heaters" if d.backup_kind == "heaters" else "backup strips"
+        text += f"; its {d.backup_kw:g} kW {what} run about {hours} hours a year"
     return text
 
 

@@ -112,17 +112,19 @@ def _names_for(keys: tuple[str, ...], loads: list[Load]) -> tuple[str, ...]:
     return tuple(ld.name for ld in loads if ld.name.startswith(prefixes))
 
 
-def project_loads(kind: str, variant_id: str | None, size: float, name: str) -> tuple[Load, ...]:
-    """The new loads of one project in one variant."""
-    k = catalog.upgrade_kinds()[kind]
+def project_loads(d: ProjectDetail, name: str) -> tuple[Load, ...]:
+    """The new loads of one project as it will be installed (variant, size, backup heat)."""
+    k = catalog.upgrade_kinds()[d.kind]
     if not k.capacity_load:
         return ()
-    v = k.variant(variant_id)
+    v = k.variant(d.variant)
     if v is None:
         return ()
     if k.category == "heating":
-        return loads_for_upgrade("heating", name=name, va_per_ton=v.va_per_ton, tons=size,
-                                 strips_kw=v.strips_kw or 0.0, strips_interlocked=v.strips_interlocked)
+        # backup the variant does not bring can run with the compressor (not interlocked)
+        interlocked = v.strips_interlocked and d.backup_kw <= (v.strips_kw or 0.0)
+        return loads_for_upgrade("heating", name=name, va_per_ton=v.va_per_ton, tons=d.size,
+                                 strips_kw=d.backup_kw, strips_interlocked=interlocked)
     if k.category == "vehicles":
         return loads_for_upgrade("vehicles", name=name, amps=v.amps)
     volts = 120 if (v.va or 0) <= 1920 else 240
@@ -229,7 +231,7 @@ def _plan_capacity(ctx: Context) -> CapacityPlan:
         vs = []
         for vid in variants:
             alt = with_variant(d, plan, ctx.basis, vid) if vid != d.variant else d
-            vs.append(Variant(label=vid, loads=project_loads(d.kind, vid, alt.size, pid),
+            vs.append(Variant(label=vid, loads=project_loads(alt, pid),
                               extra_cost_usd=max(0.0, alt.cost_today_usd - d.cost_today_usd)))
         proposed.append(ProposedLoad(name=pid, variants=tuple(vs),
                                      replaces=_names_for(d.candidate.replaces, base)))
@@ -279,17 +281,22 @@ def _plan_capacity(ctx: Context) -> CapacityPlan:
     use: dict[str, float] = {}
     for pid in load_pids:
         d = details[pid]
-        loads = _apply(base, d.candidate.replaces, project_loads(d.kind, d.variant, d.size, pid))
+        loads = _apply(base, d.candidate.replaces, project_loads(d, pid))
         after = nec220_83(dwelling, loads, service, edition=edition)
         use[pid] = max(0.0, float(after.amps - today.amps))
     provided: dict[str, float] = {}
     if chosen == "service_upgrade":
-        provided[chosen] = float(remedy.service.limit_amps - service.limit_amps)
+        # the larger service is checked by 220.82, which counts the new loads together more
+        # lightly than the sum of their 220.83 increments: the room it makes is what lets the
+        # end state fit exactly (at least the difference of the ratings)
+        end_fits_exactly = (sum(use.values()) + float(today.amps) - float(service.limit_amps)
+                            + float(remedy.service.limit_amps - remedy.calc.amps))
+        provided[chosen] = max(float(remedy.service.limit_amps - service.limit_amps), end_fits_exactly)
     elif chosen == "load_management":
         all_loads = list(base)
         for pid in load_pids:
             d = details[pid]
-            all_loads = _apply(all_loads, d.candidate.replaces, project_loads(d.kind, d.variant, d.size, pid))
+            all_loads = _apply(all_loads, d.candidate.replaces, project_loads(d, pid))
         plain = nec220_83(dwelling, all_loads, service, edition=edition)
         provided[chosen] = max(0.0, float(plain.amps - remedy.calc.amps))
     if chosen is None and remedy.needed is False:
@@ -320,7 +327,7 @@ def state_capacity(ctx: Context, model: CapacityModel, done: set[str], label: st
         d = ctx.details.get(pid)
         if d is None or not kinds[d.kind].capacity_load:
             continue
-        loads = _apply(loads, d.candidate.replaces, project_loads(d.kind, d.variant, d.size, d.label))
+        loads = _apply(loads, d.candidate.replaces, project_loads(d, d.label))
     remedy_note = None
     ems = None
     if model.remedy_project and model.remedy_project in done:
@@ -397,7 +404,7 @@ def measured_capacity(ctx: Context, done: set[str], year: int | None) -> Capacit
     for pid in sorted(done):
         d = ctx.details.get(pid)
         if d is not None and kinds[d.kind].capacity_load:
-            new.extend(project_loads(d.kind, d.variant, d.size, d.label))
+            new.extend(project_loads(d, d.label))
     has_pv = plan.home.solar is not None or plan.home.battery is not None
     label = "today, from your measured peak" if year is None else f"{year}, from your measured peak"
     try:
@@ -432,7 +439,7 @@ def breaker_spaces_note(ctx: Context, done: set[str]) -> str | None:
             continue
         if d.candidate.replaces and _names_for(d.candidate.replaces, today):
             continue  # reuses the circuit of the electric appliance it replaces
-        for ld in project_loads(d.kind, d.variant, d.size, d.label):
+        for ld in project_loads(d, d.label):
             need += 2 if ld.volts >= 208 else 1
     if need <= free:
         return None

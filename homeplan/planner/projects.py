@@ -25,7 +25,7 @@ from homeplan.plan.fuels import appliance_fuel
 from homeplan.plan.model import Plan
 from homeplan.planner.basis import HomeBasis
 from homeplan.planner.candidates import Candidate
-from homeplan.planner.states import cooling_load_btuh, heat_pump_tons
+from homeplan.planner.states import cooling_load_btuh, heat_pump_backup, heat_pump_tons
 
 __all__ = [
     "ProjectDetail",
@@ -52,6 +52,8 @@ class ProjectDetail:
     life_years: float
     cost_change: dict[str, Any]
     quoted: bool = False
+    backup_kw: float = 0.0        # electric backup heat of a heat pump (strips or heaters), kW
+    backup_kind: str = ""         # "strips", "heaters" or "" (none)
 
     @property
     def id(self) -> str:
@@ -122,6 +124,11 @@ def detail(plan: Plan, c: Candidate, basis: HomeBasis, electrified_kwh: float,
         size = performance()["battery_default_kwh"]
     elif c.kind == "roof":
         size = roof_area_ft2(plan)
+    backup_kw, backup_kind = 0.0, ""
+    if c.kind == "heat_pump":
+        backup_kw, backup_kind = heat_pump_backup(v.id if v else None, size, basis.design_load_btuh,
+                                                  design_f)
+    own_kw = float(v.strips_kw or 0.0) if v else 0.0
     level = plan.prices.cost_level
     if opt and opt.cost_usd is not None:
         cost = opt.cost_usd
@@ -134,10 +141,20 @@ def detail(plan: Plan, c: Candidate, basis: HomeBasis, electrified_kwh: float,
         cost = per * units * (v.cost_factor if v else 1.0)
         source = f"catalog {level} estimate: {k.cost.source}"
         quoted = False
+    label = v.label if v else ""
+    if backup_kw > own_kw:  # backup the variant does not bring: its cost and its name
+        p = performance()
+        per_kw = p["hp_backup_heaters_usd_per_kw" if backup_kind == "heaters" else "hp_backup_strips_usd_per_kw"]
+        if not quoted:
+            cost += (backup_kw - own_kw) * per_kw
+        what = "electric heaters" if backup_kind == "heaters" else "backup strips"
+        label += (f" ({backup_kw:g} kW)" if own_kw else
+                  f", with {backup_kw:g} kW {what} for the coldest hours")
     return ProjectDetail(
-        candidate=c, variant=v.id if v else None, variant_label=v.label if v else "",
+        candidate=c, variant=v.id if v else None, variant_label=label,
         size=float(size), size_unit=k.size_unit, cost_today_usd=float(round(cost, 2)),
         cost_source=source, life_years=k.life_years, cost_change=dict(k.cost_change), quoted=quoted,
+        backup_kw=float(backup_kw), backup_kind=backup_kind,
     )
 
 

@@ -14,14 +14,17 @@ Appendix M1 (heat pump rating points 47/17/5 F); NEC 625.42 and SAE J1772 (charg
 
 from __future__ import annotations
 
+import math
 from collections.abc import Iterable
 from dataclasses import dataclass, replace
+
+import numpy as np
 
 from homeplan import catalog
 from homeplan.catalog import performance
 from homeplan.energy.appliances import CookingSpec, DryerSpec
 from homeplan.energy.battery import BatterySpec
-from homeplan.energy.heating import CoolingSpec, HeatPumpSpec, size_heat_pump
+from homeplan.energy.heating import CoolingSpec, HeatPumpSpec, hp_capacity_btuh, size_heat_pump
 from homeplan.energy.simulate import EnergyResult, HomeEnergySpec, simulate, with_heat_pump
 from homeplan.energy.solar import SolarArraySpec
 from homeplan.energy.vehicles import VehicleSpec
@@ -37,6 +40,7 @@ __all__ = [
     "Choice",
     "StateEnergy",
     "cooling_load_btuh",
+    "heat_pump_backup",
     "heat_pump_class",
     "heat_pump_spec",
     "heat_pump_tons",
@@ -51,13 +55,14 @@ APPLY_ORDER = INSTALL_ORDER
 
 @dataclass(frozen=True)
 class Choice:
-    """A project as it will be installed: which variant and what size."""
+    """A project as it will be installed: which variant, what size, how much backup heat (kW)."""
 
     project_id: str
     kind: str
     variant: str | None
     size: float
     replaces: tuple[str, ...] = ()
+    backup_kw: float = 0.0
 
 
 def heat_pump_class(variant: str | None) -> str:
@@ -71,6 +76,34 @@ def heat_pump_spec(variant: str | None, tons: float, strips_kw: float) -> HeatPu
     (resistance) when the variant has them, else none."""
     backup = "resistance" if strips_kw > 0 else "none"
     return HeatPumpSpec.typical(heat_pump_class(variant), tons * 12000.0, backup=backup)
+
+
+def heat_pump_backup(variant: str | None, tons: float, design_load_btuh: float,
+                     design_temp_f: float) -> tuple[float, str]:
+    """Electric backup heat a new heat pump needs: (kW, kind), kind ``strips`` (in the air
+    handler of a ducted system) or ``heaters`` (baseboard or wall heaters, without ducts).
+
+    When the unit's capacity at the design temperature is below the design load - or the design
+    temperature is below its cut-out, where it gives none - the shortfall is covered by electric
+    resistance heat, in steps of ``hp_backup_step_kw``; a variant's own strips count towards it.
+
+    References
+    ----------
+    ACCA Manual S (supplemental heat for the design-condition shortfall of a heat pump); DOE
+    10 CFR 430 Subpart B Appendix M1 rating points (capacity at the design temperature, via
+    :func:`homeplan.energy.heating.hp_capacity_btuh`); 1 kW = 3,412.14 Btu/h (US EIA).
+    """
+    p = performance()
+    v = catalog.upgrade_kinds()["heat_pump"].variant(variant)
+    own = float(v.strips_kw or 0.0) if v is not None else 0.0
+    hp = HeatPumpSpec.typical(heat_pump_class(variant), tons * 12000.0)
+    shortfall = design_load_btuh - float(hp_capacity_btuh(hp, np.array([design_temp_f]))[0])
+    kind = "heaters" if heat_pump_class(variant) == "ductless" else "strips"
+    if shortfall <= 0:
+        return own, "strips" if own else ""
+    step = p["hp_backup_step_kw"]
+    need = math.ceil(shortfall / 3412.14 / step - 1e-9) * step
+    return max(own, need), kind
 
 
 def heat_pump_tons(design_load_btuh: float, design_temp_f: float, variant: str | None,
@@ -169,9 +202,7 @@ def state_spec(basis: HomeBasis, plan: Plan, done: Iterable[Choice], label: str 
     for c in done:
         k = c.kind
         if k == "heat_pump":
-            v = kinds["heat_pump"].variant(c.variant)
-            strips = (v.strips_kw or 0.0) if v else 0.0
-            hp = heat_pump_spec(c.variant, c.size, strips)
+            hp = heat_pump_spec(c.variant, c.size, c.backup_kw)
             hp = _with_quoted_ratings(hp, plan.options.get(c.project_id))
             spec = with_heat_pump(spec, hp)
         elif k == "heat_pump_water_heater":
