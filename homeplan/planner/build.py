@@ -201,7 +201,8 @@ def build_result(ctx: Context, capacity: CapacityModel, incentives: IncentiveMod
                         projects=project_returns(ctx, outcome, roadmap),
                         solar_hedge=solar_hedge(ctx, roadmap)),
         solver=SolverReport(status=sol.status, seconds=sol.solve_time_s, passes=outcome.passes),
-        capacity_remedy=capacity.remedy_project, solar_connection=capacity.solar_connection,
+        capacity_remedy=capacity.remedy_project,
+        solar_connection=_connection_words(ctx, capacity, set(done)),
         hourly=ctx.cache.memo(f"hourly:{sorted((p, ctx.details[p].variant) for p in done)}",
                               lambda: hourly_profiles(ctx, done)),
     )
@@ -232,6 +233,10 @@ def _steps(ctx: Context, capacity: CapacityModel, outcome: ScheduleOutcome, done
         extra_reasons = [r for r in outcome.reasons.get(pid, ()) if not any(m in r for m in markers)]
         if pid in capacity.variant_notes:
             extra_reasons.append(capacity.variant_notes[pid])
+        if d.kind in ("solar", "battery"):
+            words = _connection_words(ctx, capacity, {p for p, y in done.items() if y <= year})
+            if words:
+                extra_reasons.append(words)
         if d.kind == "heat_pump":
             extra_reasons.append(_heat_pump_sizing(ctx, done, pid))
         if pid == capacity.remedy_project:
@@ -347,6 +352,13 @@ def emergency_records(ctx: Context, outcome: ScheduleOutcome) -> tuple[Emergency
             from_loan_usd=round(loan, 2), unfunded_usd=round(unfunded, 2),
         ))
     return tuple(out)
+
+
+def _connection_words(ctx: Context, capacity: CapacityModel, done: set[str]) -> str | None:
+    """How the solar and battery among ``done`` connect to the service, in words."""
+    pv = {p for p in done if p in ctx.details and ctx.details[p].kind in ("solar", "battery")}
+    conn = capacity.connection(pv)
+    return conn.words if conn is not None else None
 
 
 def _emergency_words(e: Emergency) -> str:

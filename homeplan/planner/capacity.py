@@ -44,6 +44,7 @@ from homeplan.plan.model import Plan
 from homeplan.planner.context import Context
 from homeplan.planner.lifecycle import appliance_type
 from homeplan.planner.projects import ProjectDetail, with_variant
+from homeplan.planner.solar_connection import Connection, connection_options, inverter_amps
 from homeplan.result.figures import CapacityRow, CapacityState
 
 __all__ = [
@@ -142,22 +143,6 @@ def _dwelling(plan: Plan) -> Dwelling:
     return Dwelling(plan.home.floor_area_ft2, max(e.small_appliance_circuits, 2), max(e.laundry_circuits, 1))
 
 
-def _inverter_amps(ctx: Context, pids: set[str]) -> float:
-    amps = 0.0
-    for pid in pids:
-        d = ctx.details[pid]
-        if d.kind == "solar":
-            amps += d.size / 1.2 * 1000.0 / 240.0  # AC rating at a 1.2 DC/AC ratio (PVWatts default)
-        elif d.kind == "battery":
-            amps += performance()["battery_default_kw"] * d.size / performance()["battery_default_kwh"] * 1000 / 240
-    h = ctx.plan.home
-    if h.solar is not None:
-        amps += (h.solar.inverter_kw or h.solar.size_kw / 1.2) * 1000.0 / 240.0
-    if h.battery is not None:
-        amps += h.battery.power_kw * 1000.0 / 240.0
-    return amps
-
-
 @dataclass(frozen=True)
 class CapacityModel:
     """Linear capacity data for the scheduler plus the remedy behind it.
@@ -175,7 +160,11 @@ class CapacityModel:
     remedy_project: str | None = None
     variant_notes: dict[str, str] = field(default_factory=dict)
     ems_setpoint_va: float | None = None
-    solar_connection: str | None = None
+    connections: dict[frozenset[str], Connection] = field(default_factory=dict)
+
+    def connection(self, pv: set[str] | frozenset[str]) -> Connection | None:
+        """The connection of a set of new solar and battery projects (None for none)."""
+        return self.connections.get(frozenset(pv)) if pv else None
 
 
 @dataclass(frozen=True)
@@ -242,13 +231,11 @@ def _plan_capacity(ctx: Context) -> CapacityPlan:
         upgrades = (ServiceUpgrade(p["service_upgrade_new_amps"], details["service_upgrade"].cost_today_usd),)
     costs = RemedyCosts(
         ems_usd=details["load_management"].cost_today_usd if "load_management" in offered else None,
-        derate_main_usd=p["derate_main_usd"], supply_side_usd=p["supply_side_usd"],
         service_upgrades=upgrades, ems_min_setpoint_amps=p["ems_min_setpoint_amps"],
     )
-    solar_pids = {pid for pid, d in details.items() if d.kind in ("solar", "battery")
-                  and pid not in plan.choices.exclude}
-    remedy = find_remedy(dwelling, base, service, proposed, costs, inverter_output_amps=_inverter_amps(ctx, solar_pids),
-                         edition=edition)
+    # the loads decide the service; the solar and battery connection is decided for each set of
+    # them the plan may end with (solar_connection.py)
+    remedy = find_remedy(dwelling, base, service, proposed, costs, edition=edition)
     if not remedy.fits:
         notes.append("even the largest remedy on offer does not make every electric load fit the "
                      "service; the plan keeps the loads that fit (see the power view)")
@@ -264,19 +251,12 @@ def _plan_capacity(ctx: Context) -> CapacityPlan:
     elif remedy.ems is not None:
         chosen = "load_management"
         ems_setpoint_va = remedy.ems.setpoint_va
-    extra = 0.0
-    solar_connection = None
-    if remedy.derated_main_amps:
-        solar_connection = f"main breaker derated to {remedy.derated_main_amps:g} A for the solar connection"
-        extra = p["derate_main_usd"]
-    elif remedy.supply_side:
-        solar_connection = "supply-side solar connection (the panel's busbar cannot take the backfeed)"
-        extra = p["supply_side_usd"]
-    if extra and "solar" in details and not details["solar"].quoted:
-        d = details["solar"]
-        details["solar"] = replace(d, cost_today_usd=d.cost_today_usd + extra,
-                                   cost_source=f"{d.cost_source}; plus {solar_connection}")
-        variant_notes["solar"] = solar_connection
+    pv = [pid for pid, d in details.items() if d.kind in ("solar", "battery")
+          and pid not in plan.choices.exclude]
+    # a derated main must still carry the end state's load on today's panel
+    load_amps = float(remedy.calc.amps) if remedy.service_upgrade is None else None
+    connections = connection_options(ctx.with_details(details), service, load_amps, pv)
+    _add_connection_costs(details, connections)
     # linear use per load: its amps against today's home, one at a time
     use: dict[str, float] = {}
     for pid in load_pids:
@@ -305,9 +285,28 @@ def _plan_capacity(ctx: Context) -> CapacityPlan:
         base_headroom=max(float(today.headroom_amps), 0.0), use=use, provided=provided,
         excluded=frozenset(r for r in REMEDY_PROJECTS if r in details and r != chosen),
         notes=tuple(notes), remedy=remedy, remedy_project=chosen, variant_notes=variant_notes,
-        ems_setpoint_va=ems_setpoint_va, solar_connection=solar_connection,
+        ems_setpoint_va=ems_setpoint_va, connections=connections,
     )
     return CapacityPlan(model, details)
+
+
+def _add_connection_costs(details: dict[str, ProjectDetail],
+                          connections: dict[frozenset[str], Connection]) -> None:
+    """The array pays for its own connection, the battery for what it adds to it."""
+    solar = [pid for s in connections for pid in s if details[pid].kind == "solar"]
+    for pid in {p for s in connections for p in s}:
+        d = details[pid]
+        if d.quoted:
+            continue
+        if d.kind == "solar":
+            extra = connections[frozenset({pid})].cost_usd
+        else:
+            with_solar = frozenset({pid, *solar[:1]})
+            alone = connections[frozenset(solar[:1])].cost_usd if solar else 0.0
+            extra = connections[with_solar].cost_usd - alone
+        if extra > 0:
+            details[pid] = replace(d, cost_today_usd=d.cost_today_usd + extra,
+                                   cost_source=f"{d.cost_source}; plus its connection to the service")
 
 
 def _apply(loads: list[Load], replaces: tuple[str, ...], new: tuple[Load, ...]) -> list[Load]:
@@ -344,25 +343,28 @@ def state_capacity(ctx: Context, model: CapacityModel, done: set[str], label: st
     if ems is not None and not any(ld.ems_controlled for ld in loads):
         ems = None
     pv = {p for p in done if p in ctx.details and ctx.details[p].kind in ("solar", "battery")}
-    inverter = _inverter_amps(ctx, pv)
+    inverter = inverter_amps(ctx, pv)
+    conn = model.connection(pv)
     notes: list[str] = []
-    if (inverter > 0 and model.remedy is not None and model.remedy.derated_main_amps and pv
-            and model.remedy.derated_main_amps < service.limit_amps):
+    if conn is not None and conn.kind == "derated_main" and conn.derated_main_amps is not None \
+            and conn.derated_main_amps < service.limit_amps:
         service = Service(service_amps=service.service_amps, busbar_amps=service.busbar_amps,
-                          main_breaker_amps=model.remedy.derated_main_amps, volts=service.volts)
-        remedy_note = (remedy_note + "; " if remedy_note else "") + \
-            f"main breaker derated to {model.remedy.derated_main_amps:g} A for the solar connection"
+                          main_breaker_amps=conn.derated_main_amps, volts=service.volts)
+        remedy_note = (remedy_note + "; " if remedy_note else "") + conn.words
     if remedy_note and "upgraded" in remedy_note:
         calc = nec220_82(dwelling, loads, service, edition=edition)
     else:
         calc = nec220_83(dwelling, loads, service, edition=edition, ems=ems)
     fits = bool(calc.fits)
     if inverter > 0:
-        supply_side = bool(model.remedy is not None and model.remedy.supply_side and pv)
-        bf = backfeed_check(service, inverter, rule="supply_side" if supply_side else "120", edition=edition)
+        supply_side = conn is not None and conn.kind == "supply_side"
+        pcs = conn.pcs_limit_amps if conn is not None and conn.kind == "power_control" else None
+        bf = backfeed_check(service, inverter, rule="supply_side" if supply_side else "120",
+                            pcs_limit_amps=pcs, edition=edition)
         notes.append(f"{bf.section}: {inverter:.0f} A of solar/battery inverter output; "
                      + ("supply-side connection" if supply_side else
                         f"the panel accepts {bf.max_inverter_amps:.0f} A by the 120 % rule")
+                     + (f"; a power control system limits it to {pcs:.0f} A" if pcs else "")
                      + ("" if bf.fits else " - DOES NOT FIT"))
         fits = fits and bool(bf.fits)
     state = _state(calc, label, year, remedy_note, tuple(calc.notes) + tuple(notes))
