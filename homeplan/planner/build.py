@@ -35,7 +35,7 @@ from homeplan.planner.breakdowns import (
 )
 from homeplan.planner.capacity import (
     CapacityModel,
-    breaker_spaces_note,
+    breaker_spaces,
     measured_capacity,
     state_capacity,
 )
@@ -242,6 +242,8 @@ def _steps(ctx: Context, capacity: CapacityModel, outcome: ScheduleOutcome, done
         if pid == capacity.remedy_project:
             extra_reasons = [r for r in extra_reasons if not r.startswith(("paying later", "better overall"))]
             extra_reasons.insert(0, _remedy_reason(ctx, done, year))
+        if d.kind == "panel_space":
+            extra_reasons = [_space_reason(ctx, capacity, done, year)]
         if pid in urgent:  # the failure decides the year: the engine's other reasons do not apply
             extra_reasons = [_emergency_words(urgent[pid])] + [
                 r for r in extra_reasons if r.startswith(("sized ", "a lower-power")) or "lower-power" in r]
@@ -295,10 +297,6 @@ def _capacity_states(ctx: Context, capacity: CapacityModel, done: dict[str, int]
         notes.append(f"from {near.year} the service carries {near.load_pct:.0f} % of its rating by the "
                      "load calculation: near its limit, with little room for the next load - ask an "
                      "electrician whether load management or a larger service is wiser")
-    spaces = breaker_spaces_note(ctx, set(done))
-    if spaces:
-        notes.append(spaces)
-        states[-1] = replace(states[-1], notes=states[-1].notes + (spaces,))
     if ctx.plan.home.electrical.peak_demand_kw is not None:
         measured = [measured_capacity(ctx, set(), None), measured_capacity(ctx, set(done), ctx.years[-1])]
         states += [m for m in measured if m is not None]
@@ -429,6 +427,18 @@ def _remedy_reason(ctx: Context, done: dict[str, int], year: int) -> str:
     names = ", ".join(n.lower() for y, n in later if y == first)
     when = "the same year" if first == year else str(first)
     return f"makes room on the service for the {names} ({when}): the load calculation needs it"
+
+
+def _space_reason(ctx: Context, capacity: CapacityModel, done: dict[str, int], year: int) -> str:
+    """Why the panel needs room: the free spaces and the circuits that would not fit."""
+    free = ctx.plan.home.electrical.free_spaces or 0
+    need = sum(max(breaker_spaces(ctx, ctx.details[p], capacity), 0) for p, y in done.items() if y <= year)
+    names = ", ".join(sorted({ctx.details[p].label.lower() for p, y in done.items()
+                              if y == year and breaker_spaces(ctx, ctx.details[p], capacity) > 0}))
+    text = (f"the new circuits need {need} breaker space{'s' if need != 1 else ''} and the panel has "
+            f"{free} free: a subpanel, "
+            "or tandem breakers where the panel is listed for them - the electrician decides")
+    return text + (f" (for the {names})" if names else "")
 
 
 def lfl_step(ctx: Context, outcome: ScheduleOutcome, pid: str, year: int) -> Step:

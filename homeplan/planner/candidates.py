@@ -50,7 +50,7 @@ LOWER_POWER = "lower_power_variants"
 MILESTONE_FOR_FUEL = {"gas": "close_gas", "propane": "remove_propane_tank", "oil": "remove_oil_tank"}
 
 INSTALL_ORDER: dict[str, int] = {
-    "panel_upgrade": 0, "service_upgrade": 0, "load_management": 0, "breaker_spaces": 0,
+    "panel_upgrade": 0, "service_upgrade": 0, "load_management": 0, "panel_space": 0,
     "roof": 1, "envelope": 2, "heat_pump": 3, "heat_pump_water_heater": 4, "induction_range": 5,
     "heat_pump_dryer": 6, "ev_charger": 7, "ev": 8, "solar": 9, "battery": 10,
     "close_gas": 20, "remove_propane_tank": 20, "remove_oil_tank": 20,
@@ -136,6 +136,8 @@ def candidates(plan: Plan) -> list[Candidate]:
             add("roof", "roof", replaces=("roof",))
     for remedy in ("panel_upgrade", "service_upgrade", "load_management"):
         add(remedy, remedy)
+    if plan.home.electrical.free_spaces is not None:  # known: the new circuits must find room
+        add("panel_space", "panel_space")
     for fuel, milestone in MILESTONE_FOR_FUEL.items():
         if any(appliance_fuel(a) == fuel for a in apps):
             add(milestone, milestone)

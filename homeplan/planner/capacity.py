@@ -51,7 +51,7 @@ __all__ = [
     "REMEDY_PROJECTS",
     "CapacityModel",
     "CapacityPlan",
-    "breaker_spaces_note",
+    "breaker_spaces",
     "existing_loads",
     "measured_capacity",
     "plan_capacity",
@@ -425,25 +425,23 @@ def measured_capacity(ctx: Context, done: set[str], year: int | None) -> Capacit
         "an alternative to the 220.83 calculation: an inspector may accept either",))
 
 
-def breaker_spaces_note(ctx: Context, done: set[str]) -> str | None:
-    """Whether the new circuits fit the panel's free breaker spaces (a 240 V circuit takes two
-    spaces, a 120 V one takes one). Common practice, no source: when they do not, an electrician
-    uses tandem breakers where the panel allows them, or replaces the panel."""
-    free = ctx.plan.home.electrical.free_spaces
-    if free is None:
-        return None
-    kinds = catalog.upgrade_kinds()
+def breaker_spaces(ctx: Context, d: ProjectDetail, model: CapacityModel | None = None) -> int:
+    """Breaker spaces a project's new circuits take in the panel, less those its removal of old
+    electric loads frees (negative: it frees more than it takes). A 240 V circuit takes two
+    spaces, a 120 V one takes one; solar or a battery connected in the panel takes a two-pole
+    backfeed breaker (none on the supply side).
+
+    References
+    ----------
+    Common practice, no source (a double-pole breaker takes two spaces of a residential panel);
+    NEC 2023 705.12(B) (load-side connection through a breaker in the panel).
+    """
+    if d.kind in ("solar", "battery"):
+        conn = model.connection({d.id}) if model is not None else None
+        return 0 if conn is not None and conn.kind == "supply_side" else 2
+    if not catalog.upgrade_kinds()[d.kind].capacity_load:
+        return 0
     today = existing_loads(ctx.plan)
-    need = 0
-    for pid in done:
-        d = ctx.details.get(pid)
-        if d is None or not kinds[d.kind].capacity_load:
-            continue
-        if d.candidate.replaces and _names_for(d.candidate.replaces, today):
-            continue  # reuses the circuit of the electric appliance it replaces
-        for ld in project_loads(d, d.label):
-            need += 2 if ld.volts >= 208 else 1
-    if need <= free:
-        return None
-    return (f"the new circuits need about {need} breaker spaces and the panel has {free} free: "
-            "tandem breakers (where the panel is listed for them) or a new panel - an electrician decides")
+    gone = set(_names_for(d.candidate.replaces, today))
+    freed = sum(2 if ld.volts >= 208 else 1 for ld in today if ld.name in gone)
+    return sum(2 if ld.volts >= 208 else 1 for ld in project_loads(d, d.label)) - freed

@@ -23,6 +23,7 @@ from __future__ import annotations
 
 from dataclasses import dataclass, field
 
+from homeplan import catalog
 from homeplan.money.finance import discount_factor, remaining_value_share
 from homeplan.plan.fuels import HOME_FUELS
 from homeplan.planner.breakdowns import (
@@ -40,7 +41,7 @@ from homeplan.planner.candidates import (
     install_order,
     prerequisites_closure,
 )
-from homeplan.planner.capacity import CapacityModel
+from homeplan.planner.capacity import CapacityModel, breaker_spaces
 from homeplan.planner.context import Context
 from homeplan.planner.incentives import IncentiveModel
 from homeplan.planner.projects import cost_in_year_usd
@@ -200,6 +201,9 @@ def build_problem(ctx: Context, co: dict[str, Coefficients], capacity: CapacityM
             window_reason=(f"{item or 'the old one'} reaches {plan.choices.replace_at_risk_pct:.0f} % "
                            "failure risk") if latest else "",
             capacity_use=capacity.use.get(pid, 0.0), capacity_provided=capacity.provided.get(pid, 0.0),
+            spaces_use=float(max(breaker_spaces(ctx, d, capacity), 0)),
+            spaces_provided=float(max(-breaker_spaces(ctx, d, capacity), 0)
+                                  + catalog.upgrade_kinds()[d.kind].extra.get("provides_spaces", 0)),
             failure_item=item, failure_prob_by_year=cumulative if item else (),
         ))
     prereqs = []
@@ -232,6 +236,8 @@ def build_problem(ctx: Context, co: dict[str, Coefficients], capacity: CapacityM
         loan_term_years=first_loan.term_years if first_loan else 10,
         savings_to_budget=b.add_bill_savings, prerequisites=tuple(prereqs),
         capacity_base=capacity.base_headroom, max_per_year=plan.choices.max_projects_per_year,
+        spaces_base=(None if plan.home.electrical.free_spaces is None
+                     else float(plan.home.electrical.free_spaces)),
         incentive_groups=tuple(g for g in groups if all(pid in ctx.details for pid, _ in g.rates)),
         targets=tuple(targets), objective=objective, objective_project=objective_project,
         exclusive_groups=tuple(exclusive),

@@ -106,6 +106,8 @@ def _why_not_earlier(problem: Problem, years: dict[str, int | None], i: int, y: 
             out.append("waiting for budget")
         if "capacity" in nearest:
             out.append("waiting for service capacity")
+        if "spaces" in nearest:
+            out.append("waiting for room in the panel")
         if "max_per_year" in nearest:
             out.append(
                 f"earlier years are already full ({problem.max_per_year} projects a year at most)"
@@ -216,6 +218,7 @@ def _why_not_done(problem: Problem, years: dict[str, int | None], i: int,
         "budget": "no room in the budget",
         "prerequisite": "its prerequisites are not in the plan",
         "capacity": "not enough service capacity",
+        "spaces": "no free breaker spaces",
         "max_per_year": "every year already has the most projects allowed",
         "exclusive": "an alternative was chosen instead",
     }
@@ -299,6 +302,7 @@ def _relaxations(problem: Problem) -> dict[str, Callable[[Problem], Problem]]:
         "budget": lambda pr: pr.replace(budget_usd=tuple(b + big for b in pr.budget_usd)),
         "target": lambda pr: pr.replace(targets=()),
         "capacity": lambda pr: pr.replace(capacity_base=None),
+        "spaces": lambda pr: pr.replace(spaces_base=None),
         "max_per_year": lambda pr: pr.replace(max_per_year=None),
         "prerequisite": lambda pr: pr.replace(prerequisites=()),
         "window": no_windows,
@@ -314,6 +318,7 @@ _NAMES = {
     "budget": "the yearly budget",
     "target": "the target year",
     "capacity": "the electrical service capacity",
+    "spaces": "the free breaker spaces",
     "max_per_year": "the limit on projects per year",
     "prerequisite": "the prerequisites",
     "window": "the incentive/availability windows",

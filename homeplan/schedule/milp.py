@@ -40,6 +40,8 @@ Constraints (each a block of rows in one sparse matrix)
                  when strict). This "done by" form is tighter in the LP relaxation than
                  ``x[A,t] <= sum_B D[B,t]`` and gives the same integer solutions.
     capacity     for each t: ``sum_p (use_p - provided_p) D[p,t] <= capacity_base``.
+    spaces       the same with breaker spaces: ``sum_p (spaces_use_p - spaces_provided_p) D[p,t]
+                 <= spaces_base``.
     per year     for each t: ``sum_p x[p,t] <= max_per_year``.
     interaction  positive value: ``w <= D[a,t]``, ``w <= D[b,t]`` (maximising pushes w up to
                  the product); negative value: ``w >= D[a,t] + D[b,t] - 1`` (pushed down).
@@ -382,6 +384,12 @@ def build_model(
         for t in range(nt):
             coefs = {di(p, t): net[p] for p in range(np_) if net[p]}
             rows.add(coefs, -inf, pr.capacity_base)
+    # breaker spaces in every year's state
+    if pr.spaces_base is not None:
+        net = [p.spaces_use - p.spaces_provided for p in pr.projects]
+        for t in range(nt):
+            coefs = {di(p, t): net[p] for p in range(np_) if net[p]}
+            rows.add(coefs, -inf, pr.spaces_base)
     # max per year
     if pr.max_per_year is not None:
         for t in range(nt):

@@ -123,6 +123,10 @@ class Project:
         Capacity added on the service, e.g. A (see ``Problem.capacity_base``).
     capacity_provided : float
         Capacity freed on the service, same unit.
+    spaces_use : float
+        Breaker spaces its new circuits take in the panel (see ``Problem.spaces_base``).
+    spaces_provided : float
+        Breaker spaces it makes (a subpanel, a new panel).
     failure_item : str
         For explanations only: the item that may fail ("the water heater").
     failure_prob_by_year : tuple of float
@@ -148,6 +152,8 @@ class Project:
     pinned_year: int | None = None
     capacity_use: float = 0.0
     capacity_provided: float = 0.0
+    spaces_use: float = 0.0
+    spaces_provided: float = 0.0
     failure_item: str = ""
     failure_prob_by_year: tuple[float, ...] = ()
     window_reason: str = ""
@@ -360,6 +366,8 @@ class Problem:
         Choose-one groups.
     capacity_base : float or None
         Service capacity available, e.g. A.
+    spaces_base : float or None
+        Free breaker spaces in the panel (None: not known, no constraint).
     max_per_year : int or None
         Most projects in one year.
     incentive_groups : tuple of IncentiveGroup
@@ -391,6 +399,7 @@ class Problem:
     prerequisites: tuple[Prerequisite, ...] = ()
     exclusive_groups: tuple[ExclusiveGroup, ...] = ()
     capacity_base: float | None = None
+    spaces_base: float | None = None
     max_per_year: int | None = None
     incentive_groups: tuple[IncentiveGroup, ...] = ()
     targets: tuple[Target, ...] = ()
@@ -749,6 +758,7 @@ FAMILIES = (
     "prerequisite",
     "exclusive",
     "capacity",
+    "spaces",
     "max_per_year",
     "target",
     "objective_project",
@@ -880,6 +890,14 @@ def evaluate_batch(problem: Problem, placements: np.ndarray) -> dict[str, np.nda
         out["capacity"] = (used > pr.capacity_base + cap_tol).any(axis=1)
     else:
         out["capacity"] = np.zeros(n, bool)
+
+    # breaker spaces, the same way
+    if pr.spaces_base is not None:
+        net = np.array([p.spaces_use - p.spaces_provided for p in pr.projects])
+        used = np.einsum("npt,p->nt", done_by, net)
+        out["spaces"] = (used > pr.spaces_base + 1e-9).any(axis=1)
+    else:
+        out["spaces"] = np.zeros(n, bool)
 
     # max per year
     if pr.max_per_year is not None:

@@ -2,6 +2,8 @@
 
 from __future__ import annotations
 
+import dataclasses
+
 import numpy as np
 
 from homeplan.schedule.problem import (
@@ -115,6 +117,12 @@ def random_problem(
     )
     loans = rng.random() < 0.3
     obj = objective or str(rng.choice(OBJECTIVES, p=[0.55, 0.15, 0.15, 0.15]))
+    # breaker spaces, drawn last so that the draws above stay as they were
+    spaces = rng.random() < 0.3
+    if spaces:
+        projects = [dataclasses.replace(p, spaces_use=float(rng.choice([0, 1, 2, 2])),
+                                        spaces_provided=float(rng.choice([0, 0, 0, 0, 6])))
+                    for p in projects]
     return Problem(
         first_year=first_year,
         budget_usd=budget,
@@ -128,6 +136,7 @@ def random_problem(
         prerequisites=tuple(prereqs),
         exclusive_groups=tuple(groups),
         capacity_base=float(rng.choice([40, 60, 80])) if rng.random() < 0.4 else None,
+        spaces_base=float(rng.choice([0, 1, 2, 4])) if spaces else None,
         max_per_year=int(rng.integers(1, 3)) if rng.random() < 0.3 else None,
         incentive_groups=tuple(incentives),
         targets=tuple(targets),
