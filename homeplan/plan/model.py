@@ -152,6 +152,9 @@ class Electrical(Section):
         None, gt=0, le=500, description="Highest 15-minute demand over the period measured."
     )
     peak_demand_period: Literal["12_months", "30_days"] = "12_months"
+    continuous_loads_at_125: bool = Field(
+        True, description="With a measured peak (NEC 220.87): count continuous new loads such as "
+        "chargers at 125 % (the conservative reading; ask the inspector).")
     small_appliance_circuits: int = Field(2, ge=0, le=20)
     laundry_circuits: int = Field(1, ge=0, le=5)
     loads: list[ElectricalLoad] | None = Field(

@@ -36,7 +36,7 @@ from homeplan.planner.breakdowns import (
 from homeplan.planner.capacity import (
     CapacityModel,
     breaker_spaces,
-    measured_capacity,
+    other_method_capacity,
     state_capacity,
 )
 from homeplan.planner.context import Context
@@ -298,14 +298,18 @@ def _capacity_states(ctx: Context, capacity: CapacityModel, done: dict[str, int]
                      "load calculation: near its limit, with little room for the next load - ask an "
                      "electrician whether load management or a larger service is wiser")
     if ctx.plan.home.electrical.peak_demand_kw is not None:
-        measured = [measured_capacity(ctx, set(), None), measured_capacity(ctx, set(done), ctx.years[-1])]
-        states += [m for m in measured if m is not None]
-        last = measured[-1]
-        if last is not None and last.applies and not last.fits:
-            notes.append(f"by your measured peak (NEC 220.87) the planned loads do not fit "
-                         f"({last.amps:.0f} A on {last.service_amps:.0f} A); the plan "
-                         "uses the 220.83 calculation, which fits - ask your electrician which one "
-                         "the inspector accepts")
+        other = [other_method_capacity(ctx, capacity, set(), None),
+                 other_method_capacity(ctx, capacity, set(done), ctx.years[-1])]
+        states += other
+        last = other[-1]
+        if last.applies and not last.fits and states[-3].fits:
+            names = {"220.87": "your measured peak (NEC 220.87)", "220.83": "the NEC 220.83 calculation"}
+            chosen = names[capacity.method]
+            other = names["220.83" if capacity.method == "220.87" else "220.87"]
+            notes.append(f"by {other} the planned loads would not fit "
+                         f"({last.amps:.0f} A on {last.service_amps:.0f} A); the plan uses {chosen}, which "
+                         "fits and which the code allows as well - ask your electrician which one the "
+                         "inspector accepts")
     return tuple(states)
 
 

@@ -19,7 +19,6 @@ from dataclasses import dataclass, field, replace
 
 from homeplan import catalog
 from homeplan.catalog import existing_load_row, performance
-from homeplan.electrical.errors import ElectricalInputError, MethodNotApplicableError
 from homeplan.electrical.loads import Dwelling, Ems, Load, Service
 from homeplan.electrical.nec220 import (
     LoadCalcResult,
@@ -53,7 +52,8 @@ __all__ = [
     "CapacityPlan",
     "breaker_spaces",
     "existing_loads",
-    "measured_capacity",
+    "measured_demand",
+    "other_method_capacity",
     "plan_capacity",
     "project_loads",
     "state_capacity",
@@ -152,6 +152,7 @@ class CapacityModel:
     """
 
     base_headroom: float
+    method: str = "220.83"        # how the existing service is checked: "220.83" or "220.87"
     use: dict[str, float] = field(default_factory=dict)
     provided: dict[str, float] = field(default_factory=dict)
     excluded: frozenset[str] = frozenset()
@@ -200,6 +201,8 @@ def _plan_capacity(ctx: Context) -> CapacityPlan:
     kinds = catalog.upgrade_kinds()
     dwelling, service = _dwelling(plan), _service(plan)
     base = existing_loads(plan)
+    measured = measured_demand(plan)
+    cont = plan.home.electrical.continuous_loads_at_125
     today = nec220_83(dwelling, base, service, edition=edition)
     if today.headroom_amps < 0:
         notes.append(
@@ -234,8 +237,16 @@ def _plan_capacity(ctx: Context) -> CapacityPlan:
         service_upgrades=upgrades, ems_min_setpoint_amps=p["ems_min_setpoint_amps"],
     )
     # the loads decide the service; the solar and battery connection is decided for each set of
-    # them the plan may end with (solar_connection.py)
+    # them the plan may end with (solar_connection.py). With a measured peak, the existing
+    # service is checked both ways and the method that needs the cheaper remedy is used.
     remedy = find_remedy(dwelling, base, service, proposed, costs, edition=edition)
+    method = "220.83"
+    if measured is not None:
+        by_peak = find_remedy(dwelling, base, service, proposed, costs, edition=edition,
+                              measured=measured, continuous_new_load_at_125=cont)
+        if _remedy_cost(by_peak) < _remedy_cost(remedy):
+            remedy, method = by_peak, "220.87"
+            today = nec220_87(measured, [], service, edition=edition, continuous_new_load_at_125=cont)
     if not remedy.fits:
         notes.append("even the largest remedy on offer does not make every electric load fit the "
                      "service; the plan keeps the loads that fit (see the power view)")
@@ -261,8 +272,12 @@ def _plan_capacity(ctx: Context) -> CapacityPlan:
     use: dict[str, float] = {}
     for pid in load_pids:
         d = details[pid]
-        loads = _apply(base, d.candidate.replaces, project_loads(d, pid))
-        after = nec220_83(dwelling, loads, service, edition=edition)
+        if method == "220.87":
+            after = nec220_87(measured, project_loads(d, pid), service, edition=edition,
+                              continuous_new_load_at_125=cont)
+        else:
+            after = nec220_83(dwelling, _apply(base, d.candidate.replaces, project_loads(d, pid)), service,
+                              edition=edition)
         use[pid] = max(0.0, float(after.amps - today.amps))
     provided: dict[str, float] = {}
     if chosen == "service_upgrade":
@@ -277,17 +292,48 @@ def _plan_capacity(ctx: Context) -> CapacityPlan:
         for pid in load_pids:
             d = details[pid]
             all_loads = _apply(all_loads, d.candidate.replaces, project_loads(d, pid))
-        plain = nec220_83(dwelling, all_loads, service, edition=edition)
+        plain = (nec220_87(measured, [ld for ld in all_loads if not ld.existing], service, edition=edition,
+                           continuous_new_load_at_125=cont) if method == "220.87"
+                 else nec220_83(dwelling, all_loads, service, edition=edition))
         provided[chosen] = max(0.0, float(plain.amps - remedy.calc.amps))
     if chosen is None and remedy.needed is False:
-        notes.append("the service carries every planned electric load: no panel or service upgrade needed")
+        how = " (by your measured peak, NEC 220.87)" if method == "220.87" else ""
+        notes.append(f"the service carries every planned electric load{how}: no panel or service upgrade "
+                     "needed")
     model = CapacityModel(
-        base_headroom=max(float(today.headroom_amps), 0.0), use=use, provided=provided,
+        base_headroom=max(float(today.headroom_amps), 0.0), method=method, use=use, provided=provided,
         excluded=frozenset(r for r in REMEDY_PROJECTS if r in details and r != chosen),
         notes=tuple(notes), remedy=remedy, remedy_project=chosen, variant_notes=variant_notes,
         ems_setpoint_va=ems_setpoint_va, connections=connections,
     )
     return CapacityPlan(model, details)
+
+
+def _remedy_cost(remedy: Remedy) -> tuple[float, int]:
+    """What a remedy costs (infinite when nothing on offer makes the loads fit), then how many
+    changes it makes to the plan as wanted."""
+    cost = float("inf") if not remedy.fits or remedy.cost_usd is None else float(remedy.cost_usd)
+    return cost, len(remedy.changes)
+
+
+def measured_demand(plan: Plan) -> MeasuredDemand | None:
+    """The plan's measured peak for NEC 220.87, when it gives one and the method applies.
+
+    A 30-day recording may miss the season's heating or cooling: the larger of the home's
+    heating or cooling nameplate is added (220.87 exception, the conservative reading). Homes
+    with solar or a battery are left to 220.83: the meter does not see the load they supply.
+
+    References
+    ----------
+    NEC 2023 220.87 and its exception.
+    """
+    e = plan.home.electrical
+    if e.peak_demand_kw is None or plan.home.solar is not None or plan.home.battery is not None:
+        return None
+    hvac = [ld.va for ld in existing_loads(plan)
+            if ld.category in ("heating", "cooling", "heat_pump_compressor", "supplemental_heat")]
+    seasonal = (max(hvac) if hvac else 0.0) if e.peak_demand_period == "30_days" else None
+    return MeasuredDemand(e.peak_demand_kw, e.peak_demand_period, seasonal)
 
 
 def _add_connection_costs(details: dict[str, ProjectDetail],
@@ -351,8 +397,12 @@ def state_capacity(ctx: Context, model: CapacityModel, done: set[str], label: st
         service = Service(service_amps=service.service_amps, busbar_amps=service.busbar_amps,
                           main_breaker_amps=conn.derated_main_amps, volts=service.volts)
         remedy_note = (remedy_note + "; " if remedy_note else "") + conn.words
+    measured = measured_demand(plan) if model.method == "220.87" else None
     if remedy_note and "upgraded" in remedy_note:
         calc = nec220_82(dwelling, loads, service, edition=edition)
+    elif measured is not None:
+        calc = nec220_87(measured, [ld for ld in loads if not ld.existing], service, edition=edition, ems=ems,
+                         continuous_new_load_at_125=plan.home.electrical.continuous_loads_at_125)
     else:
         calc = nec220_83(dwelling, loads, service, edition=edition, ems=ems)
     fits = bool(calc.fits)
@@ -385,43 +435,32 @@ def _state(calc: LoadCalcResult, label: str, year: int | None, remedy: str | Non
                          near_limit=bool(calc.fits) and pct > practice("near_limit_pct"))
 
 
-def measured_capacity(ctx: Context, done: set[str], year: int | None) -> CapacityState | None:
-    """NEC 220.87 from the measured 12-month (or 30-day) peak, when the plan gives one.
-
-    The measured peak covers the home as it is; the loads the roadmap adds by ``year`` are added
-    at nameplate (continuous ones at 125 %, the conservative reading). Homes with solar or a
-    battery are refused, as the code text does by default: the meter hides load behind on-site
-    generation.
+def other_method_capacity(ctx: Context, model: CapacityModel, done: set[str],
+                          year: int | None) -> CapacityState:
+    """The state checked by the method the plan does not use: NEC 220.87 from the measured peak
+    when the plan uses 220.83, and the reverse - shown beside it, an inspector may accept either.
 
     References
     ----------
-    NEC 2023 220.87 (2020 text excludes services with solar or peak shaving).
+    NEC 2023 220.83 and 220.87 (either may show that an existing service carries added loads).
     """
-    plan = ctx.plan
-    e = plan.home.electrical
-    if e.peak_demand_kw is None:
-        return None
-    kinds = catalog.upgrade_kinds()
-    new: list[Load] = []
-    for pid in sorted(done):
-        d = ctx.details.get(pid)
-        if d is not None and kinds[d.kind].capacity_load:
-            new.extend(project_loads(d, d.label))
-    has_pv = plan.home.solar is not None or plan.home.battery is not None
-    label = "today, from your measured peak" if year is None else f"{year}, from your measured peak"
-    try:
-        # a 30-day recording may miss the season's heating or cooling: add the larger of the
-        # home's heating or cooling nameplate (220.87 exception, conservative reading)
-        hvac = [ld.va for ld in existing_loads(plan)
-                if ld.category in ("heating", "cooling", "heat_pump_compressor", "supplemental_heat")]
-        seasonal = (max(hvac) if hvac else 0.0) if e.peak_demand_period == "30_days" else None
-        calc = nec220_87(MeasuredDemand(e.peak_demand_kw, e.peak_demand_period, seasonal),
-                         new, _service(plan), edition=e.code_edition, has_solar_or_battery=has_pv)
-    except (MethodNotApplicableError, ElectricalInputError) as exc:  # refused or not applicable: say why
+    e = ctx.plan.home.electrical
+    when = "today" if year is None else str(year)
+    if model.method == "220.87":
+        state = state_capacity(ctx, replace(model, method="220.83"), done,
+                               f"{when}, by the 220.83 calculation", year)
+        return replace(state, notes=state.notes + (
+            "the alternative to the measured-peak method the plan uses: an inspector may accept either",))
+    label = f"{when}, from your measured peak"
+    measured = measured_demand(ctx.plan)
+    if measured is None:
         return CapacityState(label=label, year=year, method="NEC 220.87 (not used)", total_va=None,
                              amps=None, service_amps=float(e.service_amps), headroom_amps=None, fits=True,
-                             notes=(str(exc),))
-    return _state(calc, label, year, None, tuple(calc.notes) + (
+                             notes=("NEC 220.87 is not used for a home with solar or a battery: the meter "
+                                    "does not see the load they supply",))
+    probe = replace(model, method="220.87")
+    state = state_capacity(ctx, probe, done, label, year)
+    return replace(state, notes=state.notes + (
         "an alternative to the 220.83 calculation: an inspector may accept either",))
 
 
