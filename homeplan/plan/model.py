@@ -452,6 +452,9 @@ class ProjectOption(Section):
     cop_5f: float | None = Field(None, ge=1, le=5, description="Heat pump COP at 5 F.")
     capacity_5f_pct: float | None = Field(None, ge=10, le=130, description="Capacity at 5 F, % of 47 F.")
     amps: float | None = Field(None, gt=0, le=400, description="Charger or service amps.")
+    backup: Literal["electric", "existing"] | None = Field(
+        None, description="Heat pump backup heat: electric (strips or heaters, the default) or "
+        "existing (keep the fuel-burning furnace or boiler as a dual-fuel backup).")
 
 
 Objective = Literal["npv", "emissions", "gas_off_early", "out_of_pocket"]

@@ -33,6 +33,7 @@ from homeplan.planner.breakdowns import (
     fossil_projects,
     replaceable_items,
 )
+from homeplan.planner.candidates import dual_fuel_backup
 from homeplan.planner.capacity import (
     CapacityModel,
     breaker_spaces,
@@ -411,6 +412,14 @@ def _heat_pump_sizing(ctx: Context, done: dict[str, int], pid: str) -> str:
     design = ctx.basis.design_load_btuh
     t = ctx.basis.weather.heating_design_f
     text = f"sized {d.size:g} t for a {design:,.0f} Btu/h heating load at {t:.0f} F"
+    kept = dual_fuel_backup(ctx.plan) if d.backup_kind == "existing" else None
+    if kept is not None:
+        fuel = appliance_fuel(kept)
+        end = ctx.energy(frozenset(done))
+        bill = end.bills_usd.get(fuel, 0.0)
+        return (text + f"; the {fuel} {kept.kind} stays as its backup for about {hours} hours a year: "
+                f"the {fuel} bill stays at about {bill:,.0f} USD a year at today's prices (its fixed "
+                "charges included), and the home is not fully electric")
     if hours and not d.backup_kw:
         text += f"; about {hours} hours a year colder than it can carry alone (keep a backup plan)"
     elif hours:
@@ -480,7 +489,7 @@ def milestones_of(ctx: Context, done: dict[str, int]) -> tuple[Milestone, ...]:
     if evs and all(p in done for p in evs) and not any(v.fuel == "diesel" for v in ctx.plan.vehicles):
         out.append(Milestone(max(done[p] for p in evs), "Last gasoline car gone", "last_gasoline_car"))
     fossil = fossil_projects(ctx)
-    if fossil and all(p in done for p in fossil):
+    if fossil and all(p in done for p in fossil) and dual_fuel_backup(ctx.plan) is None:
         out.append(Milestone(max(done[p] for p in fossil), "Fully electric", "fully_electric"))
     if "service_upgrade" in done:
         out.append(Milestone(done["service_upgrade"], "Service upgraded", "service_upgraded"))

@@ -25,7 +25,7 @@ from dataclasses import dataclass, field
 from homeplan import catalog
 from homeplan.errors import PlanRuleError
 from homeplan.plan.fuels import HOME_FUELS, appliance_fuel
-from homeplan.plan.model import Plan
+from homeplan.plan.model import Appliance, Plan
 from homeplan.planner import lifecycle
 
 __all__ = [
@@ -36,6 +36,7 @@ __all__ = [
     "any_of_groups",
     "build_graph",
     "candidates",
+    "dual_fuel_backup",
     "heat_pump_variant",
     "install_order",
     "layers",
@@ -101,8 +102,10 @@ def candidates(plan: Plan) -> list[Candidate]:
         out.append(Candidate(cid, kind, label, cautions=k.cautions, milestone=k.milestone, **kw))
 
     apps = plan.appliances
-    # a new heat pump replaces the heating and cooling equipment there is, an old heat pump included
-    heating = [a for a in apps if a.kind in (*HEATING_KINDS, "heat_pump", "mini_split")]
+    # a new heat pump replaces the heating and cooling equipment there is, an old heat pump
+    # included - but a fuel-burning furnace or boiler kept as its dual-fuel backup stays
+    kept = dual_fuel_backup(plan)
+    heating = [a for a in apps if a.kind in (*HEATING_KINDS, "heat_pump", "mini_split") and a is not kept]
     add("heat_pump", "heat_pump", replaces=tuple(a.key for a in heating),
         variant=heat_pump_variant(plan, plan.home.climate.heating_design_f))
     for a in apps:
@@ -112,7 +115,8 @@ def candidates(plan: Plan) -> list[Candidate]:
                 replaces=(a.key,), variant="v240")
         elif a.kind in ("range", "cooktop") and fuel in HOME_FUELS:
             add(_unique(out, "induction_range", a.key), "induction_range", replaces=(a.key,), variant="full")
-        elif a.kind == "dryer" and fuel in HOME_FUELS:
+        elif a.kind == "dryer" and (fuel in HOME_FUELS or (fuel == "electric" and a.type != "heat_pump")):
+            # a resistance dryer swapped for a heat pump one also frees room on the service
             add(_unique(out, "heat_pump_dryer", a.key), "heat_pump_dryer", replaces=(a.key,), variant="v120")
     ev_ids = []
     for i, v in enumerate(plan.vehicles):
@@ -138,10 +142,23 @@ def candidates(plan: Plan) -> list[Candidate]:
         add(remedy, remedy)
     if plan.home.electrical.free_spaces is not None:  # known: the new circuits must find room
         add("panel_space", "panel_space")
+    replaced = {key for c in out for key in c.replaces}
     for fuel, milestone in MILESTONE_FOR_FUEL.items():
-        if any(appliance_fuel(a) == fuel for a in apps):
+        on_fuel = [a for a in apps if appliance_fuel(a) == fuel]
+        # a fuel is closed only when every appliance on it can be replaced
+        if on_fuel and all(a.key in replaced for a in on_fuel):
             add(milestone, milestone)
     return out
+
+
+def dual_fuel_backup(plan: Plan) -> Appliance | None:
+    """The fuel-burning furnace or boiler kept as the new heat pump's backup, when the plan asks
+    for it (``options.heat_pump.backup: existing``) and the home has one."""
+    opt = plan.options.get("heat_pump")
+    if opt is None or opt.backup != "existing":
+        return None
+    return next((a for a in plan.appliances if a.kind in ("furnace", "boiler")
+                 and appliance_fuel(a) in HOME_FUELS), None)
 
 
 def _unique(existing: list[Candidate], base: str, key: str) -> str:

@@ -147,8 +147,9 @@ def _dwelling(plan: Plan) -> Dwelling:
 class CapacityModel:
     """Linear capacity data for the scheduler plus the remedy behind it.
 
-    ``use``: amps each load project adds to today's calculated load (alone); ``provided``: amps
-    of room the chosen remedy project makes; ``excluded``: remedy projects the plan does not use.
+    ``use``: amps each load project adds to today's calculated load (alone; negative when it
+    frees room, e.g. a resistance dryer swapped for a heat pump one); ``provided``: amps of room
+    the chosen remedy project makes; ``excluded``: remedy projects the plan does not use.
     """
 
     base_headroom: float
@@ -278,7 +279,7 @@ def _plan_capacity(ctx: Context) -> CapacityPlan:
         else:
             after = nec220_83(dwelling, _apply(base, d.candidate.replaces, project_loads(d, pid)), service,
                               edition=edition)
-        use[pid] = max(0.0, float(after.amps - today.amps))
+        use[pid] = float(after.amps - today.amps)  # negative: a swap that frees room
     provided: dict[str, float] = {}
     if chosen == "service_upgrade":
         # the larger service is checked by 220.82, which counts the new loads together more

@@ -132,7 +132,7 @@ class Context:
 
     def choice(self, pid: str) -> Choice:
         d = self.details[pid]
-        return Choice(pid, d.kind, d.variant, d.size, d.candidate.replaces, d.backup_kw)
+        return Choice(pid, d.kind, d.variant, d.size, d.candidate.replaces, d.backup_kw, d.backup_kind)
 
     def simulate(self, done: Iterable[str], label: str = "") -> EnergyResult:
         """The full simulated typical year (hourly arrays included) with the projects ``done``."""

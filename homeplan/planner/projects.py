@@ -24,7 +24,7 @@ from homeplan.money.costs import cost_trend_from_record
 from homeplan.plan.fuels import appliance_fuel
 from homeplan.plan.model import Plan
 from homeplan.planner.basis import HomeBasis
-from homeplan.planner.candidates import Candidate
+from homeplan.planner.candidates import Candidate, dual_fuel_backup
 from homeplan.planner.states import cooling_load_btuh, heat_pump_backup, heat_pump_tons
 
 __all__ = [
@@ -53,7 +53,7 @@ class ProjectDetail:
     cost_change: dict[str, Any]
     quoted: bool = False
     backup_kw: float = 0.0        # electric backup heat of a heat pump (strips or heaters), kW
-    backup_kind: str = ""         # "strips", "heaters" or "" (none)
+    backup_kind: str = ""         # "strips", "heaters", "existing" (dual fuel) or "" (none)
 
     @property
     def id(self) -> str:
@@ -125,7 +125,10 @@ def detail(plan: Plan, c: Candidate, basis: HomeBasis, electrified_kwh: float,
     elif c.kind == "roof":
         size = roof_area_ft2(plan)
     backup_kw, backup_kind = 0.0, ""
-    if c.kind == "heat_pump":
+    kept = dual_fuel_backup(plan) if c.kind == "heat_pump" else None
+    if kept is not None:
+        backup_kind = "existing"
+    elif c.kind == "heat_pump":
         backup_kw, backup_kind = heat_pump_backup(v.id if v else None, size, basis.design_load_btuh,
                                                   design_f)
     own_kw = float(v.strips_kw or 0.0) if v else 0.0
@@ -142,7 +145,9 @@ def detail(plan: Plan, c: Candidate, basis: HomeBasis, electrified_kwh: float,
         source = f"catalog {level} estimate: {k.cost.source}"
         quoted = False
     label = v.label if v else ""
-    if backup_kw > own_kw:  # backup the variant does not bring: its cost and its name
+    if kept is not None:
+        label += f", keeping the {appliance_fuel(kept)} {kept.kind} as backup"
+    elif backup_kw > own_kw:  # backup the variant does not bring: its cost and its name
         p = performance()
         per_kw = p["hp_backup_heaters_usd_per_kw" if backup_kind == "heaters" else "hp_backup_strips_usd_per_kw"]
         if not quoted:

@@ -25,7 +25,7 @@ from dataclasses import dataclass, field
 
 from homeplan import catalog
 from homeplan.money.finance import discount_factor, remaining_value_share
-from homeplan.plan.fuels import HOME_FUELS
+from homeplan.plan.fuels import HOME_FUELS, appliance_fuel
 from homeplan.planner.breakdowns import (
     LFL_PREFIX,
     EmergencyItem,
@@ -38,6 +38,7 @@ from homeplan.planner.breakdowns import (
 from homeplan.planner.candidates import (
     INSTALL_ORDER,
     MILESTONE_FOR_FUEL,
+    dual_fuel_backup,
     install_order,
     prerequisites_closure,
 )
@@ -200,7 +201,8 @@ def build_problem(ctx: Context, co: dict[str, Coefficients], capacity: CapacityM
             pinned_year=None if pid in urgent else plan.choices.pins.get(pid),
             window_reason=(f"{item or 'the old one'} reaches {plan.choices.replace_at_risk_pct:.0f} % "
                            "failure risk") if latest else "",
-            capacity_use=capacity.use.get(pid, 0.0), capacity_provided=capacity.provided.get(pid, 0.0),
+            capacity_use=max(capacity.use.get(pid, 0.0), 0.0),
+            capacity_provided=capacity.provided.get(pid, 0.0) + max(-capacity.use.get(pid, 0.0), 0.0),
             spaces_use=float(max(breaker_spaces(ctx, d, capacity), 0)),
             spaces_provided=float(max(-breaker_spaces(ctx, d, capacity), 0)
                                   + catalog.upgrade_kinds()[d.kind].extra.get("provides_spaces", 0)),
@@ -265,6 +267,11 @@ def _target_notes(ctx: Context, implicit_target: bool) -> list[str]:
         if pinned is not None and pinned != ctx.first_year:
             notes.append(f"the {e.label} has failed: {ctx.details[e.upgrade].label.lower()}, which you "
                          f"pinned to {pinned}, may come in {ctx.first_year} instead")
+    backup = dual_fuel_backup(ctx.plan)
+    if backup is not None and ctx.plan.choices.all_electric:
+        notes.append(f"the {backup.key.replace('_', ' ')} stays as the heat pump's backup, as the plan asks: "
+                     f"the home keeps burning {appliance_fuel(backup)} in the coldest hours and is not "
+                     "fully electric")
     by = all_electric_by(ctx, implicit_target)
     if by is not None:
         kept = [ctx.details[p].label for p in fossil_projects(ctx) if not _reachable(ctx, p, by)]

@@ -29,10 +29,10 @@ from homeplan.energy.simulate import EnergyResult, HomeEnergySpec, simulate, wit
 from homeplan.energy.solar import SolarArraySpec
 from homeplan.energy.vehicles import VehicleSpec
 from homeplan.energy.water import WaterHeaterSpec
-from homeplan.plan.fuels import FOSSIL_FUELS, UNIT_KEY, bill_fuel
+from homeplan.plan.fuels import FOSSIL_FUELS, UNIT_KEY, appliance_fuel, bill_fuel, engine_fuel
 from homeplan.plan.model import Plan, ProjectOption
-from homeplan.planner.basis import HomeBasis, fuel_prices
-from homeplan.planner.candidates import INSTALL_ORDER
+from homeplan.planner.basis import HomeBasis, appliance_efficiency, fuel_prices
+from homeplan.planner.candidates import INSTALL_ORDER, dual_fuel_backup
 from homeplan.result.figures import EnergySummary
 
 __all__ = [
@@ -63,6 +63,7 @@ class Choice:
     size: float
     replaces: tuple[str, ...] = ()
     backup_kw: float = 0.0
+    backup_kind: str = ""
 
 
 def heat_pump_class(variant: str | None) -> str:
@@ -71,9 +72,14 @@ def heat_pump_class(variant: str | None) -> str:
     return (v.hp_class if v is not None else None) or "single_stage"
 
 
-def heat_pump_spec(variant: str | None, tons: float, strips_kw: float) -> HeatPumpSpec:
-    """A new heat pump of ``tons`` nominal 47 F capacity with its class's ratings; backup strips
-    (resistance) when the variant has them, else none."""
+def heat_pump_spec(variant: str | None, tons: float, strips_kw: float, backup_fuel: str | None = None,
+                   backup_afue: float = 1.0) -> HeatPumpSpec:
+    """A new heat pump of ``tons`` nominal 47 F capacity with its class's ratings; its backup is a
+    kept furnace or boiler burning ``backup_fuel`` (engine fuel name) at ``backup_afue``, else
+    electric resistance when it has backup kW, else none."""
+    if backup_fuel is not None:
+        return HeatPumpSpec.typical(heat_pump_class(variant), tons * 12000.0, backup=backup_fuel,
+                                    backup_afue=backup_afue)
     backup = "resistance" if strips_kw > 0 else "none"
     return HeatPumpSpec.typical(heat_pump_class(variant), tons * 12000.0, backup=backup)
 
@@ -202,7 +208,12 @@ def state_spec(basis: HomeBasis, plan: Plan, done: Iterable[Choice], label: str 
     for c in done:
         k = c.kind
         if k == "heat_pump":
-            hp = heat_pump_spec(c.variant, c.size, c.backup_kw)
+            kept = dual_fuel_backup(plan) if c.backup_kind == "existing" else None
+            if kept is not None:
+                hp = heat_pump_spec(c.variant, c.size, 0.0, engine_fuel(appliance_fuel(kept)),
+                                    appliance_efficiency(kept))
+            else:
+                hp = heat_pump_spec(c.variant, c.size, c.backup_kw)
             hp = _with_quoted_ratings(hp, plan.options.get(c.project_id))
             spec = with_heat_pump(spec, hp)
         elif k == "heat_pump_water_heater":

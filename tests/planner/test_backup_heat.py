@@ -71,3 +71,40 @@ def test_enough_capacity_needs_no_backup():
     kw, kind = heat_pump_backup("cold_climate", 3.0, 40000.0, 5.0)
     shortfall = 40000.0 - 0.8 * 36000.0
     assert kind == "strips" and kw == 5.0 and kw * 3412.14 >= shortfall
+
+
+DUAL = """\
+# invented test home: keep the gas furnace as the heat pump's backup
+home:
+  name: Dual fuel (invented)
+  climate: {hdd65: 7500, heating_design_f: -10, cdd65: 700, cooling_design_f: 89}
+  floor_area_ft2: 1800
+  electrical: {service_amps: 200}
+appliances:
+  - {id: furnace, kind: furnace, fuel: gas, year_installed: 2016, afue: 0.95}
+  - {id: ac, kind: central_ac, year_installed: 2010}
+  - {id: water_heater, kind: water_heater, fuel: gas, year_installed: 2015}
+budget: {usd_per_year: 30000, first_year: 2027}
+options: {heat_pump: {variant: ducted_no_strips, backup: existing}}
+choices: {pins: {heat_pump: 2027}, exclude: [solar, battery]}
+"""
+
+
+def test_dual_fuel_keeps_the_furnace_and_the_gas_service(tmp_path):
+    """A furnace kept as the heat pump's backup (common practice, no source: 'dual fuel') still
+    burns gas in the coldest hours, so the gas service cannot be closed and the plan says what
+    the backup costs a year."""
+    path = tmp_path / "dual.yaml"
+    path.write_text(DUAL)
+    result = plan_roadmap(load_plan(path))
+    road = result.roadmap
+    hp = next(s for s in road.steps if s.project_id == "heat_pump")
+    assert "furnace" not in hp.replaces and "ac" in hp.replaces
+    assert "close_gas" not in {s.project_id for s in road.steps}
+    assert not any(m.kind == "fully_electric" for m in road.milestones)
+    reason = [r for r in hp.reasons if "stays as its backup" in r][0]
+    hours = int(reason.split("for about ")[1].split()[0])
+    assert hours > 0 and "USD a year" in reason
+    today, end = result.energy_before.annual, result.energy_after.annual
+    assert 0 < end["gas_therm"] < today["gas_therm"]
+    assert any("not fully electric" in w for w in result.warnings)

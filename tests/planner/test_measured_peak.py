@@ -29,7 +29,7 @@ appliances:
   - {id: range, kind: range, fuel: gas, year_installed: 2010}
   - {id: dryer, kind: dryer, fuel: electric, year_installed: 2015}
 budget: {usd_per_year: 40000, first_year: 2027}
-choices: {exclude: [solar, battery]}
+choices: {exclude: [solar, battery, heat_pump_dryer]}
 options:
   heat_pump: {variant: cold_climate}
   heat_pump_water_heater: {variant: v240}
