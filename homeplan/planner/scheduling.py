@@ -50,6 +50,7 @@ from homeplan.schedule.explain import diagnose_infeasible, explain
 from homeplan.schedule.milp import MilpSolver, Solution
 from homeplan.schedule.problem import (
     ExclusiveGroup,
+    FollowUp,
     IncentiveGroup,
     Prerequisite,
     Problem,
@@ -212,6 +213,17 @@ def build_problem(ctx: Context, co: dict[str, Coefficients], capacity: CapacityM
     for u, v, data in ctx.graph.edges(data=True):
         if data["kind"] == "requires" and u in ctx.details and v in ctx.details:
             prereqs.append(Prerequisite(project=v, requires_any=(u,), label=data.get("why", "")))
+    followups = []
+    for fuel, milestone in MILESTONE_FOR_FUEL.items():
+        if milestone not in ctx.details or milestone in plan.choices.pins:
+            continue
+        after = tuple(u for u, _, data in ctx.graph.in_edges(milestone, data=True)
+                      if data["kind"] == "requires" and u in ctx.details)
+        if after:
+            # common practice, no source: an unused tank is a leak and fire risk and an open
+            # service keeps its fixed charge: the fuel goes within a year of its last appliance
+            followups.append(FollowUp(milestone, after, 1,
+                                      f"within a year of the last {fuel} appliance's replacement"))
     order_projects, order_prereqs, exclusive = better_before(ctx)
     projects.extend(order_projects)
     prereqs.extend(order_prereqs)
@@ -242,7 +254,7 @@ def build_problem(ctx: Context, co: dict[str, Coefficients], capacity: CapacityM
                      else float(plan.home.electrical.free_spaces)),
         incentive_groups=tuple(g for g in groups if all(pid in ctx.details for pid, _ in g.rates)),
         targets=tuple(targets), objective=objective, objective_project=objective_project,
-        exclusive_groups=tuple(exclusive),
+        exclusive_groups=tuple(exclusive), followups=tuple(followups),
     )
 
 

@@ -158,6 +158,9 @@ def _why_not_later(problem: Problem, i: int, y: int) -> list[str]:
     for tg in problem.targets:
         if p.id in tg.project_ids and tg.by_year == y:
             out.append(f"to be {tg.label} by {y}")
+    for fu in problem.followups:
+        if fu.project == p.id and fu.label:
+            out.append(fu.label)
     if p.failure_item and p.failure_prob_by_year:
         probs = p.failure_prob_by_year
         t = y - fy
@@ -303,6 +306,7 @@ def _relaxations(problem: Problem) -> dict[str, Callable[[Problem], Problem]]:
         "target": lambda pr: pr.replace(targets=()),
         "capacity": lambda pr: pr.replace(capacity_base=None),
         "spaces": lambda pr: pr.replace(spaces_base=None),
+        "followup": lambda pr: pr.replace(followups=()),
         "max_per_year": lambda pr: pr.replace(max_per_year=None),
         "prerequisite": lambda pr: pr.replace(prerequisites=()),
         "window": no_windows,
@@ -319,6 +323,7 @@ _NAMES = {
     "target": "the target year",
     "capacity": "the electrical service capacity",
     "spaces": "the free breaker spaces",
+    "followup": "the follow-up of a fuel's last appliance",
     "max_per_year": "the limit on projects per year",
     "prerequisite": "the prerequisites",
     "window": "the incentive/availability windows",

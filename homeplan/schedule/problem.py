@@ -24,6 +24,8 @@ Semantics (shared by every solver):
   every year on its own (unspent money is lost). Total borrowing ``sum_t L[t] <= loan_limit_usd``.
 - *end of life*: ``undone_penalty_usd[p][t]`` (expected emergency cost in year t) is paid for
   each year t in which p is not yet done (``1 - D[p,t]``); doing p in year t avoids year t's risk.
+- *follow-ups*: once every project in ``after`` is done by t, ``project`` is done by
+  ``t + within_years`` (a constraint only while that year is inside the horizon).
 - *capped incentives*: group g earns ``min(cap_usd_per_year, sum_p rate_p * cost[p,t] x[p,t])``
   in year t (so two capped items in two years can earn two caps).
 - *NPV* (objective ``max_npv``), discount factor ``df[t] = (1 + discount_rate) ** -t``::
@@ -67,6 +69,7 @@ __all__ = [
     "TOL_USD",
     "Evaluation",
     "ExclusiveGroup",
+    "FollowUp",
     "IncentiveGroup",
     "Interaction",
     "Prerequisite",
@@ -333,6 +336,34 @@ class Target:
 
 
 @dataclass(frozen=True)
+class FollowUp:
+    """``project`` is done at most ``within_years`` after every project in ``after`` is done
+    (e.g. a fuel's tank removed soon after the last appliance on the fuel is replaced).
+
+    Attributes
+    ----------
+    project : str
+        The project that follows.
+    after : tuple of str
+        The projects it follows; until all of them are done it is free.
+    within_years : int
+        Years it may wait once they are, >= 0.
+    label : str
+        For explanations: why it follows (e.g. "the last oil appliance is gone").
+    """
+
+    project: str
+    after: tuple[str, ...]
+    within_years: int = 1
+    label: str = ""
+
+    def __post_init__(self) -> None:
+        object.__setattr__(self, "after", tuple(self.after))
+        if self.within_years < 0:
+            raise ValueError("within_years must be >= 0")
+
+
+@dataclass(frozen=True)
 class Problem:
     """A scheduling problem over ``T = len(budget_usd)`` years starting at ``first_year``.
 
@@ -376,6 +407,8 @@ class Problem:
         Done-by targets.
     interactions : tuple of Interaction
         Value of project pairs.
+    followups : tuple of FollowUp
+        Projects that must follow others within some years.
     objective : str
         One of :data:`OBJECTIVES`.
     objective_project : str or None
@@ -404,6 +437,7 @@ class Problem:
     incentive_groups: tuple[IncentiveGroup, ...] = ()
     targets: tuple[Target, ...] = ()
     interactions: tuple[Interaction, ...] = ()
+    followups: tuple[FollowUp, ...] = ()
     objective: str = "max_npv"
     objective_project: str | None = None
 
@@ -510,6 +544,8 @@ class Problem:
             refs += [k for k, _ in ig.rates]
         for tg in self.targets:
             refs += list(tg.project_ids)
+        for fu in self.followups:
+            refs += [fu.project, *fu.after]
         for it in self.interactions:
             refs += [it.a, it.b]
             if len(it.value_usd) != n:
@@ -761,6 +797,7 @@ FAMILIES = (
     "spaces",
     "max_per_year",
     "target",
+    "followup",
     "objective_project",
 )
 
@@ -913,6 +950,16 @@ def evaluate_batch(problem: Problem, placements: np.ndarray) -> dict[str, np.nda
             yi = y[:, pr.index(pid)]
             tg_bad |= (yi < 0) | (yi > by)
     out["target"] = tg_bad
+
+    # follow-ups: once every "after" project is done by t, the project is done by t + within
+    fu_bad = np.zeros(n, bool)
+    for fu in pr.followups:
+        last = np.max(np.stack([np.where(y[:, pr.index(a)] < 0, nt, y[:, pr.index(a)])
+                                for a in fu.after]), axis=0)
+        yp = y[:, pr.index(fu.project)]
+        due = last + fu.within_years
+        fu_bad |= (last < nt) & (due < nt) & ((yp < 0) | (yp > due))
+    out["followup"] = fu_bad
 
     # objective project
     if pr.objective_project is not None:

@@ -71,3 +71,22 @@ def test_steps_name_what_they_replace(planned):
         expected = info.replaces if info is not None else (s.project_id.split(":", 1)[1],)
         assert s.replaces == tuple(expected)
         assert set(s.replaces) <= keys
+
+
+def test_fuel_closed_within_a_year_of_its_last_appliance(planned):
+    """Common practice, no source: an unused oil or propane tank is a leak and fire risk, and a
+    gas service left open keeps its fixed charge - the fuel goes within a year of the last
+    appliance on it (when that year is inside the plan)."""
+    plan, result = planned
+    road = result.roadmap
+    for fuel, milestone in MILESTONE_FOR_FUEL.items():
+        on_fuel = {a.key for a in plan.appliances if appliance_fuel(a) == fuel}
+        electric = [s for s in road.steps if set(s.replaces) & on_fuel
+                    and not s.project_id.startswith("like_for_like:")]
+        if not on_fuel or {k for s in electric for k in s.replaces} & on_fuel != on_fuel:
+            continue
+        last = max(s.year for s in electric)
+        if last + 1 > road.last_year:
+            continue
+        closing = [s.year for s in road.steps if s.project_id == milestone]
+        assert closing and closing[0] <= last + 1, (milestone, last, closing)
