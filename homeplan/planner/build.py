@@ -367,10 +367,8 @@ def _connection_words(ctx: Context, capacity: CapacityModel, done: set[str]) -> 
 def _emergency_words(e: Emergency) -> str:
     text = f"the {e.label} has failed: replaced at once, a home needs {e.service}"
     if e.other_cost_usd is not None and e.other_id:
-        gap = e.other_cost_usd - e.step_cost_usd
-        which = "less" if gap < 0 else "more"
-        text += (f" ({e.other_label.lower()} instead: {abs(gap):,.0f} USD {which} now, after "
-                 "point-of-sale incentives)")
+        which = "less" if e.other_cost_usd < e.step_cost_usd else "more"
+        text += f" ({e.other_label.lower()} instead would cost {which} now)"
     return text
 
 
