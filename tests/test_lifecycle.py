@@ -76,3 +76,33 @@ def test_catalog_life_matches_sources():
     assert catalog.service_life("water_heater", "electric", "heat_pump").median_life_years == 12
     for row in catalog.service_lives():
         assert row.source.strip(), row
+
+
+def test_conditional_yearly_risk_rises_with_age_when_parts_wear_out():
+    # Textbook property (e.g. Meeker & Escobar 1998, ch. 4): the Weibull hazard
+    # h(t) = (beta/eta) (t/eta)^(beta-1) increases with age for beta > 1, is constant for
+    # beta = 1 and falls for beta < 1. The one-year conditional risk 1 - S(a+1)/S(a) is
+    # checked against scipy.stats.weibull_min's survival function.
+    from scipy.stats import weibull_min
+
+    for shape in (1.5, 2.0, 3.5):
+        eta = lifecycle.weibull_scale(15, shape)
+        h = lifecycle.hazard_by_year(5.0, 20, eta, shape)
+        ages = 5.0 + np.arange(21)
+        sf = weibull_min.sf(ages, shape, scale=eta)
+        np.testing.assert_allclose(h, 1 - sf[1:] / sf[:-1], rtol=1e-9)
+        assert np.all(np.diff(h) > 0)
+    falling = lifecycle.hazard_by_year(5.0, 10, lifecycle.weibull_scale(15, 0.8), 0.8)
+    assert np.all(np.diff(falling) < 0)
+
+
+def test_outlook_shows_the_rising_conditional_risk_beside_the_cumulative():
+    # the same gas furnace (ASHRAE median 18 years, wear-out shape > 1): the chance it fails in a
+    # year if it lasted that long rises, while the unconditional yearly share falls
+    o = lifecycle.outlook("f", "gas furnace", "furnace", "gas", "", 2006, "good", 2027, years=8)
+    assert o.shape > 1
+    assert all(b > a for a, b in zip(o.hazard_pct, o.hazard_pct[1:], strict=False))
+    assert o.yearly_failure_pct[-1] < o.yearly_failure_pct[0]
+    # survival multiplies: 1 - cumulative = product of (1 - hazard) (definition of conditional risk)
+    surv = np.cumprod(1 - np.array(o.hazard_pct) / 100)
+    np.testing.assert_allclose(1 - surv, np.array(o.cumulative_failure_pct) / 100, rtol=1e-9)

@@ -152,11 +152,14 @@ def cmd_lifecycle(args) -> int:
     for o in outs:
         age = f"{o.age_years:.0f}" + ("?" if o.install_year_assumed else "")
         rows.append([o.key, o.label, age, f"{o.median_life_years:.0f}", o.expected_end_year,
-                     o.replace_by_year, *(f"{p:.0f}%" for p in o.yearly_failure_pct[:years])])
+                     o.replace_by_year, *(f"{h:.0f}/{c:.0f}" for h, c in
+                                          zip(o.hazard_pct[:years], o.cumulative_failure_pct[:years],
+                                              strict=True))])
     headers = ["id", "what", "age", "median life", "likely end", f"replace by ({plan.choices.replace_at_risk_pct:.0f}% risk)",
                *(str(first + i) for i in range(years))]
     print(text_table(headers, rows, "llrrrr" + "r" * years))
-    print("\nThe year columns give the chance it fails in that year, given it works today.")
+    print("\nEach year: the chance (%) it fails that year if it has lasted until then / the chance it "
+          "has failed\nby the end of that year, from today. The first rises with age for parts that wear out.")
     if any(o.install_year_assumed for o in outs):
         print("? install year unknown: assumed half-way through its median life.")
     return 0

@@ -17,6 +17,7 @@ __all__ = [
     "hourly_profile",
     "price_row",
     "read_table",
+    "sky_cover_ratios",
 ]
 
 DATA_DIR = Path(__file__).parent / "data"
@@ -207,3 +208,19 @@ def price_row(fuel: str) -> tuple[float, float]:
         if r["fuel"] == fuel:
             return float(r["usd_per_unit"]), float(r["fixed_usd_per_month"])
     raise KeyError(fuel)
+
+
+@cache
+def sky_cover_ratios() -> tuple[tuple[float, ...], tuple[float, ...]]:
+    """(mean total sky cover, annual GHI / clear-sky GHI) points of ``synthetic_sky.csv``.
+
+    Returns
+    -------
+    cover : tuple of float
+        Mean total sky cover, fraction (0-1), increasing.
+    ratio : tuple of float
+        Annual global horizontal irradiance over the clear-sky model's, fraction.
+    """
+    rows = sorted(read_table("synthetic_sky"), key=lambda r: float(r["mean_sky_cover"]))
+    return (tuple(float(r["mean_sky_cover"]) for r in rows),
+            tuple(float(r["ghi_clear_ratio"]) for r in rows))

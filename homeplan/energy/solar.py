@@ -12,12 +12,14 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from homeplan.energy import timegrid
 from homeplan.energy.units import f_to_c
 
 __all__ = [
     "SolarArraySpec",
     "SolarSite",
     "default_losses_pct",
+    "losses_without_shading_pct",
     "pvwatts_dc_kw",
     "pvwatts_inverter_kw",
 ]
@@ -27,7 +29,10 @@ __all__ = [
 class SolarArraySpec:
     """A fixed-tilt PV array of ``dc_kw`` (STC nameplate) facing ``azimuth_deg`` (180 = south).
 
-    ``losses_pct`` None means pvlib's ``pvwatts_losses()`` defaults (14.08 %).
+    ``losses_pct`` None means pvlib's ``pvwatts_losses()`` defaults (14.08 %, of which 3 % is
+    shading). ``shading_pct`` (a yearly loss) or ``shading_monthly_pct`` (12 values, January to
+    December) replaces that 3 % with the site's own shading loss; with an explicit
+    ``losses_pct`` they come on top of it.
     ``gamma_pdc`` is the PVWatts "standard" module temperature coefficient (-0.37 %/C).
 
     Attributes
@@ -52,6 +57,16 @@ class SolarArraySpec:
         pvlib transposition model, e.g. ``haydavies`` or ``perez``.
     albedo : float
         Ground reflectance, fraction.
+    shading_pct : float or None
+        Share of the array's DC output lost to shade over the year, percent; None uses the
+        PVWatts default.
+    shading_monthly_pct : tuple of float
+        Shade loss of each month, percent (12 values; empty = ``shading_pct`` all year).
+
+    Raises
+    ------
+    ValueError
+        If a shading loss is outside 0-100 % or the monthly profile has not 12 values.
 
     References
     ----------
@@ -68,6 +83,36 @@ class SolarArraySpec:
     temp_model: str = "open_rack_glass_polymer"
     transposition: str = "haydavies"
     albedo: float = 0.25
+    shading_pct: float | None = None
+    shading_monthly_pct: tuple[float, ...] = ()
+
+    def __post_init__(self) -> None:
+        object.__setattr__(self, "shading_monthly_pct", tuple(float(x) for x in self.shading_monthly_pct))
+        if self.shading_monthly_pct and len(self.shading_monthly_pct) != 12:
+            raise ValueError("shading_monthly_pct needs 12 values, January to December")
+        for x in (*self.shading_monthly_pct, *(() if self.shading_pct is None else (self.shading_pct,))):
+            if not 0.0 <= x <= 100.0:
+                raise ValueError(f"a shading loss must be 0-100 %, got {x:g}")
+
+    def shade_loss_pct(self) -> np.ndarray:
+        """Shade loss of every hour, percent (the PVWatts default when the spec gives none).
+
+        Returns
+        -------
+        numpy.ndarray
+            Shade loss of each hour, percent (8760 values).
+
+        References
+        ----------
+        Dobos (2014) NREL/TP-6A20-62641, system losses (shading category, 3 % default).
+        """
+        if self.shading_monthly_pct:
+            return np.asarray(self.shading_monthly_pct)[timegrid.hour_month() - 1]
+        if self.shading_pct is not None:
+            pct = self.shading_pct
+        else:
+            pct = _pvwatts_default_shading_pct() if self.losses_pct is None else 0.0
+        return np.full(timegrid.HOURS_PER_YEAR, float(pct))
 
     def shape_key(self) -> tuple:
         """Everything except the size: arrays with the same key share a per-kWdc profile.
@@ -78,7 +123,8 @@ class SolarArraySpec:
             Orientation, inverter, loss and model fields (a cache key).
         """
         return (self.tilt_deg, self.azimuth_deg, self.dc_ac_ratio, self.inverter_eff_nom,
-                self.gamma_pdc, self.losses_pct, self.temp_model, self.transposition, self.albedo)
+                self.gamma_pdc, self.losses_pct, self.temp_model, self.transposition, self.albedo,
+                self.shading_pct, self.shading_monthly_pct)
 
 
 def default_losses_pct() -> float:
@@ -96,6 +142,32 @@ def default_losses_pct() -> float:
     from pvlib.pvsystem import pvwatts_losses
 
     return float(pvwatts_losses())
+
+
+def _pvwatts_default_shading_pct() -> float:
+    """The shading category of pvlib's ``pvwatts_losses`` defaults, percent."""
+    import inspect
+
+    from pvlib.pvsystem import pvwatts_losses
+
+    return float(inspect.signature(pvwatts_losses).parameters["shading"].default)
+
+
+def losses_without_shading_pct() -> float:
+    """pvlib.pvsystem.pvwatts_losses() with its default categories except shading (set to 0).
+
+    Returns
+    -------
+    float
+        System losses other than shade, percent (11.4 %).
+
+    References
+    ----------
+    Dobos (2014) NREL/TP-6A20-62641 (PVWatts system losses, combined multiplicatively).
+    """
+    from pvlib.pvsystem import pvwatts_losses
+
+    return float(pvwatts_losses(shading=0.0))
 
 
 def pvwatts_dc_kw(poa_wm2: np.ndarray, temp_cell_c: np.ndarray, pdc0_kw: float,
@@ -258,8 +330,9 @@ class SolarSite:
         key = spec.shape_key()
         if key not in self._ac:
             g, tc = self.poa_and_cell_temp(spec)
-            losses = default_losses_pct() if spec.losses_pct is None else spec.losses_pct
-            pdc = pvwatts_dc_kw(g, tc, 1.0, spec.gamma_pdc) * (1.0 - losses / 100.0)
+            losses = losses_without_shading_pct() if spec.losses_pct is None else spec.losses_pct
+            pdc = (pvwatts_dc_kw(g, tc, 1.0, spec.gamma_pdc) * (1.0 - losses / 100.0)
+                   * (1.0 - spec.shade_loss_pct() / 100.0))
             pdc0_inv = 1.0 / spec.dc_ac_ratio / spec.inverter_eff_nom
             ac = pvwatts_inverter_kw(pdc, pdc0_inv, spec.inverter_eff_nom)
             ac.setflags(write=False)

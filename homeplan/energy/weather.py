@@ -14,11 +14,13 @@ from pathlib import Path
 import numpy as np
 
 from homeplan.energy import timegrid
+from homeplan.energy._data import sky_cover_ratios
 from homeplan.energy.units import c_to_f
 
 __all__ = [
     "ClimateNormals",
     "Weather",
+    "calibrated_ghi",
     "parse_epw_design_conditions",
     "read_epw",
     "read_tmy2",
@@ -397,7 +399,8 @@ class ClimateNormals:
     cooling_design_f : float
         1 % cooling design dry-bulb, F.
     cloudiness : float
-        Mean cloud cover, fraction (0-1).
+        Mean total sky cover, fraction (0-1): the yearly mean of a TMY file's total sky cover
+        (``TotCld``, tenths) divided by 10.
     tz_offset_h : float or None
         Standard-time offset from UTC, hours; None takes longitude / 15.
     altitude_m : float
@@ -523,14 +526,63 @@ def _calibrate_temperature(normals: ClimateNormals, comp: _Components) -> np.nda
     return temp(fit.x)
 
 
+def calibrated_ghi(clear_ghi_wm2: np.ndarray, cloud_h: np.ndarray, mean_sky_cover: float) -> np.ndarray:
+    """Hourly GHI from clear sky and cloud cover, scaled to the year a measured file would give.
+
+    Each hour takes the Kasten-Czeplak share of clear sky for its cloud cover, raised to one
+    power for the whole year, chosen so that the year's GHI over the clear-sky GHI equals the
+    ratio that NSRDB typical years show at the same mean total sky cover
+    (``energy/data/synthetic_sky.csv``: points from the TMY files shipped with pvlib,
+    interpolated linearly between them). A power keeps clear hours clear (their beam is what a
+    tilted array gains from) and moves only the cloudy ones.
+
+    Parameters
+    ----------
+    clear_ghi_wm2 : numpy.ndarray
+        Clear-sky global horizontal irradiance of each hour, W/m2 (8760 values).
+    cloud_h : numpy.ndarray
+        Cloud cover of each hour, fraction 0-1 (8760 values).
+    mean_sky_cover : float
+        The site's mean total sky cover, fraction 0-1.
+
+    Returns
+    -------
+    numpy.ndarray
+        Global horizontal irradiance of each hour, W/m2 (8760 values).
+
+    References
+    ----------
+    Kasten, F. & Czeplak, G. (1980), Solar Energy 24:177-189 (GHI = GHI_clear (1 - 0.75 N^3.4));
+    Wilcox & Marion (2008), NREL/TP-581-43156 (TMY3 total sky cover and GHI); Ineichen & Perez
+    (2002), Solar Energy 73:151-157 (clear sky, via pvlib).
+    """
+    cover, ratio = sky_cover_ratios()
+    target = float(np.interp(np.clip(mean_sky_cover, 0.0, 1.0), cover, ratio))
+    clear = np.nan_to_num(np.clip(clear_ghi_wm2, 0.0, None))
+    share = 1.0 - 0.75 * np.clip(cloud_h, 0.0, 1.0) ** 3.4      # 0.25 .. 1 of clear sky
+    want = target * float(clear.sum())
+    # share ** p keeps clear hours clear and darkens (p > 1) or lightens (p < 1) the cloudy ones;
+    # the year's total falls as p grows, so bisection on log p finds the exponent that hits it
+    lo, hi = -5.0, 5.0
+    for _ in range(60):
+        mid = 0.5 * (lo + hi)
+        if float((clear * share ** math.exp(mid)).sum()) > want:
+            lo = mid
+        else:
+            hi = mid
+    return clear * share ** math.exp(0.5 * (lo + hi))
+
+
 def synthetic_weather(normals: ClimateNormals) -> Weather:
     """A deterministic synthetic typical year calibrated to a site's climate normals.
 
     Temperature = mean + seasonal cosine + diurnal cycle (damped on cloudy days) + AR(1)
     day-to-day anomalies; the four free sizes are fitted by least squares so that HDD65 and
     CDD65 (daily-mean method) and the 1st/99th hourly percentiles match the targets. Irradiance is
-    pvlib's Ineichen clear sky scaled by the Kasten-Czeplak cloud-cover factor and split into
-    DNI/DHI with the Erbs model. The random generator is seeded from the inputs.
+    pvlib's Ineichen clear sky scaled hour by hour by the Kasten-Czeplak cloud-cover factor, then
+    as a whole so that the year's GHI is the share of clear sky that measured years show at that
+    mean sky cover (:func:`calibrated_ghi`), and split into DNI/DHI with the Erbs model. The
+    random generator is seeded from the inputs.
 
     Parameters
     ----------
@@ -571,8 +623,8 @@ def synthetic_weather(normals: ClimateNormals) -> Weather:
     except Exception:  # noqa: BLE001 - turbidity table unreadable: fall back to a simpler model
         clear = loc.get_clearsky(times, model="haurwitz", solar_position=solpos)
         clear["dni"] = 0.0
-    ghi = clear["ghi"].to_numpy(float) * (1.0 - 0.75 * comp.cloud_h ** 3.4)
-    ghi = np.nan_to_num(np.clip(ghi, 0.0, None))
+    clear_ghi = np.nan_to_num(np.clip(clear["ghi"].to_numpy(float), 0.0, None))
+    ghi = calibrated_ghi(clear_ghi, comp.cloud_h, normals.cloudiness)
     split = erbs(ghi, solpos["zenith"].to_numpy(float), times.day_of_year.to_numpy())
     dni = np.nan_to_num(np.clip(np.asarray(split["dni"], float), 0.0, None))
     dhi = np.nan_to_num(np.clip(np.asarray(split["dhi"], float), 0.0, None))

@@ -105,7 +105,8 @@ class Climate(Section):
         None, ge=50, le=125, description="1 % cooling design dry-bulb temperature."
     )
     cloudiness: float | None = Field(
-        None, ge=0, le=1, description="0 clear to 1 overcast; used by the built-in typical year."
+        None, ge=0, le=1, description="Mean total sky cover, 0 clear to 1 overcast (a TMY3 file's "
+        "TotCld / 10); used by the built-in typical year."
     )
     weather_file: str | None = Field(
         None, description="Path to an EPW or TMY3 file, relative to the plan file."
@@ -199,7 +200,12 @@ class Roof(Section):
     usable_area_ft2: float | None = Field(None, ge=0, le=20000, description="Area fit for panels.")
     tilt_deg: float = Field(22.6, ge=0, le=90, description="22.6 deg is a 5-in-12 pitch.")
     azimuth_deg: float = Field(180, ge=0, lt=360, description="Direction faced; 180 is south.")
-    shading_pct: Pct = 0
+    shading_pct: Pct | None = Field(
+        None, description="Share of a year's solar output lost to shade (trees, chimneys), as a "
+        "shade report gives it (100 minus the solar access); default: the PVWatts 3 %.")
+    shading_monthly_pct: list[Pct] | None = Field(
+        None, min_length=12, max_length=12,
+        description="Shade loss of each month, January to December (winter sun is lower).")
 
 
 class ExistingSolar(Section):

@@ -392,7 +392,9 @@ def home_basis(plan: Plan, base_dir: Path | None = None) -> HomeBasis:
         s = plan.home.solar
         solar = SolarArraySpec(dc_kw=s.size_kw, tilt_deg=s.tilt_deg or (roof.tilt_deg if roof else 25.0),
                                azimuth_deg=s.azimuth_deg or (roof.azimuth_deg if roof else 180.0),
-                               dc_ac_ratio=(s.size_kw / s.inverter_kw) if s.inverter_kw else 1.2)
+                               dc_ac_ratio=(s.size_kw / s.inverter_kw) if s.inverter_kw else 1.2,
+                               shading_pct=roof.shading_pct if roof else None,
+                               shading_monthly_pct=tuple((roof.shading_monthly_pct if roof else None) or ()))
     battery = None
     if plan.home.battery is not None:
         b = plan.home.battery

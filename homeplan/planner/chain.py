@@ -18,7 +18,6 @@ from __future__ import annotations
 from pathlib import Path
 
 from homeplan import catalog
-from homeplan.energy.solar import SolarArraySpec
 from homeplan.errors import PlanRuleError
 from homeplan.plan.load import LoadedPlan
 from homeplan.plan.model import Plan
@@ -29,6 +28,7 @@ from homeplan.planner.context import Context, PlannerCache
 from homeplan.planner.incentives import IncentiveModel, plan_programs
 from homeplan.planner.projects import detail
 from homeplan.planner.scheduling import schedule
+from homeplan.planner.states import roof_array
 from homeplan.result.plan_result import PlanResult
 
 __all__ = ["STAGES", "plan_roadmap", "prepare_home", "size_projects", "specific_yield"]
@@ -115,8 +115,5 @@ def size_projects(ctx: Context) -> Context:
 
 def specific_yield(ctx: Context) -> float:
     """kWh AC per kW DC per year on this roof (pvlib PVWatts via the energy engine)."""
-    roof = ctx.plan.home.roof
-    spec = SolarArraySpec(dc_kw=1.0, tilt_deg=roof.tilt_deg if roof else 25.0,
-                          azimuth_deg=roof.azimuth_deg if roof else 180.0)
-    return float(ctx.basis.site.pv_ac_kw(spec).sum())
+    return float(ctx.basis.site.pv_ac_kw(roof_array(ctx.plan, 1.0)).sum())
 

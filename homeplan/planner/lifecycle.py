@@ -114,11 +114,13 @@ def outlook(
         yearly = np.zeros(years)
         yearly[0] = 1.0
         cumulative = np.ones(years)
+        hazard = np.ones(years)
         end = replace_by = today_year
         mean_rem = 0.0
     else:
         yearly = yearly_failure_probability(eff_age, years, scale, life.weibull_shape)
         cumulative = cumulative_failure_probability(eff_age, years, scale, life.weibull_shape)
+        hazard = hazard_by_year(eff_age, years, scale, life.weibull_shape)
         rem_med = remaining_life_at_risk(eff_age, 0.5, scale, life.weibull_shape) * factor
         rem_risk = remaining_life_at_risk(eff_age, risk_pct / 100, scale, life.weibull_shape) * factor
         end = today_year + int(math.floor(rem_med))
@@ -132,6 +134,7 @@ def outlook(
         risk_pct=risk_pct, first_year=today_year,
         yearly_failure_pct=tuple(float(x) * 100 for x in yearly),
         cumulative_failure_pct=tuple(float(x) * 100 for x in cumulative), failed=failed,
+        hazard_pct=tuple(float(x) * 100 for x in hazard),
     )
 
 

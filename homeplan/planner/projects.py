@@ -93,7 +93,7 @@ def solar_size_kw(plan: Plan, annual_load_kwh: float, specific_yield: float) -> 
     want = array_kw_for_coverage(annual_load_kwh, max(specific_yield, 1.0), p["solar_target_coverage"])
     roof = plan.home.roof
     area = roof.usable_area_ft2 if roof and roof.usable_area_ft2 is not None else roof_area_ft2(plan) * 0.4
-    fit = area * (1 - (roof.shading_pct if roof else 0) / 100) / p["solar_ft2_per_kw"]
+    fit = area / p["solar_ft2_per_kw"]  # shade costs output (the energy model), not room
     return float(max(1.0, round(min(want, fit) * 2) / 2))
 
 

@@ -44,6 +44,7 @@ __all__ = [
     "heat_pump_class",
     "heat_pump_spec",
     "heat_pump_tons",
+    "roof_array",
     "simulate_state",
     "state_spec",
     "summarise_energy",
@@ -195,6 +196,16 @@ def _share_charger(vehicles: list[VehicleSpec], done: Iterable[Choice]) -> list[
     return out
 
 
+def roof_array(plan: Plan, dc_kw: float) -> SolarArraySpec:
+    """A new array of ``dc_kw`` on the plan's roof: its tilt, orientation and shade loss."""
+    roof = plan.home.roof
+    if roof is None:
+        return SolarArraySpec(dc_kw=dc_kw)
+    return SolarArraySpec(dc_kw=dc_kw, tilt_deg=roof.tilt_deg, azimuth_deg=roof.azimuth_deg,
+                          shading_pct=roof.shading_pct,
+                          shading_monthly_pct=tuple(roof.shading_monthly_pct or ()))
+
+
 def state_spec(basis: HomeBasis, plan: Plan, done: Iterable[Choice], label: str = "") -> HomeEnergySpec:
     """The home's energy spec after the projects in ``done``."""
     done = list(done)
@@ -233,10 +244,7 @@ def state_spec(basis: HomeBasis, plan: Plan, done: Iterable[Choice], label: str 
             vehicles[idx] = VehicleSpec(fuel="electricity", miles_per_yr=veh.miles_per_year,
                                         kwh_per_mile=p[f"ev_kwh_per_mile_{veh.body}"])
         elif k == "solar":
-            roof = plan.home.roof
-            spec = replace(spec, solar=SolarArraySpec(
-                dc_kw=c.size, tilt_deg=roof.tilt_deg if roof else 25.0,
-                azimuth_deg=roof.azimuth_deg if roof else 180.0))
+            spec = replace(spec, solar=roof_array(plan, c.size))
         elif k == "battery":
             spec = replace(spec, battery=BatterySpec(capacity_kwh=c.size,
                                                      power_kw=p["battery_default_kw"] * c.size / p["battery_default_kwh"]))

@@ -35,8 +35,9 @@ class LifeOutlook:
     risk_pct: float
     first_year: int
     yearly_failure_pct: tuple[float, ...]   # chance it fails in each future year, given it works today
-    cumulative_failure_pct: tuple[float, ...]
+    cumulative_failure_pct: tuple[float, ...]     # chance it has failed by the end of each year
     failed: bool = False
+    hazard_pct: tuple[float, ...] = ()      # chance it fails in each year if it made it to that year
 
     @property
     def fossil(self) -> bool:

@@ -120,13 +120,13 @@ class HomeView(View):
             cells = [name, Text(trunc(it.label, 24 if wide else 15)), age, str(o.expected_end_year)]
             if wide:
                 cells.append(str(o.replace_by_year))
-            table.add_row(*cells, risk_bar(o.yearly_failure_pct), note, key=it.key)
+            table.add_row(*cells, risk_bar(o.hazard_pct), note, key=it.key)
         if self.items:
             table.move_cursor(row=min(max(keep, 0), len(self.items) - 1), animate=False, scroll=False)
         legend = Text()
         legend.append("◆", style="bold")
         legend.append(" burns fuel  ")
-        legend.append("Risk: chance it fails in each year ahead (█ 20%+)  ? age assumed")
+        legend.append("Risk: chance it fails each year ahead if it lasted until then (█ 20%+)  ? age assumed")
         self.query_one("#home-legend", Static).update(legend)
         self.query_one("#home-info-text", Static).update(self._info(data))
 
@@ -206,5 +206,10 @@ class HomeView(View):
             out.append(f"Typical life {o.median_life_years:.0f} years: {o.source}.\n")
             out.append(f"Likely end {o.expected_end_year}; replace by {o.replace_by_year} at "
                        f"{o.risk_pct:.0f}% risk (Weibull model, computed).\n")
+            if o.hazard_pct and o.cumulative_failure_pct:
+                n = min(RISK_YEARS, len(o.hazard_pct)) - 1
+                out.append(f"Risk in {o.first_year}: {o.hazard_pct[0]:.0f}%; in {o.first_year + n} "
+                           f"{o.hazard_pct[n]:.0f}% if it lasts that long; {o.cumulative_failure_pct[n]:.0f}% "
+                           f"chance it has failed by the end of {o.first_year + n}.\n")
         out.append("Service, roof and bills are your inputs from the plan file.")
         return out
