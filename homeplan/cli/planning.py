@@ -63,18 +63,27 @@ def cmd_plan(args) -> int:
         print(f"  {m.year}: {m.label}")
     rate = loaded.plan.budget.discount_rate_pct
     fin = result.finance.plan if result.finance else None
-    irr = "" if fin is None or fin.irr_pct is None else f", a return of {fin.irr_pct:.1f} % a year"
-    print(f"\nNet present value against doing nothing: {usd(rm.npv_usd, 10)} at {rate:g} %{irr}")
+    irr = ("" if fin is None or fin.irr_vs_like_for_like_pct is None
+           else f", a return of {fin.irr_vs_like_for_like_pct:.1f} % a year")
+    print(f"\nNet present value of the plan at {rate:g} %:")
+    print(f"  against replacing each thing like-for-like when it is due: "
+          f"{usd(rm.npv_vs_like_for_like_usd, 10)}{irr}")
+    print(f"  against doing nothing (paying for breakdowns as they come): {usd(rm.npv_usd, 10)}")
     print("  (bill savings, minus spending net of incentives, plus the breakdown repairs avoided and "
           "the equipment's remaining value at the end)")
-    for b in rm.baselines[1:]:
-        print(f"  {b.name}: {usd(b.npv_usd, 10)}")
     for w in result.warnings:
         print(f"note: {w}")
     print()
     for c in rm.cautions:
         print(f"caution: {c}")
     return 0
+
+
+def _payback_words(r) -> str:
+    """A step's simple payback in words: at once when it costs no more than what it avoids."""
+    if r.incremental_cost_usd <= 0 and r.first_year_savings_usd >= 0:
+        return "at once"
+    return "never" if r.simple_payback_years is None else f"{r.simple_payback_years:.1f} yr"
 
 
 def cmd_capacity(args) -> int:
@@ -143,22 +152,29 @@ def cmd_costs(args) -> int:
     fin = result.finance
     returns = fin.projects if fin else {}
     if returns:
-        print("\nReturns per step (net cost up front, then the bill savings over its life):")
+        print("\nReturns per step (its cost beyond the like-for-like purchase it avoids when the old "
+              "one is due, then the bill savings over its life):")
         rows = []
         for s in rm.steps:
             r = returns.get(s.project_id)
             if r is None:
                 continue
-            rows.append([s.year, s.label, usd(r.first_year_savings_usd, 10), usd(r.npv_over_life_usd, 10),
-                         "-" if r.irr_pct is None else f"{r.irr_pct:.1f} %",
-                         "never" if r.simple_payback_years is None else f"{r.simple_payback_years:.1f} yr"])
-        print(text_table(["year", "step", "saves in year 1", "NPV over life", "IRR", "payback"], rows, "llrrrr"))
+            rows.append([s.year, s.label, usd(s.net_cost_usd, 10), usd(r.avoided_usd, 10),
+                         usd(r.incremental_cost_usd, 10), usd(r.first_year_savings_usd, 10),
+                         usd(r.npv_over_life_usd, 10), "-" if r.irr_pct is None else f"{r.irr_pct:.1f} %",
+                         _payback_words(r)])
+        print(text_table(["year", "step", "net", "avoids", "extra cost", "saves in year 1", "NPV over life",
+                          "IRR", "payback"], rows, "llrrrrrrr"))
     plan_r = fin.plan if fin else None
     if plan_r:
         irr = "-" if plan_r.irr_pct is None else f"{plan_r.irr_pct:.1f} %"
         pb = ("not within the horizon" if plan_r.simple_payback_years is None
               else f"{plan_r.simple_payback_years:.1f} years")
-        print(f"\nThe whole plan against doing nothing: IRR {irr}, simple payback {pb} (expected "
+        lirr = "-" if plan_r.irr_vs_like_for_like_pct is None else f"{plan_r.irr_vs_like_for_like_pct:.1f} %"
+        lpb = ("not within the horizon" if plan_r.simple_payback_vs_like_for_like_years is None
+               else f"{plan_r.simple_payback_vs_like_for_like_years:.1f} years")
+        print(f"\nThe whole plan against replacing like-for-like when due: IRR {lirr}, simple payback {lpb}.")
+        print(f"The whole plan against doing nothing: IRR {irr}, simple payback {pb} (expected "
               "breakdown costs avoided and the equipment's remaining value included).")
     hedge = fin.solar_hedge if fin else None
     if hedge:

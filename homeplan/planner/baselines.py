@@ -12,13 +12,15 @@ NIST Handbook 135, "Life-Cycle Costing Manual for the Federal Energy Management 
 
 from __future__ import annotations
 
+from dataclasses import dataclass
+
 from homeplan.money.finance import discount_factor, remaining_value_share
 from homeplan.planner.breakdowns import breakdown_cost, lfl_cost, replaceable_items
 from homeplan.planner.context import Context
 from homeplan.planner.states import StateEnergy
 from homeplan.result.roadmap import Baseline, YearTotals
 
-__all__ = ["bills_in_year", "do_nothing", "like_for_like"]
+__all__ = ["LikeForLike", "bills_in_year", "do_nothing", "like_for_like", "like_for_like_money"]
 
 
 def bills_in_year(ctx: Context, bills: dict[str, float], t: int) -> dict[str, float]:
@@ -44,32 +46,64 @@ def do_nothing(ctx: Context, base_energy: StateEnergy, headroom_amps: float = 0.
     return Baseline("do_nothing", "do nothing (pay for breakdowns as they come)", tuple(years), 0.0)
 
 
-def like_for_like(ctx: Context, base_energy: StateEnergy, headroom_amps: float = 0.0,
-                  load_pct: float | None = None) -> Baseline:
-    """Replace each appliance with the same kind on the same fuel in its likely end-of-life year."""
+@dataclass(frozen=True)
+class LikeForLike:
+    """Replacing each item like-for-like at its likely end of life, as money by year.
+
+    ``spend_usd``: what the replacements cost in each year (nominal); ``flows_usd``: the yearly
+    cash flows against doing nothing (the replacements paid, the breakdowns before them that
+    doing nothing would pay and this does not, and in the last year the present worth of the
+    replacements' remaining value, carried to that year); ``npv_usd`` their present value.
+    """
+
+    spend_usd: tuple[float, ...]
+    flows_usd: tuple[float, ...]
+    npv_usd: float
+
+
+def like_for_like_money(ctx: Context) -> LikeForLike:
+    """The like-for-like baseline's money: the same rule for its years and for its NPV.
+
+    References
+    ----------
+    NIST Handbook 135 (present value; residual value by straight-line depreciation).
+    """
     rate = ctx.plan.budget.discount_rate_pct
     infl = ctx.plan.prices.inflation_pct / 100.0
-    spend: dict[int, float] = {}
-    breakdowns_before: dict[str, int] = {}
+    T = len(ctx.years)
+    end = ctx.first_year + T
+    spend = [0.0] * T
+    avoided = [0.0] * T   # breakdowns doing nothing pays that the timely replacement avoids
     salvage = 0.0
-    end = ctx.first_year + len(ctx.years)
     for key, (_pid, item_cost) in replaceable_items(ctx).items():
         o = ctx.outlooks[key]
         y = max(o.expected_end_year, ctx.first_year)
-        breakdowns_before[key] = y
         if y < end:
             today = item_cost if item_cost is not None else lfl_cost(ctx, key)
             c = today * (1 + infl) ** (y - ctx.first_year)
-            spend[y] = spend.get(y, 0.0) + c
+            spend[y - ctx.first_year] += c
             salvage += c * remaining_value_share(end - y, o.median_life_years)
+        for t in range(min(y, end) - ctx.first_year, T):
+            avoided[t] += breakdown_cost(ctx, key, t, item_cost)
+    flows = [avoided[t] - spend[t] for t in range(T)]
+    flows[-1] += salvage * discount_factor(rate, T) / discount_factor(rate, T - 1)
+    npv = sum(f * discount_factor(rate, t) for t, f in enumerate(flows))
+    return LikeForLike(tuple(spend), tuple(flows), npv)
+
+
+def like_for_like(ctx: Context, base_energy: StateEnergy, headroom_amps: float = 0.0,
+                  load_pct: float | None = None) -> Baseline:
+    """Replace each appliance with the same kind on the same fuel in its likely end-of-life year.
+
+    Its ``npv_usd`` is against doing nothing (both pay for the breakdowns before replacement).
+    """
+    money = like_for_like_money(ctx)
     years = []
     cumulative = 0.0
-    npv = 0.0
     for t, year in enumerate(ctx.years):
         bills = bills_in_year(ctx, base_energy.bills_usd, t)
-        s = spend.get(year, 0.0)
+        s = money.spend_usd[t]
         cumulative += s + sum(bills.values())
-        npv -= s * discount_factor(rate, t)
         years.append(YearTotals(year=year, spend_usd=round(s, 2), net_usd=round(s, 2),
                                 bills_usd={k: round(v, 2) for k, v in bills.items()},
                                 cumulative_usd=round(cumulative, 2),
@@ -78,9 +112,5 @@ def like_for_like(ctx: Context, base_energy: StateEnergy, headroom_amps: float =
                                 service_headroom_amps=round(headroom_amps, 1),
                                 energy={k: round(v, 1) for k, v in base_energy.units.items()},
                                 service_load_pct=load_pct))
-    npv += salvage * discount_factor(rate, len(ctx.years))
-    for key, (_pid, item_cost) in replaceable_items(ctx).items():
-        until = min(breakdowns_before[key], end) - ctx.first_year
-        npv -= sum(breakdown_cost(ctx, key, t, item_cost) * discount_factor(rate, t) for t in range(until))
     return Baseline("like_for_like", "replace like-for-like at the likely end of life", tuple(years),
-                    round(npv, 2))
+                    round(money.npv_usd, 2))

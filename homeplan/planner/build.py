@@ -24,7 +24,7 @@ from homeplan import catalog
 from homeplan.money.finance import Loan, discount_factor, loan_schedule, remaining_value_share
 from homeplan.plan.fuels import BILL_FUELS, HOME_FUELS, appliance_fuel
 from homeplan.plan.hashing import content_hash
-from homeplan.planner.baselines import bills_in_year, do_nothing, like_for_like
+from homeplan.planner.baselines import bills_in_year, do_nothing, like_for_like, like_for_like_money
 from homeplan.planner.breakdowns import (
     LFL_PREFIX,
     breakdowns_by_year,
@@ -40,11 +40,13 @@ from homeplan.planner.capacity import (
     other_method_capacity,
     state_capacity,
 )
+from homeplan.planner.compare import avoided_like_for_like
 from homeplan.planner.context import Context
 from homeplan.planner.finance import plan_returns, project_returns, solar_hedge
 from homeplan.planner.incentives import AwardLine, IncentiveModel
 from homeplan.planner.projects import cost_in_year_usd
 from homeplan.planner.scheduling import COVER_PREFIX, ORDER_PREFIX, ScheduleOutcome, work_order
+from homeplan.planner.states import battery_power_kw, roof_array
 from homeplan.result.figures import (
     CapacityState,
     Finance,
@@ -56,7 +58,7 @@ from homeplan.result.plan_result import PlanResult
 from homeplan.result.roadmap import Emergency, IncentiveLine, Milestone, Roadmap, Step, YearTotals
 from homeplan.schedule.problem import evaluate
 
-__all__ = ["assumptions", "build_result", "hourly_profiles", "milestones_of", "project_infos"]
+__all__ = ["assumptions", "build_result", "hourly_profiles", "milestones_of", "project_infos", "size_fields"]
 
 MILESTONE_KIND = {"close_gas": "gas_service_closed", "remove_propane_tank": "propane_tank_removed",
                   "remove_oil_tank": "oil_tank_removed"}
@@ -176,9 +178,9 @@ def build_result(ctx: Context, capacity: CapacityModel, incentives: IncentiveMod
     # every NPV is against doing nothing: keeping today's home and paying for its breakdowns
     reference = expected_breakdowns(ctx, {})
     npv += reference
-    lfl_baseline = like_for_like(ctx, base_energy, today_cap.headroom_amps, today_cap.load_pct)
+    lfl_money = like_for_like_money(ctx)
     baselines = (do_nothing(ctx, base_energy, today_cap.headroom_amps, today_cap.load_pct),
-                 replace(lfl_baseline, npv_usd=round(lfl_baseline.npv_usd + reference, 2)))
+                 like_for_like(ctx, base_energy, today_cap.headroom_amps, today_cap.load_pct))
     cautions = [cautions_all["planning"]]
     for s in steps:
         for c in s.cautions:
@@ -189,7 +191,8 @@ def build_result(ctx: Context, capacity: CapacityModel, incentives: IncentiveMod
     roadmap = Roadmap(
         plan_name=plan.home.name or "home", first_year=ctx.first_year, horizon_years=T,
         objective=outcome.problem.objective, steps=tuple(steps), years=tuple(years),
-        milestones=milestones_of(ctx, done), baselines=baselines, npv_usd=round(npv, 2), status="ok",
+        milestones=milestones_of(ctx, done), baselines=baselines, npv_usd=round(npv, 2),
+        npv_vs_like_for_like_usd=round(npv - lfl_money.npv_usd, 2), status="ok",
         assumptions=assumptions(ctx), cautions=tuple(cautions), emergencies=emergencies,
     )
     capacity_states = _capacity_states(ctx, capacity, done, by_year, today_cap, notes_out)
@@ -198,7 +201,7 @@ def build_result(ctx: Context, capacity: CapacityModel, incentives: IncentiveMod
         energy_before=base_energy.summary, energy_after=ctx.energy(frozenset(done), "after the plan").summary,
         programs=incentives.uses(incentive_result), content_hash=content_hash(plan),
         warnings=tuple(dict.fromkeys(notes_out)),
-        finance=Finance(plan=plan_returns(roadmap, rate, extra_flows, roadmap.npv_usd),
+        finance=Finance(plan=plan_returns(roadmap, rate, extra_flows, roadmap.npv_usd, lfl_money.flows_usd),
                         projects=project_returns(ctx, outcome, roadmap),
                         solar_hedge=solar_hedge(ctx, roadmap)),
         solver=SolverReport(status=sol.status, seconds=sol.solve_time_s, passes=outcome.passes),
@@ -225,7 +228,7 @@ def _steps(ctx: Context, capacity: CapacityModel, outcome: ScheduleOutcome, done
             step = lfl_step(ctx, outcome, pid, lfl[pid])
             if pid in urgent:
                 step = replace(step, reasons=(_emergency_words(urgent[pid]),))
-            steps.append(step)
+            steps.append(replace(step, avoided_usd=step.net_cost_usd, incremental_cost_usd=0.0))
             continue
         year = done[pid]
         d = ctx.details[pid]
@@ -251,15 +254,32 @@ def _steps(ctx: Context, capacity: CapacityModel, outcome: ScheduleOutcome, done
         caution_ids = list(d.candidate.cautions)
         if d.kind == "envelope" and _burns_fuel_during(ctx, {**done, **lfl}, year):
             caution_ids.append("combustion_test")
+        avoided = avoided_like_for_like(ctx, pid, year)
+        if avoided.items:
+            extra_reasons.append(f"the {' and the '.join(avoided.items)} would need replacing this year "
+                                 f"anyway (about {avoided.cost_usd:,.0f} USD like-for-like)")
         steps.append(Step(
             project_id=pid, label=d.label, year=year, variant=d.variant_label, size=d.size_text(),
             cost_usd=round(cost, 2), incentives=lines,
             net_cost_usd=round(cost - sum(i.amount_usd for i in lines), 2),
             reasons=tuple(extra_reasons),
             cautions=tuple(cautions_all[c] for c in caution_ids if c in cautions_all),
-            replaces=d.candidate.replaces,
+            replaces=d.candidate.replaces, avoided_usd=round(avoided.cost_usd, 2),
+            **size_fields(ctx, pid),
         ))
     return steps
+
+
+def size_fields(ctx: Context, pid: str) -> dict[str, float]:
+    """A sized step's size for the JSON: solar DC kW and first full year's AC kWh; a battery's
+    usable kWh and kW."""
+    d = ctx.details[pid]
+    if d.kind == "solar":
+        kwh = float(ctx.basis.site.pv_ac_kw(roof_array(ctx.plan, d.size)).sum())
+        return {"dc_kw": round(d.size, 2), "production_kwh": round(kwh, 0)}
+    if d.kind == "battery":
+        return {"kwh": round(d.size, 2), "kw": round(battery_power_kw(d.size), 2)}
+    return {}
 
 
 def _burns_fuel_during(ctx: Context, placed: dict[str, int], year: int) -> bool:

@@ -30,8 +30,11 @@ def _round(x: float | None, nd: int = 1) -> float | None:
 
 
 def plan_returns(roadmap: Roadmap, discount_rate_pct: float, extra_flows: list[float] | None = None,
-                 npv_vs_do_nothing_usd: float | None = None) -> PlanReturns:
-    """Cash flows of the plan against doing nothing, year by year, and their returns.
+                 npv_vs_do_nothing_usd: float | None = None,
+                 like_for_like_flows: tuple[float, ...] | list[float] | None = None) -> PlanReturns:
+    """Cash flows of the plan against doing nothing, year by year, and their returns; and, with
+    ``like_for_like_flows`` (the like-for-like baseline against doing nothing), the plan against
+    replacing like-for-like: the difference of the two, year by year.
 
     Each year: bill savings, minus what the plan spends (net of incentives received), minus loan
     payments, plus ``extra_flows`` (the expected breakdown costs the plan avoids, and in the last
@@ -41,17 +44,29 @@ def plan_returns(roadmap: Roadmap, discount_rate_pct: float, extra_flows: list[f
     flows = [y.bill_savings_usd - (y.spend_usd - y.incentives_usd) - y.loan_payments_usd + e
              for y, e in zip(roadmap.years, extra, strict=True)]
     npv = npv_vs_do_nothing_usd if npv_vs_do_nothing_usd is not None else npv_usd(discount_rate_pct, flows)
+    vs_lfl: dict = {}
+    if like_for_like_flows is not None:
+        diff = [f - b for f, b in zip(flows, like_for_like_flows, strict=True)]
+        vs_lfl = {
+            "like_for_like_flows_usd": tuple(round(f, 2) for f in like_for_like_flows),
+            "npv_vs_like_for_like_usd": round(npv - npv_usd(discount_rate_pct, list(like_for_like_flows)), 2),
+            "irr_vs_like_for_like_pct": _round(irr_pct(diff)),
+            "simple_payback_vs_like_for_like_years": _round(simple_payback_years(diff)),
+        }
     return PlanReturns(
         flows_usd=tuple(round(f, 2) for f in flows),
         npv_vs_do_nothing_usd=round(npv, 2),
         irr_pct=_round(irr_pct(flows)),
         simple_payback_years=_round(simple_payback_years(flows)),
         discounted_payback_years=_round(discounted_payback_years(discount_rate_pct, flows)),
+        **vs_lfl,
     )
 
 
 def project_returns(ctx: Context, outcome: ScheduleOutcome, roadmap: Roadmap) -> dict[str, StepReturns]:
-    """Per step: pay the net cost up front, then save its bills over its life."""
+    """Per step: pay its incremental cost up front - the net cost less the like-for-like
+    purchase it avoids when the old item is due (the full net cost when it is not) - then save
+    its bills over its life."""
     rate = ctx.plan.budget.discount_rate_pct
     out = {}
     for s in roadmap.steps:
@@ -61,7 +76,8 @@ def project_returns(ctx: Context, outcome: ScheduleOutcome, roadmap: Roadmap) ->
             continue
         t0 = s.year - ctx.first_year
         life = int(round(min(d.life_years, 30)))  # milestones "last" 100 years; count 30 at most
-        flows = [-s.net_cost_usd]
+        incremental = s.incremental_cost_usd if s.incremental_cost_usd is not None else s.net_cost_usd
+        flows = [-incremental]
         for k in range(1, life + 1):
             flows.append(sum(v * (1 + ctx.escalation(f)) ** (t0 + k) for f, v in co.savings_by_fuel.items()))
         out[s.project_id] = StepReturns(
@@ -70,6 +86,8 @@ def project_returns(ctx: Context, outcome: ScheduleOutcome, roadmap: Roadmap) ->
             irr_pct=_round(irr_pct(flows)) if any(f > 0 for f in flows[1:]) else None,
             simple_payback_years=_round(simple_payback_years(flows)),
             discounted_payback_years=_round(discounted_payback_years(rate, flows)),
+            incremental_cost_usd=round(incremental, 2), avoided_usd=s.avoided_usd,
+            flows_usd=tuple(round(f, 2) for f in flows),
         )
     return out
 

@@ -23,6 +23,7 @@ from homeplan.catalog import performance
 from homeplan.electrical.loads import Service
 from homeplan.electrical.nec705 import backfeed_check, derated_main_options
 from homeplan.planner.context import Context
+from homeplan.planner.states import battery_power_kw
 
 __all__ = ["Connection", "connection_options", "inverter_amps"]
 
@@ -57,14 +58,13 @@ class Connection:
 def inverter_amps(ctx: Context, pids: set[str] | frozenset[str]) -> float:
     """Inverter output current of the new solar and battery ``pids`` and of any the home has, A
     (an array's AC rating at a 1.2 DC/AC ratio, the PVWatts default; a battery at its power)."""
-    p = performance()
     amps = 0.0
     for pid in pids:
         d = ctx.details[pid]
         if d.kind == "solar":
             amps += d.size / 1.2 * 1000.0 / 240.0
         elif d.kind == "battery":
-            amps += p["battery_default_kw"] * d.size / p["battery_default_kwh"] * 1000 / 240
+            amps += battery_power_kw(d.size) * 1000 / 240
     h = ctx.plan.home
     if h.solar is not None:
         amps += (h.solar.inverter_kw or h.solar.size_kw / 1.2) * 1000.0 / 240.0

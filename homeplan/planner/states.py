@@ -38,6 +38,7 @@ from homeplan.result.figures import EnergySummary
 __all__ = [
     "APPLY_ORDER",
     "Choice",
+    "battery_power_kw",
     "StateEnergy",
     "cooling_load_btuh",
     "heat_pump_backup",
@@ -196,6 +197,13 @@ def _share_charger(vehicles: list[VehicleSpec], done: Iterable[Choice]) -> list[
     return out
 
 
+def battery_power_kw(kwh: float) -> float:
+    """Continuous power of a new battery of ``kwh`` usable energy: one common unit's power per
+    unit's energy (data/equipment_performance.csv, common practice, no source)."""
+    p = performance()
+    return float(p["battery_default_kw"] * kwh / p["battery_default_kwh"])
+
+
 def roof_array(plan: Plan, dc_kw: float) -> SolarArraySpec:
     """A new array of ``dc_kw`` on the plan's roof: its tilt, orientation and shade loss."""
     roof = plan.home.roof
@@ -246,8 +254,7 @@ def state_spec(basis: HomeBasis, plan: Plan, done: Iterable[Choice], label: str 
         elif k == "solar":
             spec = replace(spec, solar=roof_array(plan, c.size))
         elif k == "battery":
-            spec = replace(spec, battery=BatterySpec(capacity_kwh=c.size,
-                                                     power_kw=p["battery_default_kw"] * c.size / p["battery_default_kwh"]))
+            spec = replace(spec, battery=BatterySpec(capacity_kwh=c.size, power_kw=battery_power_kw(c.size)))
         elif k == "envelope":
             cut = float(kinds["envelope"].extra.get("heat_loss_cut_pct", 15)) / 100.0
             spec = replace(spec, ua_btuh_f=spec.ua_btuh_f * (1.0 - cut))

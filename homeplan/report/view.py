@@ -245,6 +245,9 @@ def _headline(result: Any) -> list[tuple[str, str]]:
     out.append(("installed cost", money(cost)))
     out.append(("incentives", money(inc)))
     out.append(("you pay", money(net)))
+    if finite(getattr(road, "npv_vs_like_for_like_usd", float("nan"))):
+        out.append(("net present value vs replacing like-for-like when due",
+                    money_signed(road.npv_vs_like_for_like_usd)))
     if finite(road.npv_usd):
         out.append(("net present value vs doing nothing", money_signed(road.npv_usd)))
     before, after = result.energy_before, result.energy_after

@@ -114,24 +114,38 @@ caps_note, ends): the money engine's own per-program total."""
 
 @dataclass(frozen=True)
 class PlanReturns:
-    """The whole plan against doing nothing: its yearly cash flows and their returns."""
+    """The whole plan against doing nothing, and against replacing like-for-like when things are
+    due (the comparison a household decides on): yearly cash flows and their returns.
+
+    ``flows_usd`` are the plan's flows against doing nothing; ``like_for_like_flows_usd`` the
+    like-for-like baseline's against doing nothing; the plan against like-for-like is their
+    difference, year by year (``npv_vs_like_for_like_usd`` is its net present value).
+    """
 
     flows_usd: tuple[float, ...]
     npv_vs_do_nothing_usd: float
     irr_pct: float | None
     simple_payback_years: float | None
     discounted_payback_years: float | None
+    like_for_like_flows_usd: tuple[float, ...] = ()
+    npv_vs_like_for_like_usd: float | None = None
+    irr_vs_like_for_like_pct: float | None = None
+    simple_payback_vs_like_for_like_years: float | None = None
 
 
 @dataclass(frozen=True)
 class StepReturns:
-    """One step alone: its net cost up front, then its bill savings over its life."""
+    """One step alone: its incremental cost up front (its net cost less the like-for-like
+    purchase it avoids, when the old item is due), then its bill savings over its life."""
 
     first_year_savings_usd: float
     npv_over_life_usd: float
     irr_pct: float | None
     simple_payback_years: float | None
     discounted_payback_years: float | None
+    incremental_cost_usd: float = 0.0
+    avoided_usd: float = 0.0
+    flows_usd: tuple[float, ...] = ()     # the incremental cost (negative), then each year's savings
 
 
 @dataclass(frozen=True)

@@ -40,7 +40,7 @@ __all__ = [
     "YearTotals",
 ]
 
-SCHEMA_VERSION = "1.3"
+SCHEMA_VERSION = "1.4"
 """Version of the JSON produced by :meth:`Roadmap.to_dict`. Bump the minor part for added
 fields, the major part for renamed/removed fields or changed meaning."""
 
@@ -135,6 +135,12 @@ class Step:
     ``cautions`` are safety notes (see ``homeplan/data/cautions.yaml``); ``replaces`` are the ids
     of the appliances, vehicles or roof the step takes over (empty for additions). Within a year
     the roadmap lists steps in the order the work is done.
+
+    ``incremental_cost_usd`` is what the step costs beyond the like-for-like purchase it avoids
+    (``avoided_usd``: the same-kind replacements of the items it takes over that are due that
+    year; 0 when none is due, and then it equals ``net_cost_usd``). Sized steps carry their size:
+    solar ``dc_kw`` and ``production_kwh`` (AC, first full year), a battery ``kwh`` (usable) and
+    ``kw``; None for other steps.
     """
 
     project_id: str
@@ -149,9 +155,17 @@ class Step:
     reasons: tuple[str, ...] = ()
     cautions: tuple[str, ...] = ()
     replaces: tuple[str, ...] = ()
+    incremental_cost_usd: float | None = None
+    avoided_usd: float = 0.0
+    dc_kw: float | None = None
+    production_kwh: float | None = None
+    kwh: float | None = None
+    kw: float | None = None
 
     def __post_init__(self) -> None:
         object.__setattr__(self, "incentives", _tuple(self.incentives))
+        if self.incremental_cost_usd is None:
+            object.__setattr__(self, "incremental_cost_usd", round(self.net_cost_usd - self.avoided_usd, 2))
         object.__setattr__(self, "reasons", _tuple(self.reasons))
         object.__setattr__(self, "cautions", _tuple(self.cautions))
         object.__setattr__(self, "replaces", _tuple(self.replaces))
@@ -174,6 +188,10 @@ class Step:
             "reasons": list(self.reasons),
             "cautions": list(self.cautions),
             "replaces": list(self.replaces),
+            "incremental_cost_usd": _json_number(self.incremental_cost_usd),
+            "avoided_usd": _json_number(self.avoided_usd),
+            **{k: _json_number(v) for k, v in (("dc_kw", self.dc_kw), ("production_kwh", self.production_kwh),
+                                                ("kwh", self.kwh), ("kw", self.kw)) if v is not None},
         }
 
     @classmethod
@@ -191,6 +209,11 @@ class Step:
             reasons=tuple(data.get("reasons", ())),
             cautions=tuple(data.get("cautions", ())),
             replaces=tuple(data.get("replaces", ())),
+            incremental_cost_usd=(None if data.get("incremental_cost_usd") is None
+                                  else float(data["incremental_cost_usd"])),
+            avoided_usd=_num(data.get("avoided_usd", 0.0)),
+            **{k: (None if data.get(k) is None else float(data[k]))
+               for k in ("dc_kw", "production_kwh", "kwh", "kw")},
         )
 
 
@@ -392,9 +415,11 @@ class Emergency:
 class Roadmap:
     """The full result of planning one home.
 
-    ``npv_usd`` is the net present value of the plan relative to the do-nothing baseline
-    (benefits minus costs, discounted to ``first_year``), computed from the full simulation, not
-    from the solver's linear approximation. ``status`` is ``"ok"`` or ``"infeasible"``; when
+    ``npv_vs_like_for_like_usd`` is the net present value of the plan relative to replacing
+    each item like-for-like when it is due (the comparison a household decides on: the headline);
+    ``npv_usd`` the same relative to doing nothing (benefits minus costs, discounted to
+    ``first_year``). Both come from the full simulation, not from the solver's linear
+    approximation. ``status`` is ``"ok"`` or ``"infeasible"``; when
     infeasible, ``infeasibility`` explains the blocking constraint and the smallest change that
     makes the request feasible, and ``steps`` is empty. ``assumptions`` records the inputs that
     shaped the result (discount rate, escalation, budget...) as JSON-safe values.
@@ -415,6 +440,7 @@ class Roadmap:
     cautions: tuple[str, ...] = ()
     emergencies: tuple[Emergency, ...] = ()
     schema_version: str = SCHEMA_VERSION
+    npv_vs_like_for_like_usd: float = float("nan")
 
     def __post_init__(self) -> None:
         object.__setattr__(self, "emergencies", _tuple(self.emergencies))
@@ -446,6 +472,7 @@ class Roadmap:
             "objective": self.objective,
             "status": self.status,
             "infeasibility": self.infeasibility,
+            "npv_vs_like_for_like_usd": _json_number(self.npv_vs_like_for_like_usd),
             "npv_usd": _json_number(self.npv_usd),
             "steps": [s.to_dict() for s in self.steps],
             "years": [y.to_dict() for y in self.years],
@@ -475,6 +502,7 @@ class Roadmap:
             milestones=tuple(Milestone.from_dict(m) for m in data.get("milestones", ())),
             baselines=tuple(Baseline.from_dict(b, i) for i, b in enumerate(data.get("baselines", ()))),
             npv_usd=_num(data.get("npv_usd", 0.0)),
+            npv_vs_like_for_like_usd=_num(data.get("npv_vs_like_for_like_usd")),
             status=data.get("status", "ok"),
             infeasibility=data.get("infeasibility"),
             assumptions=dict(data.get("assumptions", {})),

@@ -84,7 +84,8 @@ class MoneyView(View):
                                   scroll=False)
         chart = running_chart(data, self.app.size.width)
         if rm is not None:
-            chart.append(f"Net present value of the plan against doing nothing: {usd(rm.npv_usd)}"
+            chart.append(f"Net present value of the plan against replacing like-for-like when due: "
+                         f"{usd(rm.npv_vs_like_for_like_usd)}; against doing nothing: {usd(rm.npv_usd)}"
                          " (today's dollars).\n")
             chart.append("US dollars, k = thousand. Back: incentives arriving. Σ: running total "
                          "since the first year for this plan, doing nothing, and replacing each "
