@@ -27,12 +27,14 @@ __all__ = [
     "cautions",
     "condition_factors",
     "existing_load_row",
+    "gasoline_vehicle_price",
     "like_for_like_cost",
     "like_for_like_table",
     "performance",
     "reference_climates",
     "service_life",
     "service_lives",
+    "size_options",
     "upgrade_kinds",
 ]
 
@@ -211,6 +213,22 @@ def performance() -> dict[str, float]:
     """Equipment and practice defaults by key (``data/equipment_performance.csv``)."""
     rows = csv.DictReader(_data_text("equipment_performance.csv").splitlines())
     return {r["key"]: float(r["value"]) for r in rows}
+
+
+@cache
+def size_options(kind: str) -> tuple[float, ...]:
+    """The sizes the optimiser is offered for a sized upgrade (``data/size_options.csv``):
+    shares of the largest array for ``solar``, usable kWh for ``battery``."""
+    rows = csv.DictReader(_data_text("size_options.csv").splitlines())
+    return tuple(sorted(float(r["size"]) for r in rows if r["kind"] == kind))
+
+
+@cache
+def gasoline_vehicle_price(body: str) -> float:
+    """Price of a new comparable gasoline vehicle by body (``car``, ``suv``, ``truck``), USD
+    (``data/vehicle_prices.csv``): what an electric vehicle's premium is measured against."""
+    rows = csv.DictReader(_data_text("vehicle_prices.csv").splitlines())
+    return next(float(r["gasoline_usd"]) for r in rows if r["body"] == body)
 
 
 @dataclass(frozen=True)

@@ -17,6 +17,7 @@ __all__ = [
     "FuelPrice",
     "FuelPrices",
     "TouPeriod",
+    "battery_windows",
     "electric_bill",
     "fuel_bill",
     "hourly_price",
@@ -76,6 +77,9 @@ class ElectricRate:
         True-up payout for leftover net metering credit, USD per kWh of annual net export.
     min_bill_usd : float
         Minimum bill, USD per month.
+    export_limit_kw : float or None
+        Largest export the interconnection allows, kW (AC); the inverter curtails the rest.
+        None: no limit, except that ``export="none"`` is a non-export system (limit 0).
 
     Raises
     ------
@@ -95,10 +99,27 @@ class ElectricRate:
     export_usd_per_kwh: float = 0.05
     true_up_usd_per_kwh: float = 0.03
     min_bill_usd: float = 0.0
+    export_limit_kw: float | None = None
 
     def __post_init__(self) -> None:
         if self.export not in ("net_metering", "net_billing", "none"):
             raise ValueError("export must be net_metering, net_billing or none")
+        if self.export_limit_kw is not None and self.export_limit_kw < 0:
+            raise ValueError("export_limit_kw must not be negative")
+
+    @property
+    def export_cap_kw(self) -> float | None:
+        """The export the grid accepts in an hour, kW: 0 for a non-export system, the limit when
+        one is set, else None (no limit).
+
+        Returns
+        -------
+        float or None
+            Export limit, kW; None for no limit.
+        """
+        if self.export == "none":
+            return 0.0
+        return self.export_limit_kw
 
 
 @dataclass(frozen=True)
@@ -159,6 +180,42 @@ class FuelPrices:
             If ``fuel`` has no price.
         """
         return self.prices[fuel]
+
+
+def battery_windows(rate: ElectricRate, round_trip_eff: float = 0.90
+                    ) -> tuple[tuple[int, ...], tuple[int, ...]] | None:
+    """Hours of the day a battery should discharge (the tariff's dearest) and may charge from
+    the grid (the cheapest, when buying there and selling back later pays for the losses).
+
+    Parameters
+    ----------
+    rate : ElectricRate
+        The tariff.
+    round_trip_eff : float
+        AC-to-AC round-trip efficiency of the battery, fraction.
+
+    Returns
+    -------
+    tuple of (tuple of int, tuple of int) or None
+        (charge hours, discharge hours), hours of day 0-23; None for a flat rate (no windows:
+        the battery only stores surplus solar). The charge hours are empty when the spread does
+        not pay for the losses.
+
+    References
+    ----------
+    DiOrio et al. (2015), NREL/TP-6A20-64641 (SAM battery dispatch: time-of-use strategy).
+    """
+    if not rate.tou_periods:
+        return None
+    price = hourly_price(rate)
+    by_hour = price.reshape(timegrid.DAYS_PER_YEAR, 24).mean(axis=0)
+    top, low = float(by_hour.max()), float(by_hour.min())
+    if top - low < 1e-9:
+        return None
+    discharge = tuple(int(h) for h in np.flatnonzero(by_hour >= top - 0.1 * (top - low)))
+    charge = (tuple(int(h) for h in np.flatnonzero(by_hour <= low + 1e-9))
+              if low < top * round_trip_eff else ())
+    return charge, discharge
 
 
 def hourly_price(rate: ElectricRate, weekday: np.ndarray | None = None) -> np.ndarray:

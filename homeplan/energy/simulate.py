@@ -373,7 +373,8 @@ class EnergyResult:
     load_kw : numpy.ndarray
         Site electric load of each hour, kW (8760 values).
     solar_kw : numpy.ndarray
-        AC solar production of each hour, kW (8760 values).
+        AC solar production of each hour, kW (8760 values), less what the inverter curtails
+        when the grid takes no more export (``ElectricRate.export_cap_kw``).
     grid_import_kw : numpy.ndarray
         Grid import of each hour, kW (8760 values).
     grid_export_kw : numpy.ndarray
@@ -657,6 +658,11 @@ def simulate(spec: HomeEnergySpec, cache: SiteCache | None = None) -> EnergyResu
         soc = b.soc_kwh
     grid_import = np.maximum(net, 0.0)
     grid_export = np.maximum(-net, 0.0)
+    cap = spec.electric_rate.export_cap_kw
+    if cap is not None:  # the inverter curtails what the grid does not accept: it is not made
+        curtailed = np.maximum(grid_export - cap, 0.0)
+        grid_export = grid_export - curtailed
+        solar = solar - curtailed
 
     # Monthly energy.
     starts = timegrid.month_start_hours()

@@ -19,9 +19,11 @@ from pydantic import BaseModel, ConfigDict, Field, model_validator
 __all__ = [
     "FORMAT_VERSION",
     "Appliance",
+    "BackupPower",
     "Budget",
     "Choices",
     "Climate",
+    "CriticalLoad",
     "Display",
     "ElectricPrice",
     "ElectricUsage",
@@ -364,7 +366,11 @@ class ElectricPrice(Section):
     fixed_usd_per_month: Money = 12.0
     time_of_use: list[TimeOfUsePeriod] | None = None
     export: Literal["net_metering", "net_billing", "none"] = "net_metering"
-    export_usd_per_kwh: float | None = Field(None, ge=0, le=5, description="For net billing.")
+    export_usd_per_kwh: float | None = Field(
+        None, ge=0, le=5, description="For net billing; default 0.05 (a typical avoided-cost rate).")
+    export_limit_kw: float | None = Field(
+        None, ge=0, le=100, description="Largest export the utility allows, kW; the inverter curtails "
+        "the rest (export: none is a non-export system).")
     escalation_pct: float | None = Field(None, ge=-20, le=50, description="Default: inflation.")
 
 
@@ -461,6 +467,28 @@ class ProjectOption(Section):
     backup: Literal["electric", "existing"] | None = Field(
         None, description="Heat pump backup heat: electric (strips or heaters, the default) or "
         "existing (keep the fuel-burning furnace or boiler as a dual-fuel backup).")
+    winter_cover_pct: float | None = Field(
+        None, gt=0, le=200, description="Solar: size the array to make this share of the "
+        "highest-use winter month's electricity (instead of choosing the size by value).")
+
+
+class CriticalLoad(Section):
+    """A load the household wants to keep running in a power outage."""
+
+    name: str
+    watts: float = Field(gt=0, le=20000, description="Average draw while it runs, W.")
+    hours_per_day: float = Field(24, gt=0, le=24, description="Hours a day it runs in an outage.")
+
+
+class BackupPower(Section):
+    """Riding through power outages on a home battery: what to keep on, for how long, and what
+    that is worth to the household."""
+
+    critical_loads: list[CriticalLoad] = Field(default_factory=list)
+    outage_hours: float = Field(24, gt=0, le=336, description="Outage length to ride through, hours.")
+    value_usd_per_year: Money = Field(
+        0, description="What riding through outages is worth to you each year; counted when the "
+        "planner chooses the battery, not in the money figures.")
 
 
 Objective = Literal["npv", "emissions", "gas_off_early", "out_of_pocket"]
@@ -510,6 +538,7 @@ class Plan(Section):
     )
     options: dict[str, ProjectOption] = Field({}, description="Project id -> overrides.")
     choices: Choices = Choices()
+    backup: BackupPower | None = Field(None, description="Critical loads to keep on in an outage.")
 
     @model_validator(mode="after")
     def _ids_unique(self) -> Plan:

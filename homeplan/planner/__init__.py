@@ -9,12 +9,16 @@ year). Modules, from the bottom up:
 - ``candidates``: which upgrades apply to the home, and the upgrade graph (networkx);
 - ``basis``: the home as it is for the energy engine (weather, heat loss, today's equipment);
 - ``states``: the home after any set of projects, and the summary of its typical year;
-- ``projects``: each candidate's variant, size and cost;
+- ``projects``: each candidate's variant, size and cost (and the sizes offered for solar and the
+  battery, which the optimiser chooses among);
 - ``context``: the frozen :class:`Context` the stages share, and the per-home :class:`PlannerCache`;
 - ``breakdowns``: what old items cost while they stay (expected breakdowns, like-for-like);
+- ``compare``: what a step costs beyond the like-for-like purchase it avoids;
+- ``backup``: the battery a plan's critical loads need to ride through an outage;
 - ``capacity``: NEC load calculations of every state and the remedy;
 - ``incentives``: the plan's incentive programs, estimated and evaluated exactly;
 - ``scheduling``: the scheduling problem, solved and refined;
+- ``solar_words``: why solar, the roof and the battery are where they are (or left out);
 - ``finance``, ``baselines``, ``build``: the result;
 - ``chain``: the stages in order (:func:`plan_roadmap`).
 

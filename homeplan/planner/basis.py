@@ -253,9 +253,11 @@ def electric_rate(plan: Plan) -> ElectricRate:
                   weekdays_only=t.weekdays_only)
         for t in (e.time_of_use or ())
     )
-    export_rate = e.export_usd_per_kwh if e.export_usd_per_kwh is not None else 0.05
+    export_rate = (e.export_usd_per_kwh if e.export_usd_per_kwh is not None
+                   else performance()["net_billing_export_usd_per_kwh"])
     return ElectricRate(usd_per_kwh=e.usd_per_kwh, fixed_usd_per_month=e.fixed_usd_per_month,
-                        tou_periods=periods, export=e.export, export_usd_per_kwh=export_rate)
+                        tou_periods=periods, export=e.export, export_usd_per_kwh=export_rate,
+                        export_limit_kw=e.export_limit_kw)
 
 
 def fuel_prices(plan: Plan, closed: Iterable[str] = ()) -> FuelPrices:

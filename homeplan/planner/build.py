@@ -21,9 +21,11 @@ from dataclasses import dataclass, replace
 from typing import Any
 
 from homeplan import catalog
+from homeplan.catalog import performance
 from homeplan.money.finance import Loan, discount_factor, loan_schedule, remaining_value_share
 from homeplan.plan.fuels import BILL_FUELS, HOME_FUELS, appliance_fuel
 from homeplan.plan.hashing import content_hash
+from homeplan.planner.backup import backup_need, hours_carried
 from homeplan.planner.baselines import bills_in_year, do_nothing, like_for_like, like_for_like_money
 from homeplan.planner.breakdowns import (
     LFL_PREFIX,
@@ -45,7 +47,14 @@ from homeplan.planner.context import Context
 from homeplan.planner.finance import plan_returns, project_returns, solar_hedge
 from homeplan.planner.incentives import AwardLine, IncentiveModel
 from homeplan.planner.projects import cost_in_year_usd
-from homeplan.planner.scheduling import COVER_PREFIX, ORDER_PREFIX, ScheduleOutcome, work_order
+from homeplan.planner.scheduling import (
+    COVER_PREFIX,
+    ORDER_PREFIX,
+    ScheduleOutcome,
+    maintenance_savings_usd,
+    work_order,
+)
+from homeplan.planner.solar_words import backup_words, roof_first, roof_unknown, solar_left_out
 from homeplan.planner.states import battery_power_kw, roof_array
 from homeplan.result.figures import (
     CapacityState,
@@ -55,7 +64,15 @@ from homeplan.result.figures import (
     SolverReport,
 )
 from homeplan.result.plan_result import PlanResult
-from homeplan.result.roadmap import Emergency, IncentiveLine, Milestone, Roadmap, Step, YearTotals
+from homeplan.result.roadmap import (
+    Emergency,
+    IncentiveLine,
+    LeftOut,
+    Milestone,
+    Roadmap,
+    Step,
+    YearTotals,
+)
 from homeplan.schedule.problem import evaluate
 
 __all__ = ["assumptions", "build_result", "hourly_profiles", "milestones_of", "project_infos", "size_fields"]
@@ -137,6 +154,7 @@ def build_result(ctx: Context, capacity: CapacityModel, incentives: IncentiveMod
     years = []
     cumulative = 0.0
     npv = 0.0
+    infl = plan.prices.inflation_pct / 100.0
     for t, year in enumerate(ctx.years):
         state = ctx.energy(frozenset(by_year[year]), f"{year}")
         bills = bills_in_year(ctx, state.bills_usd, t)
@@ -148,6 +166,7 @@ def build_result(ctx: Context, capacity: CapacityModel, incentives: IncentiveMod
         borrowed = loans.borrowed.get(year, 0.0)
         net = spend - inc_in
         savings = sum(base_bills.values()) - sum(bills.values())
+        upkeep = sum(maintenance_savings_usd(ctx, p) for p in by_year[year]) * (1 + infl) ** t
         cumulative += net - borrowed + pay + sum(bills.values())
         cap = state_capacity(ctx, capacity, by_year[year], str(year), year)
         years.append(YearTotals(
@@ -158,8 +177,9 @@ def build_result(ctx: Context, capacity: CapacityModel, incentives: IncentiveMod
             service_headroom_amps=round(cap.headroom_amps, 1),
             energy={k: round(v, 1) for k, v in state.units.items()},
             service_load_pct=cap.load_pct, service_near_limit=cap.near_limit,
+            maintenance_savings_usd=round(upkeep, 2),
         ))
-        npv += discount_factor(rate, t) * (savings - (net - borrowed + pay))
+        npv += discount_factor(rate, t) * (savings + upkeep - (net - borrowed + pay))
     # incentives arriving after the horizon and loan payments still due are part of the plan
     late = sum(a.amount_usd * discount_factor(rate, a.arrival_year - ctx.first_year)
                for lst in awards.values() for a in lst if a.arrival_year > ctx.years[-1])
@@ -181,6 +201,15 @@ def build_result(ctx: Context, capacity: CapacityModel, incentives: IncentiveMod
     lfl_money = like_for_like_money(ctx)
     baselines = (do_nothing(ctx, base_energy, today_cap.headroom_amps, today_cap.load_pct),
                  like_for_like(ctx, base_energy, today_cap.headroom_amps, today_cap.load_pct))
+    left_out = []
+    why = solar_left_out(ctx, outcome, done)
+    if why is not None:
+        left_out.append(LeftOut("solar", ctx.details["solar"].label, why))
+        notes_out.append(why)
+    if not any(ctx.details[p].kind == "battery" for p in done):
+        words = backup_words(ctx, ctx.plan.home.battery.capacity_kwh if ctx.plan.home.battery else None)
+        if words:
+            notes_out.append(words)
     cautions = [cautions_all["planning"]]
     for s in steps:
         for c in s.cautions:
@@ -194,6 +223,7 @@ def build_result(ctx: Context, capacity: CapacityModel, incentives: IncentiveMod
         milestones=milestones_of(ctx, done), baselines=baselines, npv_usd=round(npv, 2),
         npv_vs_like_for_like_usd=round(npv - lfl_money.npv_usd, 2), status="ok",
         assumptions=assumptions(ctx), cautions=tuple(cautions), emergencies=emergencies,
+        left_out=tuple(left_out),
     )
     capacity_states = _capacity_states(ctx, capacity, done, by_year, today_cap, notes_out)
     return PlanResult(
@@ -254,6 +284,17 @@ def _steps(ctx: Context, capacity: CapacityModel, outcome: ScheduleOutcome, done
         caution_ids = list(d.candidate.cautions)
         if d.kind == "envelope" and _burns_fuel_during(ctx, {**done, **lfl}, year):
             caution_ids.append("combustion_test")
+        first = roof_first(ctx, done)
+        if first is not None and d.kind in ("roof", "solar"):
+            extra_reasons.append(first[0] if d.kind == "roof" else first[1])
+        if d.kind == "solar" and roof_unknown(ctx):
+            extra_reasons.append(roof_unknown(ctx))
+        if d.kind == "ev":
+            extra_reasons.append(_vehicle_savings(ctx, outcome, pid))
+        if d.kind == "battery":
+            words = backup_words(ctx, d.size)
+            if words:
+                extra_reasons.append(words)
         avoided = avoided_like_for_like(ctx, pid, year)
         if avoided.items:
             extra_reasons.append(f"the {' and the '.join(avoided.items)} would need replacing this year "
@@ -270,6 +311,15 @@ def _steps(ctx: Context, capacity: CapacityModel, outcome: ScheduleOutcome, done
     return steps
 
 
+def _vehicle_savings(ctx: Context, outcome: ScheduleOutcome, pid: str) -> str:
+    """What the electric car saves a year against the gasoline one, fuel and maintenance apart."""
+    co = outcome.coefficients.get(pid)
+    fuel = sum(co.savings_by_fuel.values()) if co is not None else 0.0
+    upkeep = maintenance_savings_usd(ctx, pid)
+    return (f"saves about {fuel:,.0f} USD a year on fuel (gasoline against charging) and "
+            f"{upkeep:,.0f} USD on maintenance, at today's prices")
+
+
 def size_fields(ctx: Context, pid: str) -> dict[str, float]:
     """A sized step's size for the JSON: solar DC kW and first full year's AC kWh; a battery's
     usable kWh and kW."""
@@ -278,7 +328,11 @@ def size_fields(ctx: Context, pid: str) -> dict[str, float]:
         kwh = float(ctx.basis.site.pv_ac_kw(roof_array(ctx.plan, d.size)).sum())
         return {"dc_kw": round(d.size, 2), "production_kwh": round(kwh, 0)}
     if d.kind == "battery":
-        return {"kwh": round(d.size, 2), "kw": round(battery_power_kw(d.size), 2)}
+        out = {"kwh": round(d.size, 2), "kw": round(battery_power_kw(d.size), 2)}
+        need = backup_need(ctx.plan)
+        if need is not None:
+            out["backup_hours"] = round(min(hours_carried(need, d.size), need.outage_hours), 1)
+        return out
     return {}
 
 
@@ -514,6 +568,35 @@ def milestones_of(ctx: Context, done: dict[str, int]) -> tuple[Milestone, ...]:
     return tuple(sorted(out, key=lambda m: m.year))
 
 
+def export_assumption(ctx: Context) -> dict[str, Any]:
+    """How exported solar is credited: the rule, the rate and whether the plan gave it."""
+    e = ctx.plan.prices.electricity
+    out: dict[str, Any] = {"rule": e.export}
+    if e.export == "net_billing":
+        given = e.export_usd_per_kwh is not None
+        out["usd_per_kwh"] = e.export_usd_per_kwh if given else performance()["net_billing_export_usd_per_kwh"]
+        out["rate_given"] = given
+    if e.export_limit_kw is not None:
+        out["limit_kw"] = e.export_limit_kw
+    return out
+
+
+def solar_yield_assumption(ctx: Context) -> dict[str, Any] | None:
+    """The yearly AC output per kW of panels on this roof (after its shade), and the existing
+    array's when there is one."""
+    out: dict[str, Any] = {}
+    roof = ctx.plan.home.roof
+    if "solar" in ctx.details or roof is not None:
+        spec = roof_array(ctx.plan, 1.0)
+        out["new_array"] = round(float(ctx.basis.site.solar.specific_yield_kwh_per_kwdc(spec)), 0)
+        out["tilt_deg"], out["azimuth_deg"] = spec.tilt_deg, spec.azimuth_deg
+        out["shade_loss_pct"] = round(float(spec.shade_loss_pct().mean()), 1)
+    existing = ctx.basis.base.solar
+    if existing is not None:
+        out["existing_array"] = round(float(ctx.basis.site.solar.specific_yield_kwh_per_kwdc(existing)), 0)
+    return out or None
+
+
 def assumptions(ctx: Context) -> dict[str, Any]:
     """The inputs that shaped the result, as JSON-safe values (the roadmap's ``assumptions``)."""
     pr = ctx.plan.prices
@@ -530,8 +613,23 @@ def assumptions(ctx: Context) -> dict[str, Any]:
         "carryover": b.carryover,
         "add_bill_savings": b.add_bill_savings,
         "weather": ctx.basis.weather_note,
+        "export": export_assumption(ctx),
+        "solar_yield_kwh_per_kwdc": solar_yield_assumption(ctx),
         "heat_loss_method": ctx.basis.calibration.method,
         "design_heating_load_btuh": round(ctx.basis.design_load_btuh),
-        "conventions": "projects installed at the start of their year; nominal dollars; NPV against doing "
-                       "nothing, with the equipment's remaining value at the end of the horizon",
+        "conventions": "projects installed at the start of their year; nominal dollars; NPV against "
+                       "replacing like-for-like when due and against doing nothing, with the equipment's "
+                       "remaining value at the end of the horizon",
+        **backup_assumption(ctx),
     }
+
+
+def backup_assumption(ctx: Context) -> dict[str, Any]:
+    """The outage the plan's critical loads should ride through and the battery they need."""
+    need = backup_need(ctx.plan)
+    if need is None:
+        return {}
+    return {"backup": {"outage_hours": need.outage_hours, "critical_kwh": round(need.energy_kwh, 1),
+                       "battery_kwh_needed": round(need.battery_kwh, 1), "peak_kw": round(need.peak_kw, 2),
+                       "value_usd_per_year": need.value_usd_per_year,
+                       "value_counts_in": "the optimiser's choice of battery, not the money figures"}}

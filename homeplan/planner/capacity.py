@@ -43,7 +43,12 @@ from homeplan.plan.model import Plan
 from homeplan.planner.context import Context
 from homeplan.planner.lifecycle import appliance_type
 from homeplan.planner.projects import ProjectDetail, with_variant
-from homeplan.planner.solar_connection import Connection, connection_options, inverter_amps
+from homeplan.planner.solar_connection import (
+    Connection,
+    cheapest_connection,
+    connection_options,
+    inverter_amps,
+)
 from homeplan.result.figures import CapacityRow, CapacityState
 
 __all__ = [
@@ -56,6 +61,7 @@ __all__ = [
     "other_method_capacity",
     "plan_capacity",
     "project_loads",
+    "refit_connections",
     "state_capacity",
 ]
 
@@ -176,6 +182,7 @@ class CapacityPlan:
 
     model: CapacityModel
     details: dict[str, ProjectDetail]
+    sizes: dict[str, tuple[ProjectDetail, ...]] = field(default_factory=dict)
 
 
 REMEDY_PROJECTS = ("panel_upgrade", "service_upgrade", "load_management")
@@ -269,6 +276,10 @@ def _plan_capacity(ctx: Context) -> CapacityPlan:
     load_amps = float(remedy.calc.amps) if remedy.service_upgrade is None else None
     connections = connection_options(ctx.with_details(details), service, load_amps, pv)
     _add_connection_costs(details, connections)
+    sizes = _sizes_with_connections(ctx, details, connections, service, load_amps)
+    for pid, options in sizes.items():  # the largest that connects stands in until the optimiser chooses
+        if not any(o.size == details[pid].size for o in options):
+            details[pid] = max(options, key=lambda o: o.size)
     # linear use per load: its amps against today's home, one at a time
     use: dict[str, float] = {}
     for pid in load_pids:
@@ -307,7 +318,55 @@ def _plan_capacity(ctx: Context) -> CapacityPlan:
         notes=tuple(notes), remedy=remedy, remedy_project=chosen, variant_notes=variant_notes,
         ems_setpoint_va=ems_setpoint_va, connections=connections,
     )
-    return CapacityPlan(model, details)
+    return CapacityPlan(model, details, sizes)
+
+
+def refit_connections(ctx: Context, model: CapacityModel) -> CapacityModel:
+    """The model with the solar and battery connections found again for the sizes the optimiser
+    chose (``ctx.details``): the cheapest connection of each set the plan may end with."""
+    plan = ctx.plan
+    pv = [pid for pid, d in ctx.details.items() if d.kind in ("solar", "battery")
+          and pid not in plan.choices.exclude]
+    remedy = model.remedy
+    load_amps = float(remedy.calc.amps) if remedy is not None and remedy.service_upgrade is None else None
+    return replace(model, connections=connection_options(ctx, _service(plan), load_amps, pv))
+
+
+def _sizes_with_connections(ctx: Context, details: dict[str, ProjectDetail],
+                            connections: dict[frozenset[str], Connection], service: Service,
+                            load_amps: float | None) -> dict[str, tuple[ProjectDetail, ...]]:
+    """Each size option of the solar and battery projects with the cost of its own connection
+    (an array pays its connection, a battery what it adds to the array's); sizes that no
+    connection the code allows can take are dropped: the NEC 705.12 / 705.11 limit after
+    remedies.
+
+    References
+    ----------
+    NEC 2023 705.11, 705.12(B), 705.13 (via :mod:`homeplan.planner.solar_connection`).
+    """
+    out: dict[str, tuple[ProjectDetail, ...]] = {}
+    solar = [pid for s in connections for pid in s if details[pid].kind == "solar"][:1]
+    for pid, options in ctx.sizes.items():
+        if pid not in details or pid in ctx.plan.choices.exclude:
+            continue
+        kept = []
+        for alt in options:
+            trial = ctx.with_details({**details, pid: alt})
+            if alt.kind == "solar":
+                conn = cheapest_connection(trial, frozenset({pid}), service, load_amps)
+                extra = conn.cost_usd
+            else:
+                conn = cheapest_connection(trial, frozenset({pid, *solar}), service, load_amps)
+                extra = conn.cost_usd - (connections[frozenset(solar)].cost_usd if solar else 0.0)
+            if not conn.fits:
+                continue
+            if extra > 0 and not alt.quoted:
+                alt = replace(alt, cost_today_usd=alt.cost_today_usd + extra,
+                              cost_source=f"{alt.cost_source}; plus its connection to the service")
+            kept.append(alt)
+        if len(kept) > 1:
+            out[pid] = tuple(kept)
+    return out
 
 
 def _remedy_cost(remedy: Remedy) -> tuple[float, int]:

@@ -17,21 +17,25 @@ from __future__ import annotations
 
 from pathlib import Path
 
+import numpy as np
+
 from homeplan import catalog
+from homeplan.energy import timegrid
 from homeplan.errors import PlanRuleError
 from homeplan.plan.load import LoadedPlan
 from homeplan.plan.model import Plan
 from homeplan.planner import candidates, lifecycle
+from homeplan.planner.backup import backup_need
 from homeplan.planner.build import build_result
-from homeplan.planner.capacity import plan_capacity
+from homeplan.planner.capacity import plan_capacity, refit_connections
 from homeplan.planner.context import Context, PlannerCache
 from homeplan.planner.incentives import IncentiveModel, plan_programs
-from homeplan.planner.projects import detail
+from homeplan.planner.projects import detail, size_choices, solar_size_kw, winter_array_kw
 from homeplan.planner.scheduling import schedule
 from homeplan.planner.states import roof_array
 from homeplan.result.plan_result import PlanResult
 
-__all__ = ["STAGES", "plan_roadmap", "prepare_home", "size_projects", "specific_yield"]
+__all__ = ["STAGES", "monthly_sums", "plan_roadmap", "prepare_home", "size_projects", "specific_yield"]
 
 STAGES = ("home", "projects", "capacity", "incentives", "schedule", "result")
 """The planner's stages, in order (see the module docstring)."""
@@ -79,11 +83,16 @@ def plan_roadmap(plan: Plan | LoadedPlan, base_dir: Path | str | None = None,
 def _run(plan: Plan, base_dir: Path | None, cache: PlannerCache | None) -> PlanResult:
     ctx = size_projects(prepare_home(plan, base_dir, cache or PlannerCache()))
     capacity = plan_capacity(ctx)
-    ctx = ctx.with_details(capacity.details)
+    ctx = ctx.with_details(capacity.details).with_sizes(capacity.sizes)
     incentives = IncentiveModel(ctx, plan_programs(ctx))
     outcome = schedule(ctx, capacity.model, incentives)
-    notes = (ctx.basis.weather_note, *ctx.basis.notes, *capacity.model.notes, *outcome.notes)
-    return build_result(ctx, capacity.model, incentives, outcome, notes)
+    model = capacity.model
+    if outcome.details:  # the optimiser chose other sizes: their connections and incentives
+        ctx = ctx.with_details({**ctx.details, **outcome.details})
+        model = refit_connections(ctx, model)
+        incentives = incentives.with_ctx(ctx)
+    notes = (ctx.basis.weather_note, *ctx.basis.notes, *model.notes, *outcome.notes)
+    return build_result(ctx, model, incentives, outcome, notes)
 
 
 def prepare_home(plan: Plan, base_dir: Path | None, cache: PlannerCache) -> Context:
@@ -97,8 +106,12 @@ def prepare_home(plan: Plan, base_dir: Path | None, cache: PlannerCache) -> Cont
 def size_projects(ctx: Context) -> Context:
     """Stage "projects": each candidate's variant, size and cost today.
 
-    Solar is sized to the electrified home's use: the typical year with every other project done
-    (capacity remedies, the battery and the roof aside).
+    Solar and the battery come with several sizes the optimiser chooses among (``ctx.sizes``):
+    the array up to the largest the roof holds and the electrified home uses in a year (the
+    typical year with every other project done, capacity remedies, the battery and the roof
+    aside), the battery from the catalog's sizes and the one the plan's critical loads need.
+    ``details`` holds the largest array and the default battery until the optimiser has chosen.
+    A size in the plan's options, or a winter share for the array, fixes the size.
     """
     plan, basis = ctx.plan, ctx.basis
     cands = [ctx.graph.nodes[n]["candidate"] for n in candidates.project_nodes(ctx.graph)]
@@ -106,11 +119,35 @@ def size_projects(ctx: Context) -> Context:
     electrified = {c.id for c in cands if c.kind not in ("solar", "battery", "roof")
                    and not kinds[c.kind].capacity_remedy}
     provisional = ctx.with_details({c.id: detail(plan, c, basis, 0.0, 1.0) for c in cands if c.kind != "solar"})
-    load_kwh = provisional.energy(frozenset(electrified)).units.get("electricity_kwh", 0.0)
+    state = provisional.energy(frozenset(electrified))
+    load_kwh = state.units.get("electricity_kwh", 0.0)
     yield_kwh = specific_yield(ctx)
-    details = {c.id: (detail(plan, c, basis, load_kwh, yield_kwh) if c.kind == "solar"
-                      else provisional.details[c.id]) for c in cands}
-    return ctx.with_details(details)
+    details = dict(provisional.details)
+    sizes = {}
+    need = backup_need(plan)
+    for c in cands:
+        opt = plan.options.get(c.id)
+        fixed = opt is not None and (opt.size is not None or opt.winter_cover_pct is not None)
+        if c.kind == "solar":
+            want = None
+            if opt is not None and opt.winter_cover_pct is not None and opt.size is None:
+                per_kw = monthly_sums(ctx.basis.site.pv_ac_kw(roof_array(plan, 1.0)))
+                want, _ = winter_array_kw(plan, state.summary.monthly["electricity_kwh"], per_kw,
+                                          opt.winter_cover_pct)
+            largest = solar_size_kw(plan, load_kwh, yield_kwh, want)
+            details[c.id] = detail(plan, c, basis, load_kwh, yield_kwh,
+                                   size_override=None if opt is not None and opt.size else largest)
+        if c.kind in ("solar", "battery") and not fixed and c.id not in plan.choices.exclude:
+            choices = size_choices(c.kind, details[c.id].size, need.battery_kwh if need else None)
+            if len(choices) > 1:
+                sizes[c.id] = tuple(detail(plan, c, basis, load_kwh, yield_kwh, size_override=x)
+                                    for x in choices)
+    return ctx.with_details(details).with_sizes(sizes)
+
+
+def monthly_sums(hourly: np.ndarray) -> tuple[float, ...]:
+    """Twelve monthly totals of an hourly year (kWh from kW)."""
+    return tuple(float(x) for x in np.add.reduceat(hourly, timegrid.month_start_hours()))
 
 
 def specific_yield(ctx: Context) -> float:

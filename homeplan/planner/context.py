@@ -113,14 +113,25 @@ class Context:
     graph: nx.DiGraph
     outlooks: Mapping[str, LifeOutlook]
     details: Mapping[str, ProjectDetail] = field(default_factory=lambda: MappingProxyType({}))
+    sizes: Mapping[str, tuple[ProjectDetail, ...]] = field(default_factory=lambda: MappingProxyType({}))
 
     def __post_init__(self) -> None:
         object.__setattr__(self, "outlooks", MappingProxyType(dict(self.outlooks)))
         object.__setattr__(self, "details", MappingProxyType(dict(self.details)))
+        object.__setattr__(self, "sizes", MappingProxyType({k: tuple(v) for k, v in self.sizes.items()}))
 
     def with_details(self, details: Mapping[str, ProjectDetail]) -> Context:
         """The same plan with these projects (variant, size and cost of each)."""
         return replace(self, details=details)
+
+    def with_sizes(self, sizes: Mapping[str, tuple[ProjectDetail, ...]]) -> Context:
+        """The same plan with these size options of the sized projects (solar, battery): the
+        optimiser chooses among them; ``details`` holds the one assumed until it has."""
+        return replace(self, sizes=sizes)
+
+    def with_size(self, detail: ProjectDetail) -> Context:
+        """The same plan with one project at another of its sizes."""
+        return replace(self, details={**self.details, detail.id: detail})
 
     @property
     def first_year(self) -> int:

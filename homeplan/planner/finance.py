@@ -36,13 +36,13 @@ def plan_returns(roadmap: Roadmap, discount_rate_pct: float, extra_flows: list[f
     ``like_for_like_flows`` (the like-for-like baseline against doing nothing), the plan against
     replacing like-for-like: the difference of the two, year by year.
 
-    Each year: bill savings, minus what the plan spends (net of incentives received), minus loan
-    payments, plus ``extra_flows`` (the expected breakdown costs the plan avoids, and in the last
+    Each year: bill savings and the electric cars' lower maintenance, minus what the plan spends
+    (net of incentives received), minus loan payments, plus ``extra_flows`` (the expected breakdown costs the plan avoids, and in the last
     year the equipment's remaining value) - the same accounting as the roadmap's NPV.
     """
     extra = extra_flows or [0.0] * len(roadmap.years)
-    flows = [y.bill_savings_usd - (y.spend_usd - y.incentives_usd) - y.loan_payments_usd + e
-             for y, e in zip(roadmap.years, extra, strict=True)]
+    flows = [y.bill_savings_usd + y.maintenance_savings_usd - (y.spend_usd - y.incentives_usd)
+             - y.loan_payments_usd + e for y, e in zip(roadmap.years, extra, strict=True)]
     npv = npv_vs_do_nothing_usd if npv_vs_do_nothing_usd is not None else npv_usd(discount_rate_pct, flows)
     vs_lfl: dict = {}
     if like_for_like_flows is not None:
@@ -78,8 +78,10 @@ def project_returns(ctx: Context, outcome: ScheduleOutcome, roadmap: Roadmap) ->
         life = int(round(min(d.life_years, 30)))  # milestones "last" 100 years; count 30 at most
         incremental = s.incremental_cost_usd if s.incremental_cost_usd is not None else s.net_cost_usd
         flows = [-incremental]
+        infl = 1 + ctx.plan.prices.inflation_pct / 100.0
         for k in range(1, life + 1):
-            flows.append(sum(v * (1 + ctx.escalation(f)) ** (t0 + k) for f, v in co.savings_by_fuel.items()))
+            flows.append(sum(v * (1 + ctx.escalation(f)) ** (t0 + k) for f, v in co.savings_by_fuel.items())
+                         + co.maintenance_usd_per_year * infl ** (t0 + k))
         out[s.project_id] = StepReturns(
             first_year_savings_usd=round(flows[1], 2) if len(flows) > 1 else 0.0,
             npv_over_life_usd=round(npv_usd(rate, flows), 2),

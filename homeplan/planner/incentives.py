@@ -128,6 +128,10 @@ class IncentiveModel:
         self.estimate_programs = tuple(self._without_capped_kinds(p) for p in programs)
         self.estimate_programs = tuple(p for p in self.estimate_programs if p.kinds)
 
+    def with_ctx(self, ctx: Context) -> IncentiveModel:
+        """The same programs for the plan with other project details (another size chosen)."""
+        return IncentiveModel(ctx, self.programs)
+
     @staticmethod
     def _without_capped_kinds(program: Program) -> Program:
         if not program.yearly_caps:

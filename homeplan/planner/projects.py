@@ -31,9 +31,13 @@ __all__ = [
     "ProjectDetail",
     "cost_in_year_usd",
     "detail",
+    "ev_premium_words",
     "replaced_fuels",
     "roof_area_ft2",
+    "roof_fit_kw",
+    "size_choices",
     "solar_size_kw",
+    "winter_array_kw",
     "with_variant",
 ]
 
@@ -81,8 +85,23 @@ def roof_area_ft2(plan: Plan) -> float:
     return plan.home.floor_area_ft2 / plan.home.stories / math.cos(math.radians(min(tilt, 60.0)))
 
 
-def solar_size_kw(plan: Plan, annual_load_kwh: float, specific_yield: float) -> float:
-    """Array size covering the electrified home's annual use, limited by the usable roof.
+def roof_fit_kw(plan: Plan) -> float:
+    """The largest array the usable roof holds, kWdc (about 60 ft2 per kW; without a usable area
+    given, 40 % of the roof surface).
+
+    References
+    ----------
+    Common practice, no source: about 60 ft2 of roof per kW (data/equipment_performance.csv).
+    """
+    roof = plan.home.roof
+    area = roof.usable_area_ft2 if roof and roof.usable_area_ft2 is not None else roof_area_ft2(plan) * 0.4
+    return area / performance()["solar_ft2_per_kw"]  # shade costs output (the energy model), not room
+
+
+def solar_size_kw(plan: Plan, annual_load_kwh: float, specific_yield: float,
+                  want_kw: float | None = None) -> float:
+    """The largest array worth offering: one covering the electrified home's annual use (or
+    ``want_kw``), limited by the usable roof; half-kW steps, at least 1 kW.
 
     References
     ----------
@@ -90,15 +109,43 @@ def solar_size_kw(plan: Plan, annual_load_kwh: float, specific_yield: float) -> 
     about 60 ft2 of roof per kW.
     """
     p = performance()
-    want = array_kw_for_coverage(annual_load_kwh, max(specific_yield, 1.0), p["solar_target_coverage"])
-    roof = plan.home.roof
-    area = roof.usable_area_ft2 if roof and roof.usable_area_ft2 is not None else roof_area_ft2(plan) * 0.4
-    fit = area / p["solar_ft2_per_kw"]  # shade costs output (the energy model), not room
-    return float(max(1.0, round(min(want, fit) * 2) / 2))
+    if want_kw is None:
+        want_kw = array_kw_for_coverage(annual_load_kwh, max(specific_yield, 1.0), p["solar_target_coverage"])
+    return float(max(1.0, round(min(want_kw, roof_fit_kw(plan)) * 2) / 2))
+
+
+def winter_array_kw(plan: Plan, monthly_load_kwh: tuple[float, ...] | list[float],
+                    monthly_kwh_per_kw: tuple[float, ...] | list[float], share_pct: float) -> tuple[float, int]:
+    """The array that makes ``share_pct`` of the highest-use winter month's electricity, and
+    that month (1-12): December to February north of the equator, June to August south of it.
+
+    References
+    ----------
+    Common practice, no source: sizing to the winter months shows the seasonal mismatch of a
+    winter-peaking (heat pump) home; monthly production scales with kWdc (PVWatts, Dobos 2014).
+    """
+    lat = plan.home.location.latitude if plan.home.location else 40.0
+    winter = (12, 1, 2) if lat >= 0 else (6, 7, 8)
+    month = max(winter, key=lambda m: monthly_load_kwh[m - 1])
+    kw = share_pct / 100.0 * monthly_load_kwh[month - 1] / max(monthly_kwh_per_kw[month - 1], 1e-9)
+    return float(kw), month
+
+
+def size_choices(kind: str, largest: float, backup_kwh: float | None = None) -> tuple[float, ...]:
+    """The sizes the optimiser is offered: shares of the largest array (half-kW steps, at least
+    1 kW), or the battery sizes of ``data/size_options.csv`` plus the one that carries the
+    critical loads through the outage (``backup_kwh``, rounded up to half a kWh)."""
+    opts = catalog.size_options(kind)
+    if kind == "solar":
+        return tuple(sorted({max(1.0, round(largest * f * 2) / 2) for f in opts}))
+    sizes = set(opts)
+    if backup_kwh:
+        sizes.add(math.ceil(backup_kwh * 2) / 2)
+    return tuple(sorted(sizes))
 
 
 def detail(plan: Plan, c: Candidate, basis: HomeBasis, electrified_kwh: float,
-           specific_yield: float) -> ProjectDetail:
+           specific_yield: float, size_override: float | None = None) -> ProjectDetail:
     kinds = catalog.upgrade_kinds()
     k = kinds[c.kind]
     opt = plan.options.get(c.id)
@@ -113,7 +160,9 @@ def detail(plan: Plan, c: Candidate, basis: HomeBasis, electrified_kwh: float,
         v = k.variants[0]
     design_f = float(basis.weather.heating_design_f)
     size = 1.0
-    if opt and opt.size:
+    if size_override is not None:
+        size = size_override
+    elif opt and opt.size:
         size = opt.size
     elif c.kind == "heat_pump":
         size = heat_pump_tons(basis.design_load_btuh, design_f, v.id if v else None,
@@ -145,6 +194,8 @@ def detail(plan: Plan, c: Candidate, basis: HomeBasis, electrified_kwh: float,
         source = f"catalog {level} estimate: {k.cost.source}"
         quoted = False
     label = v.label if v else ""
+    if c.kind == "ev":
+        label = ev_premium_words(plan, c, cost)
     if kept is not None:
         label += f", keeping the {appliance_fuel(kept)} {kept.kind} as backup"
     elif backup_kw > own_kw:  # backup the variant does not bring: its cost and its name
@@ -161,6 +212,17 @@ def detail(plan: Plan, c: Candidate, basis: HomeBasis, electrified_kwh: float,
         cost_source=source, life_years=k.life_years, cost_change=dict(k.cost_change), quoted=quoted,
         backup_kw=float(backup_kw), backup_kind=backup_kind,
     )
+
+
+def ev_premium_words(plan: Plan, c: Candidate, premium_usd: float) -> str:
+    """An electric vehicle step's cost in words: the premium over a comparable gasoline vehicle,
+    both prices shown (today's)."""
+    keys = [plan.vehicle_key(i) for i in range(len(plan.vehicles))]
+    body = plan.vehicles[keys.index(c.replaces[0])].body if c.replaces and c.replaces[0] in keys else "car"
+    gas = catalog.gasoline_vehicle_price(body)
+    noun = {"car": "car", "suv": "SUV", "truck": "pickup"}.get(body, body)
+    return (f"price premium over a comparable gasoline {noun}: about {gas + premium_usd:,.0f} USD "
+            f"against {gas:,.0f} USD today")
 
 
 def with_variant(d: ProjectDetail, plan: Plan, basis: HomeBasis, variant: str) -> ProjectDetail:

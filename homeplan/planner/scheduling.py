@@ -21,11 +21,13 @@ Weibull end-of-life risk from :mod:`homeplan.planner.lifecycle`.
 
 from __future__ import annotations
 
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 
 from homeplan import catalog
+from homeplan.catalog import performance
 from homeplan.money.finance import discount_factor, remaining_value_share
 from homeplan.plan.fuels import HOME_FUELS, appliance_fuel
+from homeplan.planner.backup import backup_need, resilience_share
 from homeplan.planner.breakdowns import (
     LFL_PREFIX,
     EmergencyItem,
@@ -45,7 +47,7 @@ from homeplan.planner.candidates import (
 from homeplan.planner.capacity import CapacityModel, breaker_spaces
 from homeplan.planner.context import Context
 from homeplan.planner.incentives import IncentiveModel
-from homeplan.planner.projects import cost_in_year_usd
+from homeplan.planner.projects import ProjectDetail, cost_in_year_usd
 from homeplan.schedule.explain import diagnose_infeasible, explain
 from homeplan.schedule.milp import MilpSolver, Solution
 from homeplan.schedule.problem import (
@@ -62,13 +64,16 @@ __all__ = [
     "COVER_PREFIX",
     "OBJECTIVE",
     "ORDER_PREFIX",
+    "SIZE_SEP",
     "Coefficients",
     "ScheduleOutcome",
     "build_problem",
     "coefficients",
     "emergency_allowance",
     "emergency_reason",
+    "maintenance_savings_usd",
     "schedule",
+    "size_alternatives",
     "work_order",
 ]
 
@@ -89,6 +94,8 @@ class Coefficients:
     later_incentive_usd: list[float]
     savings_by_fuel: dict[str, float]      # annual, today's prices
     emissions_saved_kg: float              # per year
+    resilience_usd_per_year: float = 0.0   # the household's value of riding through outages
+    maintenance_usd_per_year: float = 0.0  # an electric car's lower maintenance, today's prices
 
 
 @dataclass(frozen=True)
@@ -103,6 +110,8 @@ class ScheduleOutcome:
     infeasibility: str | None = None
     passes: int = 1
     notes: tuple[str, ...] = ()
+    details: dict[str, ProjectDetail] = field(default_factory=dict)   # sizes the optimiser chose
+    size_values: dict[str, dict[float, float]] = field(default_factory=dict)  # NPV by size offered
 
 
 def coefficients(ctx: Context, pid: str, before: set[str], incentives: IncentiveModel) -> Coefficients:
@@ -121,7 +130,29 @@ def coefficients(ctx: Context, pid: str, before: set[str], incentives: Incentive
         costs.append(c)
         pos.append(p)
         later.append(lt)
-    return Coefficients(costs, pos, later, savings, e0.emissions_kg - e1.emissions_kg)
+    need = backup_need(ctx.plan)
+    resilience = (need.value_usd_per_year * resilience_share(need, d.size)
+                  if need is not None and d.kind == "battery" else 0.0)
+    return Coefficients(costs, pos, later, savings, e0.emissions_kg - e1.emissions_kg, resilience,
+                        maintenance_savings_usd(ctx, pid))
+
+
+def maintenance_savings_usd(ctx: Context, pid: str) -> float:
+    """What an electric vehicle saves in maintenance a year against the gasoline car it replaces,
+    at today's prices (0 for other projects).
+
+    References
+    ----------
+    Burnham et al. (2021), ANL/ESD-21/4 (maintenance cost per mile by powertrain; the values in
+    data/equipment_performance.csv are marked from memory).
+    """
+    d = ctx.details.get(pid)
+    if d is None or d.kind != "ev":
+        return 0.0
+    keys = [ctx.plan.vehicle_key(i) for i in range(len(ctx.plan.vehicles))]
+    veh = ctx.plan.vehicles[keys.index(d.candidate.replaces[0])]
+    p = performance()
+    return veh.miles_per_year * (p["maintenance_usd_per_mile_gasoline"] - p["maintenance_usd_per_mile_ev"])
 
 
 def _value(ctx: Context, co: Coefficients, t: int, life: float) -> float:
@@ -130,7 +161,9 @@ def _value(ctx: Context, co: Coefficients, t: int, life: float) -> float:
     Bill savings count for the years of the horizon it runs (each fuel escalating at its own
     rate); the equipment still has value at the end of the horizon, counted as its remaining
     share of what the household paid (straight-line over its life, NIST Handbook 135); later
-    rebates and tax credits count in the year after installation.
+    rebates and tax credits count in the year after installation. A battery also earns the
+    yearly value the household gives to riding through outages (its share of the outage), in
+    the optimiser's choice only: it is no cash flow.
     """
     rate = ctx.plan.budget.discount_rate_pct
     T = len(ctx.years)
@@ -139,6 +172,9 @@ def _value(ctx: Context, co: Coefficients, t: int, life: float) -> float:
         df = discount_factor(rate, k)
         for fuel, s in co.savings_by_fuel.items():
             total += s * (1.0 + ctx.escalation(fuel)) ** k * df
+        total += co.resilience_usd_per_year * df
+        if co.maintenance_usd_per_year:  # electric cars only
+            total += co.maintenance_usd_per_year * (1.0 + ctx.plan.prices.inflation_pct / 100.0) ** k * df
     paid = co.cost_usd[t] - co.pos_incentive_usd[t] - co.later_incentive_usd[t]
     remaining = remaining_value_share(T - t, life)
     return (total + co.later_incentive_usd[t] * discount_factor(rate, t + 1)
@@ -156,19 +192,25 @@ def all_electric_by(ctx: Context, implicit_target: bool) -> int | None:
 
 def build_problem(ctx: Context, co: dict[str, Coefficients], capacity: CapacityModel,
                   implicit_target: bool = True, delay: int | None = 0,
-                  groups: tuple[IncentiveGroup, ...] = ()) -> Problem:
+                  groups: tuple[IncentiveGroup, ...] = (),
+                  alternatives: dict[str, ProjectDetail] | None = None) -> Problem:
     """The scheduling problem. ``delay``: years allowed past each appliance's replace-by year
-    (None: no replace-by windows)."""
+    (None: no replace-by windows). ``alternatives``: other sizes of the sized projects (id
+    ``<project>@<size>`` -> detail), offered beside the project itself, at most one of them."""
     plan = ctx.plan
     years = ctx.years
     T = len(years)
     projects = []
+    alternatives = alternatives or {}
+    sized = {d.id for d in alternatives.values()}
     urgent = {e.upgrade for e in emergency_items(ctx)}  # a failure overrides a later pin
-    for pid, d in ctx.details.items():
-        c = co[pid]
+    for entry, d in [*ctx.details.items(), *alternatives.items()]:
+        pid = d.id
+        c = co[entry]
         life = d.life_years
         value = [_value(ctx, c, t, life) for t in range(T)]
         savings = [sum(s * (1 + ctx.escalation(f)) ** t for f, s in c.savings_by_fuel.items())
+                   + c.maintenance_usd_per_year * (1 + plan.prices.inflation_pct / 100.0) ** t
                    for t in range(T)]
         emissions = [c.emissions_saved_kg * (T - t) for t in range(T)]
         penalty = [0.0] * T
@@ -194,12 +236,17 @@ def build_problem(ctx: Context, co: dict[str, Coefficients], capacity: CapacityM
             veh = plan.vehicles[[plan.vehicle_key(i) for i in range(len(plan.vehicles))].index(d.candidate.replaces[0])]
             if veh.replace_year is not None and pid not in plan.choices.pins:
                 earliest = max(veh.replace_year, ctx.first_year)
+        pinned = None if pid in urgent else plan.choices.pins.get(pid)
+        if pid in sized and pinned is not None:  # one of the sizes, in the pinned year
+            earliest = latest = pinned
+            pinned = None
         projects.append(Project(
-            id=pid, label=d.label, cost_usd=[c.cost_usd[t] - c.pos_incentive_usd[t] for t in range(T)],
+            id=entry, label=d.label if entry == pid else f"{d.label}, {d.size_text()}",
+            cost_usd=[c.cost_usd[t] - c.pos_incentive_usd[t] for t in range(T)],
             value_usd=value, emissions_kg=emissions, savings_usd=savings,
             undone_penalty_usd=penalty, excluded=pid in plan.choices.exclude or pid in capacity.excluded,
             earliest_year=earliest, latest_year=latest,
-            pinned_year=None if pid in urgent else plan.choices.pins.get(pid),
+            pinned_year=pinned,
             window_reason=(f"{item or 'the old one'} reaches {plan.choices.replace_at_risk_pct:.0f} % "
                            "failure risk") if latest else "",
             capacity_use=max(capacity.use.get(pid, 0.0), 0.0),
@@ -237,6 +284,8 @@ def build_problem(ctx: Context, co: dict[str, Coefficients], capacity: CapacityM
                     if p not in plan.choices.exclude and _reachable(ctx, p, by))
         if ids:
             targets.append(Target(ids, by, "fully electric"))
+    if alternatives:
+        prereqs, exclusive, groups = _offer_sizes(ctx, alternatives, prereqs, exclusive, groups)
     objective, objective_project = _objective(ctx)
     b = plan.budget
     budget = [float((b.by_year or {}).get(y, b.usd_per_year)) for y in years]
@@ -252,10 +301,53 @@ def build_problem(ctx: Context, co: dict[str, Coefficients], capacity: CapacityM
         capacity_base=capacity.base_headroom, max_per_year=plan.choices.max_projects_per_year,
         spaces_base=(None if plan.home.electrical.free_spaces is None
                      else float(plan.home.electrical.free_spaces)),
-        incentive_groups=tuple(g for g in groups if all(pid in ctx.details for pid, _ in g.rates)),
+        incentive_groups=tuple(g for g in groups if all(pid in ctx.details or pid in alternatives
+                                                         for pid, _ in g.rates)),
         targets=tuple(targets), objective=objective, objective_project=objective_project,
         exclusive_groups=tuple(exclusive), followups=tuple(followups),
     )
+
+
+SIZE_SEP = "@"
+"""Separates a sized project's id from the size of one of its alternatives (``solar@6``)."""
+
+
+def size_alternatives(ctx: Context) -> dict[str, ProjectDetail]:
+    """The other sizes of each sized project (solar, battery), by alternative id: every size
+    the optimiser may choose except the one ``ctx.details`` holds."""
+    out: dict[str, ProjectDetail] = {}
+    for pid, options in ctx.sizes.items():
+        if pid not in ctx.details or pid in ctx.plan.choices.exclude:
+            continue
+        for alt in options:
+            if alt.size != ctx.details[pid].size:
+                out[f"{pid}{SIZE_SEP}{alt.size:g}"] = alt
+    return out
+
+
+def _offer_sizes(ctx: Context, alternatives: dict[str, ProjectDetail], prereqs: list[Prerequisite],
+                 exclusive: list[ExclusiveGroup], groups: tuple[IncentiveGroup, ...]
+                 ) -> tuple[list[Prerequisite], list[ExclusiveGroup], tuple[IncentiveGroup, ...]]:
+    """The rules of a sized project hold for each of its sizes: what it needs, what needs it
+    (any size will do), its exclusions and its capped incentives; and at most one size is done
+    (exactly one when the project is pinned)."""
+    by_pid: dict[str, list[str]] = {}
+    for aid, d in alternatives.items():
+        by_pid.setdefault(d.id, []).append(aid)
+    out = []
+    for pr in prereqs:
+        reqs = tuple(r2 for r in pr.requires_any for r2 in (r, *by_pid.get(r, ())))
+        pr = replace(pr, requires_any=reqs)
+        out.append(pr)
+        out.extend(replace(pr, project=aid) for aid in by_pid.get(pr.project, ()))
+    excl = [replace(g, members=tuple(m2 for m in g.members for m2 in (m, *by_pid.get(m, ()))))
+            for g in exclusive]
+    for pid, ids in by_pid.items():
+        excl.append(ExclusiveGroup(members=(pid, *ids), exactly_one=pid in ctx.plan.choices.pins,
+                                   label=f"one size of {ctx.details[pid].label.lower()}"))
+    grps = tuple(replace(g, rates=tuple((p2, r) for p, r in g.rates for p2 in (p, *by_pid.get(p, ()))))
+                 for g in groups)
+    return out, excl, grps
 
 
 def _objective(ctx: Context) -> tuple[str, str | None]:
@@ -416,50 +508,166 @@ def _reachable(ctx: Context, pid: str, by: int) -> bool:
     return veh.replace_year is None or veh.replace_year <= by
 
 
+def _alt_coefficients(ctx: Context, alternatives: dict[str, ProjectDetail], incentives: IncentiveModel,
+                      before: dict[str, set[str]]) -> dict[str, Coefficients]:
+    """Coefficients of each size alternative, measured like its project (against ``before[pid]``)."""
+    out = {}
+    for aid, d in alternatives.items():
+        trial = ctx.with_size(d)
+        out[aid] = coefficients(trial, d.id, before.get(d.id, set()), incentives.with_ctx(trial))
+    return out
+
+
+def _electrified(ctx: Context) -> set[str]:
+    """Every project that changes the home's use (capacity remedies, solar, the battery and the
+    roof aside): the home a sized project is first measured against."""
+    kinds = catalog.upgrade_kinds()
+    return {pid for pid, d in ctx.details.items() if d.kind not in ("solar", "battery", "roof")
+            and not kinds[d.kind].capacity_remedy and pid not in ctx.plan.choices.exclude}
+
+
+def _chosen_sizes(ctx: Context, solution: Solution, alternatives: dict[str, ProjectDetail]) -> Context:
+    """The context with each sized project at the size the solution chose (unchanged when it
+    chose the size ``ctx.details`` holds, or none)."""
+    years = solution.done()
+    chosen = [d for aid, d in alternatives.items() if aid in years]
+    for d in chosen:
+        ctx = ctx.with_size(d)
+    return ctx
+
+
+def _as_projects(solution: Solution, alternatives: dict[str, ProjectDetail]) -> dict[str, int]:
+    """The solution's placements with each size alternative named by its project."""
+    return {(alternatives[p].id if p in alternatives else p): y for p, y in solution.done().items()}
+
+
 def schedule(ctx: Context, capacity: CapacityModel, incentives: IncentiveModel) -> ScheduleOutcome:
-    """Solve, refine the project values in the order found, solve again."""
+    """Solve, refine the project values in the order found, solve again.
+
+    The sized projects (solar, battery) are offered at each of their sizes in the first two
+    solves, at most one size each; the last solve has the sizes chosen (``outcome.details``).
+    Their savings are measured against the home they serve most of their life: the electrified
+    home (first solve), then the plan's end state (second solve)."""
     notes: list[str] = []
     key = (f"groups:{id(incentives.programs)}:{[(p, d.cost_today_usd) for p, d in ctx.details.items()]}:"
            f"{ctx.first_year}:{len(ctx.years)}:{ctx.plan.prices.model_dump_json()}:"
            f"{ctx.plan.household.model_dump_json()}")
     groups = ctx.cache.memo(key, incentives.groups)
-    co = {pid: coefficients(ctx, pid, set(), incentives) for pid in ctx.details}
+    alts = size_alternatives(ctx)
+    electrified = _electrified(ctx)
+    first = {pid: (electrified - {pid} if pid in ctx.sizes else set()) for pid in ctx.details}
+    co = {pid: coefficients(ctx, pid, first[pid], incentives) for pid in ctx.details}
+    co.update(_alt_coefficients(ctx, alts, incentives, first))
     implicit = ctx.plan.choices.all_electric_by is None and ctx.plan.choices.all_electric
     notes.extend(_target_notes(ctx, implicit))
-    problem, solution, delay = _solve_relaxing(ctx, co, capacity, implicit, groups, notes)
+    problem, solution, delay = _solve_relaxing(ctx, co, capacity, implicit, groups, notes, alts)
     if not solution.feasible and implicit and problem.targets:
         why = diagnose_infeasible(problem)
         notes.append(f"fully electric by {ctx.years[-1]} is out of reach: {why} This plan does "
                      "the most it can within the budget.")
         implicit = False
-        problem, solution, delay = _solve_relaxing(ctx, co, capacity, implicit, groups, notes)
+        problem, solution, delay = _solve_relaxing(ctx, co, capacity, implicit, groups, notes, alts)
     passes = 1
+    start = ctx
+    size_values: dict[str, dict[float, float]] = {}
     if solution.feasible:
-        done = {p: y for p, y in solution.done().items() if p in ctx.details}
+        ctx = _chosen_sizes(ctx, solution, alts)
+        done = {p: y for p, y in _as_projects(solution, alts).items() if p in ctx.details}
+        alts = size_alternatives(ctx)
         order = work_order(ctx, done)
-        co2 = {}
+        co2, before = {}, {}
         for pid in ctx.details:
-            before = set(order[:order.index(pid)]) if pid in done else set(done)
-            co2[pid] = coefficients(ctx, pid, before, incentives)
-        problem2 = build_problem(ctx, co2, capacity, implicit_target=implicit, delay=delay, groups=groups)
+            before[pid] = set(order[:order.index(pid)]) if pid in done else set(done)
+            if pid in ctx.sizes:  # sized for the home it serves most of its life: the plan's end
+                before[pid] = set(done) - {pid}
+            co2[pid] = coefficients(ctx, pid, before[pid], incentives.with_ctx(ctx))
+        co2.update(_alt_coefficients(ctx, alts, incentives, before))
+        problem2 = build_problem(ctx, co2, capacity, implicit_target=implicit, delay=delay, groups=groups,
+                                 alternatives=alts)
         solution2 = solve(problem2)
         if solution2.feasible:
             problem, solution, co, passes = problem2, solution2, co2, 2
+            size_values = _size_values(ctx, problem2, solution2, alts)
+            if alts:  # the sizes chosen, then the plan solved with them alone
+                ctx = _chosen_sizes(ctx, solution2, alts)
+                names = {aid: d.id for aid, d in alts.items() if aid in solution2.done()}
+                co3 = {pid: co2[next((a for a, p in names.items() if p == pid), pid)] for pid in ctx.details}
+                problem3 = build_problem(ctx, co3, capacity, implicit_target=implicit, delay=delay,
+                                         groups=groups)
+                solution3 = solve(problem3)
+                if solution3.feasible:
+                    problem, solution, co, passes = problem3, solution3, co3, 3
+                else:  # keep the second solve, its sizes named by their projects
+                    ctx = start if not names else ctx
+    sized = {pid: ctx.details[pid] for pid in start.sizes if pid in ctx.details
+             and ctx.details[pid] is not start.details.get(pid)}
     if not solution.feasible:
         return ScheduleOutcome(problem, solution, co, capacity, infeasibility=diagnose_infeasible(problem),
-                               passes=passes, notes=tuple(notes))
-    return ScheduleOutcome(problem, solution, co, capacity, reasons=explain(problem, solution),
-                           passes=passes, notes=tuple(notes))
+                               passes=passes, notes=tuple(notes), details=sized)
+    reasons = dict(explain(problem, solution))
+    for pid, values in size_values.items():
+        if pid in solution.done():
+            reasons[pid] = (*reasons.get(pid, ()), _size_reason(ctx, pid, values))
+    return ScheduleOutcome(problem, solution, co, capacity, reasons=reasons, passes=passes,
+                           notes=tuple(notes), details=sized, size_values=size_values)
+
+
+def _size_values(ctx: Context, problem: Problem, solution: Solution,
+                 alternatives: dict[str, ProjectDetail]) -> dict[str, dict[float, float]]:
+    """For each sized project: the net present value (to the first year) of each of its sizes,
+    done in the year the solution placed it (or the first year when it left it out)."""
+    years = _as_projects(solution, alternatives)
+    rate = ctx.plan.budget.discount_rate_pct
+    out: dict[str, dict[float, float]] = {}
+    for pid in ctx.sizes:
+        if pid not in ctx.details:
+            continue
+        t = years.get(pid, ctx.first_year) - ctx.first_year
+        ids = [pid] + [aid for aid, d in alternatives.items() if d.id == pid]
+        vals = {}
+        for aid in ids:
+            pr = problem.project(aid)
+            size = (alternatives[aid] if aid in alternatives else ctx.details[pid]).size
+            vals[size] = pr.value_usd[t] - pr.cost_usd[t] * discount_factor(rate, t)
+        out[pid] = dict(sorted(vals.items()))
+    return out
+
+
+def _size_reason(ctx: Context, pid: str, values: dict[float, float]) -> str:
+    """Why this size, in words: the value of each size the optimiser weighed."""
+    d = ctx.details[pid]
+    unit = "kW" if d.kind == "solar" else "kWh"
+    e = ctx.plan.prices.electricity
+    rule = {"net_metering": "net metering", "none": "no export",
+            "net_billing": "net billing"}[e.export]
+    if e.export == "net_billing":
+        rate = e.export_usd_per_kwh if e.export_usd_per_kwh is not None else performance()[
+            "net_billing_export_usd_per_kwh"]
+        rule += f" at {rate:.2f} USD/kWh"
+    if e.export_limit_kw is not None and e.export != "none":
+        rule += f", exports limited to {e.export_limit_kw:g} kW"
+    if e.time_of_use:
+        rule += ", time-of-use prices"
+    each = ", ".join(f"{s:g} {unit} {v:+,.0f}" for s, v in values.items())
+    text = (f"{d.size:g} {unit} chosen for value among the sizes offered ({rule}); net present value "
+            f"of each over the plan, USD: {each}")
+    best = max(values, key=lambda x: values[x])
+    if best != d.size and values[best] > values.get(d.size, values[best]) + 1.0:
+        text += (f" ({best:g} {unit} is worth more on its own, but the plan as a whole does better "
+                 "with this size: the budget and the other steps)")
+    return text
 
 
 def _solve_relaxing(ctx: Context, co: dict[str, Coefficients], capacity: CapacityModel, implicit: bool,
-                    groups: tuple[IncentiveGroup, ...], notes: list[str]
+                    groups: tuple[IncentiveGroup, ...], notes: list[str],
+                    alternatives: dict[str, ProjectDetail] | None = None
                     ) -> tuple[Problem, Solution, int | None]:
     """Solve with the replace-by windows; if the budget cannot meet them, allow the fewest
     extra years that make it feasible, and finally drop the windows (saying so in ``notes``)."""
     delays: list[int | None] = list(range(0, len(ctx.years))) + [None]
     for delay in delays:
-        problem = build_problem(ctx, co, capacity, implicit_target=implicit, delay=delay, groups=groups)
+        problem = build_problem(ctx, co, capacity, implicit_target=implicit, delay=delay, groups=groups,
+                                alternatives=alternatives)
         solution = solve(problem)
         if solution.feasible:
             if delay:

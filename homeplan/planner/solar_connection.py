@@ -25,7 +25,7 @@ from homeplan.electrical.nec705 import backfeed_check, derated_main_options
 from homeplan.planner.context import Context
 from homeplan.planner.states import battery_power_kw
 
-__all__ = ["Connection", "connection_options", "inverter_amps"]
+__all__ = ["Connection", "cheapest_connection", "connection_options", "inverter_amps"]
 
 
 @dataclass(frozen=True)
@@ -42,6 +42,7 @@ class Connection:
     cost_usd: float
     derated_main_amps: float | None = None
     pcs_limit_amps: float | None = None
+    fits: bool = True              # False: no connection on offer takes this much backfeed
 
     @property
     def words(self) -> str:
@@ -73,8 +74,10 @@ def inverter_amps(ctx: Context, pids: set[str] | frozenset[str]) -> float:
     return amps
 
 
-def _cheapest(ctx: Context, projects: frozenset[str], service: Service,
-              load_amps: float | None) -> Connection:
+def cheapest_connection(ctx: Context, projects: frozenset[str], service: Service,
+                        load_amps: float | None) -> Connection:
+    """The cheapest connection the code allows for the new inverters ``projects`` (and any the
+    home has): the panel as it is, a power control system, a derated main or the supply side."""
     p = performance()
     edition = ctx.plan.home.electrical.code_edition
     amps = inverter_amps(ctx, projects)
@@ -101,7 +104,7 @@ def _cheapest(ctx: Context, projects: frozenset[str], service: Service,
         options.append(Connection(projects, amps, "supply_side", p["supply_side_usd"]))
     order = {"power_control": 0, "derated_main": 1, "supply_side": 2}
     if not options:  # nothing on offer makes it fit: the supply side, flagged in the state checks
-        return Connection(projects, amps, "supply_side", p["supply_side_usd"])
+        return Connection(projects, amps, "supply_side", p["supply_side_usd"], fits=False)
     return min(options, key=lambda c: (c.cost_usd, order[c.kind]))
 
 
@@ -116,5 +119,5 @@ def connection_options(ctx: Context, service: Service, load_amps: float | None,
     for n in range(1, len(pv) + 1):
         for combo in combinations(sorted(pv), n):
             s = frozenset(combo)
-            out[s] = _cheapest(ctx, s, service, load_amps)
+            out[s] = cheapest_connection(ctx, s, service, load_amps)
     return out

@@ -25,6 +25,7 @@ from homeplan.catalog import performance
 from homeplan.energy.appliances import CookingSpec, DryerSpec
 from homeplan.energy.battery import BatterySpec
 from homeplan.energy.heating import CoolingSpec, HeatPumpSpec, hp_capacity_btuh, size_heat_pump
+from homeplan.energy.rates import ElectricRate, battery_windows
 from homeplan.energy.simulate import EnergyResult, HomeEnergySpec, simulate, with_heat_pump
 from homeplan.energy.solar import SolarArraySpec
 from homeplan.energy.vehicles import VehicleSpec
@@ -45,6 +46,7 @@ __all__ = [
     "heat_pump_class",
     "heat_pump_spec",
     "heat_pump_tons",
+    "new_battery",
     "roof_array",
     "simulate_state",
     "state_spec",
@@ -204,6 +206,22 @@ def battery_power_kw(kwh: float) -> float:
     return float(p["battery_default_kw"] * kwh / p["battery_default_kwh"])
 
 
+def new_battery(kwh: float, rate: ElectricRate) -> BatterySpec:
+    """A new battery of ``kwh`` usable energy, dispatched for the tariff: with time-of-use prices
+    it discharges in the dearest hours and charges from the grid in the cheapest when the spread
+    pays for its losses (and from surplus solar any time); on a flat rate it stores surplus solar.
+
+    References
+    ----------
+    DiOrio et al. (2015), NREL/TP-6A20-64641 (SAM dispatch strategies).
+    """
+    b = BatterySpec(capacity_kwh=kwh, power_kw=battery_power_kw(kwh))
+    windows = battery_windows(rate, b.round_trip_eff)
+    if windows is None:
+        return b
+    return replace(b, mode="tou", charge_hours=windows[0], discharge_hours=windows[1])
+
+
 def roof_array(plan: Plan, dc_kw: float) -> SolarArraySpec:
     """A new array of ``dc_kw`` on the plan's roof: its tilt, orientation and shade loss."""
     roof = plan.home.roof
@@ -254,7 +272,7 @@ def state_spec(basis: HomeBasis, plan: Plan, done: Iterable[Choice], label: str 
         elif k == "solar":
             spec = replace(spec, solar=roof_array(plan, c.size))
         elif k == "battery":
-            spec = replace(spec, battery=BatterySpec(capacity_kwh=c.size, power_kw=battery_power_kw(c.size)))
+            spec = replace(spec, battery=new_battery(c.size, spec.electric_rate))
         elif k == "envelope":
             cut = float(kinds["envelope"].extra.get("heat_loss_cut_pct", 15)) / 100.0
             spec = replace(spec, ua_btuh_f=spec.ua_btuh_f * (1.0 - cut))

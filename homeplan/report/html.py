@@ -180,6 +180,9 @@ def render_html(r: Report) -> str:
     parts.append('<section class="years"><h2>Year by year</h2>' + _table(r.years, "years") + "</section>")
     parts.append('<section class="energy keep"><h2>Energy and emissions, before and after</h2>'
                  + _table(r.energy, "energy") + "</section>")
+    if r.solar_months:
+        parts.append('<section class="energy keep"><h2>Electricity and solar by month</h2>'
+                     + _table(r.solar_months, "energy") + "</section>")
     parts.append('<section class="capacity"><h2>Electrical capacity</h2>' + _table(r.capacity, "capacity"))
     if r.capacity_notes:
         parts.append("<ul>" + "".join(f"<li>{e(n)}</li>" for n in r.capacity_notes) + "</ul>")

@@ -6,7 +6,8 @@ plan gives the same UIDs (a calendar updates the events instead of duplicating t
 changed plan gives new ones.
 
 Events:
-- "Get quotes": about three months before the year of each step (1 October of the year before).
+- "Get quotes": about three months before the year of each step (1 October of the year before);
+  for an electric vehicle "Shop for the car" (a dealer sells it: no contractor, no permit).
 - Incentive deadlines: the day a program used by the roadmap closes, and for tax credits a
   reminder to claim them with the tax return of the year the work was done (1 February).
 - Replace-by dates: 1 January of the year each appliance's failure risk reaches the plan's
@@ -104,12 +105,18 @@ def reminders(result: Any, today: dt.date | None = None) -> list[Reminder]:
         if s.reasons:
             lines.append("Why then: " + "; ".join(clean(r) for r in s.reasons))
         lines.extend(f"Safety: {clean(c)}" for c in s.cautions)
-        lines.append("Ask two or three licensed contractors for written quotes, permits included.")
+        vehicle = info is not None and info.kind == "ev"
+        if vehicle:  # a car is bought from a dealer, not installed by a contractor
+            lines.append("Compare the electric model's price with a comparable gasoline one's, "
+                         "test-drive both, and check the vehicle incentives that apply when you buy.")
+        else:
+            lines.append("Ask two or three licensed contractors for written quotes, permits included.")
         quote_day = dt.date(s.year - 1, 10, 1)
         if today is not None and quote_day < today <= dt.date(s.year, 12, 31):
             quote_day = today
         out.append(Reminder(f"quotes-{s.project_id}-{s.year}", quote_day,
-                            f"Get quotes: {label}", "\n".join(lines), "quotes"))
+                            f"{'Shop for the car' if vehicle else 'Get quotes'}: {label}",
+                            "\n".join(lines), "quotes"))
         for i in s.incentives:
             if i.kind == "tax_credit":
                 out.append(Reminder(

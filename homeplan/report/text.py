@@ -84,6 +84,7 @@ def render_text(r: Report) -> str:
         ("Steps", _text_table(r.steps) + "\n" + r.money_note),
         ("Year by year", _text_table(r.years)),
         ("Energy and emissions, before and after", _text_table(r.energy)),
+        *((("Electricity and solar by month", _text_table(r.solar_months)),) if r.solar_months else ()),
         ("Electrical capacity", _text_table(r.capacity) + "".join(f"\n  - {n}" for n in r.capacity_notes)),
         ("Key assumptions", "\n".join(_wrap(f"{k + ':':<28} {v}", w, hang=29) for k, v in r.assumptions)
          + ("\n\n" + _text_table(r.programs) if r.programs.rows else "")),
@@ -135,6 +136,8 @@ def render_markdown(r: Report) -> str:
     out += ["## Steps", "", _md_table(r.steps), "", f"_{md(r.money_note)}_", ""]
     out += ["## Year by year", "", _md_table(r.years), ""]
     out += ["## Energy and emissions, before and after", "", _md_table(r.energy), ""]
+    if r.solar_months:
+        out += ["## Electricity and solar by month", "", _md_table(r.solar_months), ""]
     out += ["## Electrical capacity", "", _md_table(r.capacity), ""]
     out += [f"- {md(n)}" for n in r.capacity_notes]
     out += ["", "## Key assumptions", ""] + [f"- **{md(k)}:** {md(v)}" for k, v in r.assumptions]

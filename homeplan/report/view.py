@@ -134,6 +134,7 @@ class Report:
     cautions: tuple[tuple[str, str], ...]
     warnings: tuple[str, ...]
     footer: Footer
+    solar_months: Table | None = None            # use against solar by month, when the plan has solar
     money_note: str = "Money is rounded: to the nearest $10 under $1,000, else to the nearest $100."
 
 
@@ -364,6 +365,28 @@ def _energy_table(result: Any) -> Table:
                  "A typical weather year at today's prices; bills include fixed charges.")
 
 
+MONTH_NAMES = ("Jan", "Feb", "Mar", "Apr", "May", "Jun", "Jul", "Aug", "Sep", "Oct", "Nov", "Dec")
+
+
+def _solar_months(result: Any) -> Table | None:
+    """Electricity use against solar production by month after the plan (None without solar)."""
+    a = result.energy_after
+    use, solar = a.monthly.get("electricity_kwh"), a.monthly.get("solar_kwh")
+    if not use or not solar or sum(solar) <= 0:
+        return None
+    exported = a.monthly.get("grid_export_kwh") or (0.0,) * 12
+    imported = a.monthly.get("grid_import_kwh") or (0.0,) * 12
+    rows = tuple((m, number(u), number(p), number(u - p), number(x), number(i))
+                 for m, u, p, x, i in zip(MONTH_NAMES, use, solar, exported, imported, strict=True))
+    total = ("Year", number(sum(use)), number(sum(solar)), number(sum(use) - sum(solar)),
+             number(sum(exported)), number(sum(imported)))
+    share = sum(exported) / sum(solar) * 100
+    return Table(("Month", "Use (kWh)", "Solar (kWh)", "Use minus solar", "Exported", "Bought"),
+                 rows, "lrrrrr", total,
+                 f"After the plan, in a typical weather year. {share:.0f} % of the solar output is "
+                 "exported (credited as the export rule says); winter months draw on the grid.")
+
+
 def _change(before: float, after: float, fmt: Any, is_money: bool = False) -> str:
     if not (finite(before) and finite(after)):
         return "n/a"
@@ -413,6 +436,25 @@ def _assumption_value(value: Any) -> str:
     return clean(value)
 
 
+def _export_words(export: Any) -> str:
+    """How exported solar is credited, from the roadmap's assumptions."""
+    if not isinstance(export, dict):
+        return "n/a"
+    rule = export.get("rule")
+    if rule == "none":
+        text = "none: the inverter curtails what the home does not use"
+    elif rule == "net_billing":
+        rate = export.get("usd_per_kwh")
+        text = f"net billing at ${rate:.3f}/kWh" if finite(rate) else "net billing"
+        if not export.get("rate_given", True):
+            text += " (not in the plan: a typical avoided-cost rate assumed - add the utility's)"
+    else:
+        text = "net metering: exports credited at the retail price, leftover credit paid at the true-up"
+    if export.get("limit_kw") is not None and rule != "none":
+        text += f"; exports limited to {export['limit_kw']:g} kW"
+    return text
+
+
 def _assumptions(plan: Any, result: Any) -> list[tuple[str, str]]:
     p = plan.prices
     out: list[tuple[str, str]] = []
@@ -420,6 +462,7 @@ def _assumptions(plan: Any, result: Any) -> list[tuple[str, str]]:
     tou = f"; time-of-use periods: {len(e.time_of_use)}" if e.time_of_use else ""
     out.append(("Electricity price", f"${e.usd_per_kwh:.3f}/kWh + ${e.fixed_usd_per_month:.2f}/month"
                 f" ({e.export.replace('_', ' ')}{tou})"))
+    out.append(("Solar export credit", _export_words(result.roadmap.assumptions.get("export"))))
     fuels = {a.fuel for a in plan.appliances if a.fuel}
     fuels |= {k.partition("_")[0] for k, v in result.energy_before.annual.items() if v}
     if plan.usage is not None and plan.usage.gas is not None:
@@ -478,6 +521,21 @@ def _assumptions(plan: Any, result: Any) -> list[tuple[str, str]]:
     if isinstance(esc, dict) and esc:
         out.append(("Price rise used", ", ".join(f"{clean(k)} {pct(v)}" for k, v in esc.items()
                                                  if isinstance(v, int | float)) + " a year"))
+    yield_ = planner.get("solar_yield_kwh_per_kwdc")
+    if isinstance(yield_, dict) and yield_.get("new_array"):
+        text = (f"{number(yield_['new_array'], 0)} kWh a year per kW of panels on this roof (tilt "
+                f"{yield_.get('tilt_deg', 0):g} deg, facing {yield_.get('azimuth_deg', 0):g} deg, shade "
+                f"{yield_.get('shade_loss_pct', 0):g} %)")
+        if yield_.get("existing_array"):
+            text += f"; the existing array {number(yield_['existing_array'], 0)}"
+        out.append(("Solar yield", text))
+    backup = planner.get("backup")
+    if isinstance(backup, dict):
+        out.append(("Backup power", f"{backup['critical_kwh']:g} kWh of critical loads over a "
+                    f"{backup['outage_hours']:g}-hour outage: a battery of at least "
+                    f"{backup['battery_kwh_needed']:g} kWh; you value it at "
+                    f"{money(backup['value_usd_per_year'])} a year (counts in the choice of battery, "
+                    "not in the money figures)"))
     for key, label in (("weather", "Weather"), ("heat_loss_method", "Heat loss from"),
                        ("design_heating_load_btuh", "Design heating load"),
                        ("conventions", "Conventions")):
@@ -535,6 +593,7 @@ def build_report(result: Any, today: dt.date | None = None, tool_version: str | 
         cautions=collect_cautions(result),
         warnings=tuple(clean(w) for w in result.warnings if clean(w)),
         footer=footer,
+        solar_months=_solar_months(result),
     )
 
 

@@ -31,6 +31,7 @@ __all__ = [
     "Emergency",
     "IncentiveKind",
     "IncentiveLine",
+    "LeftOut",
     "Milestone",
     "MilestoneKind",
     "Objective",
@@ -140,7 +141,8 @@ class Step:
     (``avoided_usd``: the same-kind replacements of the items it takes over that are due that
     year; 0 when none is due, and then it equals ``net_cost_usd``). Sized steps carry their size:
     solar ``dc_kw`` and ``production_kwh`` (AC, first full year), a battery ``kwh`` (usable) and
-    ``kw``; None for other steps.
+    ``kw``, and with the plan's critical loads ``backup_hours`` (how long it carries them, up to
+    the outage named); None for other steps.
     """
 
     project_id: str
@@ -161,6 +163,7 @@ class Step:
     production_kwh: float | None = None
     kwh: float | None = None
     kw: float | None = None
+    backup_hours: float | None = None
 
     def __post_init__(self) -> None:
         object.__setattr__(self, "incentives", _tuple(self.incentives))
@@ -191,7 +194,8 @@ class Step:
             "incremental_cost_usd": _json_number(self.incremental_cost_usd),
             "avoided_usd": _json_number(self.avoided_usd),
             **{k: _json_number(v) for k, v in (("dc_kw", self.dc_kw), ("production_kwh", self.production_kwh),
-                                                ("kwh", self.kwh), ("kw", self.kw)) if v is not None},
+                                                ("kwh", self.kwh), ("kw", self.kw),
+                                                ("backup_hours", self.backup_hours)) if v is not None},
         }
 
     @classmethod
@@ -213,7 +217,7 @@ class Step:
                                   else float(data["incremental_cost_usd"])),
             avoided_usd=_num(data.get("avoided_usd", 0.0)),
             **{k: (None if data.get(k) is None else float(data[k]))
-               for k in ("dc_kw", "production_kwh", "kwh", "kw")},
+               for k in ("dc_kw", "production_kwh", "kwh", "kw", "backup_hours")},
         )
 
 
@@ -237,6 +241,8 @@ class YearTotals:
     - ``energy``: energy use by fuel, unit in the key (``electricity_kwh``, ``gas_therm``...).
     - ``service_load_pct``: the NEC 220.83 calculated load as a percentage of the service rating
       at year end; ``service_near_limit``: it fits but above 90 % of the rating.
+    - ``maintenance_savings_usd``: what the plan's electric cars save that year in maintenance
+      against the gasoline cars they replace (counted in the net present value).
     """
 
     year: int
@@ -253,6 +259,7 @@ class YearTotals:
     energy: dict[str, float] = field(default_factory=dict)
     service_load_pct: float | None = None
     service_near_limit: bool = False
+    maintenance_savings_usd: float = 0.0
 
     def __post_init__(self) -> None:
         object.__setattr__(self, "bills_usd", dict(self.bills_usd))
@@ -278,6 +285,7 @@ class YearTotals:
             "energy": _json_value(self.energy),
             "service_load_pct": _json_number(self.service_load_pct),
             "service_near_limit": self.service_near_limit,
+            "maintenance_savings_usd": _json_number(self.maintenance_savings_usd),
         }
 
     @classmethod
@@ -294,6 +302,7 @@ class YearTotals:
                 "emissions_kg",
                 "peak_kw",
                 "service_headroom_amps",
+                "maintenance_savings_usd",
             )
         }
         pct = data.get("service_load_pct")
@@ -412,6 +421,23 @@ class Emergency:
 
 
 @dataclass(frozen=True)
+class LeftOut:
+    """A project the home could have that the roadmap does not do, and why, with the figures
+    (``"rooftop solar is not in the plan: the best array (4 kW) is worth -1,200 USD..."``)."""
+
+    project_id: str
+    label: str
+    reason: str
+
+    def to_dict(self) -> dict[str, Any]:
+        return {"project_id": self.project_id, "label": self.label, "reason": self.reason}
+
+    @classmethod
+    def from_dict(cls, data: Mapping[str, Any]) -> LeftOut:
+        return cls(data["project_id"], data.get("label", ""), data.get("reason", ""))
+
+
+@dataclass(frozen=True)
 class Roadmap:
     """The full result of planning one home.
 
@@ -441,9 +467,11 @@ class Roadmap:
     emergencies: tuple[Emergency, ...] = ()
     schema_version: str = SCHEMA_VERSION
     npv_vs_like_for_like_usd: float = float("nan")
+    left_out: tuple[LeftOut, ...] = ()
 
     def __post_init__(self) -> None:
         object.__setattr__(self, "emergencies", _tuple(self.emergencies))
+        object.__setattr__(self, "left_out", _tuple(self.left_out))
         object.__setattr__(self, "steps", tuple(sorted(_tuple(self.steps), key=lambda s: s.year)))
         object.__setattr__(self, "years", _tuple(self.years))
         object.__setattr__(self, "milestones", _tuple(self.milestones))
@@ -481,6 +509,7 @@ class Roadmap:
             "assumptions": _json_value(self.assumptions),
             "cautions": list(self.cautions),
             "emergencies": [e.to_dict() for e in self.emergencies],
+            "left_out": [x.to_dict() for x in self.left_out],
         }
 
     @classmethod
@@ -508,5 +537,6 @@ class Roadmap:
             assumptions=dict(data.get("assumptions", {})),
             cautions=tuple(data.get("cautions", ())),
             emergencies=tuple(Emergency.from_dict(e) for e in data.get("emergencies", ())),
+            left_out=tuple(LeftOut.from_dict(x) for x in data.get("left_out", ())),
             schema_version=version,
         )

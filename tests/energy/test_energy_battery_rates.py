@@ -130,3 +130,20 @@ def test_gas_fixed_charge_until_service_closed():
     assert fuel_bill(price, np.zeros(12), service_open=True).sum() == pytest.approx(180.0)
     assert fuel_bill(price, np.zeros(12), service_open=False).sum() == 0.0
     assert fuel_bill(price, np.full(12, 10.0), True)[0] == pytest.approx(29.0)
+
+
+def test_battery_windows_follow_the_tariff():
+    # DiOrio et al. (2015) NREL/TP-6A20-64641, time-of-use dispatch: discharge in the dearest
+    # hours; charge from the grid in the cheapest only when the spread pays for the losses
+    # (price_low < price_high x round-trip efficiency)
+    from homeplan.energy.rates import battery_windows
+
+    peak = TouPeriod("peak", 0.45, (16, 17, 18, 19, 20))
+    night = TouPeriod("night", 0.10, (0, 1, 2, 3, 4, 5))
+    charge, discharge = battery_windows(ElectricRate(usd_per_kwh=0.20, tou_periods=(peak, night)), 0.90)
+    assert discharge == (16, 17, 18, 19, 20) and charge == (0, 1, 2, 3, 4, 5)
+    # 0.42 x 0.90 < 0.40: a spread too small for the losses, no grid charging
+    charge, discharge = battery_windows(
+        ElectricRate(usd_per_kwh=0.40, tou_periods=(TouPeriod("peak", 0.42, (17, 18)),)), 0.90)
+    assert charge == () and discharge == (17, 18)
+    assert battery_windows(ElectricRate(usd_per_kwh=0.20)) is None

@@ -174,3 +174,21 @@ def test_plug_load_and_cooling_calibration(cold, gas_home):
     hot = simulate(replace(gas_home, cooling_load_multiplier=1.5), cache)
     assert hot.end_use_units["cooling"]["electricity"] == pytest.approx(
         1.5 * r.end_use_units["cooling"]["electricity"])
+
+
+def test_no_export_and_export_limit_curtail_the_surplus(cold, gas_home):
+    # a non-export system (export: none) and an export limit: the inverter curtails what the grid
+    # does not take (NEC 705.13 power control; utility interconnection limits). Energy balance:
+    # load - solar made = import - export, with the curtailed output not made at all.
+    _, cache = cold
+    base = replace(gas_home, solar=SolarArraySpec(10.0))
+    free = simulate(replace(base, electric_rate=ElectricRate(export="net_billing")), cache)
+    none = simulate(replace(base, electric_rate=ElectricRate(export="none")), cache)
+    capped = simulate(replace(base, electric_rate=ElectricRate(export="net_billing", export_limit_kw=2.0)), cache)
+    assert free.grid_export_kw.max() > 2.0
+    assert none.grid_export_kwh == 0.0 and capped.grid_export_kw.max() <= 2.0 + 1e-9
+    for r in (none, capped):
+        np.testing.assert_allclose(r.load_kw - r.solar_kw, r.grid_import_kw - r.grid_export_kw, atol=1e-9)
+        np.testing.assert_allclose(r.grid_import_kw, free.grid_import_kw, atol=1e-9)  # use is unchanged
+    curtailed = free.solar_kw.sum() - none.solar_kw.sum()
+    assert curtailed == pytest.approx(free.grid_export_kwh)

@@ -85,6 +85,10 @@ def balance_text(after: EnergySummary, width: int) -> Text:
         out.append(f" {use[i] - s:+,.0f}\n")
     out.append("(last column: use minus solar; negative means more produced than used)\n",
                style="italic")
+    made, sent = after.annual.get("solar_kwh", 0.0), after.annual.get("grid_export_kwh", 0.0)
+    if made > 0:
+        out.append(f"Solar makes {made:,.0f} kWh a year: {made - sent:,.0f} used at home, {sent:,.0f} "
+                   f"exported ({sent / made * 100:.0f} %).\n")
     return out
 
 
