@@ -298,13 +298,18 @@ def _steps(ctx: Context, capacity: CapacityModel, outcome: ScheduleOutcome, done
             if words:
                 extra_reasons.append(words)
         avoided = avoided_like_for_like(ctx, pid, year)
+        net_cost = round(cost - sum(i.amount_usd for i in lines), 2)
         if avoided.items:
+            beyond = net_cost - avoided.cost_usd
             extra_reasons.append(f"the {' and the '.join(avoided.items)} would need replacing this year "
-                                 f"anyway (about {avoided.cost_usd:,.0f} USD like-for-like)")
+                                 f"anyway (about {avoided.cost_usd:,.0f} USD like-for-like): "
+                                 + ("this is that replacement" if abs(beyond) < 1 else
+                                    f"this costs about {beyond:,.0f} USD beyond it" if beyond > 0 else
+                                    f"this costs about {-beyond:,.0f} USD less than it"))
         steps.append(Step(
             project_id=pid, label=d.label, year=year, variant=d.variant_label, size=d.size_text(),
             cost_usd=round(cost, 2), incentives=lines,
-            net_cost_usd=round(cost - sum(i.amount_usd for i in lines), 2),
+            net_cost_usd=net_cost,
             reasons=tuple(extra_reasons),
             cautions=tuple(cautions_all[c] for c in caution_ids if c in cautions_all),
             replaces=d.candidate.replaces, avoided_usd=round(avoided.cost_usd, 2),

@@ -363,8 +363,9 @@ def _steps_table(result: Any) -> Table:
 
 def _years_table(result: Any) -> Table:
     road = result.roadmap
-    base = road.baseline("do_nothing")
+    base = road.baseline("like_for_like") or road.baseline("do_nothing")
     base_cum = {y.year: y.cumulative_usd for y in base.years} if base is not None else {}
+    against = "like-for-like" if base is not None and base.kind == "like_for_like" else "doing nothing"
     rows = []
     for y in road.years:
         ahead = (base_cum[y.year] - y.cumulative_usd) if y.year in base_cum else None
@@ -373,11 +374,14 @@ def _years_table(result: Any) -> Table:
                      money_signed(y.bill_savings_usd), money(y.cumulative_usd),
                      money_signed(ahead) if ahead is not None else "n/a", tonnes(y.emissions_kg)))
     return Table(("Year", "Projects", "Incentives in", "Loan payments", "Energy bills",
-                  "Bill savings", "Spent so far", "Ahead of doing nothing", "CO2e"),
+                  "Bill savings", "Spent so far", f"Ahead of {against}", "CO2e"),
                  tuple(rows), "nrrrrrrrr", None,
                  "Spent so far adds projects after incentives, loan payments and energy bills "
-                 "from the first year. Ahead of doing nothing compares that with keeping today's "
-                 "equipment and bills (positive: the plan has cost less so far).")
+                 "from the first year. Bill savings are against keeping today's equipment. "
+                 + ("Ahead of like-for-like compares what has been spent so far with replacing each "
+                    "thing with the same kind when it is due" if against == "like-for-like" else
+                    "Ahead of doing nothing compares that with keeping today's equipment and bills")
+                 + " (positive: the plan has cost less so far).")
 
 
 def _energy_table(result: Any) -> Table:

@@ -11,6 +11,8 @@ import pytest
 
 from homeplan import load_plan, plan_roadmap
 from homeplan.catalog import like_for_like_cost
+from homeplan.report.fmt import money_signed
+from homeplan.report.view import build_report
 from tests.conftest import SAMPLES
 
 
@@ -47,6 +49,7 @@ def test_a_heat_pump_bought_when_furnace_and_ac_are_due_costs_only_the_differenc
     assert step.avoided_usd == pytest.approx(lfl, abs=0.01)
     assert step.incremental_cost_usd == pytest.approx(step.net_cost_usd - lfl, abs=0.01)
     assert step.to_dict()["incremental_cost_usd"] == pytest.approx(step.incremental_cost_usd)
+    assert any(f"about {step.incremental_cost_usd:,.0f} USD beyond it" in r for r in step.reasons)
     r = result.finance.projects["heat_pump"]
     assert r.flows_usd[0] == pytest.approx(-step.incremental_cost_usd, abs=0.01)
     if r.irr_pct is not None:  # numpy-financial irr of the same flows
@@ -59,3 +62,14 @@ def test_a_heat_pump_bought_before_anything_is_due_costs_its_full_price():
     assert outs["furnace"].replace_by_year > 2027 and outs["ac"].replace_by_year > 2027
     assert step.avoided_usd == 0.0 and step.incremental_cost_usd == pytest.approx(step.net_cost_usd)
     assert result.finance.projects["heat_pump"].flows_usd[0] == pytest.approx(-step.net_cost_usd, abs=0.01)
+
+
+def test_the_printout_counts_the_plan_ahead_of_like_for_like():
+    # the running comparison in the printout is against the like-for-like baseline, year by year
+    result = plan_roadmap(load_plan(SAMPLES[0]))
+    road = result.roadmap
+    table = build_report(result).years
+    col = table.headers.index("Ahead of like-for-like")
+    lfl = {y.year: y.cumulative_usd for y in road.baseline("like_for_like").years}
+    for row, y in zip(table.rows, road.years, strict=True):
+        assert row[col] == money_signed(lfl[y.year] - y.cumulative_usd)

@@ -71,7 +71,8 @@ class MoneyView(View):
             lfl = {t.year: t for t in (b.years if b else ())}
             for t in rm.years:
                 n, s = nothing.get(t.year), lfl.get(t.year)
-                ahead = (n.cumulative_usd - t.cumulative_usd) if n else None
+                ref = s or n  # the comparison a household decides on; doing nothing without it
+                ahead = (ref.cumulative_usd - t.cumulative_usd) if ref else None
                 cells = [str(t.year), kusd(t.spend_usd), kusd(t.incentives_usd)]
                 if loans:
                     cells.append(kusd(t.loan_payments_usd))
@@ -89,7 +90,7 @@ class MoneyView(View):
                          " (today's dollars).\n")
             chart.append("US dollars, k = thousand. Back: incentives arriving. Σ: running total "
                          "since the first year for this plan, doing nothing, and replacing each "
-                         "thing like-for-like when it breaks. Ahead: doing nothing minus this plan."
+                         "thing like-for-like when it breaks. Ahead: replacing like-for-like minus this plan."
                          "\n")
         chart.append(ESTIMATES, style="italic")
         self.query_one("#money-chart-text", Static).update(chart)

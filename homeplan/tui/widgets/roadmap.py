@@ -32,8 +32,9 @@ TOTAL_ROWS = (
      "count in the project year; rebates and tax credits when they arrive)."),
     ("_net", "Out of pocket", "Projects cost minus incentives arriving that year."),
     ("_bills", "Bill savings", "Your energy bills compared with doing nothing, that year."),
-    ("_ahead", "Ahead of doing nothing", "Running total: money you are ahead (+) or behind (-) "
-     "compared with doing nothing, counting projects, incentives, loans and bills."),
+    ("_ahead", "Ahead of like-for-like", "Running total: money you are ahead (+) or behind (-) "
+     "compared with replacing each thing like-for-like when it is due, counting projects, "
+     "incentives, loans and bills."),
 )
 
 
@@ -80,6 +81,9 @@ def _money_lines(step: Step) -> list[str]:
         lines.append(f"Then {usd(inc.amount_usd)} {inc.kind.replace('_', ' ')} from {inc.program}, "
                      f"arriving {inc.arrives}.")
     lines.append(f"Net after all incentives: {usd(step.net_cost_usd)}.")
+    if step.avoided_usd > 0:  # the comparison a household decides on
+        lines.append(f"It takes the place of a like-for-like replacement due that year (about "
+                     f"{usd(step.avoided_usd)}): {usd(step.incremental_cost_usd)} beyond it.")
     if step.financed_usd:
         lines.append(f"Paid by a loan: {usd(step.financed_usd)}.")
     return lines
@@ -233,7 +237,7 @@ class RoadmapView(View):
             table.add_row(*cells, key=row.id)
         if rm is not None:
             totals = {t.year: t for t in rm.years}
-            base = rm.baseline("do_nothing")
+            base = rm.baseline("like_for_like") or rm.baseline("do_nothing")
             base_cum = {t.year: t.cumulative_usd for t in base.years} if base else {}
             for key, label, _ in TOTAL_ROWS:
                 cells = [Text("Σ " + trunc(label, label_w - 2), style="bold")]
