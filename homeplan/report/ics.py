@@ -105,7 +105,8 @@ def reminders(result: Any, today: dt.date | None = None) -> list[Reminder]:
         if s.reasons:
             lines.append("Why then: " + "; ".join(clean(r) for r in s.reasons))
         lines.extend(f"Safety: {clean(c)}" for c in s.cautions)
-        vehicle = info is not None and info.kind == "ev"
+        this = result.project(s.project_id)
+        vehicle = this is not None and this.kind == "ev"
         if vehicle:  # a car is bought from a dealer, not installed by a contractor
             lines.append("Compare the electric model's price with a comparable gasoline one's, "
                          "test-drive both, and check the vehicle incentives that apply when you buy.")
