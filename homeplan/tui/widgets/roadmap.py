@@ -120,6 +120,10 @@ def row_details(data: ViewData, row: Row) -> Text:
         out.append(f"Cost today about {usd(info.cost_usd)} before incentives ({info.cost_source}).\n")
         if not row.excluded:
             out.append("The planner did not place it within the horizon; p pins it to a year.\n")
+        why = next((x.reason for x in (rm.left_out if rm is not None else ()) if x.project_id == row.id), None)
+        if why:
+            out.append("Why not: ", style="bold")
+            out.append(why + "\n")
     texts = caution_texts(data.plan.home.electrical.code_edition)
     shown = row.step.cautions if row.step else tuple(texts[c] for c in (info.cautions if info else ())
                                                        if c in texts)
