@@ -545,7 +545,8 @@ def schedule(ctx: Context, capacity: CapacityModel, incentives: IncentiveModel) 
     """Solve, refine the project values in the order found, solve again.
 
     The sized projects (solar, battery) are offered at each of their sizes in the first two
-    solves, at most one size each; the last solve has the sizes chosen (``outcome.details``).
+    solves, at most one size each; the last problem has the sizes chosen (``outcome.details``)
+    and the second solve's plan (optimal for it: no third solve).
     Their savings are measured against the home they serve most of their life: the electrified
     home (first solve), then the plan's end state (second solve)."""
     notes: list[str] = []
@@ -553,6 +554,7 @@ def schedule(ctx: Context, capacity: CapacityModel, incentives: IncentiveModel) 
            f"{ctx.first_year}:{len(ctx.years)}:{ctx.plan.prices.model_dump_json()}:"
            f"{ctx.plan.household.model_dump_json()}")
     groups = ctx.cache.memo(key, incentives.groups)
+    start = ctx  # the sizes assumed before the optimiser chose
     alts = size_alternatives(ctx)
     electrified = _electrified(ctx)
     first = {pid: (electrified - {pid} if pid in ctx.sizes else set()) for pid in ctx.details}
@@ -568,7 +570,6 @@ def schedule(ctx: Context, capacity: CapacityModel, incentives: IncentiveModel) 
         implicit = False
         problem, solution, delay = _solve_relaxing(ctx, co, capacity, implicit, groups, notes, alts)
     passes = 1
-    start = ctx
     size_values: dict[str, dict[float, float]] = {}
     if solution.feasible:
         ctx = _chosen_sizes(ctx, solution, alts)
@@ -594,11 +595,9 @@ def schedule(ctx: Context, capacity: CapacityModel, incentives: IncentiveModel) 
                 co3 = {pid: co2[next((a for a, p in names.items() if p == pid), pid)] for pid in ctx.details}
                 problem3 = build_problem(ctx, co3, capacity, implicit_target=implicit, delay=delay,
                                          groups=groups)
-                solution3 = solve(problem3)
-                if solution3.feasible:
-                    problem, solution, co, passes = problem3, solution3, co3, 3
-                else:  # keep the second solve, its sizes named by their projects
-                    ctx = start if not names else ctx
+                # the second solve restricted to the sizes it chose: feasible, and optimal since the
+                # third problem is the second with the other sizes not done - no need to solve it
+                problem, solution, co, passes = problem3, _restricted(solution2, alts, names), co3, 3
     sized = {pid: ctx.details[pid] for pid in start.sizes if pid in ctx.details
              and ctx.details[pid] is not start.details.get(pid)}
     if not solution.feasible:
@@ -610,6 +609,16 @@ def schedule(ctx: Context, capacity: CapacityModel, incentives: IncentiveModel) 
             reasons[pid] = (*reasons.get(pid, ()), _size_reason(ctx, pid, values))
     return ScheduleOutcome(problem, solution, co, capacity, reasons=reasons, passes=passes,
                            notes=tuple(notes), details=sized, size_values=size_values)
+
+
+def _restricted(solution: Solution, alternatives: dict[str, ProjectDetail],
+                chosen: dict[str, str]) -> Solution:
+    """A solution with size alternatives, as a solution of the problem without them: each chosen
+    alternative's year under its project's id (``chosen``: alternative id -> project id)."""
+    years = {p: y for p, y in solution.years.items() if p not in alternatives}
+    for aid, pid in chosen.items():
+        years[pid] = solution.years[aid]
+    return replace(solution, years=years)
 
 
 def _size_values(ctx: Context, problem: Problem, solution: Solution,
