@@ -51,7 +51,7 @@ def render_summary(result: PlanResult, fmt: str, today: dt.date | None = None) -
 
 def cmd_print(args) -> int:
     fmt = _format_for(args.output, args.format)
-    _, result = load_and_plan(args.file)
+    _, result = load_and_plan(args.file, use_store=not args.no_cache)
     text = render_summary(result, fmt, today=now_utc().date())
     if args.output and args.output != "-":
         write_atomic(args.output, text, backup=False)
@@ -64,7 +64,7 @@ def cmd_print(args) -> int:
 def cmd_export(args) -> int:
     if not (args.csv or args.ics or args.json):
         raise InputError("nothing to export: give --csv DIR, --ics FILE and/or --json FILE")
-    _, result = load_and_plan(args.file)
+    _, result = load_and_plan(args.file, use_store=not args.no_cache)
     written: list[str] = []
     if args.csv:
         written += [str(p) for p in write_csv_dir(result, args.csv, hourly=args.hourly)]
@@ -86,8 +86,8 @@ def cmd_diff(args) -> int:
         la, lb = load_plan(args.a), load_plan(args.b)
         road = None
     else:
-        la, ra = load_and_plan(args.a)
-        lb, rb = load_and_plan(args.b)
+        la, ra = load_and_plan(args.a, use_store=not args.no_cache)
+        lb, rb = load_and_plan(args.b, use_store=not args.no_cache)
         road = diff_roadmaps(ra.roadmap, rb.roadmap)
     inputs = diff_inputs(la.plan, lb.plan)
     sys.stdout.write(render_diff(args.a, args.b, inputs, road, content_hash(la.plan), content_hash(lb.plan)))
