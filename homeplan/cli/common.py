@@ -5,14 +5,17 @@ from __future__ import annotations
 import datetime as dt
 import os
 from collections.abc import Mapping
+from dataclasses import replace
 from typing import Any
 
 from homeplan.errors import InputError
 from homeplan.plan.load import LoadedPlan, load_plan
 from homeplan.planner.chain import plan_roadmap
+from homeplan.planner.context import PlannerCache
+from homeplan.planner.sensitivity import sensitivity
 from homeplan.result.plan_result import PlanResult
 
-__all__ = ["load_and_plan", "now_utc"]
+__all__ = ["load_and_plan", "now_utc", "with_sensitivity"]
 
 
 def load_and_plan(path: str, values: Mapping[tuple, Any] | None = None) -> tuple[LoadedPlan, PlanResult]:
@@ -23,6 +26,13 @@ def load_and_plan(path: str, values: Mapping[tuple, Any] | None = None) -> tuple
     """
     loaded = load_plan(path).with_values(values or {})
     return loaded, plan_roadmap(loaded)
+
+
+def with_sensitivity(loaded: LoadedPlan, result: PlanResult) -> PlanResult:
+    """The result with its sensitivity ranking (the home re-planned about twenty times)."""
+    if result.roadmap.status != "ok":
+        return result
+    return replace(result, sensitivity=sensitivity(loaded, result, cache=PlannerCache()))
 
 
 def now_utc() -> dt.datetime:

@@ -10,7 +10,7 @@ import datetime as dt
 import sys
 from pathlib import Path
 
-from homeplan.cli.common import load_and_plan, now_utc
+from homeplan.cli.common import load_and_plan, now_utc, with_sensitivity
 from homeplan.errors import InputError, Problem
 from homeplan.plan.hashing import content_hash
 from homeplan.plan.load import load_plan
@@ -51,7 +51,9 @@ def render_summary(result: PlanResult, fmt: str, today: dt.date | None = None) -
 
 def cmd_print(args) -> int:
     fmt = _format_for(args.output, args.format)
-    _, result = load_and_plan(args.file)
+    loaded, result = load_and_plan(args.file)
+    if not getattr(args, "quick", False):
+        result = with_sensitivity(loaded, result)
     text = render_summary(result, fmt, today=now_utc().date())
     if args.output and args.output != "-":
         write_atomic(args.output, text, backup=False)

@@ -39,6 +39,7 @@ __all__ = [
     "Loan",
     "Location",
     "Plan",
+    "PriceUncertainty",
     "Prices",
     "ProjectOption",
     "Provenance",
@@ -378,6 +379,18 @@ def _gallon(price: float) -> Any:
     return Field(default_factory=lambda: GallonPrice(usd_per_gal=price))
 
 
+class PriceUncertainty(Section):
+    """How the price risk of a roadmap is sampled (homeplan/money/prices.py)."""
+
+    paths: int = Field(2000, ge=100, le=100000, description="Number of sampled price paths.")
+    seed: int = Field(1, ge=0, description="Seed of the paths: the same seed gives the same figures.")
+    drift: Literal["plan", "history"] = Field(
+        "plan", description="plan: paths centred on the plan's escalation; history: on the "
+        "historic trend of each price.")
+    volatility_factor: float = Field(
+        1.0, ge=0, le=5, description="Multiplies the historic volatilities (0: one certain path).")
+
+
 class Prices(Section):
     """Energy prices today and how they change; defaults are US averages (see data/prices.csv)."""
 
@@ -397,6 +410,7 @@ class Prices(Section):
     cost_level: Literal["low", "typical", "high"] = Field(
         "typical", description="Which catalog cost to use when there is no quote."
     )
+    uncertainty: PriceUncertainty = PriceUncertainty()
 
 
 # ---------------------------------------------------------------- budget and choices
@@ -457,7 +471,7 @@ class ProjectOption(Section):
         "existing (keep the fuel-burning furnace or boiler as a dual-fuel backup).")
 
 
-Objective = Literal["npv", "emissions", "gas_off_early", "out_of_pocket"]
+Objective = Literal["npv", "emissions", "gas_off_early", "out_of_pocket", "risk_aware"]
 
 
 class Choices(Section):
@@ -478,6 +492,14 @@ class Choices(Section):
         50, gt=0, lt=100, description="Replace an appliance by the year its failure risk reaches this."
     )
     failed_now: list[str] = Field([], description="Appliance ids to treat as failed this year.")
+    risk_weight: float = Field(
+        1.0, ge=0, le=100, description="risk_aware objective: weight of the worst price paths' "
+        "cost (CVaR) beside the expected cost.")
+    risk_tail_pct: float = Field(
+        10, gt=0, le=100, description="risk_aware objective: the share of worst price paths whose "
+        "mean cost is weighed.")
+    risk_scenarios: int = Field(
+        100, ge=10, le=1000, description="risk_aware objective: price scenarios optimised over.")
 
 
 # ---------------------------------------------------------------- the whole plan

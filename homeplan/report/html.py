@@ -23,6 +23,13 @@ from __future__ import annotations
 
 from html import escape
 
+from homeplan.report.charts import (
+    HIGH_COLOUR,
+    LOW_COLOUR,
+    SERIES_COLOURS,
+    band_chart_svg,
+    tornado_svg,
+)
 from homeplan.report.fmt import short
 from homeplan.report.svg import legend_items, timeline_svg
 from homeplan.report.view import Report, Table
@@ -74,7 +81,7 @@ tr { break-inside: avoid; page-break-inside: avoid; }
 tbody tr:nth-child(even) td { background: var(--band); }
 tbody tr.total td { font-weight: 600; border-top: 1.5px solid var(--ink); border-bottom: 0; background: none; }
 thead { display: table-header-group; }
-svg.timeline { width: 100%; height: auto; display: block; margin: 1mm 0; }
+svg.timeline, svg.chart { width: 100%; height: auto; display: block; margin: 1mm 0; }
 .legend { display: flex; flex-wrap: wrap; gap: 1mm 5mm; font-size: 8.5pt; color: var(--muted); margin: 0 0 2mm;
   padding: 0; list-style: none; }
 .legend .sw { display: inline-block; width: 4mm; height: 2.6mm; border-radius: .6mm; margin-right: 1.5mm;
@@ -132,6 +139,37 @@ def _facts(items: tuple[tuple[str, str], ...], cls: str = "facts") -> str:
     return f'<dl class="{cls}">' + "".join(f"<dt>{e(k)}</dt><dd>{e(v)}</dd>" for k, v in items) + "</dl>"
 
 
+def _legend(items: list[tuple[str, str]]) -> str:
+    return '<ul class="legend">' + "".join(
+        f'<li><span class="sw" style="background:{colour}"></span>{e(label)}</li>' for colour, label in items) + "</ul>"
+
+
+def _risk_sections(r: Report) -> list[str]:
+    """Price risk (band chart and tables) and what moves the result (tornado chart)."""
+    parts: list[str] = []
+    if r.risk is not None:
+        k = r.risk
+        parts.append('<section class="risk"><h2>Price risk</h2>')
+        parts += [f"<p>{e(line)}</p>" for line in k.lines]
+        parts.append('<div class="keep"><h3>Energy bills each year across the price paths</h3>')
+        parts.append(band_chart_svg(k.series, "Yearly energy bills: median line, P10 to P90 band",
+                                    "dollars of each year"))
+        parts.append(_legend([(SERIES_COLOURS[i], f"{s.label}: median, and P10 to P90 shaded")
+                              for i, s in enumerate(k.series)]) + "</div>")
+        parts.append('<div class="keep">' + _table(k.totals, "risk-totals") + "</div>")
+        parts.append('<div class="keep">' + _table(k.shocks, "risk-shocks") + "</div>")
+        parts.append("</section>")
+    if r.sensitivity is not None:
+        v = r.sensitivity
+        parts.append('<section class="sensitivity"><h2>What moves the result</h2>')
+        parts += [f"<p>{e(line)}</p>" for line in v.lines]
+        parts.append('<div class="keep">' + tornado_svg(v.bars, v.base_usd, "Net present value, one "
+                                                        "assumption changed at a time") + "</div>")
+        parts.append(_legend([(LOW_COLOUR, "low setting"), (HIGH_COLOUR, "high setting")]))
+        parts.append('<div class="keep">' + _table(v.table, "sensitivity") + "</div></section>")
+    return parts
+
+
 def render_html(r: Report) -> str:
     """The whole page as one string."""
     f = r.footer
@@ -178,6 +216,7 @@ def render_html(r: Report) -> str:
     parts.append("</section>")
     # ---- page 2: year by year
     parts.append('<section class="years"><h2>Year by year</h2>' + _table(r.years, "years") + "</section>")
+    parts += _risk_sections(r)
     parts.append('<section class="energy keep"><h2>Energy and emissions, before and after</h2>'
                  + _table(r.energy, "energy") + "</section>")
     parts.append('<section class="capacity"><h2>Electrical capacity</h2>' + _table(r.capacity, "capacity"))

@@ -20,6 +20,7 @@ from homeplan.result.figures import (
 )
 from homeplan.result.outlook import LifeOutlook
 from homeplan.result.roadmap import Roadmap
+from homeplan.result.sensitivity import Sensitivity
 
 __all__ = ["PlanResult"]
 
@@ -30,7 +31,9 @@ class PlanResult:
 
     ``finance`` and ``solver`` are None when the request has no feasible roadmap;
     ``capacity_remedy`` names the project that makes room on the service (None: none needed);
-    ``hourly`` holds today's and the planned home's hourly electricity (for the CSV export).
+    ``hourly`` holds today's and the planned home's hourly electricity (for the CSV export);
+    ``sensitivity`` ranks the assumptions that move the NPV most (None: not computed - it
+    re-plans the home some twenty times, so only the commands that show it ask for it).
     """
 
     plan: Plan
@@ -48,6 +51,7 @@ class PlanResult:
     capacity_remedy: str | None = None
     solar_connection: str | None = None
     hourly: tuple[HourlyProfile, ...] = ()
+    sensitivity: Sensitivity | None = None
 
     def project(self, project_id: str) -> ProjectInfo | None:
         return next((p for p in self.projects if p.id == project_id), None)

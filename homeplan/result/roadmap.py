@@ -24,6 +24,8 @@ from collections.abc import Iterable, Mapping
 from dataclasses import dataclass, field
 from typing import Any, Literal
 
+from homeplan.result.risk import PriceRisk
+
 __all__ = [
     "SCHEMA_VERSION",
     "Baseline",
@@ -40,7 +42,7 @@ __all__ = [
     "YearTotals",
 ]
 
-SCHEMA_VERSION = "1.3"
+SCHEMA_VERSION = "1.4"
 """Version of the JSON produced by :meth:`Roadmap.to_dict`. Bump the minor part for added
 fields, the major part for renamed/removed fields or changed meaning."""
 
@@ -56,7 +58,7 @@ MilestoneKind = Literal[
 ]
 BaselineKind = Literal["do_nothing", "like_for_like"]
 Status = Literal["ok", "infeasible"]
-Objective = Literal["max_npv", "min_emissions", "earliest_gas_closure", "min_out_of_pocket"]
+Objective = Literal["max_npv", "min_emissions", "earliest_gas_closure", "min_out_of_pocket", "min_cost_cvar"]
 
 
 def _tuple(items: Iterable[Any] | None) -> tuple[Any, ...]:
@@ -397,7 +399,8 @@ class Roadmap:
     from the solver's linear approximation. ``status`` is ``"ok"`` or ``"infeasible"``; when
     infeasible, ``infeasibility`` explains the blocking constraint and the smallest change that
     makes the request feasible, and ``steps`` is empty. ``assumptions`` records the inputs that
-    shaped the result (discount rate, escalation, budget...) as JSON-safe values.
+    shaped the result (discount rate, escalation, budget...) as JSON-safe values. ``price_risk``
+    is the roadmap under sampled energy prices (None: not computed, e.g. an infeasible request).
     """
 
     plan_name: str
@@ -414,6 +417,7 @@ class Roadmap:
     assumptions: dict[str, Any] = field(default_factory=dict)
     cautions: tuple[str, ...] = ()
     emergencies: tuple[Emergency, ...] = ()
+    price_risk: PriceRisk | None = None
     schema_version: str = SCHEMA_VERSION
 
     def __post_init__(self) -> None:
@@ -454,6 +458,7 @@ class Roadmap:
             "assumptions": _json_value(self.assumptions),
             "cautions": list(self.cautions),
             "emergencies": [e.to_dict() for e in self.emergencies],
+            "price_risk": self.price_risk.to_dict() if self.price_risk else None,
         }
 
     @classmethod
@@ -480,5 +485,6 @@ class Roadmap:
             assumptions=dict(data.get("assumptions", {})),
             cautions=tuple(data.get("cautions", ())),
             emergencies=tuple(Emergency.from_dict(e) for e in data.get("emergencies", ())),
+            price_risk=PriceRisk.from_dict(data["price_risk"]) if data.get("price_risk") else None,
             schema_version=version,
         )

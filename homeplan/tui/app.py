@@ -71,6 +71,7 @@ OBJECTIVES = (
     ("Lowest emissions", "emissions"),
     ("Off gas soonest", "gas_off_early"),
     ("Least out of pocket", "out_of_pocket"),
+    ("Least price risk", "risk_aware"),
 )
 APPLIANCE_KINDS = ("furnace", "boiler", "central_ac", "room_ac", "heat_pump", "mini_split",
                    "baseboard", "water_heater", "range", "cooktop", "wall_oven", "dryer")
