@@ -36,7 +36,7 @@ from homeplan.money.prices import (
 )
 from homeplan.plan.fuels import BILL_FUELS
 from homeplan.planner.breakdowns import expected_breakdowns
-from homeplan.planner.context import Context
+from homeplan.planner.context import Context, content_key
 from homeplan.result.plan_result import PlanResult
 from homeplan.result.risk import Band, FuelShock, PriceRisk, PriceSeries, SolarPriceRisk, YearBand
 
@@ -69,9 +69,13 @@ def _escalation_pct(ctx: Context) -> dict[str, float] | None:
 
 
 def price_paths(ctx: Context, n_paths: int, years: int, model: PriceModel | None = None) -> np.ndarray:
-    """Price multipliers ``[n_paths, fuels, years + 1]`` of the plan (seeded by the plan)."""
-    return simulate_price_paths(model or price_model(ctx), years, n_paths,
-                                seed=ctx.plan.prices.uncertainty.seed, escalation_pct=_escalation_pct(ctx))
+    """Price multipliers ``[n_paths, fuels, years + 1]`` of the plan (seeded by the plan; kept in
+    the home's cache, so a re-plan after a budget or pin change draws no new paths)."""
+    u = ctx.plan.prices.uncertainty
+    esc = _escalation_pct(ctx)
+    key = content_key("price-paths", u.model_dump(mode="json"), esc, n_paths, years)
+    return ctx.cache.memo(key, lambda: simulate_price_paths(model or price_model(ctx), years, n_paths,
+                                                            seed=u.seed, escalation_pct=esc))
 
 
 def band(values: np.ndarray) -> Band:

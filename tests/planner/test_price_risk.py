@@ -111,3 +111,33 @@ def test_history_drift_follows_the_trend_of_the_table() -> None:
     for f in risk.fuels:
         assert f.drift_pct == pytest.approx(f.historic_trend_pct)
     assert risk.drift == "history"
+
+
+def test_the_risk_aware_objective_is_never_worse_on_its_own_scenarios() -> None:
+    """The risk-aware plan minimises expected cost + weight x CVaR over the plan's scenarios:
+    scored by the scheduler's exact evaluator on those scenarios, the best-NPV plan cannot do
+    better (a property of the optimum; the formulation itself is checked against brute force in
+    tests/schedule/test_agreement.py)."""
+    from homeplan.planner.capacity import plan_capacity
+    from homeplan.planner.chain import prepare_home, size_projects
+    from homeplan.planner.context import PlannerCache
+    from homeplan.planner.incentives import IncentiveModel, plan_programs
+    from homeplan.planner.scheduling import schedule
+    from homeplan.schedule.problem import evaluate
+
+    loaded = load_plan(ROOT / "sample_homes" / "minimal.yaml")
+    outcomes = {}
+    for objective in ("npv", "risk_aware"):
+        plan = loaded.with_values({("choices", "objective"): objective,
+                                   ("choices", "risk_weight"): 2.0}).plan
+        ctx = size_projects(prepare_home(plan, loaded.base_dir, PlannerCache()))
+        cap = plan_capacity(ctx)
+        ctx = ctx.with_details(cap.details)
+        outcomes[objective] = schedule(ctx, cap.model, IncentiveModel(ctx, plan_programs(ctx)))
+    risky = outcomes["risk_aware"]
+    assert risky.problem.objective == "min_cost_cvar" and risky.problem.n_scenarios == 100
+    own = evaluate(risky.problem, risky.solution.years)
+    other = evaluate(risky.problem, outcomes["npv"].solution.years)
+    if not other.violations:
+        assert own.risk_cost_usd <= other.risk_cost_usd + 2e-5 * abs(other.risk_cost_usd)  # solver gap 1e-5
+    assert own.risk_cost_usd == pytest.approx(risky.solution.objective_value, rel=1e-6)
