@@ -6,6 +6,7 @@ import re
 
 import pytest
 
+from homeplan.plan.alternatives import options
 from homeplan.plan.load import load_plan
 from homeplan.planner import candidates as graph
 
@@ -31,7 +32,8 @@ def test_example_is_valid(block, tmp_path):
     f = tmp_path / "docs" / "example.yaml"
     f.write_text(block)
     loaded = load_plan(f)
-    graph.build_graph(loaded.plan)
+    for _, opt in options(loaded):  # named options are plans too
+        graph.build_graph(opt.plan)
 
 
 def test_readme_quick_start():

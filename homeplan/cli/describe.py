@@ -10,6 +10,7 @@ from pathlib import Path
 from typing import TYPE_CHECKING
 
 from homeplan.errors import PlanRuleError
+from homeplan.plan.alternatives import options
 from homeplan.plan.load import LoadedPlan, load_plan
 from homeplan.plan.model import Plan
 from homeplan.plan.save import write_atomic
@@ -88,8 +89,13 @@ def cmd_check(args) -> int:
     loaded = load_plan(args.file)
     g = _graph_checked(loaded)
     _check_files(loaded)
+    named = options(loaded)[1:]  # each option validated, its problems located in the file
+    for _, opt in named:
+        _graph_checked(opt)
     print(f"{args.file}: ok")
     print(plan_summary(loaded.plan, g))
+    if named:
+        print(f"options: {', '.join(name for name, _ in named)} (compare them: homeplan compare {args.file})")
     if loaded.migrated_from:
         print(f"note: migrated from plan format {loaded.migrated_from}; saving writes the new format")
     return 0

@@ -43,6 +43,7 @@ COMMANDS: dict[str, tuple[str, str]] = {
     "print": ("outputs", "cmd_print"),
     "export": ("outputs", "cmd_export"),
     "diff": ("outputs", "cmd_diff"),
+    "compare": ("outputs", "cmd_compare"),
 }
 """Command -> (module in ``homeplan.cli``, function taking the parsed arguments)."""
 
@@ -133,6 +134,13 @@ def build_parser() -> argparse.ArgumentParser:
     sp.add_argument("a", help="the earlier plan file (YAML)")
     sp.add_argument("b", help="the later plan file (YAML)")
     sp.add_argument("--inputs-only", action="store_true", help="compare the inputs only (no planning)")
+    sp = command("compare", "lay options side by side: several plan files, and the named options "
+                 "(alternatives) inside them", file=False)
+    sp.add_argument("files", nargs="+", metavar="FILE", help="plan files (YAML); each brings its own options")
+    sp.add_argument("--json", action="store_true", help="print every option's roadmap as JSON")
+    sp.add_argument("-o", "--output", help="write a printable comparison (.html, .md or .txt)")
+    sp.add_argument("--format", choices=("txt", "md", "html"), help="output format (default: from the "
+                    "file extension, else txt)")
     missing = set(sub.choices) ^ set(COMMANDS)
     assert not missing, f"commands without a module or a parser: {sorted(missing)}"
     return p

@@ -18,6 +18,7 @@ from pydantic import BaseModel, ConfigDict, Field, model_validator
 
 __all__ = [
     "FORMAT_VERSION",
+    "Alternative",
     "Appliance",
     "Budget",
     "Choices",
@@ -502,6 +503,21 @@ class Choices(Section):
         100, ge=10, le=1000, description="risk_aware objective: price scenarios optimised over.")
 
 
+# ---------------------------------------------------------------- named options
+
+
+class Alternative(Section):
+    """A named option of the same plan: changes to its sections (different budgets, with or
+    without solar, keep the furnace as backup...), compared side by side with ``homeplan
+    compare`` and in the app."""
+
+    name: str = Field(min_length=1, max_length=80, description="What the option is called.")
+    description: str | None = Field(None, max_length=500, description="The option in a sentence.")
+    changes: dict[str, Any] = Field(
+        {}, description="Plan sections as in the file; mappings are merged key by key into the "
+        "plan, any other value (a list, a number) replaces the plan's.")
+
+
 # ---------------------------------------------------------------- the whole plan
 
 
@@ -526,6 +542,19 @@ class Plan(Section):
     )
     options: dict[str, ProjectOption] = Field({}, description="Project id -> overrides.")
     choices: Choices = Choices()
+    alternatives: list[Alternative] = Field(
+        [], description="Named options of this plan, each a set of changes (see docs/plan-format.md).")
+
+    @model_validator(mode="after")
+    def _alternatives_distinct(self) -> Plan:
+        names = [a.name.strip().lower() for a in self.alternatives]
+        for i, n in enumerate(names):
+            if n in names[:i]:
+                raise ValueError(f"alternatives[{i}] repeats the name '{self.alternatives[i].name}': "
+                                 "give each option its own name")
+            if "alternatives" in self.alternatives[i].changes:
+                raise ValueError(f"alternatives[{i}] changes 'alternatives': an option cannot hold options")
+        return self
 
     @model_validator(mode="after")
     def _ids_unique(self) -> Plan:

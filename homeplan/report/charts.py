@@ -100,7 +100,7 @@ def band_chart_svg(series: Sequence[BandSeries], title: str, unit_note: str = ""
 def tornado_svg(bars: Sequence[TornadoBar], base_usd: float, title: str) -> str:
     """One row per assumption, widest swing on top: a bar from the NPV at the low setting and one
     to the NPV at the high setting, on both sides of the NPV as planned."""
-    label_w, right, top, row_h = 200, 16, 22, 22
+    label_w, right, top, row_h = 200, 36, 22, 22
     height = top + row_h * max(len(bars), 1) + 26
     out = [f'<svg xmlns="http://www.w3.org/2000/svg" class="chart" viewBox="0 0 {WIDTH} {height}" '
            f'role="img" aria-label="{_e(title)}" font-family="inherit" font-size="11">',

@@ -30,11 +30,12 @@ from homeplan.report.charts import (
     band_chart_svg,
     tornado_svg,
 )
+from homeplan.report.compare import Comparison, range_chart_svg
 from homeplan.report.fmt import short
 from homeplan.report.svg import legend_items, timeline_svg
 from homeplan.report.view import Report, Table
 
-__all__ = ["e", "render_html"]
+__all__ = ["comparison_html", "comparison_page", "e", "render_html", "table_html"]
 
 
 def e(text: object) -> str:
@@ -130,6 +131,42 @@ def _table(t: Table, cls: str = "") -> str:
             f"</table>{note}")
 
 
+table_html = _table
+"""A table of a printed view as HTML (user text escaped)."""
+
+
+def comparison_html(c: Comparison) -> str:
+    """Options side by side as an HTML section (a printout's page, or a page of its own)."""
+    parts = ['<section class="compare"><h2>Options side by side</h2>', _table(c.headline, "compare")]
+    parts.append('<div class="keep"><h3>Steps by year</h3>' + _table(c.steps, "compare-steps") + "</div>")
+    if c.ranges:
+        parts.append('<div class="keep"><h3>Total cost across the price paths</h3>')
+        parts.append(range_chart_svg(c.ranges, "Total cost of each option: P10 to P90 bar, median mark"))
+        parts.append('<p class="note">Each bar runs from P10 to P90 of the price paths; the mark is the median.</p>')
+        parts.append(_table(c.risk, "compare-risk") + "</div>")
+    parts += [f'<p class="note">{e(n)}</p>' for n in c.notes]
+    parts.append("</section>")
+    return "\n".join(parts)
+
+
+def comparison_page(c: Comparison, title: str, printed: str, tool_version: str) -> str:
+    """A page of its own for ``homeplan compare -o FILE.html``."""
+    return "\n".join([
+        "<!DOCTYPE html>", '<html lang="en"><head><meta charset="utf-8">',
+        f'<meta http-equiv="Content-Security-Policy" content="{e(CSP)}">',
+        '<meta name="viewport" content="width=device-width, initial-scale=1">',
+        '<meta name="referrer" content="no-referrer">',
+        f'<meta name="generator" content="homeplan {e(tool_version)}">',
+        f"<title>{e(title)}</title>", f"<style>{CSS.replace('HASH', '')}</style></head><body>",
+        '<header class="doc"><p class="kicker">Home electrification options</p>',
+        f"<h1>{e(short(title, 120))}</h1></header>",
+        comparison_html(c),
+        f'<footer class="keep"><p>Printed {e(printed)} with homeplan {e(tool_version)}. All figures are planning '
+        "estimates; local codes, permits and licensed professionals have the final word.</p></footer>",
+        "</body></html>",
+    ]) + "\n"
+
+
 def _arrow(escaped: str) -> str:
     """Draw the plain-text arrow of already-escaped text as a real one."""
     return escaped.replace(" -&gt; ", " \u2192 ")
@@ -217,6 +254,8 @@ def render_html(r: Report) -> str:
     # ---- page 2: year by year
     parts.append('<section class="years"><h2>Year by year</h2>' + _table(r.years, "years") + "</section>")
     parts += _risk_sections(r)
+    if r.comparison is not None:
+        parts.append(comparison_html(r.comparison))
     parts.append('<section class="energy keep"><h2>Energy and emissions, before and after</h2>'
                  + _table(r.energy, "energy") + "</section>")
     parts.append('<section class="capacity"><h2>Electrical capacity</h2>' + _table(r.capacity, "capacity"))

@@ -14,11 +14,13 @@ from __future__ import annotations
 
 import re
 
+from homeplan.report.compare import Comparison
 from homeplan.report.fmt import money_signed, short
 from homeplan.report.table import text_table
 from homeplan.report.view import GROUP_LABELS, Report, Table, Timeline, footer_line
 
-__all__ = ["md", "render_markdown", "render_text", "timeline_text", "tornado_text"]
+__all__ = ["comparison_markdown", "comparison_text", "md", "render_markdown", "render_text", "timeline_text",
+           "tornado_text"]
 
 _GROUP_CHAR = {"appliances": "#", "electrical": "E", "solar": "S", "vehicles": "V", "building": "B",
                "other": "*"}
@@ -121,6 +123,7 @@ def render_text(r: Report) -> str:
         ("Steps", _text_table(r.steps) + "\n" + r.money_note),
         ("Year by year", _text_table(r.years)),
         *_risk_text(r, w),
+        *((("Options side by side", comparison_text(r.comparison).split("\n", 2)[2]),) if r.comparison else ()),
         ("Energy and emissions, before and after", _text_table(r.energy)),
         ("Electrical capacity", _text_table(r.capacity) + "".join(f"\n  - {n}" for n in r.capacity_notes)),
         ("Key assumptions", "\n".join(_wrap(f"{k + ':':<28} {v}", w, hang=29) for k, v in r.assumptions)
@@ -179,6 +182,8 @@ def render_markdown(r: Report) -> str:
         v = r.sensitivity
         out += ["## What moves the result", ""] + [md(line) + "\n" for line in v.lines]
         out += ["```text", tornado_text(v.base_usd, v.bars).replace("```", "'''"), "```", "", _md_table(v.table), ""]
+    if r.comparison is not None:
+        out += [comparison_markdown(r.comparison)]
     out += ["## Energy and emissions, before and after", "", _md_table(r.energy), ""]
     out += ["## Electrical capacity", "", _md_table(r.capacity), ""]
     out += [f"- {md(n)}" for n in r.capacity_notes]
@@ -192,3 +197,36 @@ def render_markdown(r: Report) -> str:
     if r.footer.notes:
         out += ["", md(f"Notes: {r.footer.notes}")]
     return "\n".join(out) + "\n"
+
+
+# ----------------------------------------------------------------------------- options side by side
+
+
+def _cell_table(t: Table, width: int = 28) -> str:
+    rows = [[short(c, width) if i else short(c, 40) for i, c in enumerate(row)] for row in t.rows]
+    out = text_table(list(t.headers), rows, t.align.replace("n", "l"))
+    return out + ("\n" + _wrap(t.note, 100) if t.note else "")
+
+
+def comparison_text(c: Comparison) -> str:
+    """Options side by side as plain text."""
+    steps = []
+    for row in c.steps.rows:
+        steps.append(row[0])
+        for name, cell in zip(c.names, row[1:], strict=True):
+            steps.append(_wrap(f"  {name}: {cell or '-'}", 100, hang=4))
+    parts = ["Options side by side", "--------------------", _cell_table(c.headline), "",
+             "Steps by year", "-------------", *steps]
+    if c.ranges:
+        parts += ["", "Total cost across the price paths", "---------------------------------", _cell_table(c.risk)]
+    parts += [_wrap(f"note: {n}", 100) for n in c.notes]
+    return "\n".join(parts) + "\n"
+
+
+def comparison_markdown(c: Comparison) -> str:
+    """Options side by side as Markdown."""
+    parts = ["## Options side by side", "", _md_table(c.headline), "", "### Steps by year", "", _md_table(c.steps)]
+    if c.ranges:
+        parts += ["", "### Total cost across the price paths", "", _md_table(c.risk)]
+    parts += [f"\n> {md(n)}" for n in c.notes]
+    return "\n".join(parts) + "\n"

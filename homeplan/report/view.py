@@ -20,6 +20,7 @@ from typing import Any
 from homeplan import __version__, catalog
 from homeplan.plan.fuels import BILL_FUELS, GASOLINE_VEHICLES, TANK_FUELS
 from homeplan.plan.hashing import content_hash
+from homeplan.report.compare import Comparison
 from homeplan.report.fmt import (
     Table,
     clean,
@@ -130,6 +131,7 @@ class Report:
     money_note: str = "Money is rounded: to the nearest $10 under $1,000, else to the nearest $100."
     risk: RiskView | None = None                # price risk (None: not computed)
     sensitivity: SensitivityView | None = None  # what moves the NPV (None: not computed)
+    comparison: Comparison | None = None        # the plan's named options side by side
 
 
 # ----------------------------------------------------------------------------- helpers
@@ -486,8 +488,10 @@ def _assumptions(plan: Any, result: Any) -> list[tuple[str, str]]:
 # ----------------------------------------------------------------------------- entry point
 
 
-def build_report(result: Any, today: dt.date | None = None, tool_version: str | None = None) -> Report:
-    """Everything the printed summary shows, as cleaned (not escaped) strings."""
+def build_report(result: Any, today: dt.date | None = None, tool_version: str | None = None,
+                 comparison: Comparison | None = None) -> Report:
+    """Everything the printed summary shows, as cleaned (not escaped) strings; ``comparison``
+    is the plan's named options side by side, when it has them."""
     plan = result.plan
     road = result.roadmap
     prov = plan.provenance
@@ -531,6 +535,7 @@ def build_report(result: Any, today: dt.date | None = None, tool_version: str | 
         footer=footer,
         risk=risk_view(road),
         sensitivity=sensitivity_view(result),
+        comparison=comparison,
     )
 
 
