@@ -341,6 +341,10 @@ class Usage(Section):
         description="EPW or TMY3-format file of the weather during the billed year, relative to "
         "the plan file; the bills are then weather-normalised to the typical year.",
     )
+    meter_file: str | None = Field(
+        None, description="Green Button interval data (ESPI XML or CSV, 15-minute or hourly), "
+        "relative to the plan file: twelve complete months stand in for the electric bills, and "
+        "a continuous 15-minute record gives the measured peak demand (NEC 220.87).")
     electricity: ElectricUsage | None = None
     gas: GasUsage | None = None
     propane: GallonUsage | None = None

@@ -1,6 +1,7 @@
 """From a plan to its result in named stages: the one path every command and view takes.
 
-    plan --home--> Context (upgrade graph, weather and heat loss, end-of-life outlooks)
+    plan --meter--> the plan with what its meter file tells (monthly use, measured peak)
+         --home--> Context (upgrade graph, weather and heat loss, end-of-life outlooks)
          --projects--> each candidate's variant, size and cost (solar sized to the electrified home)
          --capacity--> the service remedy, lower-power variants where they suffice
          --incentives--> the programs the plan lists, estimated per purchase
@@ -16,11 +17,13 @@ its incentives exactly, and those are the numbers shown.
 
 from __future__ import annotations
 
+from dataclasses import replace
 from pathlib import Path
 
 from homeplan import catalog
 from homeplan.energy.solar import SolarArraySpec
 from homeplan.errors import PlanRuleError
+from homeplan.plan.hashing import content_hash
 from homeplan.plan.load import LoadedPlan
 from homeplan.plan.model import Plan
 from homeplan.planner import candidates, lifecycle
@@ -29,6 +32,7 @@ from homeplan.planner.build import build_result
 from homeplan.planner.capacity import plan_capacity
 from homeplan.planner.context import Context, PlannerCache
 from homeplan.planner.incentives import IncentiveModel, plan_programs
+from homeplan.planner.meter import meter_summary, read_meter
 from homeplan.planner.projects import detail
 from homeplan.planner.risk import with_price_risk
 from homeplan.planner.scheduling import schedule
@@ -36,7 +40,7 @@ from homeplan.result.plan_result import PlanResult
 
 __all__ = ["STAGES", "plan_roadmap", "prepare_home", "size_projects", "specific_yield"]
 
-STAGES = ("home", "projects", "capacity", "incentives", "schedule", "result", "risk")
+STAGES = ("meter", "home", "projects", "capacity", "incentives", "schedule", "result", "risk")
 """The planner's stages, in order (see the module docstring)."""
 
 
@@ -85,13 +89,23 @@ def plan_roadmap(plan: Plan | LoadedPlan, base_dir: Path | str | None = None,
 def _run(plan: Plan, base_dir: Path | None, cache: PlannerCache | None,
          adjust: Adjustments | None = None) -> PlanResult:
     adjust = adjust or Adjustments()
-    ctx = adjust.projects(size_projects(adjust.home(prepare_home(plan, base_dir, cache or PlannerCache()))))
+    cache = cache or PlannerCache()
+    original = plan
+    plan, reading = read_meter(plan, base_dir, cache)
+    ctx = adjust.projects(size_projects(adjust.home(prepare_home(plan, base_dir, cache))))
     capacity = plan_capacity(ctx)
     ctx = ctx.with_details(capacity.details)
     incentives = IncentiveModel(ctx, plan_programs(ctx))
     outcome = schedule(ctx, capacity.model, incentives)
     notes = (ctx.basis.weather_note, *ctx.basis.notes, *capacity.model.notes, *outcome.notes)
-    return with_price_risk(ctx, build_result(ctx, capacity.model, incentives, outcome, notes))
+    result = with_price_risk(ctx, build_result(ctx, capacity.model, incentives, outcome, notes))
+    if reading is None:
+        return result
+    # the result is of the plan as written; what the meter file told is in the roadmap's meter
+    summary = meter_summary(reading, ctx.basis.weather)
+    return replace(result, plan=original, content_hash=content_hash(original),
+                   roadmap=replace(result.roadmap, meter=summary),
+                   warnings=tuple(dict.fromkeys((*result.warnings, *summary.notes))))
 
 
 def prepare_home(plan: Plan, base_dir: Path | None, cache: PlannerCache) -> Context:

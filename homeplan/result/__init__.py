@@ -19,6 +19,7 @@ from homeplan.result.figures import (
     SolverReport,
     StepReturns,
 )
+from homeplan.result.meter import MeterGap, MeterSummary
 from homeplan.result.outlook import LifeOutlook
 from homeplan.result.plan_result import PlanResult
 from homeplan.result.risk import Band, FuelShock, PriceRisk, PriceSeries, SolarPriceRisk, YearBand
@@ -47,6 +48,8 @@ __all__ = [
     "HourlyProfile",
     "IncentiveLine",
     "LifeOutlook",
+    "MeterGap",
+    "MeterSummary",
     "Milestone",
     "PlanResult",
     "PlanReturns",

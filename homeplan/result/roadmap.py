@@ -24,6 +24,7 @@ from collections.abc import Iterable, Mapping
 from dataclasses import dataclass, field
 from typing import Any, Literal
 
+from homeplan.result.meter import MeterSummary
 from homeplan.result.risk import PriceRisk
 
 __all__ = [
@@ -498,7 +499,8 @@ class Roadmap:
     infeasible, ``infeasibility`` explains the blocking constraint and the smallest change that
     makes the request feasible, and ``steps`` is empty. ``assumptions`` records the inputs that
     shaped the result (discount rate, escalation, budget...) as JSON-safe values. ``price_risk``
-    is the roadmap under sampled energy prices (None: not computed, e.g. an infeasible request).
+    is the roadmap under sampled energy prices (None: not computed, e.g. an infeasible request);
+    ``meter`` is what the plan's meter file said (None: the plan names none).
     """
 
     plan_name: str
@@ -517,6 +519,7 @@ class Roadmap:
     emergencies: tuple[Emergency, ...] = ()
     calibration: tuple[BillFit, ...] = ()
     price_risk: PriceRisk | None = None
+    meter: MeterSummary | None = None
     schema_version: str = SCHEMA_VERSION
 
     def __post_init__(self) -> None:
@@ -560,6 +563,7 @@ class Roadmap:
             "emergencies": [e.to_dict() for e in self.emergencies],
             "calibration": [c.to_dict() for c in self.calibration],
             "price_risk": self.price_risk.to_dict() if self.price_risk else None,
+            "meter": self.meter.to_dict() if self.meter else None,
         }
 
     @classmethod
@@ -588,5 +592,6 @@ class Roadmap:
             emergencies=tuple(Emergency.from_dict(e) for e in data.get("emergencies", ())),
             calibration=tuple(BillFit.from_dict(c) for c in data.get("calibration", ())),
             price_risk=PriceRisk.from_dict(data["price_risk"]) if data.get("price_risk") else None,
+            meter=MeterSummary.from_dict(data["meter"]) if data.get("meter") else None,
             schema_version=version,
         )
