@@ -44,6 +44,7 @@ __all__ = [
     "MeterFileError",
     "change_point_fit",
     "daily_kwh",
+    "hourly_kwh",
     "monthly_kwh",
     "parse_green_button_csv",
     "parse_espi_xml",
@@ -721,6 +722,39 @@ def monthly_kwh(series: IntervalSeries) -> dict[tuple[int, int], float]:
         if counts[(y, m)] == n:
             out[(y, m)] = float(sum(values))
     return out
+
+
+def hourly_kwh(series: IntervalSeries) -> tuple[np.ndarray, np.ndarray]:
+    """Energy of each complete clock hour (every interval present), placed on the hours of a
+    365-day year (0 = 1 January 00:00, standard time) so that it lines up with a typical-year
+    simulation; 29 February is left out.
+
+    Parameters
+    ----------
+    series : IntervalSeries
+        Delivered energy by interval, kWh.
+
+    Returns
+    -------
+    hour_of_year : numpy.ndarray
+        Index of each complete hour in a 365-day year, 0..8759 (int64; a year of readings that
+        spans two calendar years can give an index twice).
+    kwh : numpy.ndarray
+        Their energy, kWh.
+    """
+    hour = series.start_s // 3600
+    hours, inv = np.unique(hour, return_inverse=True)
+    kwh = np.bincount(inv, weights=series.kwh)
+    complete = np.bincount(inv) == 3600 // series.interval_s
+    hours, kwh = hours[complete], kwh[complete]
+    stamps = (hours * 3600).astype("datetime64[s]")
+    year_start = stamps.astype("datetime64[Y]")
+    day = (stamps.astype("datetime64[D]") - year_start.astype("datetime64[D]")).astype(np.int64)
+    leap = (year_start.astype(np.int64) + 1970) % 4 == 0   # 1901-2099: every fourth year
+    feb29 = leap & (day == 59)
+    day = np.where(leap & (day > 59), day - 1, day)
+    index = day * 24 + (hours % 24)
+    return index[~feb29], kwh[~feb29]
 
 
 @dataclass(frozen=True)

@@ -20,6 +20,8 @@ from __future__ import annotations
 from dataclasses import replace
 from pathlib import Path
 
+import numpy as np
+
 from homeplan import catalog
 from homeplan.energy.solar import SolarArraySpec
 from homeplan.errors import PlanRuleError
@@ -102,7 +104,8 @@ def _run(plan: Plan, base_dir: Path | None, cache: PlannerCache | None,
     if reading is None:
         return result
     # the result is of the plan as written; what the meter file told is in the roadmap's meter
-    summary = meter_summary(reading, ctx.basis.weather)
+    today = next((h for h in result.hourly if h.label == "today"), None)
+    summary = meter_summary(reading, ctx.basis.weather, None if today is None else np.asarray(today.grid_import_kw))
     return replace(result, plan=original, content_hash=content_hash(original),
                    roadmap=replace(result.roadmap, meter=summary),
                    warnings=tuple(dict.fromkeys((*result.warnings, *summary.notes))))

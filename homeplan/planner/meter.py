@@ -14,8 +14,8 @@ month, a window with a gap is not continuous recording).
 References
 ----------
 NEC 2023 220.87 (maximum demand over one year, or at least 30 days of continuous recording, as
-the highest 15-minute average); ASHRAE Guideline 14-2014 (calibration to metered data, from
-memory); NAESB REQ.21 (Green Button ESPI).
+the highest 15-minute average); ASHRAE Guideline 14-2014 (calibration to metered data; hourly
+criteria NMBE within +/-10 %, CV(RMSE) at most 30 %, from memory); NAESB REQ.21 (Green Button ESPI).
 """
 
 from __future__ import annotations
@@ -26,11 +26,13 @@ from pathlib import Path
 
 import numpy as np
 
+from homeplan.energy.calibrate import fit_statistics
 from homeplan.energy.meter import (
     IntervalSeries,
     MeterFileError,
     change_point_fit,
     daily_kwh,
+    hourly_kwh,
     monthly_kwh,
     peak_demand,
     read_green_button,
@@ -45,6 +47,9 @@ __all__ = ["MeterReading", "meter_summary", "read_meter"]
 
 MIN_NEC_DAYS = 30.0
 YEAR_DAYS = 365.0
+HOURLY_NMBE_PCT = 10.0      # ASHRAE Guideline 14-2014, hourly data: NMBE within +/-10 % (from memory)
+HOURLY_CV_RMSE_PCT = 30.0   # ASHRAE Guideline 14-2014, hourly data: CV(RMSE) at most 30 % (from memory)
+MIN_GRADED_HOURS = 24 * 7
 
 
 @dataclass(frozen=True, eq=False)
@@ -112,8 +117,10 @@ def read_meter(plan: Plan, base_dir: Path | None, cache: PlannerCache | None = N
     months = _last_twelve(monthly_kwh(series))
     usage = u
     if months is not None:
-        usage = u.model_copy(update={
-            "electricity": ElectricUsage(monthly_kwh=[round(m, 1) for m in months])})
+        # the meter counts what the grid delivered: with solar, what was bought
+        usage = u.model_copy(update={"electricity": ElectricUsage(
+            monthly_kwh=[round(m, 1) for m in months],
+            bills_show="bought" if plan.home.solar is not None else None)})
         if u.electricity is not None:
             notes.append("monthly electric use taken from the meter file (twelve complete months), "
                          "in place of usage.electricity")
@@ -165,12 +172,35 @@ def _measured_peak(series: IntervalSeries, notes: list[str]) -> tuple[float, int
     return kw, start, ("12_months" if window >= YEAR_DAYS else "30_days")
 
 
-def meter_summary(reading: MeterReading, weather: Weather) -> MeterSummary:
+def _hourly_grade(series: IntervalSeries, grid_kw: np.ndarray | None, notes: list[str]
+                  ) -> tuple[int, float | None, float | None, bool | None]:
+    """The model of today's home hour by hour against the meter's complete hours (ASHRAE
+    Guideline 14 measures for hourly data): hours compared, NMBE %, CV(RMSE) %, criteria met."""
+    if grid_kw is None or np.asarray(grid_kw).size != 8760:
+        return 0, None, None, None
+    index, kwh = hourly_kwh(series)
+    if index.size < MIN_GRADED_HOURS or kwh.mean() <= 0:
+        notes.append("fewer than 7 days of complete hours: the hourly model is not graded against the meter")
+        return int(index.size), None, None, None
+    stats = fit_statistics(kwh, np.asarray(grid_kw, float)[index], n_params=1)
+    ok = abs(stats.nmbe_pct) <= HOURLY_NMBE_PCT and stats.cv_rmse_pct <= HOURLY_CV_RMSE_PCT
+    notes.append(f"the model of today's home against the meter's {index.size:,} complete hours: NMBE "
+                 f"{stats.nmbe_pct:+.1f} %, CV(RMSE) {stats.cv_rmse_pct:.0f} % (ASHRAE Guideline 14 "
+                 f"asks within 10 % and at most 30 % for hourly data: {'met' if ok else 'not met'}; the "
+                 "model runs a typical year, not the weather and the weekdays of the metered hours)")
+    return int(index.size), round(stats.nmbe_pct, 2), round(stats.cv_rmse_pct, 2), ok
+
+
+def meter_summary(reading: MeterReading, weather: Weather, today_grid_kw: np.ndarray | None = None
+                  ) -> MeterSummary:
     """The meter file in figures, with the change-point fit of its complete days against the
     plan's weather (a typical year, matched by day of the year: a rough stand-in for the
-    weather of the metered days)."""
+    weather of the metered days) and, given the model's hourly grid draw of today's home
+    (``today_grid_kw``, kW over the 8760 hours of the typical year), the hourly grade of that
+    model against the meter's complete hours."""
     s = reading.series
     notes = list(reading.notes)
+    hours, nmbe, cv, ok = _hourly_grade(s, today_grid_kw, notes)
     dates, kwh = daily_kwh(s)
     fit = None
     if len(dates) >= 7:
@@ -191,5 +221,6 @@ def meter_summary(reading: MeterReading, weather: Weather) -> MeterSummary:
         monthly_kwh=reading.monthly_kwh, base_load_kw=None if fit is None else round(fit.base_load_kw, 3),
         heating_kwh_per_f_day=None if fit is None else round(fit.heating_kwh_per_f_day, 3),
         cooling_kwh_per_f_day=None if fit is None else round(fit.cooling_kwh_per_f_day, 3),
-        fit_r2=None if fit is None else round(fit.r2, 3), notes=tuple(notes),
+        fit_r2=None if fit is None else round(fit.r2, 3), hourly_hours=hours, hourly_nmbe_pct=nmbe,
+        hourly_cv_rmse_pct=cv, meets_hourly_guideline_14=ok, notes=tuple(notes),
     )

@@ -70,6 +70,14 @@ class MeterSummary:
         Extra daily use per cooling degree day (65 F), kWh per F-day.
     fit_r2 : float or None
         How well daily use follows the degree days, dimensionless.
+    hourly_hours : int
+        Complete hours of the meter the model of today's home was graded against (0: not graded).
+    hourly_nmbe_pct : float or None
+        ASHRAE Guideline 14 NMBE of the model's hourly grid draw against those hours, %.
+    hourly_cv_rmse_pct : float or None
+        ASHRAE Guideline 14 CV(RMSE) of the same, %.
+    meets_hourly_guideline_14 : bool or None
+        NMBE within +/-10 % and CV(RMSE) at most 30 % (None: not graded).
     notes : tuple of str
         What the plan took from the file and what it could not, in words.
     """
@@ -90,6 +98,10 @@ class MeterSummary:
     heating_kwh_per_f_day: float | None = None
     cooling_kwh_per_f_day: float | None = None
     fit_r2: float | None = None
+    hourly_hours: int = 0
+    hourly_nmbe_pct: float | None = None
+    hourly_cv_rmse_pct: float | None = None
+    meets_hourly_guideline_14: bool | None = None
     notes: tuple[str, ...] = ()
 
     def to_dict(self) -> dict[str, Any]:

@@ -17,6 +17,7 @@ from homeplan.energy.meter import (
     MeterFileError,
     change_point_fit,
     daily_kwh,
+    hourly_kwh,
     monthly_kwh,
     parse_espi_xml,
     parse_green_button_csv,
@@ -179,3 +180,22 @@ def test_missing_file_and_plain_text(tmp_path: Path) -> None:
     (tmp_path / "x.csv").write_bytes(b"\xff\xfe\x00bad")
     with pytest.raises(MeterFileError, match="UTF-8"):
         read_green_button(tmp_path / "x.csv")
+
+
+def test_hourly_energy_matches_pandas_resampling() -> None:
+    # a 15-minute year across a leap day, with a gap: pandas' resampling is the reference
+    import pandas as pd
+
+    s = _series(dt.datetime(2024, 2, 27), 5, 900, seed=7)
+    keep = np.ones(s.kwh.size, bool)
+    keep[50:53] = False
+    holed = IntervalSeries(s.start_s[keep], s.kwh[keep], 900, s.tz_offset_s, "holed")
+    index, kwh = hourly_kwh(holed)
+    ts = pd.Series(holed.kwh, index=pd.to_datetime(holed.start_s, unit="s"))
+    ref = ts.resample("h").agg(["sum", "count"])
+    ref = ref[(ref["count"] == 4) & ~((ref.index.month == 2) & (ref.index.day == 29))]
+    np.testing.assert_allclose(kwh, ref["sum"].to_numpy(), rtol=1e-12)
+    expected = (ref.index.day_of_year - 1 - ((ref.index.is_leap_year) & (ref.index.month > 2))) * 24 + ref.index.hour
+    np.testing.assert_array_equal(index, expected.to_numpy())
+    # 27 and 28 February, 1 and 2 March kept (29 February left out); readings 50-52 leave hours 12 and 13
+    assert 57 * 24 in index and 59 * 24 in index and kwh.size == 4 * 24 - 2

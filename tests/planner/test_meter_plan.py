@@ -124,6 +124,16 @@ def test_a_year_of_hourly_readings_feeds_the_fit_to_the_bills(tmp_path) -> None:
     assert fit.monthly and fit.billed == pytest.approx(sum(by_month), abs=1.0)
     assert any("hourly readings" in w for w in r.warnings)
     assert m.base_load_kw is not None and m.fit_r2 is not None
+    # the model's hourly grid draw of today's home graded against every hour of the meter by
+    # ASHRAE Guideline 14's formulas (n - p degrees of freedom, p = 1), computed here
+    (today,) = [h for h in r.hourly if h.label == "today"]
+    y, y_hat = s.kwh, np.asarray(today.grid_import_kw)      # 2025 from 1 January: hour i is hour i
+    n = y.size
+    assert m.hourly_hours == n == 8760
+    assert m.hourly_nmbe_pct == pytest.approx((y - y_hat).sum() / ((n - 1) * y.mean()) * 100, abs=0.01)
+    assert m.hourly_cv_rmse_pct == pytest.approx(np.sqrt(((y - y_hat) ** 2).sum() / (n - 1)) / y.mean() * 100,
+                                                 abs=0.01)
+    assert m.meets_hourly_guideline_14 == (abs(m.hourly_nmbe_pct) <= 10 and m.hourly_cv_rmse_pct <= 30)
 
 
 def test_meter_figures_in_the_json_round_trip(january) -> None:
@@ -142,3 +152,20 @@ def test_a_bad_meter_file_is_exit_2_with_its_line(tmp_path, capsys) -> None:
     assert f"bad.xml:{line}" in err and "not a number" in err
     assert main(["plan", str(_plan(tmp_path, "missing.xml"))]) == 2
     assert "meter file not found" in capsys.readouterr().err
+
+
+def test_with_solar_the_meters_months_count_what_was_bought(tmp_path) -> None:
+    # Green Button "delivered" readings (ESPI flowDirection 1) are what the grid delivered: with
+    # solar on the roof, the bought energy - not the net, not the home's use
+    from homeplan.planner.meter import read_meter
+
+    (tmp_path / "year.csv").write_text(write_green_button_csv(_year_hourly()))
+    text = (ROOT / "sample_homes" / "newer_ac_small_solar.yaml").read_text()
+    path = tmp_path / "solar.yaml"
+    path.write_text(text.replace("\nusage:\n", "\nusage:\n  meter_file: year.csv\n")
+                    if "\nusage:\n" in text else text + "usage:\n  meter_file: year.csv\n")
+    loaded = load_plan(path)
+    plan, reading = read_meter(loaded.plan, loaded.base_dir)
+    assert reading is not None and plan.usage.electricity.bills_show == "bought"
+    assert sum(plan.usage.electricity.monthly_kwh) == pytest.approx(float(_year_hourly().kwh.sum()), abs=1.0)
+    assert any("what the grid delivers" in n for n in reading.notes)
