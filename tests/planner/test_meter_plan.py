@@ -169,3 +169,14 @@ def test_with_solar_the_meters_months_count_what_was_bought(tmp_path) -> None:
     assert reading is not None and plan.usage.electricity.bills_show == "bought"
     assert sum(plan.usage.electricity.monthly_kwh) == pytest.approx(float(_year_hourly().kwh.sum()), abs=1.0)
     assert any("what the grid delivers" in n for n in reading.notes)
+
+
+def test_check_reads_the_meter_file(tmp_path, capsys) -> None:
+    shutil.copy(ROOT / EXAMPLE, tmp_path / "jan.xml")
+    assert main(["check", str(_plan(tmp_path, "jan.xml"))]) == 0
+    out = capsys.readouterr().out
+    s = example_series()
+    assert f"jan.xml: {s.kwh.size:,} readings of 15 minutes over 31 days, {s.kwh.sum():,.0f} kWh" in out
+    (tmp_path / "bad.xml").write_text((tmp_path / "jan.xml").read_text().replace("<value>", "<value>-", 1))
+    assert main(["check", str(_plan(tmp_path, "bad.xml"))]) == 2
+    assert "bad.xml:" in capsys.readouterr().err
