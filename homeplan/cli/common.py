@@ -5,6 +5,7 @@ from __future__ import annotations
 import datetime as dt
 import os
 from collections.abc import Mapping
+from dataclasses import replace
 from typing import Any
 
 from homeplan.errors import InputError
@@ -12,9 +13,10 @@ from homeplan.plan.load import LoadedPlan, load_plan
 from homeplan.planner.chain import plan_roadmap
 from homeplan.planner.context import PlannerCache
 from homeplan.planner.diskstore import default_store
+from homeplan.planner.sensitivity import sensitivity
 from homeplan.result.plan_result import PlanResult
 
-__all__ = ["load_and_plan", "now_utc", "planner_cache"]
+__all__ = ["load_and_plan", "now_utc", "planner_cache", "with_sensitivity"]
 
 
 def load_and_plan(path: str, values: Mapping[tuple, Any] | None = None,
@@ -31,6 +33,13 @@ def load_and_plan(path: str, values: Mapping[tuple, Any] | None = None,
 def planner_cache(use_store: bool = True) -> PlannerCache:
     """A planner cache backed by the user's disk store (or by nothing with ``use_store`` False)."""
     return PlannerCache(store=default_store() if use_store else None)
+
+
+def with_sensitivity(loaded: LoadedPlan, result: PlanResult) -> PlanResult:
+    """The result with its sensitivity ranking (the home re-planned about twenty times)."""
+    if result.roadmap.status != "ok":
+        return result
+    return replace(result, sensitivity=sensitivity(loaded, result, cache=planner_cache()))
 
 
 def now_utc() -> dt.datetime:
