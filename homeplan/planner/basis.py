@@ -36,7 +36,7 @@ from homeplan.energy.heating import (
 )
 from homeplan.energy.rates import ElectricRate, FuelPrice, FuelPrices, TouPeriod
 from homeplan.energy.simulate import HomeEnergySpec, SiteCache, simulate
-from homeplan.energy.solar import SolarArraySpec
+from homeplan.energy.solar import ArrayKeeper, SolarArraySpec
 from homeplan.energy.vehicles import VehicleSpec
 from homeplan.energy.water import WaterHeaterSpec
 from homeplan.energy.weather import Weather
@@ -295,7 +295,8 @@ def _bill_year_site(plan: Plan, base_dir: Path | None, typical: Weather) -> tupl
 
 
 def home_basis(plan: Plan, base_dir: Path | None = None,
-               make_year: Callable[[wx.ClimateNormals], Weather] | None = None) -> HomeBasis:
+               make_year: Callable[[wx.ClimateNormals], Weather] | None = None,
+               keep: ArrayKeeper | None = None) -> HomeBasis:
     """Today's home: weather, solar geometry, heat loss and equipment, fitted to the bills."""
     weather, wnote = load_weather(plan, base_dir, make_year)
     parts = {"water_heater": water_spec_today(plan), "cooking": cooking_spec_today(plan),
@@ -312,7 +313,7 @@ def home_basis(plan: Plan, base_dir: Path | None = None,
     if plan.home.battery is not None:
         b = plan.home.battery
         battery = BatterySpec(capacity_kwh=b.capacity_kwh, power_kw=b.power_kw)
-    site = SiteCache(weather)
+    site = SiteCache(weather, keep)
     spec = HomeEnergySpec(
         weather=weather, ua_btuh_f=float(cal.ua_btuh_f),
         heating=heating_spec_today(plan, float(cal.design_load_btuh)),
