@@ -48,6 +48,7 @@ from homeplan.planner.capacity import CapacityModel, breaker_spaces
 from homeplan.planner.context import Context
 from homeplan.planner.incentives import IncentiveModel
 from homeplan.planner.projects import ProjectDetail, cost_in_year_usd
+from homeplan.planner.risk import price_paths, scenario_base_usd, scenario_values
 from homeplan.schedule.explain import diagnose_infeasible, explain
 from homeplan.schedule.milp import MilpSolver, Solution
 from homeplan.schedule.problem import (
@@ -63,6 +64,7 @@ from homeplan.schedule.problem import (
 __all__ = [
     "COVER_PREFIX",
     "OBJECTIVE",
+    "PLAN_SOLVER",
     "ORDER_PREFIX",
     "SIZE_SEP",
     "Coefficients",
@@ -78,7 +80,7 @@ __all__ = [
 ]
 
 OBJECTIVE = {"npv": "max_npv", "emissions": "min_emissions", "gas_off_early": "earliest_gas_closure",
-             "out_of_pocket": "min_out_of_pocket"}
+             "out_of_pocket": "min_out_of_pocket", "risk_aware": "min_cost_cvar"}
 """Plan-file objective -> scheduler objective."""
 
 ORDER_PREFIX = "order:"
@@ -204,11 +206,16 @@ def build_problem(ctx: Context, co: dict[str, Coefficients], capacity: CapacityM
     alternatives = alternatives or {}
     sized = {d.id for d in alternatives.values()}
     urgent = {e.upgrade for e in emergency_items(ctx)}  # a failure overrides a later pin
+    objective, objective_project = _objective(ctx)
+    # the risk-aware objective: the same projects valued on sampled price paths
+    paths = price_paths(ctx, plan.choices.risk_scenarios, T) if objective == "min_cost_cvar" else None
     for entry, d in [*ctx.details.items(), *alternatives.items()]:
         pid = d.id
         c = co[entry]
         life = d.life_years
         value = [_value(ctx, c, t, life) for t in range(T)]
+        scenarios = () if paths is None else tuple(
+            tuple(v) for v in scenario_values(ctx, c.savings_by_fuel, value, paths).tolist())
         savings = [sum(s * (1 + ctx.escalation(f)) ** t for f, s in c.savings_by_fuel.items())
                    + c.maintenance_usd_per_year * (1 + plan.prices.inflation_pct / 100.0) ** t
                    for t in range(T)]
@@ -255,6 +262,7 @@ def build_problem(ctx: Context, co: dict[str, Coefficients], capacity: CapacityM
             spaces_provided=float(max(-breaker_spaces(ctx, d, capacity), 0)
                                   + catalog.upgrade_kinds()[d.kind].extra.get("provides_spaces", 0)),
             failure_item=item, failure_prob_by_year=cumulative if item else (),
+            scenario_value_usd=scenarios,
         ))
     prereqs = []
     for u, v, data in ctx.graph.edges(data=True):
@@ -286,7 +294,6 @@ def build_problem(ctx: Context, co: dict[str, Coefficients], capacity: CapacityM
             targets.append(Target(ids, by, "fully electric"))
     if alternatives:
         prereqs, exclusive, groups = _offer_sizes(ctx, alternatives, prereqs, exclusive, groups)
-    objective, objective_project = _objective(ctx)
     b = plan.budget
     budget = [float((b.by_year or {}).get(y, b.usd_per_year)) for y in years]
     budget[0] += emergency_allowance(ctx, co)
@@ -305,6 +312,8 @@ def build_problem(ctx: Context, co: dict[str, Coefficients], capacity: CapacityM
                                                          for pid, _ in g.rates)),
         targets=tuple(targets), objective=objective, objective_project=objective_project,
         exclusive_groups=tuple(exclusive), followups=tuple(followups),
+        scenario_base_usd=() if paths is None else tuple(scenario_base_usd(ctx, paths).tolist()),
+        risk_weight=plan.choices.risk_weight, risk_tail=plan.choices.risk_tail_pct / 100.0,
     )
 
 
@@ -470,11 +479,17 @@ def emergency_allowance(ctx: Context, co: dict[str, Coefficients]) -> float:
     return total
 
 
+PLAN_SOLVER = MilpSolver(time_limit_s=20.0, mip_rel_gap=1e-5, presolve=True)
+"""The solver settings plans use. Presolve on: measured faster on the sample homes' problems
+(20-60 ms against 20-100 ms without, benchmarks/bench_pipeline.py), with the presolve-off repeat
+of :class:`~homeplan.schedule.milp.MilpSolver` when an answer does not hold up; a 1e-5 relative
+gap is well below a dollar on these plans. Graded against exhaustive enumeration by
+benchmarks/bench_solver_agreement.py and tests/schedule/test_agreement.py."""
+
+
 def solve(problem: Problem) -> Solution:
-    """Solve with HiGHS. Presolve on: measured faster on the sample homes' problems (20-60 ms
-    against 20-100 ms without, benchmarks/bench_pipeline.py); a 1e-5 relative gap is well below
-    a dollar on these plans."""
-    return MilpSolver(time_limit_s=20.0, mip_rel_gap=1e-5, presolve=True).solve(problem)
+    """Solve with :data:`PLAN_SOLVER`."""
+    return PLAN_SOLVER.solve(problem)
 
 
 def work_order(ctx: Context, placed: dict[str, int]) -> list[str]:
@@ -600,6 +615,11 @@ def schedule(ctx: Context, capacity: CapacityModel, incentives: IncentiveModel) 
                 problem, solution, co, passes = problem3, _restricted(solution2, alts, names), co3, 3
     sized = {pid: ctx.details[pid] for pid in start.sizes if pid in ctx.details
              and ctx.details[pid] is not start.details.get(pid)}
+    if solution.status == "time_limit":
+        gap = solution.mip_gap
+        within = f" it is within {100 * gap:.2g} % of the best possible" if gap is not None and gap == gap else ""
+        notes.append(f"The search for the best order stopped at its {PLAN_SOLVER.time_limit_s:g} s limit;"
+                     f"{within or ' it may not be the best possible'}.")
     if not solution.feasible:
         return ScheduleOutcome(problem, solution, co, capacity, infeasibility=diagnose_infeasible(problem),
                                passes=passes, notes=tuple(notes), details=sized)

@@ -89,3 +89,12 @@ def test_sizing_helpers(greensboro):
     winter = size_array(load, per_kw, 1.0, basis="worst_month")
     assert winter.dc_kw > 1.5 * annual.dc_kw
     assert monthly_balance(load, winter.dc_kw * per_kw).coverage.min() == pytest.approx(1.0)
+
+
+def test_default_losses_are_pvwatts_defaults() -> None:
+    # pvlib.pvsystem.pvwatts_losses() with its default categories (Dobos 2014, NREL/TP-6A20-62641)
+    from pvlib.pvsystem import pvwatts_losses
+
+    from homeplan.energy.solar import default_losses_pct
+
+    assert default_losses_pct() == pytest.approx(float(pvwatts_losses()), abs=1e-12)
