@@ -42,7 +42,7 @@ References
     cap, income tiers by % of AMI.
 IRS Notice 2013-70 / IRS FAQ on energy credits (from memory): rebates and subsidies reduce the
     cost basis on which a credit is computed.
-Pub. L. 119-21 (2025): 25C/25D end after 2025-12-31 (see money.md).
+Pub. L. 119-21 (2025): 25C/25D end after 2025-12-31.
 """
 
 from __future__ import annotations

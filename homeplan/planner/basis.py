@@ -200,7 +200,7 @@ def water_spec_today(plan: Plan) -> WaterHeaterSpec | None:
             if kind == "heat_pump":
                 return WaterHeaterSpec.heat_pump(a.uef or performance()["hpwh_240v_uef"])
             default_uef = {"natural_gas": 0.62, "propane": 0.62, "heating_oil": 0.55,
-                           "electricity": 0.92}[fuel]  # reference notes: typical UEF (from memory)
+                           "electricity": 0.92}[fuel]  # typical UEF (from memory)
             if kind == "tankless" and fuel != "electricity":
                 default_uef = 0.87
             return WaterHeaterSpec(fuel=fuel, uef=a.uef or default_uef, kind=kind or "storage")
