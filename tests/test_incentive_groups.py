@@ -1,6 +1,7 @@
 """Yearly caps shared by several items reach the scheduler: splitting capped items over two tax
 years is found when it pays (the shape of 26 USC 25C as amended in 2022: a percentage of cost
-with an aggregate cap per tax year that resets each year - reference notes, money.md)."""
+with an aggregate cap per tax year that resets each year: 26 USC 25C(b) and the IRS Instructions
+for Form 5695 (2023), Part II)."""
 
 from __future__ import annotations
 

@@ -36,7 +36,7 @@ def test_odd_charger_rounds_up_to_standard_size() -> None:
 
 @pytest.mark.parametrize(
     ("amps", "kw"),
-    [(16, 3.84), (32, 7.68), (40, 9.6), (48, 11.52)],  # electrical.md: Level 2 EVSE at 240 V
+    [(16, 3.84), (32, 7.68), (40, 9.6), (48, 11.52)],  # P = V x I at 240 V (Ohm's law)
 )
 def test_charger_load_va(amps: int, kw: float) -> None:
     ld = ev_charger_load(amps)
@@ -48,7 +48,7 @@ def test_standard_method_minimum_7200() -> None:
     # NEC 2023 220.57: larger of 7,200 VA or nameplate
     assert evse_load_va(16, method="standard", edition=2023) == pytest.approx(7200)
     assert evse_load_va(48, method="standard", edition=2023) == pytest.approx(11520)
-    # optional methods and the 2020 edition use the nameplate (electrical.md: 220.57 new in 2023)
+    # optional methods and the 2020 edition use the nameplate (220.57 is new in NEC 2023)
     assert evse_load_va(16, method="optional", edition=2023) == pytest.approx(3840)
     assert evse_load_va(16, method="standard", edition=2020) == pytest.approx(3840)
 
@@ -57,7 +57,7 @@ def test_restricted_setting() -> None:
     # NEC 2023 625.42(B): a 48 A charger locked at 32 A is rated 32 A -> 40 A breaker, 7,680 VA
     c = evse_circuit(48, restricted_amps=32)
     assert c.rated_amps == 32
-    assert c.breaker_amps == 40  # electrical.md 625.41 table: 32 A -> 40 A
+    assert c.breaker_amps == 40  # NEC 2023 625.41: 32 A x 1.25 = 40 A, a 240.6(A) standard size
     assert c.load_va == pytest.approx(7680)
     assert c.continuous_amps == pytest.approx(40)
     with pytest.raises(ElectricalInputError, match="restricted_amps"):

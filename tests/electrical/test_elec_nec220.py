@@ -115,7 +115,7 @@ def test_220_82_interlocked_strips_omit_compressor() -> None:
 
 def test_220_82_edition_2026_lighting_factor() -> None:
     # NEC 2026 lighting load of 2 VA/ft2: from memory, not checked against the adopted text
-    # (the project's electrical notes say 'reportedly'). NEC Annex D, Example D2(a) redone by hand:
+    # (reported for the 2026 edition). NEC Annex D, Example D2(a) redone by hand:
     # 1500 x 2 = 3,000 + 4,500 + 12,000 + 2,500 + 1,200 + 5,000 = 28,200
     # 10,000 + 0.4 x 18,200 = 17,280; + 0.4 x 9,000 heat = 3,600 -> 20,880 VA
     loads = [
@@ -156,7 +156,8 @@ def test_220_83_a_no_new_hvac_by_hand() -> None:
 
 
 def test_220_83_a_existing_ac_options() -> None:
-    # Existing 4,000 VA A/C (invented). Code silent (electrical.md), so both options:
+    # Existing 4,000 VA A/C (invented). NEC 2023 220.83(A) does not say whether existing A/C is
+    # an "other load" or counted at 100 % (from memory of the text), so both options:
     # other_load: other 48,120 -> 8,000 + 0.4 x 40,120 = 24,048 VA = 100.2 A (does not fit 100 A)
     # 100_percent: 22,448 + 4,000 = 26,448 VA = 110.2 A
     loads = [*_case_a_home(), _va("Central A/C", 4000, "cooling")]
@@ -233,8 +234,8 @@ def test_breakdown_sums_to_total_and_carries_caution() -> None:
 def test_edition_changes_section_labels() -> None:
     r20 = nec220_83(Dwelling(1800), _case_a_home(), Service(100), edition=2020)
     r23 = nec220_83(Dwelling(1800), _case_a_home(), Service(100), edition=2023)
-    assert r20.rows[0].section == "NEC 2020 220.14(J)"  # electrical.md (2020 numbering)
-    assert r23.rows[0].section == "NEC 2023 220.41"  # electrical.md (2023 numbering)
+    assert r20.rows[0].section == "NEC 2020 220.14(J)"  # NEC 2020 numbering (from memory)
+    assert r23.rows[0].section == "NEC 2023 220.41"  # NEC 2023 220.41, general lighting
 
 
 # ------------------------------------------------------------------ 220.87
@@ -244,7 +245,8 @@ def test_220_87_twelve_month_peak_with_and_without_125() -> None:
     # 9.6 kW peak (invented), 100 A service, new 48 A charger + 120 V HPWH (both continuous)
     # 125 % on new continuous: 9,600 x 1.25 = 12,000 + 11,520 x 1.25 = 14,400 + 400 x 1.25 = 500
     #   = 26,900 VA = 112.08 A -> does not fit                     (NEC 220.87)
-    # 100 %: 12,000 + 11,520 + 400 = 23,920 VA = 99.67 A -> fits   (inspectors differ, electrical.md)
+    # 100 %: 12,000 + 11,520 + 400 = 23,920 VA = 99.67 A -> fits   (inspectors differ: common
+    # practice, no source)
     new = [ev_charger_load(48), nameplate_load("hpwh_120v_shared", existing=False)]
     m = MeasuredDemand(peak_kw=9.6)
     r125 = nec220_87(m, new, Service(100))
@@ -293,7 +295,8 @@ def test_220_87_counts_a_new_dryer_at_5000_va_at_least() -> None:
 
 
 def test_220_87_refused_with_solar_unless_allowed() -> None:
-    # electrical.md: 2020 text excludes services with solar or peak shaving
+    # NEC 2020 220.87 Exception (from memory): the 30-day recording is not permitted where the
+    # service has a renewable energy system or peak-load shaving; refused unless allowed
     with pytest.raises(MethodNotApplicableError, match="220.87"):
         nec220_87(MeasuredDemand(5.0), [], Service(100), has_solar_or_battery=True)
     r = nec220_87(MeasuredDemand(5.0), [], Service(100), has_solar_or_battery=True,
@@ -307,7 +310,8 @@ def test_220_87_thirty_days_needs_seasonal_adjustment() -> None:
 
 
 def test_hourly_bound() -> None:
-    # electrical.md: hourly kWh x 4 bounds the 15-minute kW (an inspector's call, not code)
+    # common practice, no source: hourly kWh x 4 bounds the 15-minute kW (an inspector's call,
+    # not code): the largest 15-minute average in an hour is at most 4 x the hour's kWh
     assert peak_kw_bound_from_hourly_kwh([1.2, 3.5, 2.0]) == pytest.approx(14.0)
 
 

@@ -51,7 +51,8 @@ def test_sum_of_breakers_by_hand() -> None:
 
 
 def test_derated_main_by_hand() -> None:
-    # electrical.md: 200 A bus with a 175 A main -> (1.2 x 200 - 175) / 1.25 = 52 A (12.48 kW)
+    # NEC 2023 705.12(B), 120 % rule: 200 A bus with a 175 A main
+    #   -> (1.2 x 200 - 175) / 1.25 = 52 A (12.48 kW)
     opts = derated_main_options(Service(200), calculated_load_amps=160, inverter_output_amps=40)
     first = opts[0]
     assert first.main_breaker_amps == 175  # next standard size below 200, NEC 240.6(A)
@@ -71,7 +72,8 @@ def test_supply_side_and_battery_counts() -> None:
     svc = Service(100)
     r = backfeed_check(svc, [20.0, 24.0], rule="supply_side")
     assert r.fits and r.max_inverter_amps == 100
-    # battery inverters count with solar under the 120 % rule (electrical.md): 20 + 24 > 16
+    # NEC 2023 705.12(B) (120 % rule) sums every power source's output current (battery inverters too):
+    # 20 + 24 > 16
     assert not backfeed_check(svc, [20.0, 24.0], rule="120").fits
     # a power control system (705.13) limiting output to 16 A makes it fit
     assert backfeed_check(svc, [20.0, 24.0], rule="120", pcs_limit_amps=16).fits

@@ -29,7 +29,7 @@ from homeplan.energy.weather import ClimateNormals, synthetic_weather
 
 @pytest.fixture(scope="module")
 def cold():
-    """Synthetic year for the reference/energy.md worked example climate: HDD65 6,000, T_99 5 F
+    """Synthetic year for the climate of the degree-day hand calculation: HDD65 6,000, T_99 5 F
     (invented site at 42 N; CDD, cooling design and cloudiness from memory, plausible)."""
     w = synthetic_weather(ClimateNormals(42.0, -88.0, 6000.0, 800.0, 5.0, 90.0, 0.5))
     return w, SiteCache(w)
@@ -49,7 +49,8 @@ def test_heating_gas_matches_bill_worked_example(cold, gas_home):
     _, cache = cold
     r = simulate(gas_home, cache)
     heat_therm = r.end_use_units["heating"]["natural_gas"]
-    # reference/energy.md: UA 422.22 at AFUE 0.80 and HDD65 6,000 burns 760 therm of heating gas
+    # degree-day method by hand (ASHRAE Handbook - Fundamentals, ch. 19): UA 422.22 at AFUE 0.80
+    # and HDD65 6,000 burns 24 x 422.22 x 6,000 / 0.80e5 = 760 therm of heating gas
     # (degree-hours from hourly temperatures differ slightly from daily-mean degree-days).
     assert heat_therm == pytest.approx(760.0, rel=0.08)
     # and the bill calibration run on the simulated gas recovers the UA it was given
@@ -84,7 +85,8 @@ def test_electrified_states(cold, gas_home):
     r0, r1 = simulate(gas_home, cache), simulate(s1, cache)
     assert "natural_gas" not in r1.end_use_units["heating"]
     assert r1.annual_units["natural_gas"] < r0.annual_units["natural_gas"] - 600
-    # gas still open -> the fixed charge stays (reference/money.md)
+    # gas still open -> the fixed charge stays (common practice, no source: it is billed while
+    # the account is open)
     assert r1.annual_bills_usd["natural_gas"] >= 12 * 15.0
     # seasonal COP of the heat pump between the 5 F and 47 F rating COPs
     heat_kwh = r1.end_use_units["heating"]["electricity"]
@@ -135,7 +137,8 @@ def test_site_cache_must_match_weather(gas_home, greensboro):
 
 
 def test_core_does_not_import_heavy_libraries():
-    # docs/developing.md: pandas, scipy, pvlib are imported inside functions; never textual.
+    # Project rule (not an outside source): pandas, scipy, pvlib are imported inside functions;
+    # never textual.
     code = ("import sys; import homeplan.energy.simulate, homeplan.energy.calibrate, "
             "homeplan.energy.sizing; "
             "print(sorted(m for m in ('pandas', 'scipy', 'pvlib', 'textual') if m in sys.modules))")

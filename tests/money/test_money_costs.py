@@ -24,7 +24,8 @@ from homeplan.money.costs import (
 
 
 def test_wright_three_doublings_at_20_pct() -> None:
-    # common practice, no source (money.md / issue 5): three doublings at 20 % -> 0.512
+    # Wright (1936), Factors affecting the cost of airplanes: cost falls by the learning rate at
+    # each doubling of cumulative production; three doublings at 20 % -> 0.8^3 = 0.512
     assert wright_cost_factor(20, 3) == pytest.approx(0.512)
 
 
@@ -34,7 +35,8 @@ def test_learning_equivalent_annual_rate() -> None:
     assert learning_annual_change_pct(20, 100) == pytest.approx(-20.0)
     # consistency with the definition: the time to double cumulative production at 25 %/yr is
     # ln 2 / ln 1.25 years, and over that time cost must fall to (1 - 0.21) (21 % per doubling,
-    # battery default in issue 5, common practice, no source)
+    # the catalog's battery rate, within the 20-24 % per doubling of Ziegler and Trancik (2021),
+    # Energy Environ. Sci. 14:1635)
     yearly = 1 + learning_annual_change_pct(21, 25) / 100
     years_to_double = math.log(2) / math.log(1.25)
     assert yearly**years_to_double == pytest.approx(0.79)
@@ -66,14 +68,15 @@ def test_cost_in_year_learning_and_soft_costs() -> None:
 
 def test_base_cost_sized_and_quote() -> None:
     solar = CostRange("kw", 2_500, 4_200, 5_000, source="LBNL Tracking the Sun 2024")
-    # money.md: LBNL 2023 median $4.20/W and median system 7.4 kW -> $31,080
+    # LBNL Tracking the Sun, 2024 edition: 2023 median $4.20/W (from memory) and median
+    # residential system 7.4 kW -> $31,080
     assert base_cost_usd(solar, 7.4) == pytest.approx(31_080)
-    # money.md low $2.5/W
+    # low $2.5/W (from memory)
     assert base_cost_usd(solar, 7.4, "low") == pytest.approx(18_500)
     # a contractor quote wins over the range
     assert base_cost_usd(solar, 7.4, quote_usd=27_000) == 27_000
     minisplit = CostRange("each", 2_500, 3_750, 5_000, fixed_usd=5_000)
-    # money.md: single zone $5k typical, + $2.5-5k per extra head -> 2 extra heads typical 12,500
+    # from memory: single zone $5k typical, + $2.5-5k per extra head -> 2 extra heads typical 12,500
     assert base_cost_usd(minisplit, 2) == pytest.approx(12_500)
     with pytest.raises(ValueError, match="low <= typical <= high"):
         CostRange("kw", 5, 4, 6)
@@ -83,13 +86,14 @@ def test_base_cost_sized_and_quote() -> None:
 
 def test_price_path_escalation_and_fossil_scenario() -> None:
     cpi = PriceEscalation(cpi_pct=3.0)
-    # money.md: EIA 2023 residential 15.98 c/kWh, escalated at CPI (numpy-financial fv)
+    # EIA Electric Power Monthly: 2023 US residential average 15.98 c/kWh (from memory),
+    # escalated at CPI (numpy-financial fv)
     path = price_path(0.1598, "electricity", 2023, [2023, 2030], cpi)
     assert path[0] == pytest.approx(0.1598)
     assert path[1] == pytest.approx(npf.fv(0.03, 7, 0, -0.1598))
     high = PriceEscalation(cpi_pct=3.0, fossil_extra_pct=2.0)
     gas = price_path(1.42, "natural_gas", 2023, [2033], high)[0]
-    assert gas == pytest.approx(npf.fv(0.05, 10, 0, -1.42))  # money.md: ~$1.42/therm in 2022-23
+    assert gas == pytest.approx(npf.fv(0.05, 10, 0, -1.42))  # numpy-financial fv
     # electricity is not a fossil fuel: no extra escalation
     assert price_path(0.1598, "electricity", 2023, [2030], high)[0] == pytest.approx(path[1])
 
@@ -135,6 +139,6 @@ def test_catalog_records() -> None:
     )
     assert cost_in_year(1.0, 2025, 2028, trend) == pytest.approx(0.512)
     # a cold-climate variant factor of 1.25 on a 3-ton typical ducted heat pump (5,300 $/ton):
-    # money.md cold-climate ducted 18-22k typical
+    # from memory: cold-climate ducted 18-22k typical
     rng = CostRange("ton", 3_000, 5_300, 8_300)
     assert 18_000 <= base_cost_usd(rng, 3, cost_factor=1.25) <= 22_000

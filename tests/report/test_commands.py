@@ -1,7 +1,7 @@
 """The print/export/diff commands through the real CLI entry point (exit codes 0 and 2).
 
 The planner is replaced by the invented fixture result, so these tests check the views and the
-command wiring only. Exit codes follow docs/developing.md (0 ok, 2 bad input or usage).
+command wiring only. Exit codes are the project's own convention (0 ok, 2 bad input or usage).
 """
 
 from __future__ import annotations

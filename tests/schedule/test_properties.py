@@ -1,6 +1,6 @@
 """Property tests: over random instances the MILP's plan never breaks a hard constraint.
 
-The checks below are written directly from the constraint definitions in the issue (budget with
+The checks below are written directly from the constraint definitions of the problem (budget with
 carryover, prerequisites, any-of, capacity, pins, exclusions, windows, per-year limit, targets,
 capped incentives, loan limit); they do not use ``problem.evaluate`` or the MILP model. Loans and
 incentive amounts are taken from the solution and checked for consistency themselves.

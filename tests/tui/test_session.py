@@ -105,7 +105,7 @@ def test_form_values_parse_as_people_type_them():
 
 
 def test_money_is_rounded_to_what_matters():
-    # TUI.md: "$12,400, not $12,391.87"
+    # the project's display rule (not an outside source): "$12,400, not $12,391.87"
     assert usd(12391.87) == "$12,400" and usd(-1234) == "-$1,230" and usd(0) == "$0"
     assert kusd(6240) == "6.2k" and kusd(23456) == "23k" and kusd(20) == "0" and kusd(-950) == "-950"
 
