@@ -46,17 +46,24 @@ def gas_home(cold):
 
 
 def test_heating_gas_matches_bill_worked_example(cold, gas_home):
-    _, cache = cold
+    w, cache = cold
     r = simulate(gas_home, cache)
     heat_therm = r.end_use_units["heating"]["natural_gas"]
-    # degree-day method by hand (ASHRAE Handbook - Fundamentals, ch. 19): UA 422.22 at AFUE 0.80
-    # and HDD65 6,000 burns 24 x 422.22 x 6,000 / 0.80e5 = 760 therm of heating gas
-    # (degree-hours from hourly temperatures differ slightly from daily-mean degree-days).
-    assert heat_therm == pytest.approx(760.0, rel=0.08)
-    # and the bill calibration run on the simulated gas recovers the UA it was given
+    # Degree-hour method (ASHRAE Handbook - Fundamentals, ch. 19), by hand from this year's
+    # hourly temperatures: therm = UA x sum(max(65 - T_h, 0)) / (AFUE x 1e5)
+    degree_hours = float(np.maximum(65.0 - w.temp_f, 0.0).sum())
+    assert heat_therm == pytest.approx(422.22 * degree_hours / 0.80e5, rel=1e-9)
+    # The daily degree-day hand calculation (UA 422.22, AFUE 0.80, HDD65 6,000 -> 760 therm)
+    # scales by degree-hours / 24 over this year's daily-mean HDD65 (6,218 / 6,001 here: hours
+    # colder than the daily mean count in full) - not a tolerance, an exact relation.
+    daily_method_therm = 422.22 * 24 * 6000.0 / 0.80e5  # = 760.0 therm, by hand
+    assert heat_therm == pytest.approx(daily_method_therm * (degree_hours / 24) / 6000.0, rel=1e-9)
+    assert w.hdd65 == pytest.approx(6000.0, rel=0.001)
+    # and the bill calibration (daily degree days) run on the simulated gas recovers the UA it
+    # was given, scaled by the same ratio
     base = r.annual_units["natural_gas"] - heat_therm
     cal = calibrate_annual(r.annual_units["natural_gas"], base, 6000.0, 5.0, 0.80)
-    assert cal.ua_btuh_f == pytest.approx(422.22, rel=0.08)
+    assert cal.ua_btuh_f == pytest.approx(422.22 * (degree_hours / 24) / 6000.0, rel=1e-9)
     assert r.backup_heat_hours == 0
 
 

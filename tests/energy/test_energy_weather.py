@@ -114,12 +114,13 @@ NAMES = ["atlanta", "boston", "minneapolis", "phoenix"]
 def test_synthetic_hits_degree_days_and_design_temp(name, synthetic, climates):
     n = climates[name]
     w = synthetic[name]
-    # Required accuracy of the generator (its own targets, not an outside figure): HDD65/CDD65
-    # within 3 %, 99 % hourly temperature within 2 F.
-    assert w.hdd65 == pytest.approx(n.hdd65, rel=0.03)
-    assert w.cdd65 == pytest.approx(n.cdd65, rel=0.03)
-    assert abs(w.temp_percentile_f(1.0) - n.heating_design_f) <= 2.0
-    assert abs(w.temp_percentile_f(99.0) - n.cooling_design_f) <= 3.0
+    # The generator is calibrated to the normals it is given (its inputs, not a published
+    # figure): measured worst cases over these four climates are 0.1 % on the degree days and
+    # 0.23 F on the 1 % / 99 % hourly temperatures; the bounds keep a small margin above them.
+    assert w.hdd65 == pytest.approx(n.hdd65, rel=0.005)
+    assert w.cdd65 == pytest.approx(n.cdd65, rel=0.005)
+    assert abs(w.temp_percentile_f(1.0) - n.heating_design_f) <= 0.5
+    assert abs(w.temp_percentile_f(99.0) - n.cooling_design_f) <= 0.5
 
 
 @pytest.mark.parametrize("name", NAMES)
