@@ -21,11 +21,15 @@ from homeplan.energy.heating import (
 HP = HeatPumpSpec(36_000, 30_000, 26_000, 3.8, 2.6, 2.0, cutout_f=-13.0)
 
 
-def test_rating_points_reproduced():
-    t = np.array([47.0, 17.0, 5.0])
-    # DOE 10 CFR 430 Appendix M1 rating points H1 47 F, H3 17 F, H4 5 F
-    np.testing.assert_allclose(hp_capacity_btuh(HP, t), [36_000, 30_000, 26_000])
-    np.testing.assert_allclose(hp_cop(HP, t), [3.8, 2.6, 2.0])
+def test_linear_between_the_rating_points():
+    # Capacity and COP are linear in outdoor temperature between the DOE 10 CFR 430 Subpart B
+    # Appendix M1 rating temperatures 5, 17 and 47 F (as in the HSPF2 bin method, from memory).
+    # Checked against numpy.interp (an independent implementation) on a 0.5 F grid; the values
+    # at the rating points themselves are this spec's inputs, not an outside figure.
+    t = np.arange(5.0, 47.01, 0.5)
+    np.testing.assert_allclose(hp_capacity_btuh(HP, t),
+                               np.interp(t, [5.0, 17.0, 47.0], [26_000, 30_000, 36_000]))
+    np.testing.assert_allclose(hp_cop(HP, t), np.interp(t, [5.0, 17.0, 47.0], [2.0, 2.6, 3.8]))
 
 
 def test_extrapolation_and_cutout():
