@@ -177,7 +177,12 @@ def test_remedy_to_dict_is_plain() -> None:
     import json
 
     r = find_remedy(Dwelling(1500), _existing_1500(), Service(100), _cold_climate_proposal(), COSTS)
-    json.dumps(r.to_dict())
+    d = r.to_dict()
+    assert json.loads(json.dumps(d, allow_nan=False)) == d  # plain JSON types only, no loss
+    assert d["fits"] is r.fits and d["cost_usd"] == r.cost_usd
+    assert d["choices"] == [list(c) for c in r.choices] and d["reasons"] == list(r.reasons)
+    assert d["calc"]["total_va"] == pytest.approx(r.calc.total_va)
+    assert d["service"]["service_amps"] == r.service.service_amps
 
 
 def test_margin_amps_moves_the_choice() -> None:

@@ -119,8 +119,8 @@ async def test_pin_exclude_release(plan_file):
         assert app.session.plan.choices.pins == {row.id: target}
         await settle(pilot)
         rm = app.result.roadmap
-        if rm.status == "ok":
-            assert steps(app)[row.id] == target
+        assert rm.status == "ok", rm.infeasibility  # the sample can take this pin
+        assert steps(app)[row.id] == target
         assert view.rows[[r.id for r in view.rows].index(row.id)].pinned == target
         # leave another project out
         other = next(r for r in view.rows if r.id != row.id and r.step is not None)
@@ -486,8 +486,7 @@ async def test_command_palette_runs_actions(plan_file):
         assert app.session.plan.budget.usd_per_year == 10000
 
 
-def test_sample_exists():
-    assert SAMPLE.exists()
+
 
 
 async def test_mouse_opens_views_and_selects_cells(plan_file):
