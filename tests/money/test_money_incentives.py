@@ -28,7 +28,7 @@ from homeplan.money.incentives import (
 
 ROOT = Path(__file__).resolve().parents[2]
 FEDERAL = ROOT / "sample_homes" / "incentives" / "federal_2023_2025_example.yaml"
-DEMO = ROOT / "sample_homes" / "incentives" / "lakeshire_demo.yaml"
+DEMO = ROOT / "sample_homes" / "incentives" / "demoland_invented.yaml"
 
 
 @pytest.fixture(scope="module")
@@ -269,7 +269,7 @@ def test_rebate_later_and_performance_timing() -> None:
         Purchase("bat", "battery", 13_500, _d("2026-05-01"), size_kwh=13.5),
     ]
     res = evaluate(
-        items, [progs["lpl_heat_pump_cashback"], progs["lpl_battery_performance"]], Household()
+        items, [progs["demo_utility_hp_rebate"], progs["demo_utility_battery_payment"]], Household()
     )
     hp = res.for_item("hp")[0]
     # invented demo program: 25 % capped at $1,500, paid 75 days after installation
@@ -293,6 +293,9 @@ def test_catalog_files_are_valid_and_demo_says_invented() -> None:
     } <= set().union(*(p.kinds for p in demo))
     assert len({p.ends.year for p in demo if p.ends}) >= 3  # windows end in various years
     assert "INVENTED" in DEMO.read_text(encoding="utf-8")[:300]
+    # every invented program says so in its own name, so every view that shows the name does
+    assert all(p.name.endswith(" (invented)") and "invented" in p.administrator for p in demo)
+    assert all(p.source == "invented demo" for p in demo)
     fed = {p.id: p for p in read_catalog(FEDERAL)}
     assert fed["us_25c_2023_2025"].ends == _d("2025-12-31")  # Pub. L. 119-21 (2025)
     assert fed["us_25d_2023_2025"].ends == _d("2025-12-31")  # Pub. L. 119-21 (2025)
@@ -449,7 +452,7 @@ def test_state_credit_limited_by_state_liability() -> None:
     progs = {p.id: p for p in read_catalog(DEMO)}
     items = [Purchase("pv", "solar", 30_000, _d("2026-06-01"), size_kw=8)]
     hh = Household(tax_liability_usd=0, state_tax_liability_usd=1_200)
-    res = evaluate(items, [progs["lakeshire_solar_storage_credit"]], hh)
+    res = evaluate(items, [progs["demo_state_solar_storage_credit"]], hh)
     award = res.awards[0]
     # invented demo program: 15 % of 30,000 = 4,500, capped at $3,000, 5-year carryforward,
     # paid May 1; the state liability of $1,200 a year spreads it over three tax years

@@ -11,7 +11,7 @@ import pytest
 from homeplan.errors import InputError
 from homeplan.plan.load import load_plan, load_plan_text
 from homeplan.tui import newplan
-from homeplan.tui.format import kusd, usd
+from homeplan.tui.format import kusd, trunc, usd
 from homeplan.tui.screens.forms import FieldSpec, parse_value
 from homeplan.tui.session import DELETE, PlanSession
 
@@ -136,3 +136,11 @@ def test_open_command_reports_a_bad_file_without_starting_the_app(tmp_path: Path
                           cwd=ROOT, timeout=60)
     assert proc.returncode == 2
     assert f"{bad}:2:" in proc.stderr and "Traceback" not in proc.stderr
+
+
+def test_cut_names_keep_their_invented_mark():
+    # project rule (not an outside source): a demo name cut to fit still says it is invented
+    name = "Demo state heat pump rebate (invented)"
+    assert trunc(name, 60) == name
+    assert trunc(name, 24) == "Demo state h… (invented)" and len(trunc(name, 24)) == 24
+    assert trunc("A long ordinary program name", 10) == "A long or…"
