@@ -122,6 +122,70 @@ def test_25c_panel_conditions(federal) -> None:
     assert any("same year" in n for n in r_alone.for_item("panel")[0].notes)
 
 
+# ------------------------------------------------------------------ 25C items with their own caps
+# Cases worked by hand with the limits the IRS Instructions for Form 5695 (2023), Part II, list
+# for the energy efficient home improvement credit: 30 % of cost; $1,200 a year in total for
+# everything but heat pumps, within which exterior windows and skylights at most $600, any
+# exterior door $250 and all doors $500, any item of qualified energy property (central air
+# conditioner, panelboard) $600, home energy audits $150; heat pumps and heat pump water heaters
+# $2,000 a year on their own. (The instructions list these limits; the cases are ours.)
+
+
+def test_25c_doors_250_each_500_in_total(federal) -> None:
+    prog = federal["us_25c_2023_2025"]
+    doors = [Purchase(f"door{i}", "exterior_door", cost, _d("2024-05-01"))
+             for i, cost in enumerate((1_000, 700, 500))]
+    res = evaluate(doors, [prog], Household())
+    # 30 % = 300, 210, 150 -> $250 a door: 250, 210, 150 = 610 -> $500 for all doors
+    assert [_paid(res, f"door{i}", prog.id) for i in range(3)] == [
+        pytest.approx(250), pytest.approx(210), pytest.approx(40)]
+    assert res.total_paid_usd == pytest.approx(500)
+    # the door limits are per tax year: the same doors a year later earn another $500
+    later = [replace(d, project_id=d.project_id + "b", installed_on=_d("2025-05-01")) for d in doors]
+    assert evaluate(doors + later, [prog], Household()).total_paid_usd == pytest.approx(1_000)
+
+
+def test_25c_windows_600_a_year_and_central_ac_600(federal) -> None:
+    prog = federal["us_25c_2023_2025"]
+    items = [Purchase("win1", "windows", 1_500, _d("2024-04-01")),
+             Purchase("win2", "windows", 1_500, _d("2024-09-01")),
+             Purchase("ac", "central_ac", 5_000, _d("2024-06-01"))]
+    res = evaluate(items, [prog], Household())
+    # windows: 30 % x 3,000 = 900 -> $600 for the year (450 + 150); central A/C: 1,500 -> $600
+    assert _paid(res, "win1", prog.id) + _paid(res, "win2", prog.id) == pytest.approx(600)
+    assert _paid(res, "ac", prog.id) == pytest.approx(600)
+    assert res.total_paid_usd == pytest.approx(1_200)
+
+
+def test_25c_all_items_in_one_year(federal) -> None:
+    prog = federal["us_25c_2023_2025"]
+    items = [Purchase("hp", "heat_pump", 16_000, _d("2024-05-01")),
+             Purchase("win", "windows", 3_000, _d("2024-05-01")),
+             Purchase("ac", "central_ac", 5_000, _d("2024-05-01")),
+             Purchase("attic", "envelope", 2_000, _d("2024-05-01")),
+             Purchase("audit", "energy_audit", 800, _d("2024-02-01"))]
+    res = evaluate(items, [prog], Household())
+    # other items: windows 600 + A/C 600 + insulation 600 + audit min(240, 150) = 1,950
+    #   -> $1,200 for the year; heat pump 30 % x 16,000 -> $2,000 on its own -> $3,200
+    assert res.total_paid_usd == pytest.approx(3_200)
+    assert _paid(res, "hp", prog.id) == pytest.approx(2_000)
+    assert sum(_paid(res, k, prog.id) for k in ("win", "ac", "attic", "audit")) == pytest.approx(1_200)
+
+
+def test_25c_service_upgrade_is_a_panelboard(federal) -> None:
+    prog = federal["us_25c_2023_2025"]
+    items = [Purchase("hp", "heat_pump", 16_000, _d("2024-05-01")),
+             Purchase("svc", "service_upgrade", 9_000, _d("2024-05-01"), panel_amps=200)]
+    # a service upgrade replaces the panelboard: 30 % x 9,000 -> $600 an item
+    assert _paid(evaluate(items, [prog], Household()), "svc", prog.id) == pytest.approx(600)
+
+
+def test_unknown_purchase_kind_is_an_error() -> None:
+    # an unknown kind used to earn a silent $0; now it says what is wrong and what to use
+    with pytest.raises(ValueError, match="unknown project kind 'hot_tub'.*use one of"):
+        Purchase("spa", "hot_tub", 9_000, _d("2025-05-01"))
+
+
 # ------------------------------------------------------------------ 50122 tiers
 
 
@@ -157,6 +221,17 @@ def test_50122_tier_below_80(federal) -> None:
     assert _paid(res, "hpwh", "us_50122_heehra") == pytest.approx(900)
     assert res.total_paid_usd == pytest.approx(14_000)  # 42 USC 18795a: household cap $14,000
     assert any("lifetime cap" in n for n in res.for_item("hpwh")[0].notes)
+
+
+def test_50122_service_upgrade_allowance(federal) -> None:
+    prog = federal["us_50122_heehra"]
+    item = [Purchase("svc", "service_upgrade", 9_000, _d("2025-03-01"), panel_amps=200)]
+    # 42 USC 18795a: an electric load service center upgrade up to $4,000; a service upgrade
+    # includes one. 80-150 % AMI: 50 % x 9,000 = 4,500 -> $4,000; below 80 %: 100 % -> $4,000
+    assert evaluate(item, [prog], Household(ami_pct=120)).total_paid_usd == pytest.approx(4_000)
+    assert evaluate(item, [prog], Household(ami_pct=60)).total_paid_usd == pytest.approx(4_000)
+    small = [Purchase("svc", "service_upgrade", 6_000, _d("2025-03-01"), panel_amps=200)]
+    assert evaluate(small, [prog], Household(ami_pct=120)).total_paid_usd == pytest.approx(3_000)
 
 
 def test_50122_above_150_gets_nothing(federal) -> None:
@@ -538,7 +613,8 @@ def test_program_totals_and_caps_in_words(federal) -> None:
     assert (
         "30 % of cost" in words
         and "$2,000 a year" in words
-        and "panel_upgrade at most $600" in words
+        and "panel_upgrade up to $600" in words
+        and "exterior_door at most $500 a year" in words
     )
     items = [
         Purchase("hp", "heat_pump", 16_000, _d("2024-05-01")),
