@@ -40,6 +40,7 @@ from homeplan.energy.heating import (
     ResistanceHeatSpec,
 )
 from homeplan.energy.rates import ElectricRate, FuelPrice, FuelPrices, TouPeriod
+from homeplan.energy.ratings import hspf2_from_hspf, seer2_from_seer
 from homeplan.energy.simulate import HomeEnergySpec, SiteCache, simulate
 from homeplan.energy.solar import SolarArraySpec
 from homeplan.energy.units import btu_per_unit
@@ -60,6 +61,9 @@ __all__ = [
     "load_weather",
     "nearest_reference_climate",
     "appliance_efficiency",
+    "rated_hspf2",
+    "rated_seer2",
+    "rating_notes",
 ]
 
 DAYS_IN_MONTH = np.array([31, 28, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31], dtype=float)
@@ -163,12 +167,40 @@ def appliance_efficiency(a: Appliance) -> float:
     return 0.95 if a.type == "condensing" else 0.80
 
 
+def rated_seer2(a: Appliance) -> float | None:
+    """The appliance's SEER2: as given, or converted from a pre-2023 SEER (split-system factor,
+    the default when the equipment type is not known; RESNET MINHERS Addendum 71)."""
+    if a.seer2 is not None:
+        return a.seer2
+    return seer2_from_seer(a.seer) if a.seer is not None else None
+
+
+def rated_hspf2(a: Appliance) -> float | None:
+    """The heat pump's HSPF2: as given, or converted from a pre-2023 HSPF (split-system factor;
+    RESNET MINHERS Addendum 71)."""
+    if a.hspf2 is not None:
+        return a.hspf2
+    return hspf2_from_hspf(a.hspf) if a.hspf is not None else None
+
+
+def rating_notes(plan: Plan) -> list[str]:
+    """One note per pre-2023 rating converted, with the figure used."""
+    out = []
+    for a in plan.appliances:
+        for old, new, value in (("SEER", "SEER2", rated_seer2(a)), ("HSPF", "HSPF2", rated_hspf2(a))):
+            given = getattr(a, old.lower())
+            if given is not None and getattr(a, new.lower()) is None:
+                out.append(f"the {a.key.replace('_', ' ')}'s {old} {given:g} (a pre-2023 rating) is "
+                           f"counted as {new} {value:.1f} (split-system conversion)")
+    return out
+
+
 def existing_heat_pump(a: Appliance, design_load_btuh: float) -> HeatPumpSpec:
     """Today's heat pump: a typical single-stage unit of its size (else the design load, at least
     1.5 t) with backup strips, its COP curve scaled by its HSPF2 against a 7.5 HSPF2 unit."""
     cap = a.capacity_btuh or max(design_load_btuh, performance()["hp_min_btuh"])
-    hp = HeatPumpSpec.typical("single_stage", cap, backup="resistance", seer2=a.seer2 or 14.3)
-    hspf_ratio = (a.hspf2 or 7.5) / 7.5
+    hp = HeatPumpSpec.typical("single_stage", cap, backup="resistance", seer2=rated_seer2(a) or 14.3)
+    hspf_ratio = (rated_hspf2(a) or 7.5) / 7.5
     return replace(hp, cop_47=hp.cop_47 * hspf_ratio, cop_17=hp.cop_17 * hspf_ratio,
                    cop_5=max(1.0, hp.cop_5 * hspf_ratio))
 
@@ -189,7 +221,7 @@ def cooling_spec_today(plan: Plan) -> CoolingSpec | None:
     a = _cooling_appliance(plan)
     if a is None:
         return None
-    return CoolingSpec(seer2=a.seer2 or (10.0 if a.kind == "room_ac" else 13.0))
+    return CoolingSpec(seer2=rated_seer2(a) or (10.0 if a.kind == "room_ac" else 13.0))
 
 
 def water_spec_today(plan: Plan) -> WaterHeaterSpec | None:
@@ -411,7 +443,7 @@ def home_basis(plan: Plan, base_dir: Path | None = None) -> HomeBasis:
         label="today", **parts,
     )
     # plug loads: what the electric bills show beyond the modelled end uses
-    notes = list(notes)
+    notes = [*notes, *rating_notes(plan)]
     u = plan.usage
     billed = None
     if u is not None and u.electricity is not None:
