@@ -12,7 +12,7 @@ from homeplan.cli.common import load_and_plan
 from homeplan.cli.parser import EXIT_BAD_INPUT
 from homeplan.report.fmt import service_verdict
 from homeplan.report.table import text_table, usd
-from homeplan.report.view import emergency_lines
+from homeplan.report.view import bill_fit_lines, emergency_lines
 
 __all__ = ["cmd_capacity", "cmd_costs", "cmd_plan"]
 
@@ -69,6 +69,11 @@ def cmd_plan(args) -> int:
           "the equipment's remaining value at the end)")
     for b in rm.baselines[1:]:
         print(f"  {b.name}: {usd(b.npv_usd, 10)}")
+    fits = bill_fit_lines(rm)
+    if fits:
+        print("\nModel of today's home against your bills (planning estimate):")
+        for line in fits:
+            print(f"  {line}")
     for w in result.warnings:
         print(f"note: {w}")
     print()
