@@ -49,9 +49,9 @@ appliances:
 budget: {usd_per_year: 5000}
 """).plan
     loads = {ld.name.split(" (")[0]: ld for ld in existing_loads(plan)}
-    # NEC Table 430.248: 1/2 hp single-phase motor, 9.8 A at 115-120 V (furnace blower)
+    # NEC 2023 Table 430.248: 1/2 hp single-phase motor, 9.8 A at 115-120 V (furnace blower)
     assert loads["furnace"].va == pytest.approx(9.8 * 120)
-    # NEC Annex D, Example D2(a): 5 kW dryer, 12 kW range
+    # NEC 2023 Informative Annex D, Example D2(a): 5 kW dryer, 12 kW range
     assert loads["dryer"].va == 5000
     assert loads["range"].va == 12000
 

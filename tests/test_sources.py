@@ -66,6 +66,11 @@ def _data_files() -> list[Path]:
     return sorted(p for d in DATA_DIRS for p in d.iterdir() if p.suffix in (".csv", ".yaml"))
 
 
+EDITIONED = re.compile(r"\bNEC\b|\bACCA\s+Manual\s+[JSD]\b|\bASHRAE\s+Handbook\b")
+"""Documents revised every few years: a value taken from one names the edition it is from."""
+EDITION = re.compile(r"\b(19|20)\d\d\b|\b\d+(st|nd|rd|th)\s+ed\b")
+
+
 def problem(source: object) -> str | None:
     """Why a source text is not acceptable, or None."""
     if not isinstance(source, str) or not source.strip():
@@ -73,6 +78,10 @@ def problem(source: object) -> str | None:
     hit = PROJECT_REFERENCES.search(source)
     if hit:
         return f"names the project ({hit.group(0)!r}), not a published source"
+    for cite in EDITIONED.finditer(source):
+        clause = re.split(r"[;]", source[cite.start():], maxsplit=1)[0]
+        if not EDITION.search(clause):
+            return f"cites {cite.group(0)!r} without its edition ({clause.strip()[:60]!r})"
     return None
 
 
@@ -190,6 +199,11 @@ def test_test_modules_cite_no_project_file_as_a_source(path: Path) -> None:
     ("see issue 5", False),
     ("the project's reference notes", False),
     ("docs/plan-format.md", False),
+    ("NEC 240.6(A)", False),
+    ("NEC 2023 240.6(A)", True),
+    ("ACCA Manual S: 90-115 % (from memory)", False),
+    ("ACCA Manual S (2nd ed., 2014): 90-115 % (from memory)", True),
+    ("NEC 2023 220.83; ASHRAE Handbook service-life table", False),
 ])
 def test_the_checker_itself_can_fail(text: str, ok: bool) -> None:
     """The rule above is not vacuous: it rejects the kinds of source it is meant to reject."""

@@ -30,7 +30,7 @@ def test_charger_to_circuit_table(charger: int, breaker: int) -> None:
 
 
 def test_odd_charger_rounds_up_to_standard_size() -> None:
-    # 30 A x 1.25 = 37.5 A -> 40 A (NEC 240.6(A) standard sizes)
+    # 30 A x 1.25 = 37.5 A -> 40 A (NEC 2023 240.6(A) standard sizes)
     assert evse_breaker_amps(30) == 40
 
 

@@ -47,13 +47,13 @@ def test_annex_d_example_d2a_heating_larger_than_ac(edition: int) -> None:
         _va("Electric heat, 5 rooms", 9000, "heating", heating_units=5),
     ]
     r = nec220_82(Dwelling(1500), loads, Service(100), edition=edition)
-    assert r.total_va == pytest.approx(21480)  # NEC Annex D, Example D2(a)
-    assert r.amps == pytest.approx(89.5)  # NEC Annex D, Example D2(a)
+    assert r.total_va == pytest.approx(21480)  # NEC 2023 Informative Annex D, Example D2(a)
+    assert r.amps == pytest.approx(89.5)  # NEC 2023 Informative Annex D, Example D2(a)
     assert r.fits
 
 
 def test_annex_d_example_d2a_smaller_ac_is_omitted() -> None:
-    # NEC Annex D, Example D2(a): A/C omitted because the heating (3,600 VA counted) is larger.
+    # NEC 2023 Informative Annex D, Example D2(a): A/C omitted because the heating (3,600 VA counted) is larger.
     # The 3,000 VA A/C is a hypothetical value smaller than the heating, not the Annex's figure.
     loads = [
         _va("Range", 12000, "range"),
@@ -64,7 +64,7 @@ def test_annex_d_example_d2a_smaller_ac_is_omitted() -> None:
         _va("Air conditioner", 3000, "cooling"),
     ]
     r = nec220_82(Dwelling(1500), loads, Service(100))
-    assert r.total_va == pytest.approx(21480)  # NEC Annex D, Example D2(a)
+    assert r.total_va == pytest.approx(21480)  # NEC 2023 Informative Annex D, Example D2(a)
     ac = next(row for row in r.rows if row.load_name == "Air conditioner")
     assert ac.counted_va == 0.0
 
@@ -81,8 +81,8 @@ def test_annex_d_example_d2b_ac_larger_than_heat(edition: int) -> None:
         _va("Room A/C x6 (7 A at 240 V)", 6 * 7 * 240, "cooling"),
     ]
     r = nec220_82(Dwelling(1500), loads, Service(125), edition=edition)
-    assert r.total_va == pytest.approx(29200)  # NEC Annex D, Example D2(b)
-    assert r.amps == pytest.approx(121.7, abs=0.05)  # NEC Annex D, Example D2(b)
+    assert r.total_va == pytest.approx(29200)  # NEC 2023 Informative Annex D, Example D2(b)
+    assert r.amps == pytest.approx(121.7, abs=0.05)  # NEC 2023 Informative Annex D, Example D2(b)
 
 
 @pytest.mark.parametrize("edition", EDITIONS_3VA)
@@ -95,8 +95,8 @@ def test_annex_d_example_d2c_heat_pump_with_backup(edition: int) -> None:
         *heat_pump_loads(compressor_va=24 * 240, strips_kw=15),
     ]
     r = nec220_82(Dwelling(2000), loads, Service(150), edition=edition)
-    assert r.total_va == pytest.approx(34790)  # NEC Annex D, Example D2(c)
-    assert round(r.amps) == 145  # NEC Annex D, Example D2(c) (144.96 A, rounded in the Annex)
+    assert r.total_va == pytest.approx(34790)  # NEC 2023 Informative Annex D, Example D2(c)
+    assert round(r.amps) == 145  # NEC 2023 Informative Annex D, Example D2(c) (144.96 A, rounded in the Annex)
 
 
 def test_220_82_interlocked_strips_omit_compressor() -> None:
@@ -115,7 +115,7 @@ def test_220_82_interlocked_strips_omit_compressor() -> None:
 
 def test_220_82_edition_2026_lighting_factor() -> None:
     # NEC 2026 lighting load of 2 VA/ft2: from memory, not checked against the adopted text
-    # (reported for the 2026 edition). NEC Annex D, Example D2(a) redone by hand:
+    # (reported for the 2026 edition). NEC 2023 Informative Annex D, Example D2(a) redone by hand:
     # 1500 x 2 = 3,000 + 4,500 + 12,000 + 2,500 + 1,200 + 5,000 = 28,200
     # 10,000 + 0.4 x 18,200 = 17,280; + 0.4 x 9,000 heat = 3,600 -> 20,880 VA
     loads = [

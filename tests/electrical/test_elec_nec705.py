@@ -55,7 +55,7 @@ def test_derated_main_by_hand() -> None:
     #   -> (1.2 x 200 - 175) / 1.25 = 52 A (12.48 kW)
     opts = derated_main_options(Service(200), calculated_load_amps=160, inverter_output_amps=40)
     first = opts[0]
-    assert first.main_breaker_amps == 175  # next standard size below 200, NEC 240.6(A)
+    assert first.main_breaker_amps == 175  # next standard size below 200, NEC 2023 240.6(A)
     assert first.max_inverter_amps == pytest.approx(52)  # hand calculation above
     assert first.max_inverter_kw == pytest.approx(12.48)
     assert first.backfeed_fits and first.load_fits

@@ -46,7 +46,7 @@ def test_loads_for_upgrade_and_tables_have_sources() -> None:
     hp = loads_for_upgrade("heating", name="Heat pump", va_per_ton=2300, tons=3, strips_kw=10,
                            strips_interlocked=True)
     assert [ld.category for ld in hp] == ["heat_pump_compressor", "supplemental_heat"]
-    assert hp[0].va == pytest.approx(6900)  # 3 t x 2,300 VA/ton (NEC Annex D, Example D2(c): 2.5 t = 24 A)
+    assert hp[0].va == pytest.approx(6900)  # 3 t x 2,300 VA/ton (NEC 2023 Informative Annex D, Example D2(c): 2.5 t = 24 A)
     assert hp[1].interlocked
     (ev,) = loads_for_upgrade("vehicles", name="Charger", amps=40)
     assert ev.va == pytest.approx(9600) and ev.continuous  # 40 A x 240 V = 9.6 kW; NEC 2023 625.42

@@ -107,7 +107,7 @@ def test_sizing_covers_design_load_and_backup_hours(greensboro):
     design = ua * (65 - t99)
     hp = size_heat_pump(design, t99, "cold_climate")
     cap_design = float(hp_capacity_btuh(hp, np.array([t99]))[0])
-    assert cap_design >= design  # ACCA Manual S: capacity at design covers the design load
+    assert cap_design >= design  # ACCA Manual S (2nd ed., 2014, from memory): capacity at design covers the design load
     smaller = HeatPumpSpec.cold_climate(hp.capacity_47_btuh - 6000)
     assert float(hp_capacity_btuh(smaller, np.array([t99]))[0]) < design
     load = ua * np.maximum(65 - greensboro.temp_f, 0)

@@ -35,7 +35,7 @@ budget: {usd_per_year: 30000, first_year: 2027}
 choices: {exclude: [solar, battery]}
 """
 
-# ACCA Manual S (from memory): cooling capacity at least 90 % of the total cooling load, at
+# ACCA Manual S (2nd ed., 2014; from memory): cooling capacity at least 90 % of the total cooling load, at
 # most 125 % for a heat pump in a heating-dominated climate (HDD65 at least twice CDD65).
 BAND = (0.90, 1.25)
 
