@@ -34,7 +34,7 @@ def rule_problems(plan: Plan) -> list[tuple[tuple, str, str]]:
         if a.fuel and a.fuel not in FUELS_BY_KIND[a.kind]:
             out.append((("appliances", i, "fuel"), f"a {a.kind.replace('_', ' ')} does not burn {a.fuel}",
                         f"use one of {', '.join(sorted(FUELS_BY_KIND[a.kind]))}"))
-        for old, new in (("seer", "seer2"), ("hspf", "hspf2")):
+        for old, new in (("seer", "seer2"), ("hspf", "hspf2"), ("eer", "eer2")):
             if getattr(a, old) is not None and getattr(a, new) is not None:
                 out.append((("appliances", i, old), f"both {old} (a pre-2023 rating) and {new} are given",
                             f"give the one on the equipment's label: {new} from 2023, {old} before"))

@@ -35,7 +35,7 @@ from homeplan.energy.heating import (
     ResistanceHeatSpec,
 )
 from homeplan.energy.rates import ElectricRate, FuelPrice, FuelPrices, TouPeriod
-from homeplan.energy.ratings import hspf2_from_hspf, seer2_from_seer
+from homeplan.energy.ratings import eer2_from_eer, hspf2_from_hspf, seer2_from_seer
 from homeplan.energy.simulate import HomeEnergySpec, SiteCache, simulate
 from homeplan.energy.solar import SolarArraySpec
 from homeplan.energy.vehicles import VehicleSpec
@@ -63,6 +63,7 @@ __all__ = [
     "load_weather",
     "nearest_reference_climate",
     "appliance_efficiency",
+    "rated_eer2",
     "rated_hspf2",
     "rated_seer2",
     "rating_notes",
@@ -166,11 +167,20 @@ def rated_hspf2(a: Appliance) -> float | None:
     return hspf2_from_hspf(a.hspf) if a.hspf is not None else None
 
 
+def rated_eer2(a: Appliance) -> float | None:
+    """The appliance's EER2: as given, or converted from a pre-2023 EER (split-system factor, the
+    ratio of DOE's paired 2023 standard levels; 10 CFR 430.32(c))."""
+    if a.eer2 is not None:
+        return a.eer2
+    return eer2_from_eer(a.eer) if a.eer is not None else None
+
+
 def rating_notes(plan: Plan) -> list[str]:
     """One note per pre-2023 rating converted, with the figure used."""
     out = []
     for a in plan.appliances:
-        for old, new, value in (("SEER", "SEER2", rated_seer2(a)), ("HSPF", "HSPF2", rated_hspf2(a))):
+        for old, new, value in (("SEER", "SEER2", rated_seer2(a)), ("HSPF", "HSPF2", rated_hspf2(a)),
+                                ("EER", "EER2", rated_eer2(a))):
             given = getattr(a, old.lower())
             if given is not None and getattr(a, new.lower()) is None:
                 out.append(f"the {a.key.replace('_', ' ')}'s {old} {given:g} (a pre-2023 rating) is "
@@ -205,7 +215,8 @@ def cooling_spec_today(plan: Plan) -> CoolingSpec | None:
     if a is None:
         return None
     return CoolingSpec(seer2=rated_seer2(a) or (10.0 if a.kind == "room_ac" else 13.0),
-                       capacity_btuh=a.capacity_btuh, variable_speed=a.kind == "mini_split")
+                       capacity_btuh=a.capacity_btuh, variable_speed=a.kind == "mini_split",
+                       eer2=rated_eer2(a))
 
 
 def water_spec_today(plan: Plan) -> WaterHeaterSpec | None:
