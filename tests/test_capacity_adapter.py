@@ -1,4 +1,4 @@
-"""From a plan file to the load calculation: the adapter feeds the NEC engine the right loads."""
+"""From a plan file to the load calculation: the adapter feeds the calculation the right loads."""
 
 from __future__ import annotations
 
@@ -125,7 +125,7 @@ def test_final_state_counts_every_planned_load():
 
 def test_home_already_over_its_service_can_be_planned():
     """Existing heat pump with strips, resistance water heater, electric range and an EV charger
-    on 100 A: by NEC 220.83(A) the home is already over its service. The plan must still be made
+    on 100 A: by NEC 2023 220.83(A) the home is already over its service. The plan must still be made
     (doing nothing is always possible) and must say so."""
     text = """\
 home:

@@ -71,6 +71,15 @@ EDITIONED = re.compile(r"\bNEC\b|\bACCA\s+Manual\s+[JSD]\b|\bASHRAE\s+Handbook\b
 EDITION = re.compile(r"\b(19|20)\d\d\b|\b\d+(st|nd|rd|th)\s+ed\b")
 
 
+def edition_problem(text: str) -> str | None:
+    """A citation of a periodically revised document without its edition in the same clause."""
+    for cite in EDITIONED.finditer(text):
+        clause = re.split(r"[;]", text[cite.start():], maxsplit=1)[0]
+        if not EDITION.search(clause):
+            return f"cites {cite.group(0)!r} without its edition ({clause.strip()[:60]!r})"
+    return None
+
+
 def problem(source: object) -> str | None:
     """Why a source text is not acceptable, or None."""
     if not isinstance(source, str) or not source.strip():
@@ -78,11 +87,7 @@ def problem(source: object) -> str | None:
     hit = PROJECT_REFERENCES.search(source)
     if hit:
         return f"names the project ({hit.group(0)!r}), not a published source"
-    for cite in EDITIONED.finditer(source):
-        clause = re.split(r"[;]", source[cite.start():], maxsplit=1)[0]
-        if not EDITION.search(clause):
-            return f"cites {cite.group(0)!r} without its edition ({clause.strip()[:60]!r})"
-    return None
+    return edition_problem(source)
 
 
 def _csv_problems(path: Path) -> list[str]:
@@ -184,6 +189,8 @@ def test_test_modules_cite_no_project_file_as_a_source(path: Path) -> None:
             bad.append(f"{rel}:{lineno}: {hit.group(0)!r} in {text.strip()!r}")
         if EMPTY_CITATION.search(text):
             bad.append(f"{rel}:{lineno}: a source marker with nothing after it: {text.strip()!r}")
+        if why := edition_problem(text):
+            bad.append(f"{rel}:{lineno}: {why}")
     assert not bad, "\n".join(bad)
 
 
@@ -211,6 +218,8 @@ def test_the_checker_itself_can_fail(text: str, ok: bool) -> None:
     assert EMPTY_CITATION.search("# source:") is not None
     assert NOTE_REFERENCES.search("# money.md: panel $600") is not None
     assert NOTE_REFERENCES.search("# NEC 2023 220.83(B)") is None
+    assert edition_problem("# 8,000 + 0.4 x 7,200 (NEC 220.83(A))") is not None
+    assert edition_problem("# 8,000 + 0.4 x 7,200 (NEC 2023 220.83(A))") is None
 
 
 def test_the_walkers_find_bad_rows(tmp_path: Path) -> None:

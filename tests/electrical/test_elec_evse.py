@@ -17,12 +17,12 @@ from homeplan.electrical import (
 @pytest.mark.parametrize(
     ("charger", "breaker"),
     [
-        (16, 20),  # NEC 625.41 (125 % of 16 A) rounded up to a 240.6(A) standard size: 20 A
-        (24, 30),  # NEC 625.41 (125 % of 24 A) rounded up to a 240.6(A) standard size: 30 A
-        (32, 40),  # NEC 625.41 (125 % of 32 A) rounded up to a 240.6(A) standard size: 40 A
-        (40, 50),  # NEC 625.41 (125 % of 40 A) rounded up to a 240.6(A) standard size: 50 A
-        (48, 60),  # NEC 625.41 (125 % of 48 A) rounded up to a 240.6(A) standard size: 60 A
-        (80, 100),  # NEC 625.41 (125 % of 80 A) rounded up to a 240.6(A) standard size: 100 A
+        (16, 20),  # NEC 2023 625.41 (125 % of 16 A) rounded up to a 240.6(A) standard size: 20 A
+        (24, 30),  # NEC 2023 625.41 (125 % of 24 A) rounded up to a 240.6(A) standard size: 30 A
+        (32, 40),  # NEC 2023 625.41 (125 % of 32 A) rounded up to a 240.6(A) standard size: 40 A
+        (40, 50),  # NEC 2023 625.41 (125 % of 40 A) rounded up to a 240.6(A) standard size: 50 A
+        (48, 60),  # NEC 2023 625.41 (125 % of 48 A) rounded up to a 240.6(A) standard size: 60 A
+        (80, 100),  # NEC 2023 625.41 (125 % of 80 A) rounded up to a 240.6(A) standard size: 100 A
     ],
 )
 def test_charger_to_circuit_table(charger: int, breaker: int) -> None:
@@ -41,7 +41,7 @@ def test_odd_charger_rounds_up_to_standard_size() -> None:
 def test_charger_load_va(amps: int, kw: float) -> None:
     ld = ev_charger_load(amps)
     assert ld.va == pytest.approx(kw * 1000)
-    assert ld.continuous  # NEC 625.42: continuous load
+    assert ld.continuous  # NEC 2023 625.42: continuous load
 
 
 def test_standard_method_minimum_7200() -> None:

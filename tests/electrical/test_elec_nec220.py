@@ -1,4 +1,4 @@
-"""NEC 220.82 / 220.83 / 220.87 calculations against Annex D and hand calculations.
+"""NEC 2023 220.82 / 220.83 / 220.87 calculations against Informative Annex D and hand calculations.
 
 Demo homes here are invented. Hand calculations are shown in the comments.
 """
@@ -146,7 +146,7 @@ def _case_a_home() -> list[Load]:
 def test_220_83_a_no_new_hvac_by_hand() -> None:
     # Other load: 1,800 x 3 = 5,400 + 3 x 1,500 = 4,500 + 1,200 + 5,000 + 4,500 + 12,000
     #   + 48 A x 240 V = 11,520  -> 44,120 VA
-    # 8,000 + 0.4 x 36,120 = 8,000 + 14,448 = 22,448 VA ; / 240 = 93.53 A  (NEC 220.83(A) text)
+    # 8,000 + 0.4 x 36,120 = 8,000 + 14,448 = 22,448 VA ; / 240 = 93.53 A  (NEC 2023 220.83(A) text)
     r = nec220_83(Dwelling(1800), _case_a_home(), Service(100))
     assert r.case == "A"
     assert r.total_va == pytest.approx(22448)  # hand calculation above
@@ -180,7 +180,7 @@ def _case_b_base() -> list[Load]:
 
 def test_220_83_b_heat_pump_with_strips_by_hand() -> None:
     # Other: 4,500 + 3,000 + 1,500 + 1,200 + 5,000 + 4,500 = 19,700
-    #   -> 8,000 + 0.4 x 11,700 = 12,680 VA                       (NEC 220.83(B))
+    #   -> 8,000 + 0.4 x 11,700 = 12,680 VA                       (NEC 2023 220.83(B))
     # Heating: compressor 5,760 + strips 5,000 at 100 % = 10,760 (practice, from memory)
     #   > cooling 5,760 -> total 23,440 VA = 97.67 A
     loads = [*_case_b_base(), *heat_pump_loads(compressor_va=5760, strips_kw=5)]
@@ -200,8 +200,8 @@ def test_220_83_b_interlocked_strips_by_hand() -> None:
 
 
 def test_220_83_b_space_heat_units_by_hand() -> None:
-    # 3 separately controlled units (< 4) at 100 %: 12,680 + 8,000 = 20,680 VA   (NEC 220.83(B))
-    # 4 units go into the other load: 27,700 -> 8,000 + 0.4 x 19,700 = 15,880 VA (NEC 220.83(B))
+    # 3 separately controlled units (< 4) at 100 %: 12,680 + 8,000 = 20,680 VA   (NEC 2023 220.83(B))
+    # 4 units go into the other load: 27,700 -> 8,000 + 0.4 x 19,700 = 15,880 VA (NEC 2023 220.83(B))
     three = [*_case_b_base(), _va("Baseboard", 8000, "heating", heating_units=3, existing=False)]
     four = [*_case_b_base(), _va("Baseboard", 8000, "heating", heating_units=4, existing=False)]
     assert nec220_83(Dwelling(1500), three, Service(100)).total_va == pytest.approx(20680)  # above
@@ -244,7 +244,7 @@ def test_edition_changes_section_labels() -> None:
 def test_220_87_twelve_month_peak_with_and_without_125() -> None:
     # 9.6 kW peak (invented), 100 A service, new 48 A charger + 120 V HPWH (both continuous)
     # 125 % on new continuous: 9,600 x 1.25 = 12,000 + 11,520 x 1.25 = 14,400 + 400 x 1.25 = 500
-    #   = 26,900 VA = 112.08 A -> does not fit                     (NEC 220.87)
+    #   = 26,900 VA = 112.08 A -> does not fit                     (NEC 2023 220.87)
     # 100 %: 12,000 + 11,520 + 400 = 23,920 VA = 99.67 A -> fits   (inspectors differ: common
     # practice, no source)
     new = [ev_charger_load(48), nameplate_load("hpwh_120v_shared", existing=False)]
@@ -268,7 +268,7 @@ def test_220_87_thirty_day_recording_by_hand() -> None:
 
 def test_220_87_new_hvac_larger_of_heating_cooling() -> None:
     # 8 kW peak: 10,000 + heat pump compressor 5,760 + strips 5,000 (100 %, larger than cooling)
-    #   = 20,760 VA                                   (NEC 220.87 + 220.60, hand calculation)
+    #   = 20,760 VA                                   (NEC 2023 220.87 + 220.60, hand calculation)
     r = nec220_87(MeasuredDemand(8.0), heat_pump_loads(compressor_va=5760, strips_kw=5), Service(100))
     assert r.total_va == pytest.approx(20760)  # hand calculation above
 
@@ -301,7 +301,7 @@ def test_220_87_refused_with_solar_unless_allowed() -> None:
         nec220_87(MeasuredDemand(5.0), [], Service(100), has_solar_or_battery=True)
     r = nec220_87(MeasuredDemand(5.0), [], Service(100), has_solar_or_battery=True,
                   allow_with_solar_or_battery=True)
-    assert r.total_va == pytest.approx(6250)  # 5,000 x 1.25, NEC 220.87
+    assert r.total_va == pytest.approx(6250)  # 5,000 x 1.25, NEC 2023 220.87
 
 
 def test_220_87_thirty_days_needs_seasonal_adjustment() -> None:

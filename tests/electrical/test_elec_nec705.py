@@ -31,13 +31,13 @@ def test_120_percent_rule_table(bus: int, main: int, amps: float, kw: float) -> 
 
 
 def test_100_percent_rule_by_hand() -> None:
-    # NEC 705.12(B) 100 % rule: (225 - 200) / 1.25 = 20 A ; 200/200 -> 0 A
+    # NEC 2023 705.12(B) 100 % rule: (225 - 200) / 1.25 = 20 A ; 200/200 -> 0 A
     assert max_inverter_amps(225, 200, rule="100") == pytest.approx(20)  # hand calculation
     assert max_inverter_amps(200, 200, rule="100") == pytest.approx(0)  # hand calculation
 
 
 def test_sum_of_breakers_by_hand() -> None:
-    # NEC 705.12(B) sum of breakers: 200 A bus, load breakers 160 A -> 40 A breaker (240.6(A))
+    # NEC 2023 705.12(B) sum of breakers: 200 A bus, load breakers 160 A -> 40 A breaker (240.6(A))
     # -> 40 / 1.25 = 32 A inverter
     assert max_inverter_amps(200, 200, rule="sum_of_breakers", load_breakers_amps=[50, 40, 30, 20, 20]) == (
         pytest.approx(32)  # hand calculation above
@@ -63,7 +63,7 @@ def test_derated_main_by_hand() -> None:
     opt150 = next(o for o in opts if o.main_breaker_amps == 150)
     assert opt150.max_inverter_amps == pytest.approx(72)  # hand calculation
     assert not opt150.load_fits
-    # never below 100 A (NEC 230.79(C))
+    # never below 100 A (NEC 2023 230.79(C))
     assert min(o.main_breaker_amps for o in opts) == 100
 
 

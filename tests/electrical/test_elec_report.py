@@ -25,9 +25,9 @@ def test_capacity_report_states() -> None:
     assert [e["state"] for e in rep] == ["today", "2028"]
     assert rep[0]["calc"]["case"] == "A" and rep[1]["calc"]["case"] == "B"
     # today by hand: other 4,500 + 3,000 + 1,500 + 1,200 + 5,000 = 15,200
-    #   -> 8,000 + 0.4 x 7,200 = 10,880 VA (NEC 220.83(A))
+    #   -> 8,000 + 0.4 x 7,200 = 10,880 VA (NEC 2023 220.83(A))
     assert abs(rep[0]["calc"]["total_va"] - 10880) < 1e-6  # hand calculation above
-    # 220.87 today: 6,000 x 1.25 = 7,500 VA (NEC 220.87); refused once solar is there
+    # 220.87 today: 6,000 x 1.25 = 7,500 VA (NEC 2023 220.87); refused once solar is there
     assert abs(rep[0]["measured"]["total_va"] - 7500) < 1e-6
     assert "refused" in rep[1]["measured"]
     # 100/100 panel: 20 A inverter > 16 A (120 % rule, NEC 2023 705.12(B))

@@ -1,7 +1,7 @@
 """Shared fixtures for the energy tests: real TMY3 years shipped with pvlib and synthetic climates.
 
 The synthetic climate normals are approximate values recalled from memory (99 % heating and 1 %
-cooling design temperatures of the kind in the ASHRAE Handbook - Fundamentals climatic design
+cooling design temperatures of the kind in the ASHRAE Handbook - Fundamentals (2021, ch. 14) climatic design
 tables, degree days of the kind in NOAA normals); the demo homes built in these tests are invented.
 """
 

@@ -20,7 +20,7 @@ HDD_M = np.array([1150, 950, 800, 480, 200, 40, 0, 0, 90, 400, 750, 1140], float
 
 
 def test_degree_day_method_by_hand():
-    # Degree-day method (ASHRAE Handbook - Fundamentals, "Energy Estimating and Modeling
+    # Degree-day method (ASHRAE Handbook - Fundamentals 2021, ch. 19 "Energy Estimating and Modeling
     # Methods": heating energy = 24 UA HDD / efficiency), worked by hand: 1,000 therm/yr,
     # baseload 240 therm/yr, AFUE 0.80, HDD65 6,000, T_99 = 5 F
     #   Q = (1,000 - 240) x 1e5 x 0.80 = 60.8 MMBtu; UA = 60.8e6 / (24 x 6,000) = 422.22 Btu/h-F;
@@ -34,7 +34,7 @@ def test_degree_day_method_by_hand():
 
 
 def test_seventy_degree_base_adds_about_eight_percent():
-    # A 70 F indoor design temperature (ACCA Manual J, from memory) against the 65 F degree-day
+    # A 70 F indoor design temperature (ACCA Manual J, 8th ed., from memory) against the 65 F degree-day
     # base: (70 - 5) / (65 - 5) = 65/60 = 1.083 for T_99 = 5 F (by hand).
     ua = ua_from_heating_fuel(760.0, 1e5, 0.8, 6000.0)
     ratio = design_heating_load_btuh(ua, 5.0, 70.0) / design_heating_load_btuh(ua, 5.0, 65.0)

@@ -1,4 +1,4 @@
-"""Heat pump selection from design loads, checked against ACCA Manual S's sizing bands and the
+"""Heat pump selection from design loads, checked against the sizing bands of ACCA Manual S (2nd ed., 2014) and the
 DOE rating-point capacity curve."""
 
 from __future__ import annotations

@@ -49,7 +49,7 @@ def test_heating_gas_matches_bill_worked_example(cold, gas_home):
     w, cache = cold
     r = simulate(gas_home, cache)
     heat_therm = r.end_use_units["heating"]["natural_gas"]
-    # Degree-hour method (ASHRAE Handbook - Fundamentals, ch. 19), by hand from this year's
+    # Degree-hour method (ASHRAE Handbook - Fundamentals 2021, ch. 19), by hand from this year's
     # hourly temperatures: therm = UA x sum(max(65 - T_h, 0)) / (AFUE x 1e5)
     degree_hours = float(np.maximum(65.0 - w.temp_f, 0.0).sum())
     assert heat_therm == pytest.approx(422.22 * degree_hours / 0.80e5, rel=1e-9)

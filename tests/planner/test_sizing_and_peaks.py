@@ -1,4 +1,4 @@
-"""The heat pump is sized from the home's loads (ACCA Manual S), never from today's air
+"""The heat pump is sized from the home's loads (ACCA Manual S, 2nd ed., 2014), never from today's air
 conditioner; the peak demand shown is the meter's, moved by each new load's coincident demand."""
 
 from __future__ import annotations
