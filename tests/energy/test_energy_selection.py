@@ -1,5 +1,5 @@
-"""Heat pump selection from design loads, checked against the sizing bands of ACCA Manual S
-(2nd ed., 2014) and the DOE rating-point capacity curve."""
+"""Heat pump selection from design loads, checked against ACCA Manual S (2nd ed., 2014)
+sizing bands and the DOE rating-point capacity curve."""
 
 from __future__ import annotations
 

@@ -195,15 +195,16 @@ def test_explanations_cover_every_project() -> None:
     assert explained >= 20  # not vacuous: measured 29 of the 40 instances have a plan
 
 
-@pytest.mark.xfail(strict=True, reason="known gap in explain(): a mandatory project put off to "
-                   "the last year so that its follow-up falls outside the horizon gets no reason")
 def test_explanation_of_a_project_delayed_to_avoid_a_follow_up() -> None:
     # Found by the earlier random search (instance 625): p2 (mandatory, after p1) is placed in
-    # the last year, which keeps the follow-up "p0 within a year of p1 and p2" outside the plan.
+    # the last year, which keeps the follow-up "p0 within a year of p1 and p2" outside the plan;
+    # its reason names that follow-up.
     pr = random_problem(625)
+    assert [(f.project, set(f.after), f.within_years) for f in pr.followups] == [("p0", {"p1", "p2"}, 1)]
     sol = MILP.solve(pr)
     assert sol.feasible
-    assert explain(pr, sol)["p2"], "p2 has no reason"
+    (reason,) = explain(pr, sol)["p2"]
+    assert "would have to follow within 1 year" in reason
 
 
 def test_extra_budget_found_by_diagnosis_really_works() -> None:
