@@ -105,7 +105,7 @@ def test_costs_shows_the_cautions_of_the_projects_it_lists(monkeypatch, capsys) 
     from homeplan import catalog
     from homeplan.cli import planning
 
-    monkeypatch.setattr(planning, "load_and_plan", lambda _path: (None, make_result()))
+    monkeypatch.setattr(planning, "load_and_plan", lambda _path, **_kw: (None, make_result()))
     texts = catalog.cautions(2023)
     assert cli.main(["costs", "x.yaml"]) == 0
     out = capsys.readouterr().out
