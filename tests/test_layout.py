@@ -41,6 +41,7 @@ DEFERRED = {
     ("homeplan.tui.app", "homeplan.planner.chain"),         # numpy, scipy, pvlib, networkx
     ("homeplan.tui.app", "homeplan.planner.context"),
     ("homeplan.tui.widgets.base", "homeplan.planner.lifecycle"),  # numpy
+    ("homeplan.tui.app", "homeplan.planner.diskstore"),     # with the planner, after the first paint
 }
 
 

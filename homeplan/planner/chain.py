@@ -106,7 +106,8 @@ def _run(plan: Plan, base_dir: Path | None, cache: PlannerCache | None,
         ctx = ctx.with_details({**ctx.details, **outcome.details})
         model = refit_connections(ctx, model)
         incentives = incentives.with_ctx(ctx)
-    notes = (ctx.basis.weather_note, *ctx.basis.notes, *model.notes, *outcome.notes)
+    notes = (ctx.basis.weather_note, *ctx.basis.notes, *model.notes, *outcome.notes,
+             *incentives.notes)
     result = with_price_risk(ctx, build_result(ctx, model, incentives, outcome, notes))
     if reading is None:
         return result

@@ -34,16 +34,16 @@ import json
 import os
 import tempfile
 from collections.abc import Callable
-from dataclasses import dataclass
+from dataclasses import asdict, dataclass
+from importlib import metadata
 from pathlib import Path
-from typing import TYPE_CHECKING
 
 import numpy as np
 
 from homeplan import __version__
-
-if TYPE_CHECKING:
-    from homeplan.energy.weather import ClimateNormals, Weather
+from homeplan.energy import solar
+from homeplan.energy import weather as wx
+from homeplan.energy.weather import ClimateNormals, Weather
 
 __all__ = ["DEFAULT_MAX_MB", "DiskStore", "default_store"]
 
@@ -55,11 +55,6 @@ _HOURS = 8760
 def _code_fingerprint() -> str:
     """Hash of the code that makes the entries: the weather and solar modules' source and
     pvlib's version."""
-    from importlib import metadata
-
-    import homeplan.energy.solar as solar
-    import homeplan.energy.weather as wx
-
     h = hashlib.sha256()
     for module in (wx, solar):
         h.update(Path(module.__file__).read_bytes())
@@ -207,10 +202,6 @@ class DiskStore:
         homeplan.energy.weather.Weather
             The same year :func:`homeplan.energy.weather.synthetic_weather` returns.
         """
-        from dataclasses import asdict
-
-        from homeplan.energy import weather as wx
-
         key = hashlib.sha256(json.dumps(
             {"normals": asdict(normals), "version": __version__, "code": self.code},
             sort_keys=True, default=str).encode()).hexdigest()
