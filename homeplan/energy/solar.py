@@ -358,7 +358,8 @@ class SolarSite:
                 return pvwatts_inverter_kw(pdc, pdc0_inv, spec.inverter_eff_nom)
 
             if self.keep is not None:  # kept between runs: pvlib is not even imported then
-                losses = losses_without_shading_pct() if spec.losses_pct is None else spec.losses_pct
+                # the key names the default losses (shade is in the shape key): the same table
+                losses = default_losses_pct() if spec.losses_pct is None else spec.losses_pct
                 ac = np.array(self.keep(("solar_ac_kw_per_kwdc", self.weather.digest(),
                                          key, losses), make), dtype=float)
             else:
