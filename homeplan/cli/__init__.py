@@ -11,7 +11,6 @@ from __future__ import annotations
 
 import importlib
 import os
-import sys
 from collections.abc import Sequence
 
 from homeplan.cli.parser import (
@@ -22,9 +21,15 @@ from homeplan.cli.parser import (
     EXIT_OK,
     build_parser,
 )
+from homeplan.cli.say import say
 from homeplan.errors import InputError
 
-__all__ = ["build_parser", "main"]
+__all__ = ["build_parser", "debugging", "main"]
+
+
+def debugging() -> bool:
+    """True when ``HOMEPLAN_DEBUG`` asks for tracebacks (1, true, yes or on; 0 or empty: no)."""
+    return os.environ.get("HOMEPLAN_DEBUG", "").strip().lower() in ("1", "true", "yes", "on")
 
 
 def main(argv: Sequence[str] | None = None) -> int:
@@ -41,18 +46,24 @@ def main(argv: Sequence[str] | None = None) -> int:
         return int(run(args) or 0)
     except InputError as exc:
         for problem in exc.problems:
-            print(str(problem) if problem.path else f"homeplan: {problem.message}", file=sys.stderr)
+            say(str(problem) if problem.path else f"homeplan: {problem.message}", err=True)
         n = len(exc.problems)
         if n > 1:
-            print(f"{n} problems found", file=sys.stderr)
+            say(f"{n} problems found", err=True)
         return EXIT_BAD_INPUT
     except KeyboardInterrupt:
         return EXIT_INTERRUPTED
     except BrokenPipeError:
         return EXIT_OK
-    except Exception as exc:  # a bug or an environment failure: say so briefly
-        if os.environ.get("HOMEPLAN_DEBUG"):
+    except OSError as exc:  # the system refused (disk full, I/O error): not a bug, say what failed
+        if debugging():
             raise
-        print(f"homeplan: internal error: {type(exc).__name__}: {exc}\n"
-              "(set HOMEPLAN_DEBUG=1 to see the traceback, and please report it)", file=sys.stderr)
+        where = f" ({exc.filename})" if exc.filename else ""
+        say(f"homeplan: could not finish: {exc.strerror or exc}{where}", err=True)
+        return EXIT_FAILURE
+    except Exception as exc:  # a bug or an environment failure: say so briefly
+        if debugging():
+            raise
+        say(f"homeplan: internal error: {type(exc).__name__}: {exc}\n"
+            "(set HOMEPLAN_DEBUG=1 to see the traceback, and please report it)", err=True)
         return EXIT_FAILURE

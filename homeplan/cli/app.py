@@ -7,10 +7,10 @@ not exist yet starts the guided new-plan form, which writes it.
 
 from __future__ import annotations
 
-import sys
 from pathlib import Path
 
 from homeplan.cli.parser import EXIT_BAD_INPUT
+from homeplan.cli.say import say
 from homeplan.errors import InputError
 from homeplan.tui.session import PlanSession
 
@@ -26,9 +26,9 @@ def run(path: str | None, light: bool | None = None) -> int:
             session = PlanSession.open(path)
         except InputError as err:
             for problem in err.problems:
-                print(problem, file=sys.stderr)
-            print(f"{len(err.problems)} problem(s) found; fix the file and open it again "
-                  "(`homeplan check FILE` lists them too).", file=sys.stderr)
+                say(problem, err=True)
+            say(f"{len(err.problems)} problem(s) found; fix the file and open it again "
+                  "(`homeplan check FILE` lists them too).", err=True)
             return EXIT_BAD_INPUT
     else:
         new_path = path

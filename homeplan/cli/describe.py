@@ -4,11 +4,11 @@
 from __future__ import annotations
 
 import json
-import sys
 from dataclasses import asdict
 from pathlib import Path
 from typing import TYPE_CHECKING
 
+from homeplan.cli.say import say
 from homeplan.errors import PlanRuleError
 from homeplan.plan.load import LoadedPlan, load_plan
 from homeplan.plan.model import Plan
@@ -88,10 +88,10 @@ def cmd_check(args) -> int:
     loaded = load_plan(args.file)
     g = _graph_checked(loaded)
     _check_files(loaded)
-    print(f"{args.file}: ok")
-    print(plan_summary(loaded.plan, g))
+    say(f"{args.file}: ok")
+    say(plan_summary(loaded.plan, g))
     if loaded.migrated_from:
-        print(f"note: migrated from plan format {loaded.migrated_from}; saving writes the new format")
+        say(f"note: migrated from plan format {loaded.migrated_from}; saving writes the new format")
     return 0
 
 
@@ -100,7 +100,7 @@ def cmd_schema(args) -> int:
     if args.output:
         write_atomic(args.output, text, backup=False)
     else:
-        sys.stdout.write(text)
+        say(text, end="")
     return 0
 
 
@@ -108,7 +108,7 @@ def cmd_graph(args) -> int:
     loaded = load_plan(args.file)
     g = _graph_checked(loaded)
     if args.dot:
-        sys.stdout.write(candidates.to_dot(g))
+        say(candidates.to_dot(g), end="")
         return 0
     if args.json:
         data = {
@@ -120,21 +120,21 @@ def cmd_graph(args) -> int:
             "layers": candidates.layers(g),
             "any_of": candidates.any_of_groups(g),
         }
-        print(json.dumps(data, indent=2))
+        say(json.dumps(data, indent=2))
         return 0
-    print(f"Upgrades that apply to {loaded.plan.home.name or args.file}, in order of what can come first:")
+    say(f"Upgrades that apply to {loaded.plan.home.name or args.file}, in order of what can come first:")
     for i, layer in enumerate(candidates.layers(g), 1):
-        print(f"\n  {i}. " + ", ".join(layer))
+        say(f"\n  {i}. " + ", ".join(layer))
         for n in layer:
             for u, _, d in g.in_edges(n, data=True):
                 if d["kind"] == "any_of":
                     continue
                 word = "after" if d["kind"] == "requires" else "better after"
-                print(f"       {n}: {word} {u} ({d.get('why', '')})")
+                say(f"       {n}: {word} {u} ({d.get('why', '')})")
     for grp in candidates.any_of_groups(g).values():
-        print(f"\n  Any one of: {' | '.join(grp['alternatives'])}")
-        print(f"    gives {grp['label']} for: {', '.join(grp['needed_by'])}")
-        print("    (the capacity check decides which, if any, is needed)")
+        say(f"\n  Any one of: {' | '.join(grp['alternatives'])}")
+        say(f"    gives {grp['label']} for: {', '.join(grp['needed_by'])}")
+        say("    (the capacity check decides which, if any, is needed)")
     return 0
 
 
@@ -144,9 +144,9 @@ def cmd_lifecycle(args) -> int:
     outs = lifecycle.plan_outlooks(plan, years)
     first = plan.first_year
     if args.json:
-        print(json.dumps([asdict(o) for o in outs], indent=2))
+        say(json.dumps([asdict(o) for o in outs], indent=2))
         return 0
-    print(f"End-of-life outlook from {first} (Weibull model from catalog service lives; "
+    say(f"End-of-life outlook from {first} (Weibull model from catalog service lives; "
           "planning estimates)\n")
     rows = []
     for o in outs:
@@ -155,8 +155,8 @@ def cmd_lifecycle(args) -> int:
                      o.replace_by_year, *(f"{p:.0f}%" for p in o.yearly_failure_pct[:years])])
     headers = ["id", "what", "age", "median life", "likely end", f"replace by ({plan.choices.replace_at_risk_pct:.0f}% risk)",
                *(str(first + i) for i in range(years))]
-    print(text_table(headers, rows, "llrrrr" + "r" * years))
-    print("\nThe year columns give the chance it fails in that year, given it works today.")
+    say(text_table(headers, rows, "llrrrr" + "r" * years))
+    say("\nThe year columns give the chance it fails in that year, given it works today.")
     if any(o.install_year_assumed for o in outs):
-        print("? install year unknown: assumed half-way through its median life.")
+        say("? install year unknown: assumed half-way through its median life.")
     return 0

@@ -7,10 +7,10 @@ set (reproducible outputs), else from the clock (:func:`homeplan.cli.common.now_
 from __future__ import annotations
 
 import datetime as dt
-import sys
 from pathlib import Path
 
 from homeplan.cli.common import load_and_plan, now_utc
+from homeplan.cli.say import say
 from homeplan.errors import InputError, Problem
 from homeplan.plan.hashing import content_hash
 from homeplan.plan.load import load_plan
@@ -55,9 +55,9 @@ def cmd_print(args) -> int:
     text = render_summary(result, fmt, today=now_utc().date())
     if args.output and args.output != "-":
         write_atomic(args.output, text, backup=False)
-        print(f"wrote {args.output}", file=sys.stderr)
+        say(f"wrote {args.output}", err=True)
     else:
-        sys.stdout.write(text)
+        say(text, end="")
     return 0
 
 
@@ -73,11 +73,11 @@ def cmd_export(args) -> int:
     if args.json:
         text = render_json(result)
         if args.json == "-":
-            sys.stdout.write(text)
+            say(text, end="")
         else:
             written.append(str(write_atomic(args.json, text, backup=False)))
     for w in written:
-        print(f"wrote {w}", file=sys.stderr)
+        say(f"wrote {w}", err=True)
     return 0
 
 
@@ -90,5 +90,5 @@ def cmd_diff(args) -> int:
         lb, rb = load_and_plan(args.b)
         road = diff_roadmaps(ra.roadmap, rb.roadmap)
     inputs = diff_inputs(la.plan, lb.plan)
-    sys.stdout.write(render_diff(args.a, args.b, inputs, road, content_hash(la.plan), content_hash(lb.plan)))
+    say(render_diff(args.a, args.b, inputs, road, content_hash(la.plan), content_hash(lb.plan)), end="")
     return 0

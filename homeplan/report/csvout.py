@@ -23,7 +23,7 @@ from typing import Any
 
 from homeplan.errors import InputError, Problem
 from homeplan.plan.save import write_atomic
-from homeplan.report.fmt import clean
+from homeplan.plan.text import clean
 
 __all__ = [
     "csv_text",

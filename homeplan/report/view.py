@@ -20,8 +20,8 @@ from typing import Any
 from homeplan import __version__, catalog
 from homeplan.plan.fuels import BILL_FUELS, GASOLINE_VEHICLES, TANK_FUELS
 from homeplan.plan.hashing import content_hash
+from homeplan.plan.text import clean
 from homeplan.report.fmt import (
-    clean,
     energy_key_words,
     finite,
     money,

@@ -18,7 +18,7 @@ from pathlib import Path
 from typing import Any
 
 from homeplan.errors import InputError
-from homeplan.plan.load import load_plan, parse_document, validate_document
+from homeplan.plan.load import load_for_editing, parse_document, parse_roundtrip, validate_document
 from homeplan.plan.model import Plan
 from homeplan.plan.save import delete_in, dump_text, save_document, set_in
 
@@ -54,12 +54,12 @@ class PlanSession:
 
     @classmethod
     def open(cls, path: str | os.PathLike) -> PlanSession:
-        loaded = load_plan(path)
+        loaded = load_for_editing(path)
         return cls(loaded.path, loaded.document, loaded.plan, loaded.migrated_from)
 
     @classmethod
     def from_text(cls, text: str, path: str | os.PathLike, saved: bool = False) -> PlanSession:
-        doc = parse_document(text, str(path))
+        doc = parse_roundtrip(text, str(path))
         plan, migrated = validate_document(doc, str(path))
         return cls(Path(path), doc, plan, migrated, saved=saved)
 
