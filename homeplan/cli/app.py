@@ -17,18 +17,20 @@ from homeplan.tui.session import PlanSession
 __all__ = ["cmd_open", "run"]
 
 
-def run(path: str | None, light: bool | None = None) -> int:
+def run(path: str | None, light: bool | None = None, allow: tuple[str, ...] = ()) -> int:
     """Open ``path`` (or the new-plan form when it does not exist); returns an exit code."""
     session = None
     new_path = None
     if path is not None and Path(path).exists():
         try:
             session = PlanSession.open(path)
+            for outside in allow:
+                session.allow_outside(outside)
         except InputError as err:
             for problem in err.problems:
                 say(problem, err=True)
             say(f"{len(err.problems)} problem(s) found; fix the file and open it again "
-                  "(`homeplan check FILE` lists them too).", err=True)
+                "(`homeplan check FILE` lists them too).", err=True)
             return EXIT_BAD_INPUT
     else:
         new_path = path
@@ -42,4 +44,5 @@ def run(path: str | None, light: bool | None = None) -> int:
 
 def cmd_open(args) -> int:
     """CLI entry: ``args.file`` (may not exist yet) and optional ``args.light``."""
-    return run(getattr(args, "file", None), light=getattr(args, "light", None) or None)
+    return run(getattr(args, "file", None), light=getattr(args, "light", None) or None,
+               allow=tuple(getattr(args, "allow_outside", None) or ()))

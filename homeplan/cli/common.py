@@ -2,27 +2,64 @@
 
 from __future__ import annotations
 
+import contextlib
 import datetime as dt
 import os
-from collections.abc import Mapping
+from collections.abc import Mapping, Sequence
+from pathlib import Path
 from typing import Any
 
-from homeplan.errors import InputError
+from homeplan.errors import InputError, PlanRuleError, Problem
+from homeplan.plan.files import INCENTIVES, WEATHER, FileKind
 from homeplan.plan.load import LoadedPlan, load_plan
 from homeplan.planner.chain import plan_roadmap
 from homeplan.result.plan_result import PlanResult
 
-__all__ = ["load_and_plan", "now_utc"]
+__all__ = ["input_files", "load_and_plan", "now_utc", "refuse_outputs_over_inputs"]
 
 
-def load_and_plan(path: str, values: Mapping[tuple, Any] | None = None) -> tuple[LoadedPlan, PlanResult]:
+def load_and_plan(path: str, values: Mapping[tuple, Any] | None = None, allow: Sequence[str] = (),
+                  outputs: Sequence[str] = (), force: bool = False) -> tuple[LoadedPlan, PlanResult]:
     """Load a plan file, set command-line ``values`` (paths of keys), plan it.
 
+    ``allow``: files outside the plan's folder the user lets it name. ``outputs``: files the
+    command will write; one that is a file the command reads is refused unless ``force``.
     Every problem - in the file, in a value, or a rule the plan breaks - is an InputError located
     in the file (exit code 2).
     """
-    loaded = load_plan(path).with_values(values or {})
+    loaded = load_plan(path, allow=allow).with_values(values or {})
+    if not force:
+        refuse_outputs_over_inputs(loaded, outputs)
     return loaded, plan_roadmap(loaded)
+
+
+def input_files(loaded: LoadedPlan) -> list[Path]:
+    """The files a command reads for this plan: the plan and the files it names."""
+    plan = loaded.plan
+    named: list[tuple[str, tuple, FileKind]] = [
+        (n, ("incentive_files", i), INCENTIVES) for i, n in enumerate(plan.incentive_files)]
+    if plan.home.climate.weather_file:
+        named.append((plan.home.climate.weather_file, ("home", "climate", "weather_file"), WEATHER))
+    out = [loaded.path]
+    for name, loc, kind in named:
+        with contextlib.suppress(PlanRuleError):  # refused when it is read
+            out.append(loaded.folder.resolve(name, loc, kind))
+    return out
+
+
+def refuse_outputs_over_inputs(loaded: LoadedPlan, outputs: Sequence[str | os.PathLike]) -> None:
+    """InputError when an output would replace a file the command reads (same file, whatever
+    the name: a symbolic or hard link counts)."""
+    inputs = [p for p in input_files(loaded) if p.exists()]
+    for out in outputs:
+        if out in ("-", None) or not Path(out).exists():
+            continue
+        for src in inputs:
+            with contextlib.suppress(OSError):
+                if os.path.samefile(out, src):
+                    raise InputError(Problem(str(out), 0, 0, f"this is {src}, a file this command reads; "
+                                             "it was not overwritten", "write to another file, or add "
+                                             "--force to replace it"))
 
 
 def now_utc() -> dt.datetime:

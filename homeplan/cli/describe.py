@@ -5,7 +5,6 @@ from __future__ import annotations
 
 import json
 from dataclasses import asdict
-from pathlib import Path
 from typing import TYPE_CHECKING
 
 from homeplan.cli.say import say
@@ -15,6 +14,7 @@ from homeplan.plan.model import Plan
 from homeplan.plan.save import write_atomic
 from homeplan.plan.schema import plan_json_schema
 from homeplan.planner import candidates, lifecycle
+from homeplan.planner.basis import read_weather_file
 from homeplan.planner.incentives import load_programs
 from homeplan.report.table import text_table, usd
 from homeplan.units import display_area, display_temp
@@ -33,15 +33,13 @@ def _graph_checked(loaded: LoadedPlan) -> nx.DiGraph:
 
 
 def _check_files(loaded: LoadedPlan) -> None:
-    """The files a plan refers to must exist and hold valid data (incentives, weather)."""
+    """The files a plan names must be readable and hold valid data (incentives, weather), read
+    the way the planner reads them."""
     plan = loaded.plan
-    base = loaded.base_dir
     try:
-        load_programs(plan, base)
-        wf = plan.home.climate.weather_file
-        if wf and not (Path(wf) if Path(wf).is_absolute() else base / wf).exists():
-            raise PlanRuleError(("home", "climate", "weather_file"), f"weather file not found: {wf}",
-                                "give a path relative to the plan file, or remove the key")
+        load_programs(plan, loaded.folder)
+        if plan.home.climate.weather_file:
+            read_weather_file(loaded.folder, plan.home.climate.weather_file)
     except PlanRuleError as err:
         raise loaded.locate(err) from None
 
@@ -85,7 +83,7 @@ def plan_summary(plan: Plan, g: nx.DiGraph | None = None) -> str:
 
 
 def cmd_check(args) -> int:
-    loaded = load_plan(args.file)
+    loaded = load_plan(args.file, allow=args.allow_outside)
     g = _graph_checked(loaded)
     _check_files(loaded)
     say(f"{args.file}: ok")
@@ -98,7 +96,7 @@ def cmd_check(args) -> int:
 def cmd_schema(args) -> int:
     text = json.dumps(plan_json_schema(), indent=2) + "\n"
     if args.output:
-        write_atomic(args.output, text, backup=False)
+        write_atomic(args.output, text, backup=False, replace_readonly=args.force)
     else:
         say(text, end="")
     return 0

@@ -15,7 +15,7 @@ from homeplan.errors import InputError, Problem
 from homeplan.plan.hashing import content_hash
 from homeplan.plan.load import load_plan
 from homeplan.plan.save import write_atomic
-from homeplan.report.csvout import write_csv_dir
+from homeplan.report.csvout import CSV_NAMES, write_csv_dir
 from homeplan.report.diff import diff_inputs, diff_roadmaps, render_diff
 from homeplan.report.html import render_html
 from homeplan.report.ics import render_ics
@@ -51,10 +51,11 @@ def render_summary(result: PlanResult, fmt: str, today: dt.date | None = None) -
 
 def cmd_print(args) -> int:
     fmt = _format_for(args.output, args.format)
-    _, result = load_and_plan(args.file)
+    outputs = [args.output] if args.output else []
+    _, result = load_and_plan(args.file, allow=args.allow_outside, outputs=outputs, force=args.force)
     text = render_summary(result, fmt, today=now_utc().date())
     if args.output and args.output != "-":
-        write_atomic(args.output, text, backup=False)
+        write_atomic(args.output, text, backup=False, replace_readonly=args.force)
         say(f"wrote {args.output}", err=True)
     else:
         say(text, end="")
@@ -64,18 +65,23 @@ def cmd_print(args) -> int:
 def cmd_export(args) -> int:
     if not (args.csv or args.ics or args.json):
         raise InputError("nothing to export: give --csv DIR, --ics FILE and/or --json FILE")
-    _, result = load_and_plan(args.file)
+    outputs = [o for o in (args.ics, args.json) if o]
+    if args.csv:
+        outputs += [str(Path(args.csv) / name) for name in CSV_NAMES]
+    _, result = load_and_plan(args.file, allow=args.allow_outside, outputs=outputs, force=args.force)
     written: list[str] = []
     if args.csv:
-        written += [str(p) for p in write_csv_dir(result, args.csv, hourly=args.hourly)]
+        written += [str(p) for p in write_csv_dir(result, args.csv, hourly=args.hourly,
+                                                   replace_readonly=args.force)]
     if args.ics:
-        written.append(str(write_atomic(args.ics, render_ics(result, now=now_utc()), backup=False)))
+        written.append(str(write_atomic(args.ics, render_ics(result, now=now_utc()), backup=False,
+                                        replace_readonly=args.force)))
     if args.json:
         text = render_json(result)
         if args.json == "-":
             say(text, end="")
         else:
-            written.append(str(write_atomic(args.json, text, backup=False)))
+            written.append(str(write_atomic(args.json, text, backup=False, replace_readonly=args.force)))
     for w in written:
         say(f"wrote {w}", err=True)
     return 0
@@ -83,11 +89,11 @@ def cmd_export(args) -> int:
 
 def cmd_diff(args) -> int:
     if args.inputs_only:
-        la, lb = load_plan(args.a), load_plan(args.b)
+        la, lb = load_plan(args.a, allow=args.allow_outside), load_plan(args.b, allow=args.allow_outside)
         road = None
     else:
-        la, ra = load_and_plan(args.a)
-        lb, rb = load_and_plan(args.b)
+        la, ra = load_and_plan(args.a, allow=args.allow_outside)
+        lb, rb = load_and_plan(args.b, allow=args.allow_outside)
         road = diff_roadmaps(ra.roadmap, rb.roadmap)
     inputs = diff_inputs(la.plan, lb.plan)
     say(render_diff(args.a, args.b, inputs, road, content_hash(la.plan), content_hash(lb.plan)), end="")

@@ -27,7 +27,7 @@ def _overrides(args) -> dict[tuple, Any]:
 
 
 def cmd_plan(args) -> int:
-    loaded, result = load_and_plan(args.file, _overrides(args))
+    loaded, result = load_and_plan(args.file, _overrides(args), allow=args.allow_outside)
     rm = result.roadmap
     if args.json:
         data = rm.to_dict()
@@ -73,7 +73,7 @@ def cmd_plan(args) -> int:
 
 
 def cmd_capacity(args) -> int:
-    _, result = load_and_plan(args.file)
+    _, result = load_and_plan(args.file, allow=args.allow_outside)
     if args.json:
         say(json.dumps([asdict(s) for s in result.capacity], indent=2, allow_nan=False))
         return 0
@@ -99,7 +99,7 @@ def cmd_capacity(args) -> int:
 
 
 def cmd_costs(args) -> int:
-    _, result = load_and_plan(args.file)
+    _, result = load_and_plan(args.file, allow=args.allow_outside)
     rm = result.roadmap
     planned = {s.project_id: s for s in rm.steps}
     if args.json:

@@ -38,6 +38,7 @@ __all__ = [
     "FileKind",
     "OutsideFolderError",
     "PlanFolder",
+    "as_folder",
     "decode_utf8",
     "read_bytes",
     "read_text",
@@ -53,10 +54,15 @@ class FileKind:
     max_bytes: int
     hint: str           # how to fix the wrong file
 
+    @property
+    def a_label(self) -> str:
+        """The label with its article: "a plan file", "an incentive file"."""
+        return ("an " if self.label[0] in "aeiou" else "a ") + self.label
+
 
 PLAN = FileKind("plan", "plan file", 1024 * 1024, "is this the right file? A plan file is a few kilobytes of YAML")
 INCENTIVES = FileKind("incentives", "incentive file", 1024 * 1024,
-                      "an incentive file is a YAML list of programs (docs/plan-format.md#incentives)")
+                      "an incentive file is a YAML list of programs; see docs/plan-format.md#incentives")
 WEATHER = FileKind("weather", "weather file", 8 * 1024 * 1024,
                    "use an EPW (.epw), TMY3 (.csv) or TMY2 (.tm2) file of one typical year")
 KINDS = {k.name: k for k in (PLAN, INCENTIVES, WEATHER)}
@@ -103,7 +109,7 @@ def read_bytes(path: str | os.PathLike, kind: FileKind, name: str | None = None)
         raise refuse(f"cannot read: {exc.strerror or exc}") from None
     why = _what(st.st_mode)
     if why:
-        raise refuse(f"{why}, not a {kind.label}", kind.hint)
+        raise refuse(f"{why}, not {kind.a_label}", kind.hint)
     try:
         fd = os.open(path, _FLAGS)
     except OSError as exc:
@@ -112,9 +118,9 @@ def read_bytes(path: str | os.PathLike, kind: FileKind, name: str | None = None)
         st = os.fstat(fd)
         why = _what(st.st_mode)
         if why:  # swapped for something else since the check above
-            raise refuse(f"{why}, not a {kind.label}", kind.hint)
+            raise refuse(f"{why}, not {kind.a_label}", kind.hint)
         if st.st_size > kind.max_bytes:
-            raise refuse(f"the file is {st.st_size:,} bytes; a {kind.label} may be at most "
+            raise refuse(f"the file is {st.st_size:,} bytes; {kind.a_label} may be at most "
                          f"{kind.max_bytes:,}", kind.hint)
         chunks: list[bytes] = []
         total = 0
@@ -125,8 +131,8 @@ def read_bytes(path: str | os.PathLike, kind: FileKind, name: str | None = None)
             chunks.append(chunk)
             total += len(chunk)
             if total > kind.max_bytes:
-                raise refuse(f"the file is more than {kind.max_bytes:,} bytes; that is more than a "
-                             f"{kind.label} may be", kind.hint)
+                raise refuse(f"the file is more than {kind.max_bytes:,} bytes; that is more than "
+                             f"{kind.a_label} may be", kind.hint)
     except OSError as exc:
         raise refuse(f"cannot read: {exc.strerror or exc}") from None
     finally:
@@ -143,7 +149,7 @@ def decode_utf8(data: bytes, where: str, kind: FileKind) -> str:
         line = before.count(b"\n") + 1
         col = exc.start - (before.rfind(b"\n") + 1) + 1
         raise InputError(Problem(where, line, col, f"not UTF-8 text (byte 0x{data[exc.start]:02x}); "
-                                 f"a {kind.label} is UTF-8 text", "save the file as UTF-8")) from None
+                                 f"{kind.a_label} is UTF-8 text", "save the file as UTF-8")) from None
     return text.removeprefix("\ufeff")
 
 
@@ -207,3 +213,8 @@ class PlanFolder:
         except InputError as err:
             p = err.problems[0]
             raise PlanRuleError(loc, f"{kind.label} {name}: {p.message}", p.hint) from None
+
+
+def as_folder(where: PlanFolder | str | os.PathLike | None) -> PlanFolder:
+    """A PlanFolder from a folder path (nothing outside it allowed), or the one given."""
+    return where if isinstance(where, PlanFolder) else PlanFolder.of(where)

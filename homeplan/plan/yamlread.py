@@ -48,6 +48,7 @@ __all__ = [
     "YamlLimits",
     "build",
     "check_events",
+    "position",
     "read_yaml",
 ]
 
@@ -406,3 +407,23 @@ def read_yaml(text: str, name: str, limits: YamlLimits = PLAN_LIMITS) -> Any:
     """Check then build: the document of an untrusted YAML text, with positions."""
     check_events(text, name, limits)
     return build(text, name)
+
+
+def position(doc: Any, loc: tuple) -> tuple[int, int]:
+    """1-based line and column of the value at a path of keys and indices in a built document
+    (as far down the path as it exists; (1, 1) for the top)."""
+    line, col = 1, 1
+    node = doc
+    for part in loc:
+        lc = getattr(node, "lc", None)
+        if isinstance(node, dict) and part in node:
+            if lc is not None:
+                line, col = (v + 1 for v in lc.value(part))
+            node = node[part]
+        elif isinstance(node, list) and isinstance(part, int) and 0 <= part < len(node):
+            if lc is not None:
+                line, col = (v + 1 for v in lc.item(part))
+            node = node[part]
+        else:
+            break
+    return line, col

@@ -46,9 +46,11 @@ from homeplan.energy.units import btu_per_unit
 from homeplan.energy.vehicles import VehicleSpec
 from homeplan.energy.water import WaterHeaterSpec, hot_water_gal_per_day, water_heater_annual_input
 from homeplan.energy.weather import Weather
-from homeplan.errors import PlanRuleError
+from homeplan.errors import InputError, PlanRuleError
+from homeplan.plan.files import WEATHER, PlanFolder, as_folder, decode_utf8
 from homeplan.plan.fuels import TANK_FUELS, appliance_fuel, engine_fuel
 from homeplan.plan.model import Appliance, Plan
+from homeplan.plan.text import clean
 from homeplan.planner.lifecycle import appliance_type
 
 __all__ = [
@@ -59,6 +61,7 @@ __all__ = [
     "home_basis",
     "load_weather",
     "nearest_reference_climate",
+    "read_weather_file",
 ]
 
 DAYS_IN_MONTH = np.array([31, 28, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31], dtype=float)
@@ -80,7 +83,7 @@ def nearest_reference_climate(lat: float, lon: float) -> tuple[ReferenceClimate,
 # ------------------------------------------------------------------------------ weather
 
 
-def load_weather(plan: Plan, base_dir: Path | None) -> tuple[Weather, str]:
+def load_weather(plan: Plan, base_dir: PlanFolder | Path | None) -> tuple[Weather, str]:
     """The weather year for the plan and a note on where it came from.
 
     A weather file (EPW or TMY3) wins; otherwise a deterministic typical year is generated from
@@ -90,21 +93,11 @@ def load_weather(plan: Plan, base_dir: Path | None) -> tuple[Weather, str]:
     c = h.climate
     notes: list[str] = []
     if c.weather_file:
-        path = Path(c.weather_file)
-        if not path.is_absolute() and base_dir is not None:
-            path = base_dir / path
-        if not path.exists():
-            raise PlanRuleError(("home", "climate", "weather_file"), f"weather file not found: {path}",
-                                "give a path relative to the plan file, or remove the key")
-        try:
-            w = wx.read_weather(path)
-        except (ValueError, KeyError, IndexError) as exc:
-            raise PlanRuleError(("home", "climate", "weather_file"), f"cannot read weather file: {exc}",
-                                "use an EPW (.epw) or TMY3 (.csv) file") from None
+        w = read_weather_file(as_folder(base_dir), c.weather_file)
         if c.heating_design_f is not None or c.cooling_design_f is not None:
             w = replace(w, heating_design_f=c.heating_design_f or w.heating_design_f,
                         cooling_design_f=c.cooling_design_f or w.cooling_design_f)
-        return w, f"weather file {path.name}"
+        return w, f"weather file {Path(c.weather_file).name}"
     lat = h.location.latitude if h.location else None
     lon = h.location.longitude if h.location else None
     ref = None
@@ -377,7 +370,24 @@ class HomeBasis:
         return float(self.calibration.design_load_btuh)
 
 
-def home_basis(plan: Plan, base_dir: Path | None = None) -> HomeBasis:
+def read_weather_file(folder: PlanFolder, name: str) -> Weather:
+    """The typical year of the weather file a plan names, read the one safe way."""
+    loc = ("home", "climate", "weather_file")
+    path, data = folder.read(name, loc, WEATHER)
+    try:
+        text = decode_utf8(data, name, WEATHER)
+    except InputError as err:
+        raise PlanRuleError(loc, f"weather file {name}: {err.problems[0].message}", "save it as UTF-8") from None
+    try:
+        return wx.read_weather_text(text, path.name)
+    except wx.WeatherFileError as exc:
+        raise PlanRuleError(loc, f"cannot use the weather file {name}: {clean(exc)[:160]}",
+                            WEATHER.hint) from None
+    except Exception:  # pvlib's and pandas' errors quote the file: say only what it is not
+        raise PlanRuleError(loc, f"{name} is not a weather file homeplan can read", WEATHER.hint) from None
+
+
+def home_basis(plan: Plan, base_dir: PlanFolder | Path | None = None) -> HomeBasis:
     weather, wnote = load_weather(plan, base_dir)
     parts = {"water_heater": water_spec_today(plan), "cooking": cooking_spec_today(plan),
              "dryer": dryer_spec_today(plan)}
