@@ -91,15 +91,19 @@ def candidates(plan: Plan) -> list[Candidate]:
     if heating or not any(a.kind in ("heat_pump", "mini_split") for a in apps):
         add("heat_pump", "heat_pump", replaces=tuple(a.key for a in heating),
             variant=heat_pump_variant(plan, plan.home.climate.heating_design_f))
+    def add_for(a, kind: str, variant: str) -> None:  # one per appliance; a second one is named
+        cid = _unique(out, kind, a.key)
+        extra = {} if cid == kind else {"label": f"{kinds[kind].label} (replaces {a.key})"}
+        add(cid, kind, replaces=(a.key,), variant=variant, **extra)
+
     for a in apps:
         fuel = appliance_fuel(a)
         if a.kind == "water_heater" and lifecycle.appliance_type(a) != "heat_pump":
-            add(_unique(out, "heat_pump_water_heater", a.key), "heat_pump_water_heater",
-                replaces=(a.key,), variant="v240")
+            add_for(a, "heat_pump_water_heater", "v240")
         elif a.kind in ("range", "cooktop") and fuel in HOME_FUELS:
-            add(_unique(out, "induction_range", a.key), "induction_range", replaces=(a.key,), variant="full")
+            add_for(a, "induction_range", "full")
         elif a.kind == "dryer" and fuel in HOME_FUELS:
-            add(_unique(out, "heat_pump_dryer", a.key), "heat_pump_dryer", replaces=(a.key,), variant="v120")
+            add_for(a, "heat_pump_dryer", "v120")
     ev_ids = []
     for i, v in enumerate(plan.vehicles):
         if v.fuel != "electric":
@@ -206,6 +210,7 @@ def build_graph(plan: Plan):
                        why="needs room on the service if the load calculation says so")
     _apply_user_order(g, plan, ids)
     _check_choice_ids(plan, ids)
+    _check_option_variants(plan, {c.id: c.kind for c in cands})
     hard = nx.DiGraph((u, v) for u, v, d in g.edges(data=True) if d["kind"] != "any_of")
     hard.add_nodes_from(ids)
     try:
@@ -234,6 +239,19 @@ def _apply_user_order(g, plan: Plan, ids: set[str]) -> None:
                 raise PlanRuleError(("choices", "require_before", after, i),
                                     f"unknown project '{before}'", _suggest(before, ids))
             g.add_edge(before, after, kind="requires", why="your choice")
+
+
+def _check_option_variants(plan: Plan, kind_of: dict[str, str]) -> None:
+    """A variant named in the plan's options must be one the project's kind has."""
+    kinds = catalog.upgrade_kinds()
+    for pid, opt in plan.options.items():
+        if opt.variant is None or pid not in kind_of:
+            continue
+        known = {v.id for v in kinds[kind_of[pid]].variants}
+        if opt.variant not in known:
+            raise PlanRuleError(("options", pid, "variant"), f"'{opt.variant}' is not a variant of {pid}",
+                                _suggest(opt.variant, known, f"variants of {pid}") if known
+                                else f"{pid} has no variants; remove the key")
 
 
 def _check_choice_ids(plan: Plan, ids: set[str]) -> None:
