@@ -351,3 +351,16 @@ def shared_planning():
         yield
     finally:
         common.plan_roadmap = real
+
+
+def tmy3_text() -> str:
+    """pvlib's TMY3 sample (Greensboro NC, NSRDB 723170), the weather file the fuzz damages."""
+    import pvlib
+
+    return (Path(pvlib.__file__).parent / "data" / "723170TYA.CSV").read_text(encoding="utf-8")
+
+
+def weather_plan_text(weather_file: str) -> str:
+    """A small plan that names a weather file (beside it)."""
+    return (ROOT / "sample_homes" / "minimal.yaml").read_text(encoding="utf-8").replace(
+        "  floor_area_ft2: 1600\n", f"  floor_area_ft2: 1600\n  climate: {{weather_file: {weather_file}}}\n")

@@ -23,6 +23,7 @@ from homeplan.cli.parser import (
 )
 from homeplan.cli.say import say
 from homeplan.errors import InputError
+from homeplan.plan.preflight import preflight
 
 __all__ = ["build_parser", "debugging", "main"]
 
@@ -30,6 +31,19 @@ __all__ = ["build_parser", "debugging", "main"]
 def debugging() -> bool:
     """True when ``HOMEPLAN_DEBUG`` asks for tracebacks (1, true, yes or on; 0 or empty: no)."""
     return os.environ.get("HOMEPLAN_DEBUG", "").strip().lower() in ("1", "true", "yes", "on")
+
+
+_READ_NAMED = {"check", "plan", "capacity", "costs", "print", "export", "diff", "open"}
+
+
+def _preflight(args) -> None:
+    """The plan files of the command, and what they name, checked before the heavy imports."""
+    paths = [args.a, args.b] if args.command == "diff" else [getattr(args, "file", None)]
+    allow = getattr(args, "allow_outside", None) or []
+    for path in paths:
+        if path is None or (args.command == "open" and not os.path.lexists(path)):
+            continue  # open without a file, or a new plan: nothing to read
+        preflight(path, allow, named=args.command in _READ_NAMED)
 
 
 def main(argv: Sequence[str] | None = None) -> int:
@@ -41,6 +55,7 @@ def main(argv: Sequence[str] | None = None) -> int:
         return EXIT_BAD_INPUT
     module, function = COMMANDS[args.command]
     try:
+        _preflight(args)
         # the command's group is imported only now: it loads the planner and its libraries
         run = getattr(importlib.import_module(f"homeplan.cli.{module}"), function)
         return int(run(args) or 0)

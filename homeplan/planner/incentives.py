@@ -34,6 +34,7 @@ from homeplan.money.incentives import (
 from homeplan.plan.files import INCENTIVES, PlanFolder, as_folder, decode_utf8
 from homeplan.plan.fuels import HOME_FUELS, appliance_fuel
 from homeplan.plan.model import Plan
+from homeplan.plan.preflight import incentive_records, not_incentive_file
 from homeplan.plan.text import clean
 from homeplan.plan.yamlread import INCENTIVE_LIMITS, position, read_yaml
 from homeplan.planner.context import Context
@@ -98,11 +99,8 @@ def read_incentive_file(folder: PlanFolder, name: str, loc: tuple) -> tuple[Prog
     path, data = folder.read(name, loc, INCENTIVES)
     text = decode_utf8(data, name, INCENTIVES)
     doc = read_yaml(text, name, INCENTIVE_LIMITS)
-    records = doc.get("programs") if isinstance(doc, dict) else doc
-    if not isinstance(records, list) or not all(isinstance(r, dict) for r in records):
-        # say what the file is not, never what it holds: it may be any file at all
-        raise PlanRuleError(loc, f"{name} is not an incentive file (a YAML list of programs, or "
-                            "'programs:' with that list)", "see docs/plan-format.md#incentives")
+    if incentive_records(doc) is None:
+        raise not_incentive_file(loc, name)
     try:
         return parse_catalog(doc)
     except IncentiveDataError as exc:

@@ -1,0 +1,146 @@
+"""The long fuzz run: fuzzed plans through check, plan, costs, capacity, print and export.
+
+Targets (issue "a plan file from someone else is safe to open"): >= 10,000 fuzzed plans,
+0 internal errors, 0 tracebacks, 0 commands over 5 s.
+
+Each plan comes from a seed (``tests/fuzzing.py``: a sample home with a few mutations, sometimes
+damaged text), is written into a copy of ``sample_homes/`` (so its incentive files are found) and
+run through the six commands by homeplan's own entry point in worker processes. The five
+commands that plan share the planning run of their file (the same call on the same bytes);
+loading, checking, the views and the writing run for each. A command that runs 60 s is stopped
+by an alarm and counted as a hang. Also fuzzed: incentive files and weather files (TMY3) named
+by a plan, through check and plan.
+
+Usage: python benchmarks/bench_fuzz.py [PLANS] [WORKERS] [FIRST_SEED]
+"""
+
+from __future__ import annotations
+
+import collections
+import multiprocessing as mp
+import os
+import random
+import signal
+import sys
+import tempfile
+import time
+from pathlib import Path
+
+ROOT = Path(__file__).resolve().parent.parent
+sys.path.insert(0, str(ROOT))
+
+from tests import fuzzing  # noqa: E402
+
+HANG_S = 5.0
+ALARM_S = 60
+
+
+class _Alarm(Exception):
+    pass
+
+
+def _on_alarm(*_args) -> None:
+    raise _Alarm
+
+
+def _classify(o: fuzzing.Outcome) -> list[str]:
+    bad = []
+    if o.internal_error:
+        bad.append("internal error")
+    if o.traceback:
+        bad.append("traceback")
+    if o.code not in (0, 1, 2) and o.code is not None:
+        bad.append(f"exit {o.code}")
+    if o.code == 1 and not o.internal_error:
+        bad.append("exit 1")
+    if o.seconds > HANG_S:
+        bad.append("over 5 s")
+    return bad
+
+
+def _work(args: tuple[str, int, int]) -> dict:
+    what, first, count = args
+    signal.signal(signal.SIGALRM, _on_alarm)
+    counts: collections.Counter = collections.Counter()
+    problems: list[tuple[int, str, str, str]] = []
+    slowest = 0.0
+    with tempfile.TemporaryDirectory() as tmp, fuzzing.shared_planning():
+        folder = fuzzing.plan_folder(Path(tmp))
+        out = Path(tmp) / "out"
+        out.mkdir()
+        fuzzing.run_commands(folder / "minimal.yaml", out, ("plan",))  # imports, not counted
+        for seed in range(first, first + count):
+            rng = random.Random(seed)
+            plan = folder / f"fuzz_{os.getpid()}.yaml"
+            commands: tuple[str, ...] | None = None
+            if what == "plans":
+                plan.write_text(fuzzing.fuzzed_plan_text(rng), encoding="utf-8")
+            elif what == "incentives":
+                (folder / "incentives" / "fuzz.yaml").write_text(fuzzing.fuzzed_incentive_text(rng),
+                                                                 encoding="utf-8")
+                plan.write_text((folder / "minimal.yaml").read_text() +
+                                "incentive_files: [incentives/fuzz.yaml]\n", encoding="utf-8")
+                commands = ("check", "plan")
+            else:
+                (folder / "fuzz_weather.csv").write_text(
+                    fuzzing.fuzzed_weather_text(rng, fuzzing.tmy3_text()), encoding="utf-8")
+                plan.write_text(fuzzing.weather_plan_text("fuzz_weather.csv"), encoding="utf-8")
+                commands = ("check", "plan")
+            try:
+                signal.alarm(ALARM_S)
+                outcomes = fuzzing.run_commands(plan, out, commands)
+                signal.alarm(0)
+            except _Alarm:
+                counts["hang"] += 1
+                problems.append((seed, "any", "hang", ""))
+                continue
+            counts["plans"] += 1
+            for o in outcomes:
+                counts[f"{o.command} exit {o.code}"] += 1
+                slowest = max(slowest, o.seconds)
+                for b in _classify(o):
+                    counts[b] += 1
+                    problems.append((seed, o.command, b, (o.stderr + o.trace).strip()[-300:]))
+    return {"counts": counts, "problems": problems, "slowest": slowest}
+
+
+def run(what: str, total: int, workers: int, first_seed: int) -> dict:
+    per = -(-total // (workers * 4))
+    chunks = [(what, s, min(per, first_seed + total - s)) for s in range(first_seed, first_seed + total, per)]
+    counts: collections.Counter = collections.Counter()
+    problems: list = []
+    slowest = 0.0
+    start = time.perf_counter()
+    with mp.get_context("fork").Pool(workers) as pool:
+        for part in pool.imap_unordered(_work, chunks):
+            counts.update(part["counts"])
+            problems += part["problems"]
+            slowest = max(slowest, part["slowest"])
+    return {"counts": counts, "problems": problems, "slowest": slowest,
+            "seconds": time.perf_counter() - start}
+
+
+def report(what: str, r: dict) -> None:
+    c = r["counts"]
+    print(f"== {what}: {c['plans']:,} files in {r['seconds']:.0f} s; slowest command "
+          f"{r['slowest']:.2f} s")
+    for key in sorted(k for k in c if " exit " in k):
+        print(f"   {key:20s} {c[key]:>7,}")
+    for key in ("internal error", "traceback", "exit 1", "over 5 s", "hang"):
+        print(f"   {key:20s} {c.get(key, 0):>7,}")
+    for seed, command, kind, text in r["problems"][:20]:
+        print(f"   seed {seed} {command}: {kind}: {text}")
+
+
+def main() -> None:
+    plans = int(sys.argv[1]) if len(sys.argv) > 1 else 10_000
+    workers = int(sys.argv[2]) if len(sys.argv) > 2 else 2
+    first = int(sys.argv[3]) if len(sys.argv) > 3 else 0
+    print(f"load average before: {Path('/proc/loadavg').read_text().split()[:3]}")
+    for what, n in (("plans", plans), ("incentives", max(plans // 10, 1)), ("weather", max(plans // 50, 1))):
+        report(what, run(what, n, workers, first))
+        print(f"load average after: {Path('/proc/loadavg').read_text().split()[:3]}")
+
+
+if __name__ == "__main__":
+    main()
