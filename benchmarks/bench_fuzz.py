@@ -55,6 +55,8 @@ def _classify(o: fuzzing.Outcome) -> list[str]:
         bad.append("exit 1")
     if o.seconds > HANG_S:
         bad.append("over 5 s")
+    if o.cpu_seconds > HANG_S:
+        bad.append("over 5 s of CPU")
     return bad
 
 
@@ -63,7 +65,7 @@ def _work(args: tuple[str, int, int]) -> dict:
     signal.signal(signal.SIGALRM, _on_alarm)
     counts: collections.Counter = collections.Counter()
     problems: list[tuple[int, str, str, str]] = []
-    slowest = 0.0
+    slowest = slowest_cpu = 0.0
     with tempfile.TemporaryDirectory() as tmp, fuzzing.shared_planning():
         folder = fuzzing.plan_folder(Path(tmp))
         out = Path(tmp) / "out"
@@ -98,10 +100,11 @@ def _work(args: tuple[str, int, int]) -> dict:
             for o in outcomes:
                 counts[f"{o.command} exit {o.code}"] += 1
                 slowest = max(slowest, o.seconds)
+                slowest_cpu = max(slowest_cpu, o.cpu_seconds)
                 for b in _classify(o):
                     counts[b] += 1
                     problems.append((seed, o.command, b, (o.stderr + o.trace).strip()[-300:]))
-    return {"counts": counts, "problems": problems, "slowest": slowest}
+    return {"counts": counts, "problems": problems, "slowest": slowest, "slowest_cpu": slowest_cpu}
 
 
 def run(what: str, total: int, workers: int, first_seed: int) -> dict:
@@ -109,26 +112,27 @@ def run(what: str, total: int, workers: int, first_seed: int) -> dict:
     chunks = [(what, s, min(per, first_seed + total - s)) for s in range(first_seed, first_seed + total, per)]
     counts: collections.Counter = collections.Counter()
     problems: list = []
-    slowest = 0.0
+    slowest = slowest_cpu = 0.0
     start = time.perf_counter()
     with mp.get_context("fork").Pool(workers) as pool:
         for part in pool.imap_unordered(_work, chunks):
             counts.update(part["counts"])
             problems += part["problems"]
             slowest = max(slowest, part["slowest"])
-    return {"counts": counts, "problems": problems, "slowest": slowest,
+            slowest_cpu = max(slowest_cpu, part["slowest_cpu"])
+    return {"counts": counts, "problems": problems, "slowest": slowest, "slowest_cpu": slowest_cpu,
             "seconds": time.perf_counter() - start}
 
 
 def report(what: str, r: dict) -> None:
     c = r["counts"]
     print(f"== {what}: {c['plans']:,} files in {r['seconds']:.0f} s; slowest command "
-          f"{r['slowest']:.2f} s")
+          f"{r['slowest']:.2f} s wall, {r['slowest_cpu']:.2f} s CPU")
     for key in sorted(k for k in c if " exit " in k):
         print(f"   {key:20s} {c[key]:>7,}")
-    for key in ("internal error", "traceback", "exit 1", "over 5 s", "hang"):
+    for key in ("internal error", "traceback", "exit 1", "over 5 s", "over 5 s of CPU", "hang"):
         print(f"   {key:20s} {c.get(key, 0):>7,}")
-    for seed, command, kind, text in r["problems"][:20]:
+    for seed, command, kind, text in r["problems"][:40]:
         print(f"   seed {seed} {command}: {kind}: {text}")
 
 

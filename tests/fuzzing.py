@@ -268,6 +268,7 @@ class Outcome:
     seconds: float
     stderr: str
     trace: str = ""
+    cpu_seconds: float = 0.0  # this process's CPU time (all its threads) during the command
 
     @property
     def internal_error(self) -> bool:
@@ -289,7 +290,7 @@ def run_command(argv: list[str]) -> Outcome:
     from homeplan.cli import main
 
     out, err = io.StringIO(), io.StringIO()
-    start = time.perf_counter()
+    start, cpu = time.perf_counter(), time.process_time()
     trace = ""
     try:
         with contextlib.redirect_stdout(out), contextlib.redirect_stderr(err):
@@ -299,7 +300,8 @@ def run_command(argv: list[str]) -> Outcome:
     except BaseException:  # noqa: BLE001 - a traceback is what the fuzz looks for
         code = None
         trace = traceback.format_exc()
-    return Outcome(argv[0], code, time.perf_counter() - start, err.getvalue(), trace)
+    return Outcome(argv[0], code, time.perf_counter() - start, err.getvalue(), trace,
+                   time.process_time() - cpu)
 
 
 def run_commands(plan: Path, out_dir: Path, commands: tuple[str, ...] | None = None) -> list[Outcome]:
