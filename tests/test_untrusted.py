@@ -246,6 +246,18 @@ def test_two_water_heaters_are_two_projects():
     assert labels == ["Heat pump water heater", "Heat pump water heater (replaces wh2)"]
 
 
+def test_too_many_new_loads_is_an_input_error_for_check_and_plan(tmp_path):
+    apps = "".join(f"  - {{id: wh{i}, kind: water_heater, year_installed: 2012}}\n" for i in range(14))
+    p = tmp_path / "p.yaml"
+    p.write_text(MINIMAL.replace("appliances:\n", "appliances:\n" + apps))
+    for command in ("check", "plan"):
+        code, _, err = run(command, str(p))
+        assert code == 2 and "ways, more than the capacity check weighs" in err
+    p.write_text(MINIMAL.replace("appliances:\n", "appliances:\n" + apps * 4))
+    code, _, err = run("check", str(p))
+    assert code == 2 and "at most 40" in err
+
+
 def test_paid_after_days_far_in_the_future_is_an_input_error(tmp_path):
     p = tmp_path / "p.yaml"
     p.write_text(MINIMAL + "incentives:\n  - {id: r, name: R (invented), administrator: A (invented), "

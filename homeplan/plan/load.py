@@ -277,8 +277,14 @@ def _describe(err: dict, allowed: list[str]) -> tuple[str, str]:
         return f"{field} must be a section of keys, not {type(value).__name__}", "indent its keys under it"
     if kind == "list_type":
         return f"{field} must be a list, not {type(value).__name__}", "write one '- item' per line"
-    if kind in ("too_short", "too_long"):
+    if kind in ("too_short", "too_long") and field.startswith("monthly_"):
         return f"{field}: {err['msg'].lower()}", "monthly lists have 12 values, January to December"
+    if kind == "too_long":
+        most = ctx.get("max_length", "")
+        return f"{field} lists {ctx.get('actual_length', 'too many')} items; at most {most}", \
+            "a plan describes one home: keep the ones that matter for the plan"
+    if kind == "too_short":
+        return f"{field}: {err['msg'].lower()}", "add the missing items"
     if kind in ("date_from_datetime_parsing", "date_parsing", "date_type"):
         return f"{field} must be a date, not {value!r}", "write YYYY-MM-DD"
     if kind == "string_pattern_mismatch":

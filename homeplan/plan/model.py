@@ -467,17 +467,17 @@ class Plan(Section):
     provenance: Provenance = Provenance()
     display: Display = Display()
     home: Home
-    appliances: list[Appliance] = []
-    vehicles: list[Vehicle] = []
+    appliances: list[Appliance] = Field([], max_length=40, description="At most 40 (one home).")
+    vehicles: list[Vehicle] = Field([], max_length=12, description="At most 12.")
     usage: Usage | None = None
     household: Household = Household()
     prices: Prices = Prices()
     budget: Budget
     incentives: list[dict[str, Any]] = Field(
-        [], description="Incentive programs as data (see docs/plan-format.md#incentives)."
+        [], max_length=200, description="Incentive programs as data (see docs/plan-format.md#incentives)."
     )
     incentive_files: list[str] = Field(
-        [], description="Paths (relative to the plan file) of incentive catalogs to include."
+        [], max_length=20, description="Paths (relative to the plan file) of incentive catalogs to include."
     )
     options: dict[str, ProjectOption] = Field({}, description="Project id -> overrides.")
     choices: Choices = Choices()

@@ -19,9 +19,11 @@ common practice, no source: air sealing before heat pump sizing, roof before sol
 from __future__ import annotations
 
 import difflib
+import inspect
 from dataclasses import dataclass, field
 
 from homeplan import catalog
+from homeplan.electrical.remedies import find_remedy
 from homeplan.errors import PlanRuleError
 from homeplan.plan.fuels import HOME_FUELS, appliance_fuel
 from homeplan.plan.model import Plan
@@ -211,6 +213,7 @@ def build_graph(plan: Plan):
     _apply_user_order(g, plan, ids)
     _check_choice_ids(plan, ids)
     _check_option_variants(plan, {c.id: c.kind for c in cands})
+    _check_capacity_choices(plan, cands)
     hard = nx.DiGraph((u, v) for u, v, d in g.edges(data=True) if d["kind"] != "any_of")
     hard.add_nodes_from(ids)
     try:
@@ -239,6 +242,25 @@ def _apply_user_order(g, plan: Plan, ids: set[str]) -> None:
                 raise PlanRuleError(("choices", "require_before", after, i),
                                     f"unknown project '{before}'", _suggest(before, ids))
             g.add_edge(before, after, kind="requires", why="your choice")
+
+
+def _check_capacity_choices(plan: Plan, cands: list[Candidate]) -> None:
+    """The capacity stage weighs every mix of the new loads' variants with every remedy; refuse
+    a plan with more mixes than it checks (a dozen water heaters), saying how to cut them."""
+    kinds = catalog.upgrade_kinds()
+    mixes = 1
+    for c in cands:
+        k = kinds[c.kind]
+        if k.capacity_load and c.id not in plan.choices.exclude:
+            opt = plan.options.get(c.id)
+            mixes *= 1 if (opt is not None and opt.variant) else max(1, len(k.variants))
+    most = inspect.signature(find_remedy).parameters["max_combinations"].default
+    remedies_per_mix = 12  # service as is or upgraded, x 3 solar connections, x with/without EMS
+    if mixes * remedies_per_mix > most:
+        raise PlanRuleError(("appliances",), f"the new electric loads can be chosen in {mixes:,} ways, "
+                            f"more than the capacity check weighs ({most // remedies_per_mix:,})",
+                            "choose the variant of some projects under options (e.g. options: "
+                            "{heat_pump_water_heater: {variant: v240}}), exclude some, or list fewer appliances")
 
 
 def _check_option_variants(plan: Plan, kind_of: dict[str, str]) -> None:
