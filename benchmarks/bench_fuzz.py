@@ -11,7 +11,8 @@ loading, checking, the views and the writing run for each. A command that runs 6
 by an alarm and counted as a hang. Also fuzzed: incentive files and weather files (TMY3) named
 by a plan, through check and plan.
 
-Usage: python benchmarks/bench_fuzz.py [PLANS] [WORKERS] [FIRST_SEED]
+Usage: python benchmarks/bench_fuzz.py [PLANS] [WORKERS] [FIRST_SEED] [MINUTES]
+(MINUTES: stop taking new files after this long; the figures say how many were done.)
 """
 
 from __future__ import annotations
@@ -107,25 +108,39 @@ def _work(args: tuple[str, int, int]) -> dict:
     return {"counts": counts, "problems": problems, "slowest": slowest, "slowest_cpu": slowest_cpu}
 
 
-def run(what: str, total: int, workers: int, first_seed: int) -> dict:
-    per = -(-total // (workers * 4))
+def run(what: str, total: int, workers: int, first_seed: int, deadline: float) -> dict:
+    """Fuzz ``total`` files in chunks of 50 seeds; stop taking new chunks at ``deadline``
+    (time.monotonic). Prints the running totals after every 1,000 files."""
+    per = 50
     chunks = [(what, s, min(per, first_seed + total - s)) for s in range(first_seed, first_seed + total, per)]
     counts: collections.Counter = collections.Counter()
     problems: list = []
     slowest = slowest_cpu = 0.0
     start = time.perf_counter()
-    with mp.get_context("fork").Pool(workers) as pool:
-        for part in pool.imap_unordered(_work, chunks):
+    with mp.get_context("fork").Pool(workers, maxtasksperchild=20) as pool:
+        pending = iter(chunks)
+        running = [pool.apply_async(_work, (c,)) for c in (next(pending, None) for _ in range(workers * 2)) if c]
+        while running:
+            part = running.pop(0).get()
             counts.update(part["counts"])
             problems += part["problems"]
             slowest = max(slowest, part["slowest"])
             slowest_cpu = max(slowest_cpu, part["slowest_cpu"])
+            if counts["plans"] % 1000 < per:
+                print(f"   ... {what}: {counts['plans']:,} files, {counts['internal error']} internal errors, "
+                      f"{counts['traceback']} tracebacks, {counts['over 5 s']} over 5 s, {counts['hang']} hangs "
+                      f"({time.perf_counter() - start:.0f} s, load {Path('/proc/loadavg').read_text().split()[0]})",
+                      flush=True)
+            nxt = next(pending, None) if time.monotonic() < deadline else None
+            if nxt is not None:
+                running.append(pool.apply_async(_work, (nxt,)))
     return {"counts": counts, "problems": problems, "slowest": slowest, "slowest_cpu": slowest_cpu,
             "seconds": time.perf_counter() - start}
 
 
 def report(what: str, r: dict) -> None:
     c = r["counts"]
+    sys.stdout.flush()
     print(f"== {what}: {c['plans']:,} files in {r['seconds']:.0f} s; slowest command "
           f"{r['slowest']:.2f} s wall, {r['slowest_cpu']:.2f} s CPU")
     for key in sorted(k for k in c if " exit " in k):
@@ -140,10 +155,13 @@ def main() -> None:
     plans = int(sys.argv[1]) if len(sys.argv) > 1 else 10_000
     workers = int(sys.argv[2]) if len(sys.argv) > 2 else 2
     first = int(sys.argv[3]) if len(sys.argv) > 3 else 0
-    print(f"load average before: {Path('/proc/loadavg').read_text().split()[:3]}")
-    for what, n in (("plans", plans), ("incentives", max(plans // 10, 1)), ("weather", max(plans // 50, 1))):
-        report(what, run(what, n, workers, first))
-        print(f"load average after: {Path('/proc/loadavg').read_text().split()[:3]}")
+    minutes = float(sys.argv[4]) if len(sys.argv) > 4 else 24 * 60.0
+    print(f"load average before: {Path('/proc/loadavg').read_text().split()[:3]}", flush=True)
+    end = time.monotonic() + minutes * 60
+    shares = (("incentives", max(plans // 10, 1), 0.06), ("weather", max(plans // 50, 1), 0.04), ("plans", plans, 0.9))
+    for what, n, share in shares:  # the small ones first, each with its share of the time
+        report(what, run(what, n, workers, first, min(end, time.monotonic() + share * minutes * 60)))
+        print(f"load average after: {Path('/proc/loadavg').read_text().split()[:3]}", flush=True)
 
 
 if __name__ == "__main__":

@@ -89,8 +89,8 @@ def cases(folder: Path) -> list[tuple[str, Path, list[str]]]:
     out.append(("25 MB plan", folder / "big.yaml", []))
     _big(folder / "big_incentives.yaml", "programs: []\n")
     out.append(("25 MB incentive file", _named(folder, "incentive_files: [big_incentives.yaml]\n"), []))
-    out.append(("1.9 MB of values, no alias", plan_file("values.yaml", BASE + "extra:\n" + "".join(
-        f"  - {{n: {i}, v: {i}}}\n" for i in range(60_000))), []))
+    out.append(("0.8 MB of values, no alias", plan_file("values.yaml", BASE + "extra:\n" + "".join(
+        f"  - {{n: {i}, v: {i}}}\n" for i in range(32_000))), []))
     out.append(("binary (random bytes)", plan_file("random.yaml", os.urandom(1 << 20)), []))
     out.append(("binary (PNG header)", plan_file("png.yaml", b"\x89PNG\r\n\x1a\n" + os.urandom(4096)), []))
     out.append(("raw escape sequence in the file", plan_file("esc_raw.yaml", BASE.replace(
