@@ -315,17 +315,21 @@ def run_commands(plan: Path, out_dir: Path, commands: tuple[str, ...] | None = N
         "export": ["export", str(plan), "--json", str(out_dir / "r.json"), "--ics", str(out_dir / "r.ics"),
                    "--csv", str(out_dir / "csv")],
     }
+    _RUNS[0] += 1  # a new file set: what shared_planning kept is for the last one
     return [run_command(argvs[c]) for c in (commands or tuple(argvs))]
+
+
+_RUNS = [0]  # calls of run_commands in this process (keys shared_planning's memo)
 
 
 @contextlib.contextmanager
 def shared_planning():
-    """Within the block, the commands run on one plan file share its planning run.
+    """Within the block, the commands of one :func:`run_commands` call share a planning run.
 
     ``plan``, ``costs``, ``capacity``, ``print`` and ``export`` each load the file and then call
-    the same planner on the same plan; the result (or the error) of the first call is reused
-    while the file's bytes are the same. Loading, checking, the views and the writing still run
-    for every command.
+    the same planner on the same plan; the result (or the error) of the first call is reused by
+    the others of the same call (the files it names do not change between them). Loading,
+    checking, the views and the writing still run for every command.
     """
     import hashlib
 
@@ -335,7 +339,7 @@ def shared_planning():
     memo: dict[str, Any] = {}
 
     def planned(loaded, *args, **kwargs):
-        key = hashlib.sha256(Path(loaded.path).read_bytes()).hexdigest() + repr(loaded.plan)[:0]
+        key = f"{_RUNS[0]}:" + hashlib.sha256(Path(loaded.path).read_bytes()).hexdigest()
         key += repr(sorted(map(str, loaded.allow)))
         if key not in memo:
             memo.clear()
