@@ -197,6 +197,43 @@ def test_a_symlinked_weather_file_to_a_device_is_refused(tmp_path):
     assert code == 2 and "is a device" in err
 
 
+BILL_YEAR = ("usage:\n  weather_file: {name}\n"
+             "  electricity: {{monthly_kwh: [900, 800, 700, 600, 600, 700, 800, 800, 700, 600, 700, 900]}}\n")
+
+
+@pytest.mark.parametrize("command", ["check", "plan"])
+def test_the_bill_year_weather_file_is_read_the_safe_way(tmp_path, command):
+    """usage.weather_file gets the same checks as every file a plan names, in check as in plan."""
+    p = _plan_naming(tmp_path, BILL_YEAR.format(name="bills.epw"))
+    folder = p.parent
+    line = 1 + MINIMAL.count("\n") + 1  # the weather_file line under usage:
+    code, _, err = run(command, str(p))  # missing
+    assert code == 2 and f"p.yaml:{line}:" in err and "bills.epw" in err and "Traceback" not in err
+    (folder / "bills.epw").write_text("LOCATION,nowhere\nnot,a,weather,file\n")
+    code, _, err = run(command, str(p))
+    assert code == 2 and f"p.yaml:{line}:" in err and "weather file" in err
+    (folder / "bills.epw").unlink()
+    (folder / "bills.epw").symlink_to("/dev/zero")  # POSIX S_ISREG: a device is refused unread
+    code, _, err = run(command, str(p), "--allow-outside", "/dev/zero")
+    assert code == 2 and "is a device" in err
+    p.write_text(MINIMAL + BILL_YEAR.format(name="../outside.csv"))
+    code, _, err = run(command, str(p))
+    assert code == 2 and "outside the plan's folder" in err
+
+
+def test_a_good_bill_year_weather_file_passes_check_and_plan(tmp_path):
+    import shutil
+
+    import pvlib
+
+    p = _plan_naming(tmp_path, BILL_YEAR.format(name="bills.csv"))
+    # a TMY3 file shipped with pvlib (NREL TMY3 user's manual, Wilcox & Marion 2008, format)
+    shutil.copy(Path(pvlib.__file__).parent / "data" / "723170TYA.CSV", p.parent / "bills.csv")
+    assert run("check", str(p))[0] == 0
+    code, out, _ = run("plan", str(p))
+    assert code == 0 and "billed year's weather (bills.csv)" in out
+
+
 def test_plan_folder_resolves_inside_paths():
     folder = PlanFolder.of(ROOT / "sample_homes")
     assert folder.resolve("incentives/lakeshire_demo.yaml", ("x",), INCENTIVES).name == "lakeshire_demo.yaml"

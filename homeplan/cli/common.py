@@ -40,6 +40,8 @@ def input_files(loaded: LoadedPlan) -> list[Path]:
         (n, ("incentive_files", i), INCENTIVES) for i, n in enumerate(plan.incentive_files)]
     if plan.home.climate.weather_file:
         named.append((plan.home.climate.weather_file, ("home", "climate", "weather_file"), WEATHER))
+    if plan.usage is not None and plan.usage.weather_file:
+        named.append((plan.usage.weather_file, ("usage", "weather_file"), WEATHER))
     out = [loaded.path]
     for name, loc, kind in named:
         with contextlib.suppress(PlanRuleError):  # refused when it is read

@@ -14,7 +14,7 @@ from homeplan.plan.model import Plan
 from homeplan.plan.save import write_atomic
 from homeplan.plan.schema import plan_json_schema
 from homeplan.planner import candidates, lifecycle
-from homeplan.planner.basis import read_weather_file
+from homeplan.planner.basis import BILL_YEAR_WEATHER_KEY, read_weather_file
 from homeplan.planner.incentives import load_programs
 from homeplan.report.table import text_table, usd
 from homeplan.units import display_area, display_temp
@@ -40,6 +40,8 @@ def _check_files(loaded: LoadedPlan) -> None:
         load_programs(plan, loaded.folder)
         if plan.home.climate.weather_file:
             read_weather_file(loaded.folder, plan.home.climate.weather_file)
+        if plan.usage is not None and plan.usage.weather_file:
+            read_weather_file(loaded.folder, plan.usage.weather_file, BILL_YEAR_WEATHER_KEY)
     except PlanRuleError as err:
         raise loaded.locate(err) from None
 

@@ -70,6 +70,7 @@ def preflight(path: str | os.PathLike, allow: Iterable[str | os.PathLike] = (), 
     if isinstance(files, list):
         named += [(("incentive_files", i), f) for i, f in enumerate(files)]
     named.append((("home", "climate", "weather_file"), _get(doc, "home", "climate", "weather_file")))
+    named.append((("usage", "weather_file"), _get(doc, "usage", "weather_file")))
     for loc, file_name in named:
         if not isinstance(file_name, str):
             continue  # not a path: the model says so
