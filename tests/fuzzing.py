@@ -297,7 +297,8 @@ def run_command(argv: list[str]) -> Outcome:
             code: int | None = main(argv)
     except SystemExit as exc:  # argparse
         code = exc.code if isinstance(exc.code, int) else 2
-    except BaseException:  # noqa: BLE001 - a traceback is what the fuzz looks for
+    except Exception:  # noqa: BLE001 - a traceback is what the fuzz looks for
+        # (not BaseException: an interrupt, or the benchmark's alarm for a hang, goes to the caller)
         code = None
         trace = traceback.format_exc()
     return Outcome(argv[0], code, time.perf_counter() - start, err.getvalue(), trace,
