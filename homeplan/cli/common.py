@@ -13,24 +13,32 @@ from homeplan.errors import InputError, PlanRuleError, Problem
 from homeplan.plan.files import INCENTIVES, WEATHER, FileKind
 from homeplan.plan.load import LoadedPlan, load_plan
 from homeplan.planner.chain import plan_roadmap
+from homeplan.planner.context import PlannerCache
+from homeplan.planner.diskstore import default_store
 from homeplan.result.plan_result import PlanResult
 
-__all__ = ["input_files", "load_and_plan", "now_utc", "refuse_outputs_over_inputs"]
+__all__ = ["input_files", "load_and_plan", "now_utc", "planner_cache", "refuse_outputs_over_inputs"]
 
 
 def load_and_plan(path: str, values: Mapping[tuple, Any] | None = None, allow: Sequence[str] = (),
-                  outputs: Sequence[str] = (), force: bool = False) -> tuple[LoadedPlan, PlanResult]:
+                  outputs: Sequence[str] = (), force: bool = False,
+                  use_store: bool = True) -> tuple[LoadedPlan, PlanResult]:
     """Load a plan file, set command-line ``values`` (paths of keys), plan it.
 
     ``allow``: files outside the plan's folder the user lets it name. ``outputs``: files the
     command will write; one that is a file the command reads is refused unless ``force``.
     Every problem - in the file, in a value, or a rule the plan breaks - is an InputError located
-    in the file (exit code 2).
+    in the file (exit code 2). ``use_store`` False (``--no-cache``) keeps nothing on disk.
     """
     loaded = load_plan(path, allow=allow).with_values(values or {})
     if not force:
         refuse_outputs_over_inputs(loaded, outputs)
-    return loaded, plan_roadmap(loaded)
+    return loaded, plan_roadmap(loaded, cache=planner_cache(use_store))
+
+
+def planner_cache(use_store: bool = True) -> PlannerCache:
+    """A planner cache backed by the user's disk store (or by nothing with ``use_store`` False)."""
+    return PlannerCache(store=default_store() if use_store else None)
 
 
 def input_files(loaded: LoadedPlan) -> list[Path]:

@@ -52,7 +52,8 @@ def render_summary(result: PlanResult, fmt: str, today: dt.date | None = None) -
 def cmd_print(args) -> int:
     fmt = _format_for(args.output, args.format)
     outputs = [args.output] if args.output else []
-    _, result = load_and_plan(args.file, allow=args.allow_outside, outputs=outputs, force=args.force)
+    _, result = load_and_plan(args.file, allow=args.allow_outside, outputs=outputs, force=args.force,
+                              use_store=not args.no_cache)
     text = render_summary(result, fmt, today=now_utc().date())
     if args.output and args.output != "-":
         write_atomic(args.output, text, backup=False, replace_readonly=args.force)
@@ -68,7 +69,8 @@ def cmd_export(args) -> int:
     outputs = [o for o in (args.ics, args.json) if o]
     if args.csv:
         outputs += [str(Path(args.csv) / name) for name in CSV_NAMES]
-    _, result = load_and_plan(args.file, allow=args.allow_outside, outputs=outputs, force=args.force)
+    _, result = load_and_plan(args.file, allow=args.allow_outside, outputs=outputs, force=args.force,
+                              use_store=not args.no_cache)
     written: list[str] = []
     if args.csv:
         written += [str(p) for p in write_csv_dir(result, args.csv, hourly=args.hourly,
@@ -92,8 +94,8 @@ def cmd_diff(args) -> int:
         la, lb = load_plan(args.a, allow=args.allow_outside), load_plan(args.b, allow=args.allow_outside)
         road = None
     else:
-        la, ra = load_and_plan(args.a, allow=args.allow_outside)
-        lb, rb = load_and_plan(args.b, allow=args.allow_outside)
+        la, ra = load_and_plan(args.a, allow=args.allow_outside, use_store=not args.no_cache)
+        lb, rb = load_and_plan(args.b, allow=args.allow_outside, use_store=not args.no_cache)
         road = diff_roadmaps(ra.roadmap, rb.roadmap)
     inputs = diff_inputs(la.plan, lb.plan)
     say(render_diff(args.a, args.b, inputs, road, content_hash(la.plan), content_hash(lb.plan)), end="")

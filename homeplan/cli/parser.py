@@ -80,12 +80,17 @@ def build_parser() -> argparse.ArgumentParser:
     """The parser of every command (``args.command`` names the one given)."""
     p = _Parser(prog="homeplan", description="Plan a whole-home electrification, year by year.")
     p.add_argument("--version", action="version", version=f"homeplan {__version__}")
+    no_cache = ("do not read or keep the built-in weather year in the user's cache folder "
+                "(HOMEPLAN_CACHE_DIR, or the platform's user cache folder)")
+    p.add_argument("--no-cache", action="store_true", help=no_cache)
     sub = p.add_subparsers(dest="command", metavar="COMMAND", parser_class=_Parser)
 
     def command(name: str, help_: str, file: bool = True) -> argparse.ArgumentParser:
         sp = sub.add_parser(name, help=help_, description=help_)
         if file:
             sp.add_argument("file", help="plan file (YAML)")
+            # also after the command; SUPPRESS keeps the top-level value when it is not given
+            sp.add_argument("--no-cache", action="store_true", default=argparse.SUPPRESS, help=no_cache)
         return sp
 
     def allow_outside(sp: argparse.ArgumentParser) -> argparse.ArgumentParser:

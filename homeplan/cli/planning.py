@@ -29,11 +29,14 @@ def _overrides(args) -> dict[tuple, Any]:
 
 
 def cmd_plan(args) -> int:
-    loaded, result = load_and_plan(args.file, _overrides(args), allow=args.allow_outside)
+    loaded, result = load_and_plan(args.file, _overrides(args), allow=args.allow_outside,
+                                   use_store=not args.no_cache)
     rm = result.roadmap
     if args.json:
         data = rm.to_dict()
         data["warnings"] = list(result.warnings)
+        if result.solver is not None:
+            data["solver"] = result.solver.to_dict()
         say(json.dumps(data, indent=2))
         return 0
     say(f"Roadmap for {rm.plan_name}, {rm.first_year}-{rm.last_year} "
@@ -83,7 +86,7 @@ def cmd_plan(args) -> int:
 
 
 def cmd_capacity(args) -> int:
-    _, result = load_and_plan(args.file, allow=args.allow_outside)
+    _, result = load_and_plan(args.file, allow=args.allow_outside, use_store=not args.no_cache)
     if args.json:
         say(json.dumps([asdict(s) for s in result.capacity], indent=2, allow_nan=False))
         return 0
@@ -110,7 +113,7 @@ def cmd_capacity(args) -> int:
 
 
 def cmd_costs(args) -> int:
-    _, result = load_and_plan(args.file, allow=args.allow_outside)
+    _, result = load_and_plan(args.file, allow=args.allow_outside, use_store=not args.no_cache)
     rm = result.roadmap
     planned = {s.project_id: s for s in rm.steps}
     if args.json:

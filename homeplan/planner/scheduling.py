@@ -61,6 +61,7 @@ from homeplan.schedule.problem import (
 __all__ = [
     "COVER_PREFIX",
     "OBJECTIVE",
+    "PLAN_SOLVER",
     "ORDER_PREFIX",
     "Coefficients",
     "ScheduleOutcome",
@@ -378,11 +379,17 @@ def emergency_allowance(ctx: Context, co: dict[str, Coefficients]) -> float:
     return total
 
 
+PLAN_SOLVER = MilpSolver(time_limit_s=20.0, mip_rel_gap=1e-5, presolve=True)
+"""The solver settings plans use. Presolve on: measured faster on the sample homes' problems
+(20-60 ms against 20-100 ms without, benchmarks/bench_pipeline.py), with the presolve-off repeat
+of :class:`~homeplan.schedule.milp.MilpSolver` when an answer does not hold up; a 1e-5 relative
+gap is well below a dollar on these plans. Graded against exhaustive enumeration by
+benchmarks/bench_solver_agreement.py and tests/schedule/test_agreement.py."""
+
+
 def solve(problem: Problem) -> Solution:
-    """Solve with HiGHS. Presolve on: measured faster on the sample homes' problems (20-60 ms
-    against 20-100 ms without, benchmarks/bench_pipeline.py); a 1e-5 relative gap is well below
-    a dollar on these plans."""
-    return MilpSolver(time_limit_s=20.0, mip_rel_gap=1e-5, presolve=True).solve(problem)
+    """Solve with :data:`PLAN_SOLVER`."""
+    return PLAN_SOLVER.solve(problem)
 
 
 def work_order(ctx: Context, placed: dict[str, int]) -> list[str]:
@@ -445,6 +452,11 @@ def schedule(ctx: Context, capacity: CapacityModel, incentives: IncentiveModel) 
         solution2 = solve(problem2)
         if solution2.feasible:
             problem, solution, co, passes = problem2, solution2, co2, 2
+    if solution.status == "time_limit":
+        gap = solution.mip_gap
+        within = f" it is within {100 * gap:.2g} % of the best possible" if gap is not None and gap == gap else ""
+        notes.append(f"The search for the best order stopped at its {PLAN_SOLVER.time_limit_s:g} s limit;"
+                     f"{within or ' it may not be the best possible'}.")
     if not solution.feasible:
         return ScheduleOutcome(problem, solution, co, capacity, infeasibility=diagnose_infeasible(problem),
                                passes=passes, notes=tuple(notes))

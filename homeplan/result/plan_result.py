@@ -6,7 +6,8 @@ recomputes physics or money.
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from collections.abc import Callable
+from dataclasses import dataclass, field
 
 from homeplan.plan.model import Plan
 from homeplan.result.figures import (
@@ -30,7 +31,9 @@ class PlanResult:
 
     ``finance`` and ``solver`` are None when the request has no feasible roadmap;
     ``capacity_remedy`` names the project that makes room on the service (None: none needed);
-    ``hourly`` holds today's and the planned home's hourly electricity (for the CSV export).
+    ``hourly`` holds today's and the planned home's hourly electricity (for the CSV export):
+    it is computed on first use from ``hourly_source`` (only ``export --hourly`` needs it), or
+    given directly.
     """
 
     plan: Plan
@@ -47,7 +50,17 @@ class PlanResult:
     solver: SolverReport | None = None
     capacity_remedy: str | None = None
     solar_connection: str | None = None
-    hourly: tuple[HourlyProfile, ...] = ()
+    hourly_given: tuple[HourlyProfile, ...] = ()
+    hourly_source: Callable[[], tuple[HourlyProfile, ...]] | None = field(
+        default=None, repr=False, compare=False
+    )
+
+    @property
+    def hourly(self) -> tuple[HourlyProfile, ...]:
+        """Today's and the planned home's hourly electricity (8760 values each)."""
+        if self.hourly_source is not None:
+            return self.hourly_source()
+        return self.hourly_given
 
     def project(self, project_id: str) -> ProjectInfo | None:
         return next((p for p in self.projects if p.id == project_id), None)

@@ -98,12 +98,14 @@ class PlannerUnavailable(RuntimeError):
 class EnginePlanner:
     """The real planner, imported on first use (in the worker thread, after the first paint).
 
-    One per open plan: its ``PlannerCache`` keeps weather and per-home results between re-plans.
+    One per open plan: its ``PlannerCache`` keeps weather and per-home results between re-plans
+    (and, with ``use_store``, the built-in weather year in the user's cache folder between runs).
     """
 
-    def __init__(self) -> None:
+    def __init__(self, use_store: bool = True) -> None:
         self._run: Callable[..., PlanResult] | None = None
         self._cache: Any = None
+        self._use_store = use_store
 
     def __call__(self, plan: Plan, base_dir: PlanFolder) -> PlanResult:
         if self._run is None:
@@ -111,9 +113,11 @@ class EnginePlanner:
                 # the planner loads numpy, scipy, pvlib and networkx: after the first paint
                 from homeplan.planner.chain import plan_roadmap
                 from homeplan.planner.context import PlannerCache
+                from homeplan.planner.diskstore import default_store
             except ImportError as exc:
                 raise PlannerUnavailable(f"homeplan.planner could not be imported ({exc})") from None
-            self._run, self._cache = plan_roadmap, PlannerCache()
+            store = default_store() if self._use_store else None
+            self._run, self._cache = plan_roadmap, PlannerCache(store=store)
         return self._run(plan, base_dir=base_dir, cache=self._cache)
 
 
