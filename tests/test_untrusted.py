@@ -234,6 +234,24 @@ def test_a_good_bill_year_weather_file_passes_check_and_plan(tmp_path):
     assert code == 0 and "billed year's weather (bills.csv)" in out
 
 
+@pytest.mark.parametrize("command", ["check", "plan"])
+def test_the_meter_file_is_read_the_safe_way(tmp_path, command):
+    """usage.meter_file: a device, a file outside the folder or one that is not a meter file is
+    exit 2 at its line, and a line of a file that is not a meter file is never quoted."""
+    p = _plan_naming(tmp_path, "usage: {meter_file: meter.xml}\n")
+    line = 1 + MINIMAL.count("\n")
+    (p.parent / "meter.xml").symlink_to("/dev/zero")  # POSIX S_ISREG: a device is refused unread
+    code, _, err = run(command, str(p), "--allow-outside", "/dev/zero")
+    assert code == 2 and f"p.yaml:{line}:" in err and "is a device" in err
+    p.write_text(MINIMAL + "usage: {meter_file: ../meter.csv}\n")
+    code, _, err = run(command, str(p))
+    assert code == 2 and "outside the plan's folder" in err
+    (p.parent / "secret.txt").write_text("root:x:0:0:SECRET-MARKER:/root:/bin/bash\n")
+    p.write_text(MINIMAL + "usage: {meter_file: secret.txt}\n")
+    code, out, err = run(command, str(p))
+    assert code == 2 and "SECRET-MARKER" not in out + err and "Traceback" not in err
+
+
 def test_plan_folder_resolves_inside_paths():
     folder = PlanFolder.of(ROOT / "sample_homes")
     assert folder.resolve("incentives/lakeshire_demo.yaml", ("x",), INCENTIVES).name == "lakeshire_demo.yaml"

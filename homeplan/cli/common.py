@@ -6,18 +6,21 @@ import contextlib
 import datetime as dt
 import os
 from collections.abc import Mapping, Sequence
+from dataclasses import replace
 from pathlib import Path
 from typing import Any
 
 from homeplan.errors import InputError, PlanRuleError, Problem
-from homeplan.plan.files import INCENTIVES, WEATHER, FileKind
+from homeplan.plan.files import INCENTIVES, METER, WEATHER, FileKind
 from homeplan.plan.load import LoadedPlan, load_plan
 from homeplan.planner.chain import plan_roadmap
 from homeplan.planner.context import PlannerCache
 from homeplan.planner.diskstore import default_store
+from homeplan.planner.sensitivity import sensitivity
 from homeplan.result.plan_result import PlanResult
 
-__all__ = ["input_files", "load_and_plan", "now_utc", "planner_cache", "refuse_outputs_over_inputs"]
+__all__ = ["input_files", "load_and_plan", "now_utc", "planner_cache", "refuse_outputs_over_inputs",
+           "with_sensitivity"]
 
 
 def load_and_plan(path: str, values: Mapping[tuple, Any] | None = None, allow: Sequence[str] = (),
@@ -50,6 +53,8 @@ def input_files(loaded: LoadedPlan) -> list[Path]:
         named.append((plan.home.climate.weather_file, ("home", "climate", "weather_file"), WEATHER))
     if plan.usage is not None and plan.usage.weather_file:
         named.append((plan.usage.weather_file, ("usage", "weather_file"), WEATHER))
+    if plan.usage is not None and plan.usage.meter_file:
+        named.append((plan.usage.meter_file, ("usage", "meter_file"), METER))
     out = [loaded.path]
     for name, loc, kind in named:
         with contextlib.suppress(PlanRuleError):  # refused when it is read
@@ -70,6 +75,13 @@ def refuse_outputs_over_inputs(loaded: LoadedPlan, outputs: Sequence[str | os.Pa
                     raise InputError(Problem(str(out), 0, 0, f"this is {src}, a file this command reads; "
                                              "it was not overwritten", "write to another file, or add "
                                              "--force to replace it"))
+
+
+def with_sensitivity(loaded: LoadedPlan, result: PlanResult) -> PlanResult:
+    """The result with its sensitivity ranking (the home re-planned about twenty times)."""
+    if result.roadmap.status != "ok":
+        return result
+    return replace(result, sensitivity=sensitivity(loaded, result, cache=planner_cache()))
 
 
 def now_utc() -> dt.datetime:

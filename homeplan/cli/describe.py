@@ -9,6 +9,7 @@ from typing import TYPE_CHECKING
 
 from homeplan.cli.say import say
 from homeplan.errors import PlanRuleError
+from homeplan.plan.alternatives import options
 from homeplan.plan.load import LoadedPlan, load_plan
 from homeplan.plan.model import Plan
 from homeplan.plan.save import write_atomic
@@ -16,6 +17,7 @@ from homeplan.plan.schema import plan_json_schema
 from homeplan.planner import candidates, lifecycle
 from homeplan.planner.basis import BILL_YEAR_WEATHER_KEY, read_weather_file
 from homeplan.planner.incentives import load_programs
+from homeplan.planner.meter import read_meter
 from homeplan.report.table import text_table, usd
 from homeplan.units import display_area, display_temp
 
@@ -32,18 +34,25 @@ def _graph_checked(loaded: LoadedPlan) -> nx.DiGraph:
         raise loaded.locate(err) from None
 
 
-def _check_files(loaded: LoadedPlan) -> None:
-    """The files a plan names must be readable and hold valid data (incentives, weather), read
-    the way the planner reads them."""
+def _check_files(loaded: LoadedPlan) -> tuple[str, ...]:
+    """The files a plan names must be readable and hold valid data (incentives, weather, meter),
+    read the way the planner reads them; returns what the meter file tells, in words."""
     plan = loaded.plan
     try:
         load_programs(plan, loaded.folder)
+        _, reading = read_meter(plan, loaded.folder)
         if plan.home.climate.weather_file:
             read_weather_file(loaded.folder, plan.home.climate.weather_file)
         if plan.usage is not None and plan.usage.weather_file:
             read_weather_file(loaded.folder, plan.usage.weather_file, BILL_YEAR_WEATHER_KEY)
     except PlanRuleError as err:
         raise loaded.locate(err) from None
+    if reading is None:
+        return ()
+    m = reading.series
+    return (f"{reading.path.name}: {m.kwh.size:,} readings of {m.interval_s // 60} minutes over "
+            f"{m.span_days:.0f} days, {m.total_kwh:,.0f} kWh, highest {reading.peak_kw:.1f} kW",
+            *reading.notes)
 
 
 def plan_summary(plan: Plan, g: nx.DiGraph | None = None) -> str:
@@ -87,9 +96,16 @@ def plan_summary(plan: Plan, g: nx.DiGraph | None = None) -> str:
 def cmd_check(args) -> int:
     loaded = load_plan(args.file, allow=args.allow_outside)
     g = _graph_checked(loaded)
-    _check_files(loaded)
+    meter = _check_files(loaded)
+    named = options(loaded)[1:]  # each option validated, its problems located in the file
+    for _, opt in named:
+        _graph_checked(opt)
     say(f"{args.file}: ok")
     say(plan_summary(loaded.plan, g))
+    if named:
+        say(f"options: {', '.join(name for name, _ in named)} (compare them: homeplan compare {args.file})")
+    for line in meter:
+        say(f"  meter:      {line}")
     if loaded.migrated_from:
         say(f"note: migrated from plan format {loaded.migrated_from}; saving writes the new format")
     return 0

@@ -28,7 +28,7 @@ __all__ = [
 EXIT_OK, EXIT_FAILURE, EXIT_BAD_INPUT = 0, 1, 2
 EXIT_INTERRUPTED = 130  # 128 + SIGINT, as shells report Ctrl-C
 
-OBJECTIVES = ("npv", "emissions", "gas_off_early", "out_of_pocket")
+OBJECTIVES = ("npv", "emissions", "gas_off_early", "out_of_pocket", "risk_aware")
 
 COMMANDS: dict[str, tuple[str, str]] = {
     "check": ("describe", "cmd_check"),
@@ -38,10 +38,12 @@ COMMANDS: dict[str, tuple[str, str]] = {
     "plan": ("planning", "cmd_plan"),
     "capacity": ("planning", "cmd_capacity"),
     "costs": ("planning", "cmd_costs"),
+    "sensitivity": ("planning", "cmd_sensitivity"),
     "open": ("app", "cmd_open"),
     "print": ("outputs", "cmd_print"),
     "export": ("outputs", "cmd_export"),
     "diff": ("outputs", "cmd_diff"),
+    "compare": ("outputs", "cmd_compare"),
 }
 """Command -> (module in ``homeplan.cli``, function taking the parsed arguments)."""
 
@@ -126,6 +128,9 @@ def build_parser() -> argparse.ArgumentParser:
     json_flag(allow_outside(command("capacity", "electrical load calculation today and after each "
                                     "roadmap step")))
     json_flag(allow_outside(command("costs", "costs, incentives and net cost of each project by year")))
+    json_flag(allow_outside(command("sensitivity", "which assumptions move the net present value most "
+                                    "(each at a low and a high setting, the home re-planned; takes a "
+                                    "few seconds)")))
 
     sp = command("open", "open the plan in the terminal app (explore, edit, re-plan); "
                  "a FILE that does not exist yet starts the guided new-plan form", file=False)
@@ -137,6 +142,8 @@ def build_parser() -> argparse.ArgumentParser:
     sp.add_argument("-o", "--output", help="write to this file (.html, .md or .txt) instead of stdout")
     sp.add_argument("--format", choices=("txt", "md", "html"), help="output format (default: from the "
                     "file extension, else txt)")
+    sp.add_argument("--quick", action="store_true", help="leave out the sensitivity ranking (it re-plans "
+                    "the home about twenty times)")
     force(allow_outside(sp))
     sp = command("export", "export the roadmap as CSV files, an iCalendar file or JSON")
     sp.add_argument("--csv", metavar="DIR", help="write steps.csv, years.csv and monthly_energy.csv here")
@@ -150,6 +157,14 @@ def build_parser() -> argparse.ArgumentParser:
     sp.add_argument("b", help="the later plan file (YAML)")
     sp.add_argument("--inputs-only", action="store_true", help="compare the inputs only (no planning)")
     allow_outside(sp)
+    sp = command("compare", "lay options side by side: several plan files, and the named options "
+                 "(alternatives) inside them", file=False)
+    sp.add_argument("files", nargs="+", metavar="FILE", help="plan files (YAML); each brings its own options")
+    sp.add_argument("--json", action="store_true", help="print every option's roadmap as JSON")
+    sp.add_argument("-o", "--output", help="write a printable comparison (.html, .md or .txt)")
+    sp.add_argument("--format", choices=("txt", "md", "html"), help="output format (default: from the "
+                    "file extension, else txt)")
+    force(allow_outside(sp))
     missing = set(sub.choices) ^ set(COMMANDS)
     assert not missing, f"commands without a module or a parser: {sorted(missing)}"
     return p

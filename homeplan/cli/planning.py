@@ -3,18 +3,21 @@
 from __future__ import annotations
 
 import json
+import textwrap
 from dataclasses import asdict
 from typing import Any
 
 from homeplan import catalog
-from homeplan.cli.common import load_and_plan
+from homeplan.cli.common import load_and_plan, with_sensitivity
 from homeplan.cli.parser import EXIT_BAD_INPUT
 from homeplan.cli.say import say
 from homeplan.report.fmt import service_verdict
+from homeplan.report.risk import risk_lines, sensitivity_view
 from homeplan.report.table import text_table, usd
+from homeplan.report.text import tornado_text
 from homeplan.report.view import bill_fit_lines, emergency_lines
 
-__all__ = ["cmd_capacity", "cmd_costs", "cmd_plan"]
+__all__ = ["cmd_capacity", "cmd_costs", "cmd_plan", "cmd_sensitivity"]
 
 
 def _overrides(args) -> dict[tuple, Any]:
@@ -77,6 +80,11 @@ def cmd_plan(args) -> int:
         say("\nModel of today's home against your bills (planning estimate):")
         for line in fits:
             say(f"  {line}")
+    lines = risk_lines(rm)
+    if lines:
+        say("\nPrice risk:")
+        for line in lines:
+            say(textwrap.fill(line, 100, initial_indent="  ", subsequent_indent="  "))
     for w in result.warnings:
         say(f"note: {w}")
     say()
@@ -182,4 +190,29 @@ def cmd_costs(args) -> int:
         for u in result.programs:
             paid = ", ".join(f"{y}: {usd(v, 10)}" for y, v in u.paid_by_year.items())
             say(f"  {u.name} ({u.kind.replace('_', ' ')}): {paid}" + (f"; ends {u.ends}" if u.ends else ""))
+    return 0
+
+
+def cmd_sensitivity(args) -> int:
+    loaded, result = load_and_plan(args.file, allow=args.allow_outside)
+    if result.roadmap.status != "ok":
+        say(result.roadmap.infeasibility or "No plan meets every requirement.", err=True)
+        return EXIT_BAD_INPUT
+    result = with_sensitivity(loaded, result)
+    if args.json:
+        say(json.dumps(result.sensitivity.to_dict(), indent=2, allow_nan=False))
+        return 0
+    view = sensitivity_view(result)
+    say("What moves the net present value most: each assumption at a low and a high setting, the "
+          "home re-planned. Planning estimates.\n")
+    if view is None:
+        say("No assumption could be varied for this plan.")
+        return 0
+    for line in view.lines:
+        say(textwrap.fill(line, 100))
+    say()
+    say(tornado_text(view.base_usd, view.bars))
+    say()
+    say(text_table(list(view.table.headers), [list(r) for r in view.table.rows], view.table.align.replace("n", "l")))
+    say(textwrap.fill(view.table.note, 100))
     return 0

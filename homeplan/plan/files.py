@@ -32,6 +32,7 @@ from homeplan.errors import InputError, PlanRuleError, Problem
 
 __all__ = [
     "INCENTIVES",
+    "METER",
     "KINDS",
     "PLAN",
     "WEATHER",
@@ -65,7 +66,9 @@ INCENTIVES = FileKind("incentives", "incentive file", 1024 * 1024,
                       "an incentive file is a YAML list of programs; see docs/plan-format.md#incentives")
 WEATHER = FileKind("weather", "weather file", 8 * 1024 * 1024,
                    "use an EPW (.epw), TMY3 (.csv) or TMY2 (.tm2) file of one typical year")
-KINDS = {k.name: k for k in (PLAN, INCENTIVES, WEATHER)}
+METER = FileKind("meter", "meter file", 64 * 1024 * 1024,
+                 "use a Green Button file (XML or CSV) of interval readings from the utility")
+KINDS = {k.name: k for k in (PLAN, INCENTIVES, WEATHER, METER)}
 
 _NOT_REGULAR = (
     (stat.S_ISDIR, "is a folder"),

@@ -16,7 +16,7 @@ from pathlib import Path
 from typing import Any
 
 from homeplan.errors import InputError, PlanRuleError, Problem
-from homeplan.plan.files import INCENTIVES, PLAN, WEATHER, PlanFolder, decode_utf8, read_text
+from homeplan.plan.files import INCENTIVES, METER, PLAN, WEATHER, PlanFolder, decode_utf8, read_text
 from homeplan.plan.yamlread import INCENTIVE_LIMITS, PLAN_LIMITS, position, read_yaml
 
 __all__ = ["incentive_records", "not_incentive_file", "preflight"]
@@ -71,10 +71,11 @@ def preflight(path: str | os.PathLike, allow: Iterable[str | os.PathLike] = (), 
         named += [(("incentive_files", i), f) for i, f in enumerate(files)]
     named.append((("home", "climate", "weather_file"), _get(doc, "home", "climate", "weather_file")))
     named.append((("usage", "weather_file"), _get(doc, "usage", "weather_file")))
+    named.append((("usage", "meter_file"), _get(doc, "usage", "meter_file")))
     for loc, file_name in named:
         if not isinstance(file_name, str):
             continue  # not a path: the model says so
-        kind = INCENTIVES if loc[0] == "incentive_files" else WEATHER
+        kind = INCENTIVES if loc[0] == "incentive_files" else METER if loc[-1] == "meter_file" else WEATHER
         try:
             _, data = folder.read(file_name, loc, kind)
             named_text = decode_utf8(data, file_name, kind)

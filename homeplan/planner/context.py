@@ -43,6 +43,13 @@ __all__ = ["Context", "PlannerCache", "content_key"]
 
 T = TypeVar("T")
 
+# price settings the home's basis does not depend on (only today's prices enter the simulation):
+# changing them keeps the cached basis and states
+_NOT_IN_BASIS: dict[str, Any] = {
+    "inflation_pct": True, "fossil_extra_escalation_pct": True, "cost_level": True, "uncertainty": True,
+    **{f: {"escalation_pct"} for f in ("electricity", "gas", "propane", "oil", "gasoline", "diesel")},
+}
+
 
 def content_key(*parts: object) -> str:
     """A stable key for cached results: SHA-256 of the parts as sorted JSON."""
@@ -73,7 +80,7 @@ class PlannerCache:
                           [a.model_dump(mode="json") for a in plan.appliances],
                           [v.model_dump(mode="json") for v in plan.vehicles],
                           plan.usage.model_dump(mode="json") if plan.usage else None,
-                          plan.prices.model_dump(mode="json"), str(base_dir))
+                          plan.prices.model_dump(mode="json", exclude=_NOT_IN_BASIS), str(base_dir))
         with self._lock:
             hit = self._basis.get(key)
         if hit is None:

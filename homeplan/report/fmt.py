@@ -6,10 +6,12 @@ Text from a file is made safe by the one sanitiser, :func:`homeplan.plan.text.cl
 from __future__ import annotations
 
 import math
+from dataclasses import dataclass
 
 from homeplan.report.table import usd
 
 __all__ = [
+    "Table",
     "energy_key_words",
     "finite",
     "money",
@@ -21,6 +23,16 @@ __all__ = [
     "short",
     "tonnes",
 ]
+
+@dataclass(frozen=True)
+class Table:
+    """A small table of a printed view, already in words."""
+
+    headers: tuple[str, ...]
+    rows: tuple[tuple[str, ...], ...]
+    align: str            # per column: 'l' left, 'r' right (numbers), 'n' left and never wrapped
+    total: tuple[str, ...] | None = None        # a closing row, shown emphasised
+    note: str = ""
 
 
 def short(text: str, limit: int) -> str:

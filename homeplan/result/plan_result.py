@@ -21,6 +21,7 @@ from homeplan.result.figures import (
 )
 from homeplan.result.outlook import LifeOutlook
 from homeplan.result.roadmap import Roadmap
+from homeplan.result.sensitivity import Sensitivity
 
 __all__ = ["PlanResult"]
 
@@ -33,7 +34,9 @@ class PlanResult:
     ``capacity_remedy`` names the project that makes room on the service (None: none needed);
     ``hourly`` holds today's and the planned home's hourly electricity (for the CSV export):
     it is computed on first use from ``hourly_source`` (only ``export --hourly`` needs it), or
-    given directly.
+    given directly;
+    ``sensitivity`` ranks the assumptions that move the NPV most (None: not computed - it
+    re-plans the home some twenty times, so only the commands that show it ask for it).
     """
 
     plan: Plan
@@ -51,6 +54,7 @@ class PlanResult:
     capacity_remedy: str | None = None
     solar_connection: str | None = None
     hourly_given: tuple[HourlyProfile, ...] = ()
+    sensitivity: Sensitivity | None = None
     hourly_source: Callable[[], tuple[HourlyProfile, ...]] | None = field(
         default=None, repr=False, compare=False
     )
