@@ -42,6 +42,7 @@ DEFERRED = {
     ("homeplan.tui.app", "homeplan.planner.context"),
     ("homeplan.tui.app", "homeplan.planner.diskstore"),       # numpy
     ("homeplan.tui.widgets.base", "homeplan.planner.lifecycle"),  # numpy
+    ("homeplan.tui.app", "homeplan.planner.diskstore"),     # with the planner, after the first paint
 }
 
 

@@ -114,7 +114,7 @@ def test_outputs_never_replace_an_input(tmp_path):
     os.link(plan, tmp_path / "hard.ics")
     for argv in (["export", str(plan), "--json", str(plan)], ["export", str(plan), "--ics", str(tmp_path / "hard.ics")],
                  ["print", str(plan), "-o", str(tmp_path / "link.json"), "--format", "txt"],
-                 ["export", str(plan), "--json", str(tmp_path / "incentives" / "lakeshire_demo.yaml")]):
+                 ["export", str(plan), "--json", str(tmp_path / "incentives" / "demoland_invented.yaml")]):
         code, err = run(*argv)
         assert code == 2 and "a file this command reads" in err
     assert plan.read_text() == before

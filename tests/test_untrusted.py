@@ -254,7 +254,7 @@ def test_the_meter_file_is_read_the_safe_way(tmp_path, command):
 
 def test_plan_folder_resolves_inside_paths():
     folder = PlanFolder.of(ROOT / "sample_homes")
-    assert folder.resolve("incentives/lakeshire_demo.yaml", ("x",), INCENTIVES).name == "lakeshire_demo.yaml"
+    assert folder.resolve("incentives/demoland_invented.yaml", ("x",), INCENTIVES).name == "demoland_invented.yaml"
     with pytest.raises(OutsideFolderError):
         folder.resolve("../README.md", ("x",), INCENTIVES)
 

@@ -42,6 +42,10 @@ def rule_problems(plan: Plan) -> list[tuple[tuple, str, str]]:
             out.append((("appliances", i, "fuel"), f"homeplan cannot model {a.fuel} heating yet (it has no "
                         f"prices or bills for {a.fuel})", "leave a wood stove or furnace out of the plan; "
                         "list the heating that the household pays for"))
+        for old, new in (("seer", "seer2"), ("hspf", "hspf2"), ("eer", "eer2")):
+            if getattr(a, old) is not None and getattr(a, new) is not None:
+                out.append((("appliances", i, old), f"both {old} (a pre-2023 rating) and {new} are given",
+                            f"give the one on the equipment's label: {new} from 2023, {old} before"))
         if a.year_installed is not None and a.year_installed > first:
             out.append((("appliances", i, "year_installed"),
                         f"installed in {a.year_installed}, after the plan's first year {first}",

@@ -57,8 +57,8 @@ async def test_a_file_outside_the_folder_is_read_only_when_the_user_says_so(tmp_
     folder.mkdir()
     plan = folder / "home.yaml"
     plan.write_text((SAMPLES / "cold_gas_100a.yaml").read_text().replace(
-        "incentive_files: [incentives/lakeshire_demo.yaml]", "incentive_files: [../programs.yaml]"))
-    (tmp_path / "programs.yaml").write_text((SAMPLES / "incentives" / "lakeshire_demo.yaml").read_text())
+        "incentive_files: [incentives/demoland_invented.yaml]", "incentive_files: [../programs.yaml]"))
+    (tmp_path / "programs.yaml").write_text((SAMPLES / "incentives" / "demoland_invented.yaml").read_text())
     seen: list[PlanFolder] = []
 
     def planner(p, base_dir):  # the real pipeline, with the folder the app gives it
