@@ -7,29 +7,33 @@ not exist yet starts the guided new-plan form, which writes it.
 
 from __future__ import annotations
 
-import sys
 from pathlib import Path
 
 from homeplan.cli.parser import EXIT_BAD_INPUT
+from homeplan.cli.say import say
 from homeplan.errors import InputError
 from homeplan.tui.session import PlanSession
 
 __all__ = ["cmd_open", "run"]
 
 
-def run(path: str | None, light: bool | None = None, use_store: bool = True) -> int:
+def run(path: str | None, light: bool | None = None, allow: tuple[str, ...] = (),
+        use_store: bool = True) -> int:
     """Open ``path`` (or the new-plan form when it does not exist); returns an exit code.
+    ``allow``: files outside the plan's folder the user lets it name (``--allow-outside``).
     ``use_store`` False (``--no-cache``) keeps nothing in the user's cache folder."""
     session = None
     new_path = None
     if path is not None and Path(path).exists():
         try:
             session = PlanSession.open(path)
+            for outside in allow:
+                session.allow_outside(outside)
         except InputError as err:
             for problem in err.problems:
-                print(problem, file=sys.stderr)
-            print(f"{len(err.problems)} problem(s) found; fix the file and open it again "
-                  "(`homeplan check FILE` lists them too).", file=sys.stderr)
+                say(problem, err=True)
+            say(f"{len(err.problems)} problem(s) found; fix the file and open it again "
+                "(`homeplan check FILE` lists them too).", err=True)
             return EXIT_BAD_INPUT
     else:
         new_path = path
@@ -45,4 +49,5 @@ def run(path: str | None, light: bool | None = None, use_store: bool = True) -> 
 def cmd_open(args) -> int:
     """CLI entry: ``args.file`` (may not exist yet) and optional ``args.light``."""
     return run(getattr(args, "file", None), light=getattr(args, "light", None) or None,
+               allow=tuple(getattr(args, "allow_outside", None) or ()),
                use_store=not getattr(args, "no_cache", False))
