@@ -32,18 +32,20 @@ def _graph_checked(loaded: LoadedPlan) -> nx.DiGraph:
         raise loaded.locate(err) from None
 
 
-def _check_files(loaded: LoadedPlan) -> None:
+def _file_errors(loaded: LoadedPlan) -> list[PlanRuleError]:
     """The files a plan refers to must exist and hold valid data (incentives, weather)."""
     plan = loaded.plan
     base = loaded.base_dir
+    errors = []
     try:
         load_programs(plan, base)
-        wf = plan.home.climate.weather_file
-        if wf and not (Path(wf) if Path(wf).is_absolute() else base / wf).exists():
-            raise PlanRuleError(("home", "climate", "weather_file"), f"weather file not found: {wf}",
-                                "give a path relative to the plan file, or remove the key")
     except PlanRuleError as err:
-        raise loaded.locate(err) from None
+        errors.append(err)
+    wf = plan.home.climate.weather_file
+    if wf and not (Path(wf) if Path(wf).is_absolute() else base / wf).exists():
+        errors.append(PlanRuleError(("home", "climate", "weather_file"), f"weather file not found: {wf}",
+                                    "give a path relative to the plan file, or remove the key"))
+    return errors
 
 
 def plan_summary(plan: Plan, g: nx.DiGraph | None = None) -> str:
@@ -85,9 +87,19 @@ def plan_summary(plan: Plan, g: nx.DiGraph | None = None) -> str:
 
 
 def cmd_check(args) -> int:
+    """Every problem of the file at once: its shape and rules (the loader), the project ids its
+    choices name and the files it names."""
     loaded = load_plan(args.file)
-    g = _graph_checked(loaded)
-    _check_files(loaded)
+    errors = _file_errors(loaded)
+    try:
+        g = candidates.build_graph(loaded.plan)
+    except PlanRuleError as err:
+        errors.insert(0, err)
+    if errors:
+        try:
+            PlanRuleError.gather(errors)
+        except PlanRuleError as err:
+            raise loaded.locate(err) from None
     print(f"{args.file}: ok")
     print(plan_summary(loaded.plan, g))
     if loaded.migrated_from:

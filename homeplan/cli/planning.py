@@ -10,6 +10,7 @@ from typing import Any
 from homeplan import catalog
 from homeplan.cli.common import load_and_plan
 from homeplan.cli.parser import EXIT_BAD_INPUT
+from homeplan.plan.objectives import objective_words
 from homeplan.report.fmt import service_verdict
 from homeplan.report.table import text_table, usd
 from homeplan.report.view import emergency_lines
@@ -37,7 +38,7 @@ def cmd_plan(args) -> int:
         print(json.dumps(data, indent=2))
         return 0
     print(f"Roadmap for {rm.plan_name}, {rm.first_year}-{rm.last_year} "
-          f"(objective: {rm.objective.replace('_', ' ')}). Planning estimates.\n")
+          f"(aim: {objective_words(rm.objective).lower()}). Planning estimates.\n")
     for text in emergency_lines(rm):
         print(f"EMERGENCY: {text}\n")
     if rm.status != "ok":

@@ -14,7 +14,9 @@ from __future__ import annotations
 import datetime as dt
 from typing import Annotated, Any, Literal
 
-from pydantic import BaseModel, ConfigDict, Field, model_validator
+from pydantic import BaseModel, ConfigDict, Field, field_validator, model_validator
+
+from homeplan.plan.objectives import canonical
 
 __all__ = [
     "FORMAT_VERSION",
@@ -49,8 +51,9 @@ __all__ = [
     "Vehicle",
 ]
 
-FORMAT_VERSION = 1
-"""The plan file format this homeplan writes. Older files are migrated on load."""
+FORMAT_VERSION = 2
+"""The plan file format this homeplan writes. Older files are migrated on load
+(:mod:`homeplan.plan.migrate`); format 2 renamed the objectives."""
 
 Year = Annotated[int, Field(ge=1900, le=2100)]
 Pct = Annotated[float, Field(ge=0, le=100)]
@@ -457,11 +460,13 @@ class ProjectOption(Section):
         "existing (keep the fuel-burning furnace or boiler as a dual-fuel backup).")
 
 
-Objective = Literal["npv", "emissions", "gas_off_early", "out_of_pocket"]
+Objective = Literal["best_value", "lowest_emissions", "home_fuel_off_soonest", "least_out_of_pocket"]
+"""The keys of :data:`homeplan.plan.objectives.OBJECTIVES`."""
 
 
 class Choices(Section):
-    objective: Objective = "npv"
+    objective: Objective = Field("best_value", description="What the roadmap aims for (see "
+                                 "homeplan.plan.objectives); older spellings such as npv are read.")
     pins: dict[str, Year] = Field({}, description="Project id -> the year it must happen.")
     exclude: list[str] = Field([], description="Project ids to leave out.")
     require_before: dict[str, list[str]] = Field(
@@ -478,6 +483,11 @@ class Choices(Section):
         50, gt=0, lt=100, description="Replace an appliance by the year its failure risk reaches this."
     )
     failed_now: list[str] = Field([], description="Appliance ids to treat as failed this year.")
+
+    @field_validator("objective", mode="before")
+    @classmethod
+    def _older_objective_names(cls, value: Any) -> Any:
+        return canonical(value) if isinstance(value, str) else value
 
 
 # ---------------------------------------------------------------- the whole plan

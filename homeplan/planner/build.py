@@ -44,7 +44,13 @@ from homeplan.planner.context import Context
 from homeplan.planner.finance import plan_returns, project_returns, solar_hedge
 from homeplan.planner.incentives import AwardLine, IncentiveModel
 from homeplan.planner.projects import cost_in_year_usd
-from homeplan.planner.scheduling import COVER_PREFIX, ORDER_PREFIX, ScheduleOutcome, work_order
+from homeplan.planner.scheduling import (
+    COVER_PREFIX,
+    OBJECTIVE,
+    ORDER_PREFIX,
+    ScheduleOutcome,
+    work_order,
+)
 from homeplan.result.figures import (
     CapacityState,
     Finance,
@@ -68,6 +74,11 @@ class LoanFlows:
 
     borrowed: dict[int, float]
     payments: dict[int, float]
+
+
+def _objective_key(engine_name: str) -> str:
+    """The plan's name for the objective the scheduler used (one name everywhere)."""
+    return next((k for k, v in OBJECTIVE.items() if v == engine_name), engine_name)
 
 
 def project_infos(ctx: Context) -> tuple[ProjectInfo, ...]:
@@ -114,7 +125,7 @@ def build_result(ctx: Context, capacity: CapacityModel, incentives: IncentiveMod
     if not sol.feasible:
         roadmap = Roadmap(
             plan_name=plan.home.name or "home", first_year=ctx.first_year, horizon_years=T,
-            objective=outcome.problem.objective, status="infeasible",
+            objective=_objective_key(outcome.problem.objective), status="infeasible",
             infeasibility=outcome.infeasibility, cautions=(cautions_all["planning"],),
             assumptions=assumptions(ctx),
         )
@@ -188,7 +199,7 @@ def build_result(ctx: Context, capacity: CapacityModel, incentives: IncentiveMod
         cautions.append(cautions_all["code_edition"])
     roadmap = Roadmap(
         plan_name=plan.home.name or "home", first_year=ctx.first_year, horizon_years=T,
-        objective=outcome.problem.objective, steps=tuple(steps), years=tuple(years),
+        objective=_objective_key(outcome.problem.objective), steps=tuple(steps), years=tuple(years),
         milestones=milestones_of(ctx, done), baselines=baselines, npv_usd=round(npv, 2), status="ok",
         assumptions=assumptions(ctx), cautions=tuple(cautions), emergencies=emergencies,
     )

@@ -72,9 +72,9 @@ __all__ = [
     "work_order",
 ]
 
-OBJECTIVE = {"npv": "max_npv", "emissions": "min_emissions", "gas_off_early": "earliest_gas_closure",
-             "out_of_pocket": "min_out_of_pocket"}
-"""Plan-file objective -> scheduler objective."""
+OBJECTIVE = {"best_value": "max_npv", "lowest_emissions": "min_emissions",
+             "home_fuel_off_soonest": "earliest_gas_closure", "least_out_of_pocket": "min_out_of_pocket"}
+"""Plan-file objective -> the scheduler's own name for it (the result names it as the plan does)."""
 
 ORDER_PREFIX = "order:"
 COVER_PREFIX = "covered:"
@@ -291,8 +291,8 @@ def _target_notes(ctx: Context, implicit_target: bool) -> list[str]:
             notes.append(f"cars you plan to keep past {by} are not part of the fully-electric goal: "
                          + ", ".join(k.lower() for k in kept))
     if OBJECTIVE[ctx.plan.choices.objective] == "earliest_gas_closure" and _objective(ctx)[1] is None:
-        notes.append("objective 'gas_off_early': this home burns no gas, oil or propane; "
-                     "using best net present value instead")
+        notes.append("objective 'home fuel off soonest': this home burns no gas, oil or propane; "
+                     "aiming for the best value instead")
     return notes
 
 

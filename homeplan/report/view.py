@@ -20,6 +20,7 @@ from typing import Any
 from homeplan import __version__, catalog
 from homeplan.plan.fuels import BILL_FUELS, GASOLINE_VEHICLES, TANK_FUELS
 from homeplan.plan.hashing import content_hash
+from homeplan.plan.objectives import OBJECTIVES, objective_words
 from homeplan.report.fmt import (
     clean,
     energy_key_words,
@@ -443,10 +444,8 @@ def _assumptions(plan: Any, result: Any) -> list[tuple[str, str]]:
     for loan in b.loans:
         out.append(("Loan", f"{clean(loan.name)}: {money(loan.amount_usd)} at {pct(loan.rate_pct)} "
                     f"over {loan.term_years} years"))
-    out.append(("Goal", {"npv": "best value over the horizon", "emissions": "lowest emissions",
-                         "gas_off_early": "close the gas service early",
-                         "out_of_pocket": "lowest out-of-pocket cost"}.get(plan.choices.objective,
-                                                                           plan.choices.objective)))
+    goal = OBJECTIVES.get(plan.choices.objective)
+    out.append(("Goal", f"{objective_words(plan.choices.objective)}" + (f": {goal.meaning}" if goal else "")))
     out.append(("Costs without a quote", f"catalog {p.cost_level} installed prices"))
     if p.grid_kg_co2_per_kwh is not None:
         out.append(("Grid emissions", f"{p.grid_kg_co2_per_kwh:g} kg CO2e/kWh"))

@@ -24,6 +24,8 @@ from collections.abc import Iterable, Mapping
 from dataclasses import dataclass, field
 from typing import Any, Literal
 
+from homeplan.plan.objectives import canonical
+
 __all__ = [
     "SCHEMA_VERSION",
     "Baseline",
@@ -40,7 +42,7 @@ __all__ = [
     "YearTotals",
 ]
 
-SCHEMA_VERSION = "1.3"
+SCHEMA_VERSION = "1.4"
 """Version of the JSON produced by :meth:`Roadmap.to_dict`. Bump the minor part for added
 fields, the major part for renamed/removed fields or changed meaning."""
 
@@ -56,7 +58,9 @@ MilestoneKind = Literal[
 ]
 BaselineKind = Literal["do_nothing", "like_for_like"]
 Status = Literal["ok", "infeasible"]
-Objective = Literal["max_npv", "min_emissions", "earliest_gas_closure", "min_out_of_pocket"]
+Objective = Literal["best_value", "lowest_emissions", "home_fuel_off_soonest", "least_out_of_pocket"]
+"""As the plan file names it (homeplan.plan.objectives); schema 1.3 and older used max_npv,
+min_emissions, earliest_gas_closure and min_out_of_pocket, which :meth:`Roadmap.from_dict` reads."""
 
 
 def _tuple(items: Iterable[Any] | None) -> tuple[Any, ...]:
@@ -403,7 +407,7 @@ class Roadmap:
     plan_name: str
     first_year: int
     horizon_years: int
-    objective: Objective = "max_npv"
+    objective: Objective = "best_value"
     steps: tuple[Step, ...] = ()
     years: tuple[YearTotals, ...] = ()
     milestones: tuple[Milestone, ...] = ()
@@ -469,7 +473,7 @@ class Roadmap:
             plan_name=data["plan_name"],
             first_year=int(data["first_year"]),
             horizon_years=int(data["horizon_years"]),
-            objective=data.get("objective", "max_npv"),
+            objective=canonical(data.get("objective", "best_value")),
             steps=tuple(Step.from_dict(s) for s in data.get("steps", ())),
             years=tuple(YearTotals.from_dict(y) for y in data.get("years", ())),
             milestones=tuple(Milestone.from_dict(m) for m in data.get("milestones", ())),

@@ -25,6 +25,8 @@ from textual.worker import Worker, WorkerState
 
 from homeplan.errors import InputError, PlanRuleError
 from homeplan.plan.model import Fuel, Plan, VehicleFuel
+from homeplan.plan.objectives import OBJECTIVES as OBJECTIVE_INFO
+from homeplan.plan.objectives import objective_words
 from homeplan.plan.save import write_atomic
 from homeplan.tui import newplan
 from homeplan.tui.actions import VIEW_TABS, bindings, help_rows, palette_entries
@@ -66,12 +68,8 @@ VIEWS: tuple[tuple[str, str, type[View]], ...] = tuple(
     (vid, label, _VIEW_CLASSES[vid]) for vid, label in VIEW_TABS)
 """The views in tab order: id, label (from the key table) and widget class."""
 
-OBJECTIVES = (
-    ("Lowest lifetime cost", "npv"),
-    ("Lowest emissions", "emissions"),
-    ("Off gas soonest", "gas_off_early"),
-    ("Least out of pocket", "out_of_pocket"),
-)
+OBJECTIVES = tuple((o.label, key) for key, o in OBJECTIVE_INFO.items())
+"""(label, key) of each objective, for the settings form."""
 APPLIANCE_KINDS = ("furnace", "boiler", "central_ac", "room_ac", "heat_pump", "mini_split",
                    "baseboard", "water_heater", "range", "cooktop", "wall_oven", "dryer")
 FUELS: tuple[str, ...] = get_args(Fuel)
@@ -297,7 +295,7 @@ class HomeplanApp(App[int]):
             text.append("plan up to date")
         if s.dirty:
             text.append("  ● unsaved", style="bold")
-        objective = dict((v, k) for k, v in OBJECTIVES).get(plan.choices.objective, "")
+        objective = objective_words(plan.choices.objective)
         text.append(f"  │ {usd(plan.budget.usd_per_year)}/yr from {plan.first_year}, "
                     f"{plan.budget.horizon_years} yrs, {objective.lower()}")
         text.append(f"  │ {s.path.name}")

@@ -10,6 +10,8 @@ import json
 from collections.abc import Mapping
 from typing import Any
 
+from homeplan.plan.model import FORMAT_VERSION
+
 __all__ = ["FUEL_CHOICES", "HEATING", "SERVICE_AMPS", "new_plan_text"]
 
 HEATING = {
@@ -39,7 +41,7 @@ def new_plan_text(a: Mapping[str, Any]) -> str:
     """Plan file text from the form's answers (keys as in ``NEW_PLAN_FIELDS`` of the app)."""
     lines = ["# Plan written by homeplan's new-plan form. Edit it in the app or by hand;",
              "# anything not given here comes from the built-in catalog defaults.",
-             "format_version: 1", "home:"]
+             f"format_version: {FORMAT_VERSION}", "home:"]
     if a.get("name"):
         lines.append(f"  name: {_q(a['name'])}")
     loc = [f"latitude: {a['latitude']}", f"longitude: {a['longitude']}"]

@@ -19,6 +19,7 @@ from typing import Any
 
 from homeplan.errors import InputError
 from homeplan.plan.load import load_plan, parse_document, validate_document
+from homeplan.plan.migrate import upgrade_document
 from homeplan.plan.model import Plan
 from homeplan.plan.save import delete_in, dump_text, save_document, set_in
 
@@ -43,6 +44,8 @@ class PlanSession:
     def __init__(self, path: Path, document: Any, plan: Plan, migrated_from: int | None = None,
                  saved: bool = True):
         self.path = Path(path)
+        if migrated_from:  # saving writes the current format, the user's comments kept
+            upgrade_document(document, migrated_from)
         self.document = document
         self.plan = plan
         self.migrated_from = migrated_from
