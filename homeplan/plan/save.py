@@ -3,12 +3,13 @@
 The new text is written to a temporary file in the same directory, flushed and fsynced, then
 renamed over the target (atomic on POSIX); the directory is fsynced so the rename survives a
 power cut. The previous file is kept as ``NAME.bak``. A crash at any point leaves either the
-old file or the new one, never half of either.
+old file or the new one, never half of either. A new file gets the permissions the user's umask
+gives (or ``mode``, e.g. those of the plan it was saved from); an existing file keeps its own.
 
 References
 ----------
 POSIX.1-2017 rename(): "If the link named by the new argument exists, it shall be removed and
-old renamed to new ... atomic"; fsync(2).
+old renamed to new ... atomic"; open() with O_CREAT (the mode is modified by the umask); fsync(2).
 """
 
 from __future__ import annotations
@@ -16,8 +17,8 @@ from __future__ import annotations
 import contextlib
 import io
 import os
+import secrets
 import shutil
-import tempfile
 from pathlib import Path
 from typing import Any
 
@@ -39,15 +40,32 @@ def dump_text(document: Any) -> str:
     return buf.getvalue()
 
 
-def write_atomic(path: str | os.PathLike, text: str, backup: bool = True) -> Path:
-    """Write ``text`` to ``path`` atomically; keep the previous file as ``path.bak``."""
+def _new_temp(directory: Path, name: str) -> tuple[int, Path]:
+    """A new temporary file beside the target, created 0666 less the umask (as any new file)."""
+    while True:
+        tmp = directory / f".{name}.{secrets.token_hex(4)}.tmp"
+        try:
+            return os.open(tmp, os.O_WRONLY | os.O_CREAT | os.O_EXCL, 0o666), tmp
+        except FileExistsError:
+            continue
+
+
+def write_atomic(path: str | os.PathLike, text: str, backup: bool = True,
+                 mode: int | None = None) -> Path:
+    """Write ``text`` to ``path`` atomically; keep the previous file as ``path.bak``.
+
+    A new file gets ``mode`` when given, else the umask's permissions; an existing file keeps
+    its own.
+    """
     target = Path(path)
     directory = target.parent if str(target.parent) else Path(".")
     if not directory.is_dir():
         raise InputError(Problem(str(target), 0, 0, "the folder does not exist", "create it first"))
-    fd, tmp_name = tempfile.mkstemp(prefix=f".{target.name}.", suffix=".tmp", dir=directory)
+    fd, tmp_name = _new_temp(directory, target.name)
     try:
         with os.fdopen(fd, "w", encoding="utf-8", newline="\n") as fh:
+            if mode is not None and not target.exists():
+                os.fchmod(fh.fileno(), mode)
             fh.write(text)
             fh.flush()
             os.fsync(fh.fileno())
@@ -77,8 +95,10 @@ def _fsync_dir(directory: Path) -> None:
         os.close(fd)
 
 
-def save_document(path: str | os.PathLike, document: Any, backup: bool = True) -> Path:
-    return write_atomic(path, dump_text(document), backup=backup)
+def save_document(path: str | os.PathLike, document: Any, backup: bool = True,
+                  mode: int | None = None) -> Path:
+    """Write a round-trip document (see :func:`write_atomic`)."""
+    return write_atomic(path, dump_text(document), backup=backup, mode=mode)
 
 
 def set_in(document: Any, loc: tuple, value: Any) -> None:

@@ -56,6 +56,7 @@ __all__ = [
     "moved_steps",
     "new_plan_fields",
     "problem_words",
+    "saved_words",
 ]
 
 Planner = Callable[[Plan, Path], "PlanResult"]
@@ -123,6 +124,17 @@ def moved_steps(old: Roadmap | None, new: Roadmap) -> dict[str, int | None]:
                                   if before.get(pid) != y}
     out.update({pid: y for pid, y in before.items() if pid not in after})
     return out
+
+
+def saved_words(target: Path, backup: Path | None, rebased: list) -> str:
+    """What a save did, in words: the file, the backup only when one was written, the paths
+    rewritten for a new folder."""
+    text = f"Saved {target}"
+    text += f" (the previous version kept as {backup.name})." if backup is not None else "."
+    if rebased:
+        text += " File paths rewritten for the new folder: " + "; ".join(
+            f"{r.before} -> {r.after}" for r in rebased) + "."
+    return text
 
 
 def problem_words(err: InputError) -> str:
@@ -755,7 +767,9 @@ class HomeplanApp(App[int]):
         except OSError as err:
             return f"could not save: {err.strerror or err}"
         self._update_status()
-        self.notify(f"Saved {target} (previous version kept as {target.name}.bak)", timeout=4)
+        self.notify(saved_words(target, self.session.last_backup, self.session.last_rebased),
+                    timeout=6)
+        self.refresh_views(now=False)
         return None
 
     def action_save(self) -> None:

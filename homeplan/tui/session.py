@@ -12,6 +12,7 @@ from __future__ import annotations
 import contextlib
 import copy
 import os
+import stat
 from collections.abc import Sequence
 from dataclasses import dataclass
 from pathlib import Path
@@ -21,6 +22,7 @@ from homeplan.errors import InputError
 from homeplan.plan.load import load_plan, parse_document, validate_document
 from homeplan.plan.migrate import upgrade_document
 from homeplan.plan.model import Plan
+from homeplan.plan.relocate import Rebased, rebase_paths
 from homeplan.plan.save import delete_in, dump_text, save_document, set_in
 
 __all__ = ["DELETE", "PlanSession", "State", "check_new_plan"]
@@ -52,6 +54,8 @@ class PlanSession:
         self._states: list[State] = [State(copy.deepcopy(document), plan, "opened")]
         self._pos = 0
         self._saved_pos: int | None = 0 if saved else None
+        self.last_backup: Path | None = None
+        self.last_rebased: list[Rebased] = []
 
     # ------------------------------------------------------------------ opening
 
@@ -148,12 +152,44 @@ class PlanSession:
     # ------------------------------------------------------------------ saving
 
     def save(self, path: str | os.PathLike | None = None) -> Path:
-        """Write atomically (previous file kept as .bak); ``path`` saves as a new file."""
+        """Write atomically (the previous file kept as .bak); ``path`` saves as a new file.
+
+        Saved in another folder, the plan's relative file paths are rewritten to name the same
+        files from there, in every state of the history (so undo keeps them right); a new file
+        gets the permissions of the file the plan was opened from. ``last_backup`` is the .bak
+        written (None when there was no file to keep) and ``last_rebased`` the rewritten paths.
+        """
         target = Path(path) if path is not None else self.path
-        save_document(target, self.document)
+        rebased: list[Rebased] = []
+        new_dir = target.parent if str(target.parent) else Path(".")
+        if os.path.abspath(new_dir) != os.path.abspath(self.base_dir):
+            rebased = self._rebase_all(new_dir)
+        try:
+            mode = stat.S_IMODE(os.stat(self.path).st_mode)
+        except OSError:
+            mode = None  # a new plan: the umask decides
+        existed = target.exists()
+        save_document(target, self.document, mode=mode)
         self.path = target
         self._saved_pos = self._pos
+        self.last_backup = target.with_name(target.name + ".bak") if existed else None
+        self.last_rebased = rebased
         return target
+
+    def _rebase_all(self, new_dir: Path) -> list[Rebased]:
+        """Rewrite relative file paths for ``new_dir`` in the current document and the history."""
+        old_dir = self.base_dir
+        done = rebase_paths(self.document, old_dir, new_dir)
+        if not done:
+            return []
+        for i, state in enumerate(self._states):
+            doc = state.document if i != self._pos else self.document
+            if i != self._pos:
+                rebase_paths(doc, old_dir, new_dir)
+            plan, _ = validate_document(doc, str(self.path))
+            self._states[i] = State(doc, plan, state.what)
+        self.plan = self._states[self._pos].plan
+        return done
 
 
 def _prune_empty(doc: Any, locs: Sequence[tuple]) -> None:
