@@ -17,6 +17,7 @@ from typing import Any
 
 __all__ = [
     "CostRange",
+    "GlossaryTerm",
     "LikeForLike",
     "ReferenceClimate",
     "ServiceLife",
@@ -27,6 +28,7 @@ __all__ = [
     "cautions",
     "condition_factors",
     "existing_load_row",
+    "glossary",
     "like_for_like_cost",
     "like_for_like_table",
     "performance",
@@ -283,3 +285,20 @@ def reference_climates() -> tuple[ReferenceClimate, ...]:
                          float(r["cloudiness"]), r["source"])
         for r in rows
     )
+
+
+@dataclass(frozen=True)
+class GlossaryTerm:
+    """A term of the trade: the plain words screens use instead, and its explanation."""
+
+    term: str
+    plain: str
+    text: str
+    source: str
+
+
+@cache
+def glossary() -> tuple[GlossaryTerm, ...]:
+    """The glossary (data/glossary.yaml), in its order."""
+    return tuple(GlossaryTerm(r["term"], r["plain"], " ".join(r["text"].split()), r["source"])
+                 for r in _yaml_data("glossary.yaml"))

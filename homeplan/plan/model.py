@@ -20,6 +20,7 @@ from homeplan.plan.objectives import canonical
 
 __all__ = [
     "FORMAT_VERSION",
+    "Advisor",
     "Appliance",
     "Budget",
     "Choices",
@@ -77,6 +78,42 @@ class Provenance(Section):
     date: dt.date | None = Field(None, description="Date the plan was prepared (YYYY-MM-DD).")
     tool_version: str | None = Field(None, description="homeplan version that wrote the file.")
     notes: str | None = Field(None, description="Free text for the other party.")
+
+
+class Advisor(Section):
+    """The advisor or contractor who prepared the plan: printed as a block on the summary, with
+    the quote's date and how long it holds."""
+
+    company: str | None = Field(None, description="Company name.")
+    name: str | None = Field(None, description="The person to contact.")
+    license_number: str | None = Field(None, description="Contractor or trade license number.")
+    phone: str | None = None
+    email: str | None = None
+    website: str | None = None
+    address: str | None = None
+    quote_date: dt.date | None = Field(None, description="Date of the quote (YYYY-MM-DD).")
+    quote_valid_days: int | None = Field(None, ge=1, le=730, description="Days the quote holds.")
+    quote_valid_until: dt.date | None = Field(None, description="Last day the quote holds.")
+
+    @model_validator(mode="after")
+    def _one_validity(self) -> Advisor:
+        if self.quote_valid_days is not None and self.quote_valid_until is not None:
+            raise ValueError("give quote_valid_days or quote_valid_until, not both: keep one")
+        if self.quote_valid_days is not None and self.quote_date is None:
+            raise ValueError("quote_valid_days counts from quote_date: add quote_date")
+        if (self.quote_valid_until is not None and self.quote_date is not None
+                and self.quote_valid_until < self.quote_date):
+            raise ValueError("quote_valid_until is before quote_date: check the dates")
+        return self
+
+    @property
+    def valid_until(self) -> dt.date | None:
+        """The last day the quote holds (from the date and the days, or as given)."""
+        if self.quote_valid_until is not None:
+            return self.quote_valid_until
+        if self.quote_date is not None and self.quote_valid_days is not None:
+            return self.quote_date + dt.timedelta(days=self.quote_valid_days)
+        return None
 
 
 class Display(Section):
@@ -498,6 +535,7 @@ class Plan(Section):
 
     format_version: int = Field(FORMAT_VERSION, description="Plan file format version.")
     provenance: Provenance = Provenance()
+    advisor: Advisor | None = Field(None, description="Who prepared the plan (printed as a block).")
     display: Display = Display()
     home: Home
     appliances: list[Appliance] = []

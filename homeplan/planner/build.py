@@ -61,6 +61,7 @@ from homeplan.result.figures import (
 from homeplan.result.plan_result import PlanResult
 from homeplan.result.roadmap import Emergency, IncentiveLine, Milestone, Roadmap, Step, YearTotals
 from homeplan.schedule.problem import evaluate
+from homeplan.units import BTUH_PER_TON, heat_output_words
 
 __all__ = ["assumptions", "build_result", "hourly_profiles", "milestones_of", "project_infos"]
 
@@ -420,7 +421,8 @@ def _heat_pump_sizing(ctx: Context, done: dict[str, int], pid: str) -> str:
     hours = state.summary.backup_heat_hours
     design = ctx.basis.design_load_btuh
     t = ctx.basis.weather.heating_design_f
-    text = f"sized {d.size:g} t for a {design:,.0f} Btu/h heating load at {t:.0f} F"
+    text = (f"sized at {heat_output_words(d.size * BTUH_PER_TON)} for the home's heat loss of "
+            f"{heat_output_words(design)} on a {t:.0f} F design day")
     kept = dual_fuel_backup(ctx.plan) if d.backup_kind == "existing" else None
     if kept is not None:
         fuel = appliance_fuel(kept)
@@ -432,8 +434,8 @@ def _heat_pump_sizing(ctx: Context, done: dict[str, int], pid: str) -> str:
     if hours and not d.backup_kw:
         text += f"; about {hours} hours a year colder than it can carry alone (keep a backup plan)"
     elif hours:
-        what = "electric heaters" if d.backup_kind == "heaters" else "backup strips"
-        text += f"; its {d.backup_kw:g} kW {what} run about {hours} hours a year"
+        what = "electric heaters" if d.backup_kind == "heaters" else "backup electric heat"
+        text += f"; its {what} ({d.backup_kw:g} kW) would run about {hours} hours a year"
     return text
 
 

@@ -200,8 +200,8 @@ def build_problem(ctx: Context, co: dict[str, Coefficients], capacity: CapacityM
             undone_penalty_usd=penalty, excluded=pid in plan.choices.exclude or pid in capacity.excluded,
             earliest_year=earliest, latest_year=latest,
             pinned_year=None if pid in urgent else plan.choices.pins.get(pid),
-            window_reason=(f"{item or 'the old one'} reaches {plan.choices.replace_at_risk_pct:.0f} % "
-                           "failure risk") if latest else "",
+            window_reason=_window_reason(item, latest, delay, plan.choices.replace_at_risk_pct,
+                                         cumulative, ctx.first_year),
             capacity_use=max(capacity.use.get(pid, 0.0), 0.0),
             capacity_provided=capacity.provided.get(pid, 0.0) + max(-capacity.use.get(pid, 0.0), 0.0),
             spaces_use=float(max(breaker_spaces(ctx, d, capacity), 0)),
@@ -256,6 +256,21 @@ def build_problem(ctx: Context, co: dict[str, Coefficients], capacity: CapacityM
         targets=tuple(targets), objective=objective, objective_project=objective_project,
         exclusive_groups=tuple(exclusive), followups=tuple(followups),
     )
+
+
+def _window_reason(item: str, latest: int | None, delay: int | None, risk_pct: float,
+                   cumulative: list[float], first_year: int) -> str:
+    """Why a replacement comes no later than ``latest``: the old one reaches the plan's failure
+    risk; when the budget forced a later year than that (``delay``), the risk it has reached by
+    then, so the reason never quotes a year the roadmap has already passed."""
+    if not latest:
+        return ""
+    name = item or "the old one"
+    t = latest - first_year
+    if delay and 0 <= t < len(cumulative) and cumulative[t] > 0:
+        return (f"{name} gets any older: the budget could not replace it at {risk_pct:.0f} % "
+                f"failure risk, and by {latest} it is {cumulative[t] * 100:.0f} %")
+    return f"{name} reaches {risk_pct:.0f} % failure risk"
 
 
 def _objective(ctx: Context) -> tuple[str, str | None]:

@@ -68,7 +68,7 @@ LABELS: dict[Path, str] = {
     ("home", "name"): "home name",
 }
 # Sections that cannot change a roadmap: listed, but never offered as a "because".
-NO_EFFECT = ("provenance", "display", "format_version")
+NO_EFFECT = ("provenance", "advisor", "display", "format_version")
 _UNIT_SUFFIXES = ("_usd", "_pct", "_ft2", "_btuh", "_kwh", "_kw", "_amps", "_gal", "_kg", "_deg",
                   "_f", "_v", "_va")
 _IDENTITY = ("id", "name", "kind")

@@ -61,3 +61,16 @@ async def settle(pilot) -> None:
         if not app.planning:
             break
     await pilot.pause()
+
+
+async def form_ready(pilot) -> None:
+    """Wait until the open form's choice lists have mounted (on a loaded machine a key pressed
+    sooner can close the form while they are still mounting)."""
+    from textual.widgets import Select
+    from textual.widgets._select import SelectOverlay
+
+    for _ in range(50):
+        selects = list(pilot.app.screen.query(Select))
+        if all(s.query(SelectOverlay) and s.query_one(SelectOverlay).option_count for s in selects):
+            return
+        await pilot.pause(0.05)

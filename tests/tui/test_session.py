@@ -82,7 +82,8 @@ def test_save_is_atomic_with_backup(plan_file: Path, tmp_path: Path):
 def test_new_plan_text_validates_for_every_heating_choice():
     base = dict(name='A "quoted" home', latitude=40.0, longitude=-75.0, floor_area_ft2=1500,
                 service_amps=100, water_heater_fuel="gas", range_fuel="electric",
-                dryer_fuel="none", cars=2, usd_per_year=5000, first_year=2027, horizon_years=12)
+                dryer_fuel="none", cars="Blue sedan, Work truck", usd_per_year=5000,
+                first_year=2027, horizon_years=12, timezone="America/New_York")
     for heating in newplan.HEATING:
         text = newplan.new_plan_text({**base, "heating": heating, "central_ac": True})
         plan = load_plan_text(text, "new.yaml").plan
@@ -90,6 +91,8 @@ def test_new_plan_text_validates_for_every_heating_choice():
         assert kinds[0] == newplan.HEATING[heating][0]
         assert ("central_ac" in kinds) == (heating != "heat_pump")
         assert plan.home.name == 'A "quoted" home' and len(plan.vehicles) == 2
+        assert [(v.id, v.name) for v in plan.vehicles] == [("blue_sedan", "Blue sedan"),
+                                                            ("work_truck", "Work truck")]
         assert plan.budget.horizon_years == 12
 
 
@@ -105,9 +108,12 @@ def test_form_values_parse_as_people_type_them():
 
 
 def test_money_is_rounded_to_what_matters():
-    # TUI.md: "$12,400, not $12,391.87"
-    assert usd(12391.87) == "$12,400" and usd(-1234) == "-$1,230" and usd(0) == "$0"
-    assert kusd(6240) == "6.2k" and kusd(23456) == "23k" and kusd(20) == "0" and kusd(-950) == "-950"
+    # TUI.md: "$12,400, not $12,391.87"; the app rounds as the printout does (one figure, one
+    # value): nearest $10 under $1,000, nearest $100 above; compact cells agree and never show a
+    # non-zero amount as 0
+    assert usd(12391.87) == "$12,400" and usd(-1234) == "-$1,200" and usd(0) == "$0"
+    assert kusd(6240) == "6.2k" and kusd(23456) == "23k" and kusd(20) == "20" and kusd(-950) == "-950"
+    assert kusd(4) == "0" and usd(4) == "$0"
 
 
 def test_only_the_tui_imports_textual():

@@ -9,6 +9,7 @@ from textual.app import ComposeResult
 from textual.containers import VerticalScroll
 from textual.widgets import DataTable, Static
 
+from homeplan.report.words import caps_words
 from homeplan.tui.actions import bindings
 from homeplan.tui.format import ESTIMATES, kusd, trunc, usd
 from homeplan.tui.widgets.base import View, ViewData, banner_text
@@ -30,8 +31,8 @@ def program_details(p: ProgramUse) -> Text:
         out.append(" - " + ", ".join(years))
     out.append(".\n")
     if p.caps_note:
-        out.append(f"Caps: {p.caps_note}\n")
-    out.append(f"Ends: {p.ends}\n" if p.ends else "No end date announced.\n")
+        out.append(f"How much it pays: {caps_words(p.caps_note)}\n")
+    out.append(f"Closes: {p.ends}\n" if p.ends else "No closing date announced.\n")
     return out
 
 

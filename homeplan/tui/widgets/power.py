@@ -11,6 +11,7 @@ from textual.widgets import DataTable, Static
 
 from homeplan.catalog import cautions
 from homeplan.report.fmt import service_verdict
+from homeplan.report.words import load_words
 from homeplan.tui.format import num, trunc
 from homeplan.tui.widgets.base import View, ViewData, banner_text
 
@@ -39,12 +40,14 @@ def state_details(state: CapacityState, width: int) -> Text:
         return out
     name_w = max(18, min(40, width - 44))
     prefix = " ".join(state.method.split()[:2]) + " "  # "NEC 2023 "
-    out.append(f"{'Load':<{name_w}} {'VA':>8} {'factor':>7} {'counted':>9}  section\n",
+    out.append("Each load in VA (volt-amperes, about watts); the code counts a share of some.\n",
+               style="italic")
+    out.append(f"{'Load':<{name_w}} {'rated':>8} {'share':>7} {'counted':>9}  code section\n",
                style="bold")
     for r in state.rows:
-        factor = "" if r.factor is None else f"{r.factor:.2f}"
+        factor = "" if r.factor is None else f"{r.factor * 100:.0f} %"
         counted = "" if r.counted_va is None else f"{r.counted_va:,.0f}"
-        out.append(f"{trunc(r.name, name_w):<{name_w}} {r.va:>8,.0f} {factor:>7} "
+        out.append(f"{trunc(load_words(r.name), name_w):<{name_w}} {r.va:>8,.0f} {factor:>7} "
                    f"{counted:>9}  {r.section.removeprefix(prefix)}\n")
     out.append(f"{'Total':<{name_w}} {'':>8} {'':>7} {state.total_va:>9,.0f}  "
                f"= {state.amps:.0f} A on a {state.service_amps:.0f} A service: "
