@@ -138,6 +138,7 @@ class UpgradeKind:
     milestone: bool = False
     fuel: str | None = None
     provides_amps: int | None = None
+    short: str = ""       # a short name for narrow screens ("" = the label is short enough)
     extra: dict[str, Any] = field(default_factory=dict)
 
     def variant(self, variant_id: str | None) -> Variant | None:
@@ -151,7 +152,7 @@ class UpgradeKind:
         raise KeyError(variant_id)
 
 
-_KNOWN = {"label", "category", "size_unit", "life_years", "life_source", "cost", "cost_change",
+_KNOWN = {"label", "short", "category", "size_unit", "life_years", "life_source", "cost", "cost_change",
           "replaces", "variants", "requires", "better_before", "cautions", "capacity_load",
           "capacity_remedy", "backfeed", "milestone", "fuel", "provides_amps"}
 
@@ -181,6 +182,7 @@ def upgrade_kinds() -> dict[str, UpgradeKind]:
             milestone=bool(raw.get("milestone", False)),
             fuel=raw.get("fuel"),
             provides_amps=raw.get("provides_amps"),
+            short=str(raw.get("short") or ""),
             extra={k: v for k, v in raw.items() if k not in _KNOWN},
         )
     return out

@@ -96,9 +96,9 @@ def test_final_state_counts_every_planned_load():
 
     from .conftest import ROOT
 
-    plan = load_plan(ROOT / "sample_homes" / "cold_gas_100a.yaml").plan
+    plan = load_plan(ROOT / "sample_homes" / "newer_ac_small_solar.yaml").plan
     result = plan_roadmap(plan, ROOT / "sample_homes")
-    assert result.capacity_remedy is None  # this sample needs no remedy (checked above)
+    assert result.capacity_remedy is None  # this sample keeps its service (no 220.82 new service)
     kinds = catalog.upgrade_kinds()
     loads = existing_loads(plan)
     for step in result.roadmap.steps:

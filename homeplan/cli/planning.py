@@ -13,7 +13,7 @@ from homeplan.cli.parser import EXIT_BAD_INPUT
 from homeplan.plan.objectives import objective_words
 from homeplan.report.fmt import money, service_verdict
 from homeplan.report.table import text_table
-from homeplan.report.view import comparison_lines, emergency_lines, payback_words
+from homeplan.report.view import bill_fit_lines, comparison_lines, emergency_lines, payback_words
 from homeplan.report.words import load_words
 
 __all__ = ["cmd_capacity", "cmd_costs", "cmd_plan"]
@@ -73,6 +73,11 @@ def cmd_plan(args) -> int:
         print(f"{what}: {value} ({means})")
     print(f"  (net present value at {rate:g} %: bill savings, minus spending net of incentives, plus the "
           f"breakdown repairs avoided and the equipment's remaining value at the end{irr})")
+    fits = bill_fit_lines(rm)
+    if fits:
+        print("\nModel of today's home against your bills (planning estimate):")
+        for line in fits:
+            print(f"  {line}")
     for w in result.warnings:
         print(f"note: {w}")
     print()

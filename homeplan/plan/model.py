@@ -347,6 +347,13 @@ class ElectricUsage(Section):
     monthly_kwh: list[Annotated[float, Field(ge=0)]] | None = Field(
         None, min_length=12, max_length=12, description="January to December."
     )
+    bills_show: Literal["used", "net", "bought"] | None = Field(
+        None,
+        description="What the kWh on the bills are when the home has solar: 'net' (bought minus "
+        "sent back, as under net metering), 'bought' (only what came from the grid; what was sent "
+        "back is credited apart) or 'used' (the home's whole use). Without solar they are 'used'; "
+        "with solar and no answer, 'net' is assumed.",
+    )
 
 
 class GasUsage(Section):
@@ -367,6 +374,11 @@ class Usage(Section):
     """Energy use from the household's bills; used to calibrate the model."""
 
     year: Year | None = None
+    weather_file: str | None = Field(
+        None,
+        description="EPW or TMY3-format file of the weather during the billed year, relative to "
+        "the plan file; the bills are then weather-normalised to the typical year.",
+    )
     electricity: ElectricUsage | None = None
     gas: GasUsage | None = None
     propane: GallonUsage | None = None

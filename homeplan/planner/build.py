@@ -21,6 +21,7 @@ from dataclasses import dataclass, replace
 from typing import Any
 
 from homeplan import catalog
+from homeplan.energy.selection import HeatPumpSelection
 from homeplan.money.finance import Loan, discount_factor, loan_schedule, remaining_value_share
 from homeplan.plan.fuels import BILL_FUELS, HOME_FUELS, appliance_fuel
 from homeplan.plan.hashing import content_hash
@@ -51,6 +52,7 @@ from homeplan.planner.scheduling import (
     ScheduleOutcome,
     work_order,
 )
+from homeplan.planner.states import peak_fields
 from homeplan.result.figures import (
     CapacityState,
     Finance,
@@ -128,7 +130,7 @@ def build_result(ctx: Context, capacity: CapacityModel, incentives: IncentiveMod
             plan_name=plan.home.name or "home", first_year=ctx.first_year, horizon_years=T,
             objective=_objective_key(outcome.problem.objective), status="infeasible",
             infeasibility=outcome.infeasibility, cautions=(cautions_all["planning"],),
-            assumptions=assumptions(ctx),
+            assumptions=assumptions(ctx), calibration=ctx.basis.bill_fits,
         )
         today_cap = state_capacity(ctx, capacity, set(), "today", None)
         return PlanResult(plan, roadmap, outlooks, infos, (today_cap,), base_energy.summary,
@@ -168,6 +170,7 @@ def build_result(ctx: Context, capacity: CapacityModel, incentives: IncentiveMod
             service_headroom_amps=round(cap.headroom_amps, 1),
             energy={k: round(v, 1) for k, v in state.units.items()},
             service_load_pct=cap.load_pct, service_near_limit=cap.near_limit,
+            **peak_fields(state),
         ))
         npv += discount_factor(rate, t) * (savings - (net - borrowed + pay))
     # incentives arriving after the horizon and loan payments still due are part of the plan
@@ -203,6 +206,7 @@ def build_result(ctx: Context, capacity: CapacityModel, incentives: IncentiveMod
         objective=_objective_key(outcome.problem.objective), steps=tuple(steps), years=tuple(years),
         milestones=milestones_of(ctx, done), baselines=baselines, npv_usd=round(npv, 2), status="ok",
         assumptions=assumptions(ctx), cautions=tuple(cautions), emergencies=emergencies,
+        calibration=ctx.basis.bill_fits,
     )
     capacity_states = _capacity_states(ctx, capacity, done, by_year, today_cap, notes_out)
     return PlanResult(
@@ -269,9 +273,18 @@ def _steps(ctx: Context, capacity: CapacityModel, outcome: ScheduleOutcome, done
             net_cost_usd=round(cost - sum(i.amount_usd for i in lines), 2),
             reasons=tuple(extra_reasons),
             cautions=tuple(cautions_all[c] for c in caution_ids if c in cautions_all),
-            replaces=d.candidate.replaces,
+            replaces=d.candidate.replaces, **_sizing_fields(d.sizing),
         ))
     return steps
+
+
+def _sizing_fields(sel: HeatPumpSelection | None) -> dict[str, float]:
+    """The heat pump step's loads and capacity for the roadmap JSON (nothing for other steps)."""
+    if sel is None:
+        return {}
+    return {"heating_load_btuh": round(sel.heating_load_btuh), "cooling_load_btuh": round(sel.cooling_load_btuh),
+            "capacity_at_design_btuh": round(sel.capacity_at_design_btuh),
+            "nominal_tons": sel.nominal_tons}
 
 
 def _burns_fuel_during(ctx: Context, placed: dict[str, int], year: int) -> bool:
@@ -414,15 +427,26 @@ def loan_flows(ctx: Context, outcome: ScheduleOutcome,
     return LoanFlows(borrowed, payments)
 
 
+def sizing_words(sel: HeatPumpSelection) -> str:
+    """How a heat pump was sized, in words: its size, the loads, its heat at the design
+    temperature and its cooling against the cooling load."""
+    text = (f"sized at {heat_output_words(sel.nominal_btuh)} for the home's heat loss of "
+            f"{heat_output_words(sel.heating_load_btuh)} on a {sel.heating_design_f:.0f} F design day "
+            f"and heat gain of {heat_output_words(sel.cooling_load_btuh)} in summer")
+    if sel.heating_ratio is not None:
+        text += (f"; at {sel.heating_design_f:.0f} F it gives {heat_output_words(sel.capacity_at_design_btuh)} "
+                 f"({sel.heating_ratio * 100:.0f} % of the heat loss)")
+    if sel.cooling_ratio is not None:
+        text += f", its cooling {sel.cooling_ratio * 100:.0f} % of the heat gain"
+    return text + f" ({sel.rule})"
+
+
 def _heat_pump_sizing(ctx: Context, done: dict[str, int], pid: str) -> str:
     """How the heat pump was sized and how often its backup heat runs (or heat falls short)."""
     d = ctx.details[pid]
     state = ctx.energy(frozenset(p for p, y in done.items() if y <= done[pid]))
     hours = state.summary.backup_heat_hours
-    design = ctx.basis.design_load_btuh
-    t = ctx.basis.weather.heating_design_f
-    text = (f"sized at {heat_output_words(d.size * BTUH_PER_TON)} for the home's heat loss of "
-            f"{heat_output_words(design)} on a {t:.0f} F design day")
+    text = sizing_words(d.sizing) if d.sizing is not None else f"sized at {heat_output_words(d.size * BTUH_PER_TON)}"
     kept = dual_fuel_backup(ctx.plan) if d.backup_kind == "existing" else None
     if kept is not None:
         fuel = appliance_fuel(kept)
@@ -525,6 +549,7 @@ def assumptions(ctx: Context) -> dict[str, Any]:
         "weather": ctx.basis.weather_note,
         "heat_loss_method": ctx.basis.calibration.method,
         "design_heating_load_btuh": round(ctx.basis.design_load_btuh),
+        "peak_demand": ctx.basis.peak.method if ctx.basis.peak is not None else None,
         "conventions": "projects installed at the start of their year; nominal dollars; NPV against doing "
                        "nothing, with the equipment's remaining value at the end of the horizon",
     }

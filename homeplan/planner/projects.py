@@ -6,7 +6,7 @@ catalog range at the plan's cost level, or from the user's contractor quote.
 
 References
 ----------
-ACCA Manual S for heat pump selection (via :func:`homeplan.planner.states.heat_pump_tons`);
+ACCA Manual S for heat pump selection (via :func:`homeplan.planner.states.heat_pump_selection`);
 cost ranges and learning rates with their sources in ``homeplan/data/upgrades.yaml``.
 """
 
@@ -18,6 +18,7 @@ from typing import Any
 
 from homeplan import catalog
 from homeplan.catalog import performance
+from homeplan.energy.selection import BTUH_PER_TON, HeatPumpSelection, with_size
 from homeplan.energy.sizing import array_kw_for_coverage
 from homeplan.money.costs import cost_in_year as grow_cost
 from homeplan.money.costs import cost_trend_from_record
@@ -25,7 +26,7 @@ from homeplan.plan.fuels import appliance_fuel
 from homeplan.plan.model import Plan
 from homeplan.planner.basis import HomeBasis
 from homeplan.planner.candidates import Candidate, dual_fuel_backup
-from homeplan.planner.states import cooling_load_btuh, heat_pump_backup, heat_pump_tons
+from homeplan.planner.states import heat_pump_backup, heat_pump_selection
 from homeplan.units import display_size
 
 __all__ = [
@@ -55,6 +56,7 @@ class ProjectDetail:
     quoted: bool = False
     backup_kw: float = 0.0        # electric backup heat of a heat pump (strips or heaters), kW
     backup_kind: str = ""         # "strips", "heaters", "existing" (dual fuel) or "" (none)
+    sizing: HeatPumpSelection | None = None  # a heat pump's loads, size and capacity at design
 
     @property
     def id(self) -> str:
@@ -112,11 +114,15 @@ def detail(plan: Plan, c: Candidate, basis: HomeBasis, electrified_kwh: float,
         v = k.variants[0]
     design_f = float(basis.weather.heating_design_f)
     size = 1.0
-    if opt and opt.size:
+    sizing = None
+    if c.kind == "heat_pump":
+        sizing = heat_pump_selection(plan, basis, v.id if v else None)
+        size = sizing.nominal_tons
+        if opt and opt.size:
+            size = opt.size
+            sizing = with_size(sizing, size * BTUH_PER_TON, "the size you chose")
+    elif opt and opt.size:
         size = opt.size
-    elif c.kind == "heat_pump":
-        size = heat_pump_tons(basis.design_load_btuh, design_f, v.id if v else None,
-                              cooling_load_btuh(plan, basis))
     elif c.kind == "solar":
         size = solar_size_kw(plan, electrified_kwh, specific_yield)
     elif c.kind == "battery":
@@ -158,7 +164,7 @@ def detail(plan: Plan, c: Candidate, basis: HomeBasis, electrified_kwh: float,
         candidate=c, variant=v.id if v else None, variant_label=label,
         size=float(size), size_unit=k.size_unit, cost_today_usd=float(round(cost, 2)),
         cost_source=source, life_years=k.life_years, cost_change=dict(k.cost_change), quoted=quoted,
-        backup_kw=float(backup_kw), backup_kind=backup_kind,
+        backup_kw=float(backup_kw), backup_kind=backup_kind, sizing=sizing,
     )
 
 

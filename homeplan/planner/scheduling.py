@@ -268,8 +268,8 @@ def _window_reason(item: str, latest: int | None, delay: int | None, risk_pct: f
     name = item or "the old one"
     t = latest - first_year
     if delay and 0 <= t < len(cumulative) and cumulative[t] > 0:
-        return (f"{name} gets any older: the budget could not replace it at {risk_pct:.0f} % "
-                f"failure risk, and by {latest} it is {cumulative[t] * 100:.0f} %")
+        return (f"{name} reaches {cumulative[t] * 100:.0f} % failure risk in {latest} (the budget "
+                f"could not replace it sooner, at {risk_pct:.0f} %)")
     return f"{name} reaches {risk_pct:.0f} % failure risk"
 
 

@@ -22,6 +22,7 @@ __all__ = [
     "money_signed",
     "number",
     "pct",
+    "peak_demand_kw",
     "service_verdict",
     "short",
     "tonnes",
@@ -109,6 +110,13 @@ def number(value: float | None, digits: int = 0, unit: str = "") -> str:
     if s.startswith("-") and float(s.replace(",", "")) == 0:
         s = s[1:]
     return f"{s} {unit}".strip()
+
+
+def peak_demand_kw(summary: object) -> float:
+    """The peak demand to show for an energy summary: the meter's kind when known, else the
+    highest hourly average."""
+    meter = getattr(summary, "peak_demand_kw", None)
+    return float(meter) if meter is not None else float(getattr(summary, "peak_kw", 0.0))
 
 
 def tonnes(kg: float | None) -> str:

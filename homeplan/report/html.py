@@ -83,10 +83,11 @@ svg.timeline, svg.chart { width: 100%; height: auto; display: block; margin: 1mm
 .compare .m { font-size: 8.5pt; color: var(--muted); display: block; }
 .advisor { border: 1px solid var(--rule); border-radius: 1.5mm; padding: 1.5mm 3mm; margin: 0 0 3mm;
   break-inside: avoid; }
-.advisor dl.facts { grid-template-columns: 30mm minmax(0, 1fr); }
+.advisor dl.facts { grid-template-columns: 27mm minmax(0, 1fr) 27mm minmax(0, 1fr); }  /* two pairs a row */
 .advisor h2 { font-size: 10.5pt; margin: 0 0 1mm; border: 0; padding: 0; }
 dl.glossary dt { font-weight: 600; }
-dl.glossary dd { margin: 0 0 1.5mm 0; }
+dl.glossary { margin: 0; }
+dl.glossary dd { margin: 0 0 .8mm 0; }
 .legend { display: flex; flex-wrap: wrap; gap: 1mm 5mm; font-size: 8.5pt; color: var(--muted); margin: 0 0 2mm;
   padding: 0; list-style: none; }
 .legend .sw { display: inline-block; width: 4mm; height: 2.6mm; border-radius: .6mm; margin-right: 1.5mm;
@@ -109,7 +110,7 @@ footer code { font-size: 9pt; color: var(--ink); }
   @bottom-right { content: "page " counter(page) " of " counter(pages); font: 7.5pt sans-serif; color: #5d6770; } }
 @media print {
   body { max-width: none; padding: 0; font-size: 9.5pt; }
-  h2:first-child { margin-top: 0; }
+  h2:first-child { margin-top: 3mm; }  /* room after the block before; a page top shows it little */
   a { color: inherit; text-decoration: none; }
 }
 """

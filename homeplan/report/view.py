@@ -31,6 +31,7 @@ from homeplan.report.fmt import (
     money_signed,
     number,
     pct,
+    peak_demand_kw,
     service_verdict,
     tonnes,
 )
@@ -51,6 +52,7 @@ __all__ = [
     "assumption_lines",
     "build_report",
     "collect_cautions",
+    "bill_fit_lines",
     "comparison_lines",
     "emergency_lines",
     "export_words",
@@ -356,6 +358,45 @@ def emergency_lines(road: Any) -> tuple[str, ...]:
     return tuple(dict.fromkeys(out))
 
 
+_FUEL_WORDS = {"electricity": "Electricity", "gas": "Gas", "propane": "Propane", "oil": "Heating oil"}
+_UNIT_WORDS = {"kWh": "kWh", "therm": "therms", "gal": "gallons"}
+
+
+def bill_fit_lines(road: Any) -> tuple[str, ...]:
+    """How the model of today's home reproduces each fuel's bills, one line per fuel.
+
+    References
+    ----------
+    ASHRAE Guideline 14-2014, monthly calibration criteria (NMBE within +/-5 %, CV(RMSE) at most
+    15 %; from memory).
+    """
+    out = []
+    for f in road.calibration:
+        unit = _UNIT_WORDS.get(f.unit, f.unit)
+        text = (f"{_FUEL_WORDS.get(f.fuel, clean(f.fuel))}: {f.billed:,.0f} {unit} billed, "
+                f"{f.modelled:,.0f} modelled ({f.annual_error_pct:+.1f} %)")
+        if f.monthly and f.cv_rmse_pct is not None and f.nmbe_pct is not None:
+            verdict = ("within ASHRAE Guideline 14's limits for monthly bills (5 %, 15 %)"
+                       if f.meets_guideline_14 else
+                       "outside ASHRAE Guideline 14's limits for monthly bills (5 %, 15 %): "
+                       "the monthly pattern is only roughly followed")
+            text += (f"; month by month: bias {round(f.nmbe_pct, 1) + 0.0:+.1f} %, scatter (CV of RMSE) "
+                     f"{f.cv_rmse_pct:.1f} %, {verdict}")
+        elif not f.monthly:
+            text += "; yearly total only, the months are not checked"
+        parts = [f"{name} {value:,.0f}" for name, value in (
+            ("heating", f.heating), ("cooling", f.cooling),
+            ("hot water, cooking, drying and other uses", f.base), ("cars", f.other)) if value >= 0.5]
+        if parts:
+            text += f"; of which {', '.join(parts)}"
+            if f.solar >= 0.5:
+                text += f", less {f.solar:,.0f} from the solar panels"
+        if abs(f.typical_year - f.modelled) > 0.005 * max(f.modelled, 1.0):
+            text += f"; {f.typical_year:,.0f} in a typical year"
+        out.append(text)
+    return tuple(out)
+
+
 def step_safety(step: Any, edition: int) -> str:
     """The short titles of a step's cautions ("Licensed electrician and permit; ..."), or ""."""
     titles = catalog.caution_titles()
@@ -442,11 +483,15 @@ def _energy_table(result: Any) -> Table:
                      _change(b.fuel_money_out_usd, a.fuel_money_out_usd, money_signed, True)))
     rows.append(("CO2e a year", tonnes(b.emissions_kg), tonnes(a.emissions_kg),
                  _change(b.emissions_kg, a.emissions_kg, lambda v: tonnes(v))))
-    rows.append(("Peak demand", number(b.peak_kw, 1, "kW"), number(a.peak_kw, 1, "kW"),
-                 _change(b.peak_kw, a.peak_kw, lambda v: number(v, 1, "kW"))))
+    pb, pa = peak_demand_kw(b), peak_demand_kw(a)
+    meter = b.peak_demand_kw is not None
+    rows.append(("Peak demand (as a meter shows it)" if meter else "Peak demand (highest hour)",
+                 number(pb, 1, "kW"), number(pa, 1, "kW"), _change(pb, pa, lambda v: number(v, 1, "kW"))))
     return Table(("Typical year", clean(b.label) or "Today", clean(a.label) or "After the plan",
                   "Change"), tuple(rows), "lrrr", None,
-                 "A typical weather year at today's prices; bills include fixed charges.")
+                 "A typical weather year at today's prices; bills include fixed charges. Peak "
+                 "demand: " + clean(getattr(result.roadmap, "assumptions", {}).get(
+                     "peak_demand", "the highest hour of the modelled year")) + ".")
 
 
 def _change(before: float, after: float, fmt: Any, is_money: bool = False) -> str:
@@ -590,6 +635,8 @@ def assumption_lines(plan: Any, result: Any) -> list[tuple[str, str]]:
             continue
         text = heat_output_words(value) if key.endswith("_btuh") and finite(value) else _assumption_value(value)
         out.append((label, text))
+    for line in bill_fit_lines(result.roadmap):
+        out.append(("Model against your bills", line))
     return out
 
 
@@ -652,7 +699,7 @@ def _advisor(plan: Any) -> list[tuple[str, str]]:
     if a.quote_date is not None:
         out.append(("Quote date", a.quote_date.isoformat()))
     if a.valid_until is not None:
-        out.append(("Quote valid until", a.valid_until.isoformat()))
+        out.append(("Valid until", a.valid_until.isoformat()))
     return out
 
 

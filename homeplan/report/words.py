@@ -25,9 +25,11 @@ __all__ = [
     "caps_words",
     "cost_source_words",
     "distinct_labels",
+    "fit_labels",
     "heat_output_words",
     "life_source_words",
     "load_words",
+    "short_words",
     "size_words",
 ]
 
@@ -66,6 +68,27 @@ def cost_source_words(source: str) -> str:
     if source.startswith("your quote"):
         return source
     return "homeplan's typical installed price for this work (an estimate, not a quote)"
+
+
+@cache
+def _shorts() -> tuple[tuple[str, str], ...]:
+    kinds = catalog.upgrade_kinds().values()
+    return tuple(sorted(((k.label, k.short) for k in kinds if k.short), key=lambda p: -len(p[0])))
+
+
+def short_words(text: str) -> str:
+    """The text with each upgrade's label replaced by its short name from the catalog
+    ("Electric vehicle (replaces 2012 sedan)" -> "EV for 2012 sedan")."""
+    out = text
+    for label, short in _shorts():
+        out = out.replace(label, short)
+    return re.sub(r"\bEV \(replaces ([^)]*)\)", r"EV for \1", out)
+
+
+def fit_labels(labels: Sequence[str], width: int) -> list[str]:
+    """Labels for a column ``width`` characters wide: as they are when they fit, else with the
+    upgrades' short names, and only then cut (keeping each distinct)."""
+    return distinct_labels([t if len(t) <= width else short_words(t) for t in labels], width)
 
 
 def distinct_labels(labels: Sequence[str], width: int) -> list[str]:

@@ -114,16 +114,15 @@ def _why_not_earlier(problem: Problem, years: dict[str, int | None], i: int, y: 
             )
         if "prerequisite" in nearest and not any(o.startswith("after ") for o in out):
             out.append("after its prerequisites")
-        if "followup" in nearest:
+        if "followup" in nearest and not out:  # only when nothing else holds it back
             for fu in problem.followups:
-                if p.id in fu.after and years.get(fu.project) is not None:
-                    out.append(f"{_the(problem.project(fu.project).name)} must follow within "
-                               f"{fu.within_years} year(s) of it")
-                elif fu.project == p.id and not any(o.startswith("after ") for o in out):
-                    out.append("after the projects it follows")
-        if not out:  # a rule with no words of its own above: name its family
-            out.append("earlier years break another rule of the plan ("
-                       + ", ".join(sorted(nearest)) + ")")
+                if p.id in fu.after:
+                    n = fu.within_years
+                    out.append(f"done earlier, {_the(problem.project(fu.project).name)} would have to "
+                               f"follow within {n} year{'s' if n != 1 else ''}")
+                    break
+        if not out:
+            out.append("earlier years are blocked by the plan's other requirements")
         return out
     # an earlier year was possible: the objective chose this one
     feasible = [s for s, v in blocked if not v]

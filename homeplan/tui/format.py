@@ -6,6 +6,7 @@ money rules.
 
 from __future__ import annotations
 
+import textwrap
 from collections.abc import Sequence
 
 from homeplan.report.fmt import money, money_short
@@ -20,6 +21,7 @@ __all__ = [
     "num",
     "spark",
     "trunc",
+    "wrap_cell",
     "usd",
     "when",
 ]
@@ -83,6 +85,15 @@ def bar(value: float, top: float, width: int) -> str:
 
 def trunc(text: str, width: int) -> str:
     return text if len(text) <= width else text[: max(0, width - 1)] + "…"
+
+
+def wrap_cell(text: str, width: int, max_lines: int = 2) -> str:
+    """Text for a table cell ``width`` wide: on up to ``max_lines`` lines broken at spaces
+    (the row is made that tall), cut only beyond them."""
+    lines = textwrap.wrap(text, width) or [""]
+    if len(lines) > max_lines:
+        lines = [*lines[: max_lines - 1], trunc(" ".join(lines[max_lines - 1:]), width)]
+    return "\n".join(lines)
 
 
 def fuel_label(key: str) -> str:

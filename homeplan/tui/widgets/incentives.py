@@ -11,7 +11,7 @@ from textual.widgets import DataTable, Static
 
 from homeplan.report.words import caps_words
 from homeplan.tui.actions import bindings
-from homeplan.tui.format import ESTIMATES, kusd, trunc, usd
+from homeplan.tui.format import ESTIMATES, kusd, usd, wrap_cell
 from homeplan.tui.widgets.base import View, ViewData, banner_text
 
 if TYPE_CHECKING:
@@ -64,20 +64,21 @@ class IncentivesView(View):
         table.clear(columns=True)
         self.programs = data.result.programs if data.result is not None else ()
         years = sorted({y for p in self.programs for y, v in p.paid_by_year.items() if v})
-        wide = self.app.size.width >= 100
-        name_w = 30 if wide else 18
+        # the name gets what the year columns (6 each), the total and the end date leave
+        name_w = max(18, min(40, self.app.size.width - 6 * len(years) - 28))
         table.add_column("Program", width=name_w, key="name")
         table.add_column(Text("Total", justify="right"), key="total")
         for y in years:
             table.add_column(Text(str(y), justify="right"), key=str(y))
         table.add_column("Ends", key="ends")
         for i, p in enumerate(self.programs):
-            cells = [Text(trunc(p.name, name_w)),
+            name = wrap_cell(p.name, name_w)
+            cells = [Text(name),
                      Text(kusd(sum(p.paid_by_year.values())), justify="right", style="bold")]
             cells += [Text(kusd(p.paid_by_year.get(y, 0.0)) if p.paid_by_year.get(y) else "·",
                            justify="right") for y in years]
             cells.append(Text(p.ends or "-"))
-            table.add_row(*cells, key=str(i))
+            table.add_row(*cells, key=str(i), height=name.count("\n") + 1)
         if self.programs:
             table.move_cursor(row=min(max(keep, 0), len(self.programs) - 1), animate=False,
                               scroll=False)

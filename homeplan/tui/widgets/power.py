@@ -11,8 +11,8 @@ from textual.widgets import DataTable, Static
 
 from homeplan.catalog import cautions
 from homeplan.report.fmt import service_verdict
-from homeplan.report.words import load_words
-from homeplan.tui.format import num, trunc
+from homeplan.report.words import load_words, short_words
+from homeplan.tui.format import num, trunc, wrap_cell
 from homeplan.tui.widgets.base import View, ViewData, banner_text
 
 if TYPE_CHECKING:
@@ -85,7 +85,8 @@ class PowerView(View):
         keep = table.cursor_row
         table.clear(columns=True)
         wide = self.app.size.width >= 100
-        table.add_column("When", width=34 if wide else 24, key="when")
+        when_w = 34 if wide else max(24, self.app.size.width - 46)  # the numbers take about 44
+        table.add_column("When", width=when_w, key="when")
         for key, label in (("load", "Load A"), ("service", "Service A"), ("head", "Headroom A"),
                            ("fits", "Fits")):
             table.add_column(Text(label, justify="right"), key=key)
@@ -95,12 +96,14 @@ class PowerView(View):
         for i, s in enumerate(self.states):
             fits = (Text("NO", style="bold reverse") if not s.fits else
                     Text(f"near {s.load_pct:.0f}%", style="bold") if s.near_limit else Text("yes"))
-            table.add_row(Text(trunc(s.label, 34 if wide else 24)),
+            label = wrap_cell(s.label if len(s.label) <= when_w else short_words(s.label), when_w)
+            table.add_row(Text(label),
                           Text(num(s.amps), justify="right"),
                           Text(num(s.service_amps), justify="right"),
                           Text(num(s.headroom_amps), justify="right",
                                style="" if s.headroom_amps is None or s.headroom_amps >= 0 else "bold"),
-                          fits, *([Text(trunc(s.remedy or "-", 40))] if wide else []), key=str(i))
+                          fits, *([Text(trunc(s.remedy or "-", 40))] if wide else []), key=str(i),
+                          height=label.count("\n") + 1)
         if self.states:
             table.move_cursor(row=min(max(keep, 0), len(self.states) - 1), animate=False,
                               scroll=False)

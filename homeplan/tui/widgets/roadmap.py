@@ -11,7 +11,7 @@ from textual.containers import VerticalScroll
 from textual.widgets import DataTable, Static
 
 from homeplan.catalog import cautions as caution_texts
-from homeplan.report.words import cost_source_words, distinct_labels, size_words
+from homeplan.report.words import cost_source_words, fit_labels, size_words
 from homeplan.tui.actions import bindings
 from homeplan.tui.format import ESTIMATES, kusd_fit, trunc, usd, when
 from homeplan.tui.widgets.base import (
@@ -216,7 +216,7 @@ class RoadmapView(View):
                   and r.id not in data.moved]
         self.rows = rows if self.show_all else [r for r in rows if r not in hidden]
         self.hidden_count = 0 if self.show_all else len(hidden)
-        names = distinct_labels([r.label for r in self.rows], label_w - 3)
+        names = fit_labels([r.label for r in self.rows], label_w - 3)
         for row, name in zip(self.rows, names, strict=True):
             mark = "▲ " if row.pinned is not None else "✕ " if row.excluded else "  "
             label = Text(mark + name + " ", style="dim" if row.excluded or row.step is None else "")
