@@ -40,6 +40,8 @@ DEFERRED = {
     ("homeplan.cli.app", "homeplan.tui.app"),               # textual
     ("homeplan.tui.app", "homeplan.planner.chain"),         # numpy, scipy, pvlib, networkx
     ("homeplan.tui.app", "homeplan.planner.context"),
+    ("homeplan.tui.app", "homeplan.planner.diskstore"),
+    ("homeplan.planner.diskstore", "homeplan.energy.weather"),  # numpy (a cache hit needs none)
     ("homeplan.tui.widgets.base", "homeplan.planner.lifecycle"),  # numpy
 }
 

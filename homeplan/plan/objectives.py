@@ -4,7 +4,8 @@ JSON result, the app and the printout alike.
 Each objective's key is also its name in words (underscores become spaces), so no view can call
 it something else. Older spellings are still read: the plan file's first format used ``npv``,
 ``emissions``, ``gas_off_early`` and ``out_of_pocket``; the JSON result of schema 1.3 and older
-used ``max_npv``, ``min_emissions``, ``earliest_gas_closure`` and ``min_out_of_pocket``.
+used ``max_npv``, ``min_emissions``, ``earliest_gas_closure`` and ``min_out_of_pocket``, and
+schema 1.5 ``min_cost_cvar`` for ``risk_aware``.
 """
 
 from __future__ import annotations
@@ -37,6 +38,9 @@ OBJECTIVES: dict[str, ObjectiveInfo] = {o.key: o for o in (
                   "removed, as early as the budget allows; then the best value"),
     ObjectiveInfo("least_out_of_pocket", "the least money spent over the years planned: projects "
                   "after incentives, loan interest and energy bills, not discounted"),
+    ObjectiveInfo("risk_aware", "the lowest expected cost over many possible price paths, plus a "
+                  "weight times the average cost of the worst of them: protection against bad "
+                  "price years"),
 )}
 """Objective key -> its meaning, in the order the app offers them."""
 
@@ -47,6 +51,8 @@ ALIASES: dict[str, str] = {
     # roadmap JSON schema 1.3 and older
     "max_npv": "best_value", "min_emissions": "lowest_emissions",
     "earliest_gas_closure": "home_fuel_off_soonest", "min_out_of_pocket": "least_out_of_pocket",
+    # roadmap JSON schema 1.5
+    "min_cost_cvar": "risk_aware",
 }
 """Older spellings -> the objective's key."""
 

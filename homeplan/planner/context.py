@@ -36,9 +36,18 @@ from homeplan.result.outlook import LifeOutlook
 if TYPE_CHECKING:
     import networkx as nx
 
+    from homeplan.planner.diskstore import DiskStore
+
 __all__ = ["Context", "PlannerCache", "content_key"]
 
 T = TypeVar("T")
+
+# price settings the home's basis does not depend on (only today's prices enter the simulation):
+# changing them keeps the cached basis and states
+_NOT_IN_BASIS: dict[str, Any] = {
+    "inflation_pct": True, "fossil_extra_escalation_pct": True, "cost_level": True, "uncertainty": True,
+    **{f: {"escalation_pct"} for f in ("electricity", "gas", "propane", "oil", "gasoline", "diesel")},
+}
 
 
 def content_key(*parts: object) -> str:
@@ -51,9 +60,13 @@ class PlannerCache:
     """Per-home memo of the expensive, budget-independent parts. Thread-safe.
 
     One home at a time: asking for another home's basis drops everything kept for the last one.
+    With a ``store`` (:class:`~homeplan.planner.diskstore.DiskStore`), the built-in weather year
+    is also kept on disk between runs (the command line and the app use the user's store unless
+    ``--no-cache``; the library keeps nothing on disk by default).
     """
 
-    def __init__(self, max_states: int = 512):
+    def __init__(self, max_states: int = 512, store: DiskStore | None = None):
+        self.store = store
         self._lock = threading.Lock()
         self._basis: dict[str, HomeBasis] = {}
         self._states: dict[tuple[str, frozenset[Choice]], StateEnergy] = {}
@@ -66,11 +79,11 @@ class PlannerCache:
                           [a.model_dump(mode="json") for a in plan.appliances],
                           [v.model_dump(mode="json") for v in plan.vehicles],
                           plan.usage.model_dump(mode="json") if plan.usage else None,
-                          plan.prices.model_dump(mode="json"), str(base_dir))
+                          plan.prices.model_dump(mode="json", exclude=_NOT_IN_BASIS), str(base_dir))
         with self._lock:
             hit = self._basis.get(key)
         if hit is None:
-            hit = home_basis(plan, base_dir)
+            hit = home_basis(plan, base_dir, self.store.weather_year if self.store else None)
             with self._lock:
                 self._basis = {key: hit}  # one home per cache: drop other homes
                 self._states.clear()

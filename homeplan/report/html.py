@@ -23,11 +23,19 @@ from __future__ import annotations
 
 from html import escape
 
+from homeplan.report.charts import (
+    HIGH_COLOUR,
+    LOW_COLOUR,
+    SERIES_COLOURS,
+    band_chart_svg,
+    tornado_svg,
+)
+from homeplan.report.compare import Comparison, range_chart_svg
 from homeplan.report.fmt import short
-from homeplan.report.svg import SERIES_COLOURS, chart_svg, legend_items, timeline_svg
+from homeplan.report.svg import PATH_COLOURS, chart_svg, legend_items, timeline_svg
 from homeplan.report.view import Report, Table
 
-__all__ = ["e", "render_html"]
+__all__ = ["comparison_html", "comparison_page", "e", "render_html", "table_html"]
 
 
 def e(text: object) -> str:
@@ -136,6 +144,42 @@ def _table(t: Table, cls: str = "") -> str:
             f"</table>{note}")
 
 
+table_html = _table
+"""A table of a printed view as HTML (user text escaped)."""
+
+
+def comparison_html(c: Comparison) -> str:
+    """Options side by side as an HTML section (a printout's page, or a page of its own)."""
+    parts = ['<section class="compare"><h2>Options side by side</h2>', _table(c.headline, "compare")]
+    parts.append('<div class="keep"><h3>Steps by year</h3>' + _table(c.steps, "compare-steps") + "</div>")
+    if c.ranges:
+        parts.append('<div class="keep"><h3>Total cost across the price paths</h3>')
+        parts.append(range_chart_svg(c.ranges, "Total cost of each option: P10 to P90 bar, median mark"))
+        parts.append('<p class="note">Each bar runs from P10 to P90 of the price paths; the mark is the median.</p>')
+        parts.append(_table(c.risk, "compare-risk") + "</div>")
+    parts += [f'<p class="note">{e(n)}</p>' for n in c.notes]
+    parts.append("</section>")
+    return "\n".join(parts)
+
+
+def comparison_page(c: Comparison, title: str, printed: str, tool_version: str) -> str:
+    """A page of its own for ``homeplan compare -o FILE.html``."""
+    return "\n".join([
+        "<!DOCTYPE html>", '<html lang="en"><head><meta charset="utf-8">',
+        f'<meta http-equiv="Content-Security-Policy" content="{e(CSP)}">',
+        '<meta name="viewport" content="width=device-width, initial-scale=1">',
+        '<meta name="referrer" content="no-referrer">',
+        f'<meta name="generator" content="homeplan {e(tool_version)}">',
+        f"<title>{e(title)}</title>", f"<style>{CSS.replace('HASH', '')}</style></head><body>",
+        '<header class="doc"><p class="kicker">Home electrification options</p>',
+        f"<h1>{e(short(title, 120))}</h1></header>",
+        comparison_html(c),
+        f'<footer class="keep"><p>Printed {e(printed)} with homeplan {e(tool_version)}. All figures are planning '
+        "estimates; local codes, permits and licensed professionals have the final word.</p></footer>",
+        "</body></html>",
+    ]) + "\n"
+
+
 def _arrow(escaped: str) -> str:
     """Draw the plain-text arrow of already-escaped text as a real one."""
     return escaped.replace(" -&gt; ", " \u2192 ")
@@ -143,6 +187,37 @@ def _arrow(escaped: str) -> str:
 
 def _facts(items: tuple[tuple[str, str], ...], cls: str = "facts") -> str:
     return f'<dl class="{cls}">' + "".join(f"<dt>{e(k)}</dt><dd>{e(v)}</dd>" for k, v in items) + "</dl>"
+
+
+def _legend(items: list[tuple[str, str]]) -> str:
+    return '<ul class="legend">' + "".join(
+        f'<li><span class="sw" style="background:{colour}"></span>{e(label)}</li>' for colour, label in items) + "</ul>"
+
+
+def _risk_sections(r: Report) -> list[str]:
+    """Price risk (band chart and tables) and what moves the result (tornado chart)."""
+    parts: list[str] = []
+    if r.risk is not None:
+        k = r.risk
+        parts.append('<section class="risk"><h2>Price risk</h2>')
+        parts += [f"<p>{e(line)}</p>" for line in k.lines]
+        parts.append('<div class="keep"><h3>Energy bills each year across the price paths</h3>')
+        parts.append(band_chart_svg(k.series, "Yearly energy bills: median line, P10 to P90 band",
+                                    "dollars of each year"))
+        parts.append(_legend([(SERIES_COLOURS[i], f"{s.label}: median, and P10 to P90 shaded")
+                              for i, s in enumerate(k.series)]) + "</div>")
+        parts.append('<div class="keep">' + _table(k.totals, "risk-totals") + "</div>")
+        parts.append('<div class="keep">' + _table(k.shocks, "risk-shocks") + "</div>")
+        parts.append("</section>")
+    if r.sensitivity is not None:
+        v = r.sensitivity
+        parts.append('<section class="sensitivity"><h2>What moves the result</h2>')
+        parts += [f"<p>{e(line)}</p>" for line in v.lines]
+        parts.append('<div class="keep">' + tornado_svg(v.bars, v.base_usd, "Net present value, one "
+                                                        "assumption changed at a time") + "</div>")
+        parts.append(_legend([(LOW_COLOUR, "low setting"), (HIGH_COLOUR, "high setting")]))
+        parts.append('<div class="keep">' + _table(v.table, "sensitivity") + "</div></section>")
+    return parts
 
 
 def render_html(r: Report) -> str:
@@ -173,11 +248,11 @@ def render_html(r: Report) -> str:
         f'<li><span class="v">{_arrow(e(v))}</span><span class="k">{_arrow(e(k))}</span></li>'
         for k, v in r.headline) + "</ul>")
     parts.append("</div>")
-    if r.comparison:
+    if r.against:
         parts.append('<div class="compare">' + "".join(
             f'<div class="{"first" if i == 0 else "second"}"><span class="k">{e(what)}</span>'
             f'<span class="v">{e(value)}</span><span class="m">{e(means)}</span></div>'
-            for i, (what, value, means) in enumerate(r.comparison)) + "</div>")
+            for i, (what, value, means) in enumerate(r.against)) + "</div>")
     parts.append("</section>")
     for text in r.emergencies:
         parts.append(f'<div class="attention"><b>Emergency.</b> {e(text)}</div>')
@@ -202,7 +277,7 @@ def render_html(r: Report) -> str:
         names = {sr.kind: sr.name for sr in r.chart.bills}
         parts.append('<section class="chart keep"><h2>Bills and money out, year by year</h2>'
                      + chart_svg(r.chart) + '<ul class="legend">' + "".join(
-                         f'<li><span class="sw" style="background:{SERIES_COLOURS[k]}"></span>{e(n)}</li>'
+                         f'<li><span class="sw" style="background:{PATH_COLOURS[k]}"></span>{e(n)}</li>'
                          for k, n in names.items())
                      + "<li>Like for like: replacing each thing with the same kind on the same fuel "
                      "when it wears out.</li></ul></section>")
@@ -210,6 +285,9 @@ def render_html(r: Report) -> str:
         parts.append('<section class="fossil keep"><h2>Fuel still bought, and when it stops</h2>'
                      + _table(r.fossil, "fossil") + "</section>")
     parts.append('<section class="years"><h2>Year by year</h2>' + _table(r.years, "years") + "</section>")
+    parts += _risk_sections(r)
+    if r.comparison is not None:
+        parts.append(comparison_html(r.comparison))
     parts.append('<section class="energy keep"><h2>Energy and emissions, before and after</h2>'
                  + _table(r.energy, "energy") + "</section>")
     parts.append('<section class="capacity"><h2>Electrical capacity</h2>' + _table(r.capacity, "capacity"))

@@ -19,7 +19,7 @@ from html import escape
 from homeplan.report.fmt import money_short, short
 from homeplan.report.view import GROUP_LABELS, Series, Timeline, YearChart
 
-__all__ = ["SERIES_COLOURS", "chart_svg", "legend_items", "timeline_svg"]
+__all__ = ["PATH_COLOURS", "chart_svg", "legend_items", "timeline_svg"]
 
 # One colour per group of work; a dark ink for milestones; greys for the grid. Our own palette.
 COLOURS: dict[str, str] = {
@@ -118,7 +118,7 @@ def legend_items(t: Timeline) -> list[tuple[str, str]]:
     return items
 
 
-SERIES_COLOURS: dict[str, str] = {"plan": "#2f7d79", "like_for_like": "#b8621b"}
+PATH_COLOURS: dict[str, str] = {"plan": "#2f7d79", "like_for_like": "#b8621b"}
 """The plan in the timeline's teal; like for like in the attention ochre (with a dashed line)."""
 
 
@@ -157,7 +157,7 @@ def _panel(series: tuple[Series, ...], years: tuple[int, ...], title: str, top_y
     if bars:
         width = col * 0.8 / max(len(series), 1)
         for j, sr in enumerate(series):
-            colour = SERIES_COLOURS.get(sr.kind, COLOURS["other"])
+            colour = PATH_COLOURS.get(sr.kind, COLOURS["other"])
             for i, v in enumerate(sr.values):
                 x = left + col * (i + 0.1) + j * width
                 y = y_of(v)
@@ -166,7 +166,7 @@ def _panel(series: tuple[Series, ...], years: tuple[int, ...], title: str, top_y
                            f"<title>{_e(f'{sr.name}, {years[i]}: ${money_short(v)}')}</title>\n</rect>")
     else:
         for sr in series:
-            colour = SERIES_COLOURS.get(sr.kind, COLOURS["other"])
+            colour = PATH_COLOURS.get(sr.kind, COLOURS["other"])
             dash = ' stroke-dasharray="6 4"' if sr.kind != "plan" else ""
             points = " ".join(f"{left + col * (i + 0.5):.1f},{y_of(v):.1f}"
                               for i, v in enumerate(sr.values))

@@ -22,7 +22,9 @@ from homeplan import __version__, catalog
 from homeplan.plan.fuels import BILL_FUELS, GASOLINE_VEHICLES, TANK_FUELS
 from homeplan.plan.hashing import content_hash
 from homeplan.plan.objectives import OBJECTIVES, objective_words
+from homeplan.report.compare import Comparison
 from homeplan.report.fmt import (
+    Table,
     clean,
     energy_key_words,
     finite,
@@ -36,6 +38,7 @@ from homeplan.report.fmt import (
     tonnes,
 )
 from homeplan.report.fossil import fossil_lines
+from homeplan.report.risk import RiskView, SensitivityView, risk_view, sensitivity_view
 from homeplan.report.words import caps_words
 from homeplan.units import display_area, display_temp, heat_output_words
 
@@ -80,16 +83,6 @@ GROUP_LABELS: dict[str, str] = {
     "building": "Building shell and fuel lines",
     "other": "Other work",
 }
-
-
-@dataclass(frozen=True)
-class Table:
-    headers: tuple[str, ...]
-    rows: tuple[tuple[str, ...], ...]
-    align: str            # per column: 'l' left, 'r' right (numbers), 'n' left and never wrapped,
-                          # 'w' left and given the room (the reasons)
-    total: tuple[str, ...] | None = None        # a closing row, shown emphasised
-    note: str = ""
 
 
 @dataclass(frozen=True)
@@ -170,11 +163,14 @@ class Report:
     warnings: tuple[str, ...]
     footer: Footer
     money_note: str = "Money is rounded: to the nearest $10 under $1,000, else to the nearest $100."
-    comparison: tuple[tuple[str, str, str], ...] = ()   # (against what, money, what it means)
+    against: tuple[tuple[str, str, str], ...] = ()      # (against what, money, what it means)
     chart: YearChart | None = None
     fossil: Table | None = None
     advisor: tuple[tuple[str, str], ...] = ()
     glossary: tuple[tuple[str, str, str], ...] = ()     # (term, plain words, explanation)
+    risk: RiskView | None = None                # price risk (None: not computed)
+    sensitivity: SensitivityView | None = None  # what moves the NPV (None: not computed)
+    comparison: Comparison | None = None        # the plan's named options side by side
 
 
 # ----------------------------------------------------------------------------- helpers
@@ -597,7 +593,10 @@ def assumption_lines(plan: Any, result: Any) -> list[tuple[str, str]]:
         out.append(("Loan", f"{clean(loan.name)}: {money(loan.amount_usd)} at {pct(loan.rate_pct)} "
                     f"over {loan.term_years} years"))
     goal = OBJECTIVES.get(plan.choices.objective)
-    out.append(("Goal", f"{objective_words(plan.choices.objective)}" + (f": {goal.meaning}" if goal else "")))
+    detail = (f" (the worst {plan.choices.risk_tail_pct:g} % of price paths weighed x{plan.choices.risk_weight:g})"
+              if plan.choices.objective == "risk_aware" else "")
+    out.append(("Goal", f"{objective_words(plan.choices.objective)}" + (f": {goal.meaning}" if goal else "")
+                + detail))
     out.append(("Costs without a quote", f"homeplan's {p.cost_level} installed prices (planning "
                 "estimates; each price's reference is in homeplan's catalog)"))
     if p.grid_kg_co2_per_kwh is not None:
@@ -717,8 +716,10 @@ def _glossary(texts: list[str]) -> tuple[tuple[str, str, str], ...]:
 # ----------------------------------------------------------------------------- entry point
 
 
-def build_report(result: Any, today: dt.date | None = None, tool_version: str | None = None) -> Report:
-    """Everything the printed summary shows, as cleaned (not escaped) strings."""
+def build_report(result: Any, today: dt.date | None = None, tool_version: str | None = None,
+                 comparison: Comparison | None = None) -> Report:
+    """Everything the printed summary shows, as cleaned (not escaped) strings; ``comparison``
+    is the plan's named options side by side, when it has them."""
     plan = result.plan
     road = result.roadmap
     prov = plan.provenance
@@ -748,12 +749,12 @@ def build_report(result: Any, today: dt.date | None = None, tool_version: str | 
     programs = without_empty_columns(_programs_table(result))
     fossil = _fossil_table(result)
     assumptions = tuple(assumption_lines(plan, result))
-    comparison = tuple(comparison_lines(result))
+    against = tuple(comparison_lines(result))
     cautions = collect_cautions(result)
     texts = [" ".join(" ".join(r) for r in t.rows) + " ".join(t.headers)
              for t in (steps, years, energy, capacity, programs)]
     texts += [f"{k} {v}" for k, v in assumptions] + [n for n in cap_notes]
-    texts += [f"{a} {b} {c}" for a, b, c in comparison]
+    texts += [f"{a} {b} {c}" for a, b, c in against]
     return Report(
         title=f"Electrification roadmap: {name}",
         subtitle=subtitle,
@@ -773,11 +774,14 @@ def build_report(result: Any, today: dt.date | None = None, tool_version: str | 
         cautions=cautions,
         warnings=tuple(clean(w) for w in result.warnings if clean(w)),
         footer=footer,
-        comparison=comparison,
+        against=against,
         chart=_chart(result),
         fossil=fossil,
         advisor=tuple(_advisor(plan)),
         glossary=_glossary(texts),
+        risk=risk_view(road),
+        sensitivity=sensitivity_view(result),
+        comparison=comparison,
     )
 
 

@@ -1,7 +1,7 @@
 """The printable page in a real browser: headless Chromium renders it to PNG and to PDF.
 
 Needs Debian packages ``chromium`` and (for the text and page checks) ``poppler-utils``; skipped
-with a clear reason when Chromium is not installed. The expected page count (5 on Letter and on A4) is what
+with a clear reason when Chromium is not installed. The expected page count (6 on Letter, 5 on A4) is what
 the layout gives the invented fixture plan: page 1 holds the home, timeline and steps; blocks are kept whole
 where they fit (CSS Fragmentation Module Level 3) without forced breaks, so no page before the
 last is half empty. It must hold on both US Letter (Chromium's default) and A4 (ISO 216).
@@ -85,7 +85,7 @@ def write_page(tmp: Path, name: str, result, paper: str | None = None) -> Path:
     return path
 
 
-@pytest.mark.parametrize("paper,size_pts,n_pages", [(None, (612.0, 792.0), 5),    # US Letter 8.5 x 11 in
+@pytest.mark.parametrize("paper,size_pts,n_pages", [(None, (612.0, 792.0), 6),    # US Letter 8.5 x 11 in
                                                     ("A4", (595.92, 842.88), 5)])  # ISO 216: 210 x 297 mm
 def test_pdf_pages_and_text(tmp_path: Path, paper, size_pts, n_pages) -> None:
     result = make_result()
@@ -106,7 +106,7 @@ def test_pdf_pages_and_text(tmp_path: Path, paper, size_pts, n_pages) -> None:
     assert f"page 1 of {n_pages}" in pages[0]                             # the page margin box
     flat = " ".join(text.split())
     order = ["At a glance", "Against replacing like for like", "Against doing nothing", "The roadmap",
-             "Steps", "Bills and money out, year by year", "Fuel still bought", "Year by year",
+             "Steps", "Bills and money out, year by year", "Fuel still bought", "Year by year", "Price risk",
              "Energy and emissions, before and after", "Electrical capacity", "Key assumptions",
              "Safety", "Words used in this summary", "Plan content hash"]
     positions, at = [], 0

@@ -134,8 +134,8 @@ def test_like_for_like_comparison_comes_first() -> None:
     road = result.roadmap
     # the fixture's paths: plan 6,400 ahead of doing nothing, like for like 9,800 behind it
     assert npv_vs_like_for_like(road) == pytest.approx(6400.0 - (-9800.0))
-    assert [c[0] for c in report.comparison] == ["Against replacing like for like", "Against doing nothing"]
-    assert report.comparison[0][1] == "$16,200 ahead" and report.comparison[1][1] == "$6,400 ahead"
+    assert [c[0] for c in report.against] == ["Against replacing like for like", "Against doing nothing"]
+    assert report.against[0][1] == "$16,200 ahead" and report.against[1][1] == "$6,400 ahead"
 
 
 def test_empty_columns_are_dropped() -> None:
