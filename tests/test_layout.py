@@ -43,6 +43,7 @@ DEFERRED = {
     ("homeplan.tui.app", "homeplan.planner.diskstore"),
     ("homeplan.planner.diskstore", "homeplan.energy.weather"),  # numpy (a cache hit needs none)
     ("homeplan.tui.widgets.base", "homeplan.planner.lifecycle"),  # numpy
+    ("homeplan.tui.app", "homeplan.planner.diskstore"),     # with the planner, after the first paint
 }
 
 

@@ -1,7 +1,7 @@
 """One name per objective everywhere, old spellings still read; `check` gathers every problem.
 
-Not checks of the physics or the money: these check the plan format's names and the error
-reporting promised in docs/plan-format.md ("reports every problem at once").
+Not checks of the physics or the money: these check the plan format's names and that `check`
+reports every problem of a file in one run.
 """
 
 from __future__ import annotations

@@ -40,9 +40,9 @@ def test_save_as_in_another_folder_reopens_and_checks(home, tmp_path, capsys):
     session = PlanSession.open(home)
     session.edit([(("budget", "usd_per_year"), 7000)], "budget")
     target = session.save(other / "copy.yaml")
-    assert [r.after for r in session.last_rebased] == ["../../original/incentives/lakeshire_demo.yaml"]
+    assert [r.after for r in session.last_rebased] == ["../../original/incentives/demoland_invented.yaml"]
     reopened = PlanSession.open(target)
-    assert reopened.plan.incentive_files == ["../../original/incentives/lakeshire_demo.yaml"]
+    assert reopened.plan.incentive_files == ["../../original/incentives/demoland_invented.yaml"]
     assert cli.main(["check", str(target)]) == 0, capsys.readouterr().err
     # undo keeps the paths right for the new folder, and saving again still checks
     assert session.undo() == "budget"
@@ -55,7 +55,7 @@ def test_save_as_in_the_same_folder_keeps_paths(home):
     session.save(home.with_name("second.yaml"))
     assert session.last_rebased == []
     assert PlanSession.open(home.with_name("second.yaml")).plan.incentive_files == \
-        ["incentives/lakeshire_demo.yaml"]
+        ["incentives/demoland_invented.yaml"]
 
 
 def test_absolute_paths_stay_and_relative_ones_are_rebased():

@@ -31,7 +31,7 @@ from homeplan.energy.heating import (
     heating_hourly,
 )
 from homeplan.energy.rates import ElectricRate, FuelPrices, electric_bill, fuel_bill, hourly_price
-from homeplan.energy.solar import SolarArraySpec, SolarSite
+from homeplan.energy.solar import ArrayKeeper, SolarArraySpec, SolarSite
 from homeplan.energy.units import FUEL_UNITS, btu_to_kwh
 from homeplan.energy.vehicles import VehicleSpec, ev_charging_hourly, vehicle_annual_input
 from homeplan.energy.water import (
@@ -215,11 +215,14 @@ class SiteCache:
     ----------
     weather : Weather
         The home's typical-year weather.
+    keep : ArrayKeeper or None
+        Keeps weather-only hourly arrays (the solar output per kWdc) between runs; None keeps
+        them in memory only.
     """
 
-    def __init__(self, weather: Weather) -> None:
+    def __init__(self, weather: Weather, keep: ArrayKeeper | None = None) -> None:
         self.weather = weather
-        self.solar = SolarSite(weather)
+        self.solar = SolarSite(weather, keep)
         self._memo: dict[tuple, object] = {}
         self.hour_of_day = timegrid.hour_of_day()
         self.month = timegrid.hour_month()

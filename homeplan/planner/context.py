@@ -83,7 +83,9 @@ class PlannerCache:
         with self._lock:
             hit = self._basis.get(key)
         if hit is None:
-            hit = home_basis(plan, base_dir, self.store.weather_year if self.store else None)
+            store = self.store
+            hit = home_basis(plan, base_dir, store.weather_year if store else None,
+                             store.keep_array if store else None)
             with self._lock:
                 self._basis = {key: hit}  # one home per cache: drop other homes
                 self._states.clear()

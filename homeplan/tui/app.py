@@ -793,14 +793,22 @@ class HomeplanApp(App[int]):
                 fields.append(FieldSpec((*base, "afue"), "Efficiency (AFUE)", "float", a.afue,
                                         optional=True, help="The share of the fuel that heats the "
                                         "home, on the label: 0.80 for 80 %."))
+            ratings = []
             if a.kind in ("central_ac", "room_ac", "heat_pump", "mini_split"):
-                fields.append(FieldSpec((*base, "seer2"), "Cooling efficiency (SEER2)", "float",
-                                        a.seer2, optional=True, help="On the yellow label; higher is "
-                                        "better."))
+                ratings += [("seer", "SEER", "Cooling efficiency"), ("eer", "EER", "Cooling efficiency on a hot day")]
             if a.kind in ("heat_pump", "mini_split"):
-                fields.append(FieldSpec((*base, "hspf2"), "Heating efficiency (HSPF2)", "float",
-                                        a.hspf2, optional=True, help="On the yellow label; higher "
-                                        "is better."))
+                ratings.insert(1, ("hspf", "HSPF", "Heating efficiency"))
+            for old, label, words in ratings:
+                # the rating on the label: a pre-2023 one stays in its own field (converted by
+                # the planner) rather than being offered as a second, conflicting figure
+                if getattr(a, old) is not None and getattr(a, f"{old}2") is None:
+                    fields.append(FieldSpec((*base, old), f"{words} ({label}, pre-2023)", "float",
+                                            getattr(a, old), optional=True,
+                                            help=f"On the yellow label; converted to {label}2 by the planner."))
+                else:
+                    fields.append(FieldSpec((*base, f"{old}2"), f"{words} ({label}2)", "float",
+                                            getattr(a, f"{old}2"), optional=True,
+                                            help="On the yellow label; higher is better."))
             if a.kind in ("furnace", "boiler", "central_ac", "heat_pump", "mini_split"):
                 fields.append(FieldSpec((*base, "capacity_btuh"), "Output", "float", a.capacity_btuh,
                                         optional=True, unit="Btu/h", help="On the nameplate; "

@@ -14,6 +14,7 @@ from homeplan.report.fmt import money, money_short
 __all__ = [
     "BLOCKS",
     "ESTIMATES",
+    "INVENTED",
     "bar",
     "fuel_label",
     "kusd",
@@ -83,8 +84,17 @@ def bar(value: float, top: float, width: int) -> str:
     return "█" * min(full, width) + (partial if full < width else "")
 
 
+INVENTED = " (invented)"
+"""The mark of invented demo names: kept when a name is cut to fit, so it always shows."""
+
+
 def trunc(text: str, width: int) -> str:
-    return text if len(text) <= width else text[: max(0, width - 1)] + "…"
+    if len(text) <= width:
+        return text
+    if text.endswith(INVENTED) and width > len(INVENTED) + 3:
+        head = text[: -len(INVENTED)]
+        return head[: width - len(INVENTED) - 1] + "…" + INVENTED
+    return text[: max(0, width - 1)] + "…"
 
 
 def wrap_cell(text: str, width: int, max_lines: int = 2) -> str:

@@ -94,3 +94,15 @@ def test_one_figure_one_value_on_every_view(path, capsys) -> None:
     assert f"{money(first.net_usd)} out of pocket" in this_year_text(data).plain
     years = {row[0]: row for row in report.years.rows}
     assert years[str(first.year)][report.years.headers.index("Projects")] == money(first.spend_usd)
+
+
+@pytest.mark.parametrize("path", SAMPLES, ids=[p.name for p in SAMPLES])
+def test_sample_homes_say_they_are_invented(path) -> None:
+    """Demo homes, people and places are invented and say so where they are named."""
+    plan = load_plan(path).plan
+    place = plan.home.location.place if plan.home.location else None
+    assert place is None or place.endswith(" (invented)"), place
+    who = plan.provenance.prepared_for if plan.provenance else None
+    assert who is None or who.endswith(" (invented)"), who
+    header = [line for line in path.read_text(encoding="utf-8").splitlines()[:3] if line.startswith("#")]
+    assert any("invented" in line.lower() for line in header)

@@ -13,7 +13,7 @@ from homeplan import catalog
 from homeplan.errors import InputError
 from homeplan.plan.load import load_plan, load_plan_text
 from homeplan.tui import newplan
-from homeplan.tui.format import kusd, usd
+from homeplan.tui.format import kusd, trunc, usd
 from homeplan.tui.screens.forms import FieldSpec, parse_value
 from homeplan.tui.session import DELETE, PlanSession
 
@@ -110,7 +110,7 @@ def test_form_values_parse_as_people_type_them():
 
 
 def test_money_is_rounded_to_what_matters():
-    # TUI.md: "$12,400, not $12,391.87"; the app rounds as the printout does (one figure, one
+    # the project's display rule (not an outside source): "$12,400, not $12,391.87"; the app rounds as the printout does (one figure, one
     # value): nearest $10 under $1,000, nearest $100 above; compact cells agree and never show a
     # non-zero amount as 0
     assert usd(12391.87) == "$12,400" and usd(-1234) == "-$1,200" and usd(0) == "$0"
@@ -204,3 +204,11 @@ def test_new_plan_text_carries_bills_roof_spaces_and_income():
     assert plan.usage.electricity.annual_kwh == 7200 and plan.usage.gas.annual_therms == 900
     assert plan.household.ami_pct == 70 and plan.vehicles == []
     assert plan.home.location.timezone == "America/Chicago"
+
+
+def test_cut_names_keep_their_invented_mark():
+    # project rule (not an outside source): a demo name cut to fit still says it is invented
+    name = "Demo state heat pump rebate (invented)"
+    assert trunc(name, 60) == name
+    assert trunc(name, 24) == "Demo state h… (invented)" and len(trunc(name, 24)) == 24
+    assert trunc("A long ordinary program name", 10) == "A long or…"
