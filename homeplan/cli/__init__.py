@@ -33,7 +33,9 @@ def debugging() -> bool:
     return os.environ.get("HOMEPLAN_DEBUG", "").strip().lower() in ("1", "true", "yes", "on")
 
 
-_READ_NAMED = {"check", "plan", "capacity", "costs", "print", "export", "diff", "open"}
+# Commands whose named files are checked here, before the heavy imports. ``check`` reads them
+# itself through the same safe readers, so that every problem of the file is listed in one run.
+_READ_NAMED = {"plan", "capacity", "costs", "print", "export", "diff", "open"}
 
 
 def _preflight(args) -> None:
