@@ -208,16 +208,22 @@ class SiteCache:
 
     Build once per home (``SiteCache(weather)``) and pass to every :func:`simulate` of that home.
     It memoises by value of small frozen specs; it is not thread-safe for concurrent first use.
+    Homes of one location may share one :class:`~homeplan.energy.solar.SolarSite` (it depends on
+    the weather only): pass it as ``solar``.
 
     Parameters
     ----------
     weather : Weather
         The home's typical-year weather.
+    solar : SolarSite, optional
+        The solar geometry of this weather, already built (default: a new one).
     """
 
-    def __init__(self, weather: Weather) -> None:
+    def __init__(self, weather: Weather, solar: SolarSite | None = None) -> None:
+        if solar is not None and solar.weather is not weather:
+            raise ValueError("a shared SolarSite must be built on this same weather")
         self.weather = weather
-        self.solar = SolarSite(weather)
+        self.solar = solar if solar is not None else SolarSite(weather)
         self._memo: dict[tuple, object] = {}
         self.hour_of_day = timegrid.hour_of_day()
         self.month = timegrid.hour_month()

@@ -41,7 +41,7 @@ from homeplan.energy.heating import (
 )
 from homeplan.energy.rates import ElectricRate, FuelPrice, FuelPrices, TouPeriod
 from homeplan.energy.simulate import HomeEnergySpec, SiteCache, simulate
-from homeplan.energy.solar import SolarArraySpec
+from homeplan.energy.solar import SolarArraySpec, SolarSite
 from homeplan.energy.units import btu_per_unit
 from homeplan.energy.vehicles import VehicleSpec
 from homeplan.energy.water import WaterHeaterSpec, hot_water_gal_per_day, water_heater_annual_input
@@ -377,8 +377,12 @@ class HomeBasis:
         return float(self.calibration.design_load_btuh)
 
 
-def home_basis(plan: Plan, base_dir: Path | None = None) -> HomeBasis:
-    weather, wnote = load_weather(plan, base_dir)
+def home_basis(plan: Plan, base_dir: Path | None = None,
+               place: tuple[Weather, str, SolarSite] | None = None) -> HomeBasis:
+    """The home's basis. ``place`` gives the weather year, its note and its solar geometry when
+    they are already known (homes of one place share them: :mod:`homeplan.planner.shared`);
+    otherwise they are loaded for this home alone."""
+    weather, wnote, solar_site = place if place is not None else (*load_weather(plan, base_dir), None)
     parts = {"water_heater": water_spec_today(plan), "cooking": cooking_spec_today(plan),
              "dryer": dryer_spec_today(plan)}
     cal, notes = calibrate_home(plan, weather, parts)
@@ -393,7 +397,7 @@ def home_basis(plan: Plan, base_dir: Path | None = None) -> HomeBasis:
     if plan.home.battery is not None:
         b = plan.home.battery
         battery = BatterySpec(capacity_kwh=b.capacity_kwh, power_kw=b.power_kw)
-    site = SiteCache(weather)
+    site = SiteCache(weather, solar_site)
     spec = HomeEnergySpec(
         weather=weather, ua_btuh_f=float(cal.ua_btuh_f),
         heating=heating_spec_today(plan, float(cal.design_load_btuh)),

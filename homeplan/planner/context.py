@@ -22,6 +22,7 @@ from homeplan.energy.simulate import EnergyResult
 from homeplan.plan.model import Plan
 from homeplan.planner.basis import HomeBasis, home_basis
 from homeplan.planner.projects import ProjectDetail
+from homeplan.planner.shared import SharedCache
 from homeplan.planner.states import (
     APPLY_ORDER,
     Choice,
@@ -50,14 +51,19 @@ class PlannerCache:
     """Per-home memo of the expensive, budget-independent parts. Thread-safe.
 
     One home at a time: asking for another home's basis drops everything kept for the last one.
+    ``shared``, when given, holds what homes of one place have in common (weather year, solar
+    geometry, incentive programs read from files; see :mod:`homeplan.planner.shared`): it is
+    asked first, and it is kept when the home changes. A shared cache is not thread-safe: give
+    each thread its own.
     """
 
-    def __init__(self, max_states: int = 512):
+    def __init__(self, max_states: int = 512, shared: SharedCache | None = None):
         self._lock = threading.Lock()
         self._basis: dict[str, HomeBasis] = {}
         self._states: dict[tuple[str, frozenset[Choice]], StateEnergy] = {}
         self._memo: dict[str, Any] = {}
         self.max_states = max_states
+        self.shared = shared
 
     def basis(self, plan: Plan, base_dir: Path | None) -> tuple[str, HomeBasis]:
         """The home's basis (weather, heat loss, today's spec) and its content key."""
@@ -69,7 +75,11 @@ class PlannerCache:
         with self._lock:
             hit = self._basis.get(key)
         if hit is None:
-            hit = home_basis(plan, base_dir)
+            place = None
+            if self.shared is not None:
+                p = self.shared.place(plan, base_dir)
+                place = (p.weather, p.note, p.solar)
+            hit = home_basis(plan, base_dir, place)
             with self._lock:
                 self._basis = {key: hit}  # one home per cache: drop other homes
                 self._states.clear()
@@ -85,6 +95,13 @@ class PlannerCache:
             with self._lock:
                 self._memo[key] = hit
         return hit
+
+    def shared_memo(self, key: str, make: Callable[[], T]) -> T:
+        """A result that depends only on what ``key`` names, not on the home (kept in the shared
+        cache when there is one, else like :meth:`memo`)."""
+        if self.shared is not None:
+            return self.shared.memo(key, make)
+        return self.memo(key, make)
 
     def state(self, basis_key: str, choices: frozenset[Choice],
               make: Callable[[], StateEnergy]) -> StateEnergy:

@@ -109,7 +109,7 @@ def plan_programs(ctx: Context) -> tuple[Program, ...]:
         except OSError:
             stamps.append((str(path), None, None))
     key = "programs:" + json.dumps([ctx.plan.incentives, stamps], sort_keys=True, default=str)
-    return ctx.cache.memo(key, lambda: load_programs(ctx.plan, ctx.base_dir))
+    return ctx.cache.shared_memo(key, lambda: load_programs(ctx.plan, ctx.base_dir))
 
 
 class IncentiveModel:
