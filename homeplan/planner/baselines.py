@@ -38,7 +38,9 @@ def do_nothing(ctx: Context, base_energy: StateEnergy, headroom_amps: float = 0.
                                 emissions_kg=round(base_energy.emissions_kg, 1),
                                 peak_kw=round(base_energy.peak_kw, 2),
                                 service_headroom_amps=round(headroom_amps, 1),
-                                energy={k: round(v, 1) for k, v in base_energy.units.items()}))
+                                energy={k: round(v, 1) for k, v in base_energy.units.items()},
+                                peak_winter_kw=round(base_energy.summary.peak_winter_kw, 2),
+                                peak_summer_kw=round(base_energy.summary.peak_summer_kw, 2)))
     return Baseline("do_nothing", "do nothing (pay for breakdowns as they come)", tuple(years), 0.0)
 
 
@@ -73,7 +75,9 @@ def like_for_like(ctx: Context, base_energy: StateEnergy, headroom_amps: float =
                                 emissions_kg=round(base_energy.emissions_kg, 1),
                                 peak_kw=round(base_energy.peak_kw, 2),
                                 service_headroom_amps=round(headroom_amps, 1),
-                                energy={k: round(v, 1) for k, v in base_energy.units.items()}))
+                                energy={k: round(v, 1) for k, v in base_energy.units.items()},
+                                peak_winter_kw=round(base_energy.summary.peak_winter_kw, 2),
+                                peak_summer_kw=round(base_energy.summary.peak_summer_kw, 2)))
     npv += salvage * discount_factor(rate, len(ctx.years))
     for key, (_pid, item_cost) in replaceable_items(ctx).items():
         until = min(breakdowns_before[key], end) - ctx.first_year

@@ -151,6 +151,8 @@ def build_result(ctx: Context, capacity: CapacityModel, incentives: IncentiveMod
             emissions_kg=round(state.emissions_kg, 1), peak_kw=round(state.peak_kw, 2),
             service_headroom_amps=round(cap.headroom_amps, 1),
             energy={k: round(v, 1) for k, v in state.units.items()},
+            peak_winter_kw=round(state.summary.peak_winter_kw, 2),
+            peak_summer_kw=round(state.summary.peak_summer_kw, 2),
         ))
         npv += discount_factor(rate, t) * (savings - (net - borrowed + pay))
     # incentives arriving after the horizon and loan payments still due are part of the plan

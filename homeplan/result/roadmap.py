@@ -39,7 +39,7 @@ __all__ = [
     "YearTotals",
 ]
 
-SCHEMA_VERSION = "1.1"
+SCHEMA_VERSION = "1.2"
 """Version of the JSON produced by :meth:`Roadmap.to_dict`. Bump the minor part for added
 fields, the major part for renamed/removed fields or changed meaning."""
 
@@ -201,7 +201,8 @@ class YearTotals:
     - ``cumulative_usd``: running total of net spend + loan payments + bills since ``first_year``.
     - ``emissions_kg``: CO2e from all fuels that year.
     - ``peak_kw``: highest hourly electricity demand of the modelled typical year in that year's
-      state of the home.
+      state of the home; ``peak_winter_kw`` and ``peak_summer_kw`` the same in December-February
+      and June-August (what a grid planner adds up for many homes).
     - ``service_headroom_amps``: service rating minus the NEC 220.83 calculated load at year end
       (negative means over capacity).
     - ``energy``: energy use by fuel, unit in the key (``electricity_kwh``, ``gas_therm``...).
@@ -219,6 +220,8 @@ class YearTotals:
     peak_kw: float = 0.0
     service_headroom_amps: float = 0.0
     energy: dict[str, float] = field(default_factory=dict)
+    peak_winter_kw: float = 0.0
+    peak_summer_kw: float = 0.0
 
     def __post_init__(self) -> None:
         object.__setattr__(self, "bills_usd", dict(self.bills_usd))
@@ -242,6 +245,8 @@ class YearTotals:
             "peak_kw": _json_number(self.peak_kw),
             "service_headroom_amps": _json_number(self.service_headroom_amps),
             "energy": _json_value(self.energy),
+            "peak_winter_kw": _json_number(self.peak_winter_kw),
+            "peak_summer_kw": _json_number(self.peak_summer_kw),
         }
 
     @classmethod
@@ -258,6 +263,8 @@ class YearTotals:
                 "emissions_kg",
                 "peak_kw",
                 "service_headroom_amps",
+                "peak_winter_kw",
+                "peak_summer_kw",
             )
         }
         return cls(
