@@ -27,7 +27,7 @@ from homeplan.report.fmt import short
 from homeplan.report.svg import legend_items, timeline_svg
 from homeplan.report.view import Report, Table
 
-__all__ = ["e", "render_html"]
+__all__ = ["CSP", "CSS", "e", "render_html", "table_html"]
 
 
 def e(text: object) -> str:
@@ -103,7 +103,8 @@ footer code { font-size: 9pt; color: var(--ink); }
 """
 
 
-def _table(t: Table, cls: str = "") -> str:
+def table_html(t: Table, cls: str = "") -> str:
+    """A table of the page (numbers right-aligned, a closing total row, a note below)."""
     head = "".join(f'<th class="{"r" if a == "r" else "l"}" scope="col">{e(h)}</th>'
                    for h, a in zip(t.headers, t.align, strict=False))
     body = []
@@ -169,23 +170,23 @@ def render_html(r: Report) -> str:
         + "<li>Each bar is the year the work is done.</li></ul>")
     parts.append("</section>")
     parts.append('<section class="steps"><h2>Steps</h2>')
-    parts.append(_table(r.steps, "steps") + f'<p class="note">{e(r.money_note)}</p>')
+    parts.append(table_html(r.steps, "steps") + f'<p class="note">{e(r.money_note)}</p>')
     if r.warnings:
         parts.append('<div class="keep"><h3>Notes from the planner</h3><ul class="notes">'
                      + "".join(f"<li>{e(w)}</li>" for w in r.warnings) + "</ul></div>")
     parts.append("</section>")
     # ---- page 2: year by year
-    parts.append('<section class="years"><h2>Year by year</h2>' + _table(r.years, "years") + "</section>")
+    parts.append('<section class="years"><h2>Year by year</h2>' + table_html(r.years, "years") + "</section>")
     parts.append('<section class="energy keep"><h2>Energy and emissions, before and after</h2>'
-                 + _table(r.energy, "energy") + "</section>")
-    parts.append('<section class="capacity"><h2>Electrical capacity</h2>' + _table(r.capacity, "capacity"))
+                 + table_html(r.energy, "energy") + "</section>")
+    parts.append('<section class="capacity"><h2>Electrical capacity</h2>' + table_html(r.capacity, "capacity"))
     if r.capacity_notes:
         parts.append("<ul>" + "".join(f"<li>{e(n)}</li>" for n in r.capacity_notes) + "</ul>")
     parts.append("</section>")
     # ---- page 3: assumptions and safety
     parts.append('<section class="assumptions"><h2>Key assumptions</h2>' + _facts(r.assumptions, "facts wide"))
     if r.programs.rows:
-        parts.append("<h3>Incentive programs</h3>" + _table(r.programs, "programs"))
+        parts.append("<h3>Incentive programs</h3>" + table_html(r.programs, "programs"))
     parts.append("</section>")
     parts.append('<section class="cautions"><h2>Safety</h2><ul class="cautions">' + "".join(
         f"<li><b>{e(t)}.</b> {e(text)}</li>" for t, text in r.cautions) + "</ul></section>")
