@@ -40,6 +40,7 @@ ALLOWED: dict[str, set[str]] = {
 # library, with a comment saying so on the line before.
 DEFERRED = {
     ("homeplan.cli.app", "homeplan.tui.app"),               # textual
+    ("homeplan.cli.app", "homeplan.tui.portfolio"),
     ("homeplan.tui.app", "homeplan.planner.chain"),         # numpy, scipy, pvlib, networkx
     ("homeplan.tui.app", "homeplan.planner.context"),
     ("homeplan.tui.widgets.base", "homeplan.planner.lifecycle"),  # numpy

@@ -130,8 +130,10 @@ def build_parser() -> argparse.ArgumentParser:
     json_flag(command("costs", "costs, incentives and net cost of each project by year"))
 
     sp = command("open", "open the plan in the terminal app (explore, edit, re-plan); "
-                 "a FILE that does not exist yet starts the guided new-plan form", file=False)
-    sp.add_argument("file", nargs="?", help="plan file (YAML); omit it to start a new plan")
+                 "a FILE that does not exist yet starts the guided new-plan form; a portfolio's "
+                 "results folder opens read-only", file=False)
+    sp.add_argument("file", nargs="?", help="plan file (YAML), or a portfolio's RESULTS folder; "
+                    "omit it to start a new plan")
     sp.add_argument("--light", action="store_true", help="light colours for a light terminal background")
 
     sp = command("print", "print a summary of the roadmap (text, Markdown or a printable HTML page)")
