@@ -242,7 +242,9 @@ def run(source: Source, store: Store, executor: Executor, *, limit: int | None =
                      source_name=str(source.path), base_dir=str(source.base_dir),
                      columns=source.columns)
 
-    todo = batches(store.pending(), size, make, limit)
+    # a limited run plans the first homes of the input (all places), not the first place's
+    upto = store.nth_pending(limit) if limit is not None else None
+    todo = batches(store.pending(upto=upto), size, make, limit)
     start = time.perf_counter()
     recent: list[tuple[float, int]] = [(start, 0)]
     stored = problems = 0

@@ -181,16 +181,26 @@ class Store:
                                                  WHERE f.home_id = inputs.home_id)""")
         return n
 
-    def pending(self, page: int = 500) -> Iterator[HomeInput]:
-        """Homes of the input not yet stored, homes of one place together, in input order
-        within a place. Read page by page (memory does not grow with the number of homes)."""
+    def nth_pending(self, n: int) -> int | None:
+        """The input position (``seq``) of the n-th home not yet stored, in input order (None:
+        fewer are left)."""
+        row = self.conn.execute(
+            """SELECT i.seq FROM inputs i WHERE NOT EXISTS (SELECT 1 FROM homes h WHERE h.seq = i.seq)
+               ORDER BY i.seq LIMIT 1 OFFSET ?""", (n - 1,)).fetchone()
+        return None if row is None else row[0]
+
+    def pending(self, page: int = 500, upto: int | None = None) -> Iterator[HomeInput]:
+        """Homes of the input not yet stored (those up to input position ``upto``), homes of one
+        place together, in input order within a place. Read page by page (memory does not grow
+        with the number of homes)."""
         last: tuple[str, int] = ("", -1)
+        bound = upto if upto is not None else 2**62
         while True:
             rows = self.conn.execute(
                 """SELECT i.seq, i.home_id, i.source, i.payload, i.grp, i.problem FROM inputs i
-                   WHERE (i.grp, i.seq) > (?, ?)
+                   WHERE (i.grp, i.seq) > (?, ?) AND i.seq <= ?
                      AND NOT EXISTS (SELECT 1 FROM homes h WHERE h.seq = i.seq)
-                   ORDER BY i.grp, i.seq LIMIT ?""", (*last, page)).fetchall()
+                   ORDER BY i.grp, i.seq LIMIT ?""", (*last, bound, page)).fetchall()
             if not rows:
                 return
             for seq, home_id, source, payload, grp, problem in rows:
@@ -248,6 +258,9 @@ class Store:
         return dict(zip([d[0] for d in cur.description], row, strict=True))
 
     def home_years(self, seq: int) -> list[YearRow]:
+        """A stored home's years, as the worker made them."""
         cur = self.conn.execute(f"SELECT {', '.join(_YEAR_COLUMNS)} FROM home_years WHERE seq = ? "
                                 "ORDER BY year", (seq,))
-        return [YearRow(*row[:-3], bool(row[-3]), bool(row[-2]), row[-1]) for row in cur]
+        flags = {f.name for f in fields(YearRow) if f.type == "bool"}
+        return [YearRow(**{c: bool(v) if c in flags else v for c, v in zip(_YEAR_COLUMNS, row, strict=True)})
+                for row in cur]

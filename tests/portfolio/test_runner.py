@@ -81,6 +81,7 @@ def test_a_limited_run_then_a_resumed_one_give_the_same_homes(community, straigh
     with new_store(source, tmp_path) as store:
         first = run(source, store, InProcessExecutor(), limit=4)
         assert first.stored == 4 and store.counts()["done"] == 4
+        assert [r[0] for r in store.homes(("seq",))] == [0, 1, 2, 3]   # the first homes, all places
         second = run(source, store, InProcessExecutor())
         assert second.stored == HOMES - 4
         assert run(source, store, InProcessExecutor()).stored == 0      # nothing left to do
