@@ -119,9 +119,6 @@ def _open_store(args, source: Source) -> Store:
             store.add_inputs(iter_inputs(source))
             store.set_meta(inputs_complete=True)
         return store
-    if path.exists():
-        raise InputError(Problem(str(path), 0, 0, "already holds a portfolio run",
-                                 "add --resume to go on with it, or give another results folder"))
     store = Store.create(path, {
         "kind": source.kind, "input": str(source.path.resolve()),
         "template": str(source.template_path.resolve()) if source.template_path else None,
@@ -177,16 +174,23 @@ def cmd_portfolio(args) -> int:
     source = open_source(args.input, args.template)
     coincidence = _coincidence(args.coincidence)
     budgets = _budgets(args.program_budget)
-    folder = store_path(args.output).parent
-    store = _open_store(args, source)
+    path = store_path(args.output)
+    folder = path.parent
+    if not args.resume and path.exists():
+        raise InputError(Problem(str(path), 0, 0, "already holds a portfolio run",
+                                 "add --resume to go on with it, or give another results folder"))
+    try:  # reach the workers before a store is made: a failed start leaves nothing behind
+        executor = make_executor(args.workers, args.scheduler)
+    except ConnectionError as exc:
+        print(f"homeplan: {exc}; check the address and that the scheduler is running", file=sys.stderr)
+        return EXIT_FAILURE
+    try:
+        store = _open_store(args, source)
+    except BaseException:
+        executor.close(cancel=True)
+        raise
     printer = _Printer(args.quiet)
     try:
-        try:
-            executor = make_executor(args.workers, args.scheduler)
-        except ConnectionError as exc:
-            print(f"homeplan: {exc}; check the address and that the scheduler is running",
-                  file=sys.stderr)
-            return EXIT_FAILURE
         before = store.counts()
         if before["done"] == before["total"]:
             print(f"All {before['total']} homes are already planned in {folder}.", file=sys.stderr)

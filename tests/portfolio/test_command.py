@@ -75,3 +75,20 @@ def test_the_community_command(tmp_path, capsys):
     assert main(["community", str(tmp_path / "c"), "--homes", "5", "--seed", "9"]) == 0
     assert (tmp_path / "c" / "homes.csv").read_text().count("\n") == 6
     assert "homeplan portfolio" in capsys.readouterr().out
+
+
+def test_an_unreachable_cluster_fails_cleanly(community, tmp_path, monkeypatch, capsys):
+    from homeplan.cli import portfolio as cli
+    from homeplan.portfolio.runner import DaskExecutor
+
+    with pytest.raises(ConnectionError, match="cannot reach the dask scheduler"):
+        DaskExecutor("tcp://127.0.0.1:9", timeout_s=1.0)   # port 9: nothing listens there
+
+    def refuse(workers, scheduler):  # noqa: ARG001 - the runner's interface
+        raise ConnectionError(f"cannot reach the dask scheduler at {scheduler}")
+
+    monkeypatch.setattr(cli, "make_executor", refuse)
+    out = tmp_path / "results"
+    assert _run(community, out, "--scheduler", "tcp://127.0.0.1:9") == 1
+    assert "check the address" in capsys.readouterr().err
+    assert not out.exists()                                  # nothing left behind to resume
