@@ -50,6 +50,10 @@ WORK_LABELS = {
 }
 
 
+def _k(v: float) -> str:
+    return f"{v / 1000:,.1f}" if v else "-"
+
+
 def _kw(v: float) -> str:
     return f"{v:,.0f} kW"
 
@@ -160,7 +164,16 @@ def render_page(r: Rollup, title: str = "", printed: str = "", complete: bool = 
             ("program", "paid in all", "homes", "homes at their lifetime cap", "program budget",
              "budget used up in"), rows, "lrrrrr",
             note="Each home is planned as if its programs pay; a program whose budget is used up "
-                 "would not pay the homes after that year (budgets as given to the command).")) + "</section>")
+                 "would not pay the homes after that year (budgets as given to the command).")))
+        paid_years = sorted({p["year"] for p in r.programs})
+        by = {(p["program_id"], p["year"]): p["amount_usd"] for p in r.programs}
+        rows = tuple((t.name, *(_k(by.get((t.program_id, y), 0.0)) for y in paid_years))
+                     for t in r.program_totals if t.homes)
+        if paid_years:
+            parts.append("<h3>Paid by year (thousands of dollars)</h3>" + table_html(Table(
+                ("program", *map(str, paid_years)), rows, "l" + "r" * len(paid_years),
+                note="By the year the money reaches the homes.")))
+        parts.append("</section>")
     if r.work:
         kinds: dict[str, list[float]] = {}
         for w in r.work:

@@ -147,6 +147,13 @@ class PoolExecutor:
             raise WorkerLost(f"a worker process stopped unexpectedly ({exc})") from None
 
     def close(self, cancel: bool = False) -> None:
+        """Stop the pool; ``cancel``: now, without waiting for the batches being planned (their
+        homes are planned again on resume)."""
+        if cancel:
+            # the executor has no public way to stop busy workers before Python 3.14
+            # (terminate_workers); without it, exiting would wait for their batches to end
+            for proc in list(getattr(self.pool, "_processes", {}).values()):
+                proc.terminate()
         self.pool.shutdown(wait=not cancel, cancel_futures=cancel)
 
 

@@ -167,6 +167,14 @@ def test_a_run_killed_at_a_random_point_resumes_to_the_same_result(community, st
     assert stored(store_path(folder)) == stored(straight_run)
 
 
+def _alive(pid: int) -> bool:
+    try:
+        state = Path(f"/proc/{pid}/stat").read_text().rsplit(")", 1)[1].split()[0]
+    except OSError:
+        return False
+    return state != "Z"
+
+
 def _grandchildren(pid: int) -> list[int]:
     """The pool's workers: children of the fork server, itself a child of the run."""
     children: dict[int, list[int]] = {}
@@ -200,3 +208,46 @@ def test_a_killed_worker_stops_the_run_and_resume_finishes_it(community, straigh
     assert _done(store_path(folder)) < HOMES
     _resume(community, folder)
     assert stored(store_path(folder)) == stored(straight_run)
+
+
+def test_ctrl_c_stops_at_once_and_resume_finishes(community, straight_run, tmp_path):
+    """SIGINT to the command alone (not to its workers): it stops its busy workers, says how to
+    go on, exits with 130; nothing half-stored."""
+    folder = tmp_path / "run"
+    proc = subprocess.Popen(_cli(str(community[0]), "--template", str(community[1]), "-o", str(folder),
+                                 "--workers", "2", "--batch-size", "3", "--quiet"),
+                            stdout=subprocess.PIPE, stderr=subprocess.PIPE, text=True)
+    try:
+        assert _wait_for_homes(store_path(folder), proc, 1) >= 1
+        workers = _grandchildren(proc.pid)
+        proc.send_signal(signal.SIGINT)
+        _, err = proc.communicate(timeout=30)
+    finally:
+        if proc.poll() is None:
+            proc.kill()
+    assert proc.returncode == 130, err
+    assert "Stopped:" in err and "--resume" in err
+    time.sleep(1.0)
+    assert workers and not [p for p in workers if _alive(p)]
+    _resume(community, folder)
+    assert stored(store_path(folder)) == stored(straight_run)
+
+
+def test_a_cancelled_pool_stops_its_busy_workers(community):
+    """Closing with cancel does not wait for a long batch to end."""
+    from homeplan.portfolio.work import Batch
+
+    source = open_source(*community)
+    items = tuple(iter_inputs(source)) * 20                    # a batch of about 30 s of work
+    batch = Batch(source.kind, items, source.template, str(source.path), str(source.base_dir),
+                  source.columns)
+    pool = PoolExecutor(1)
+    future = pool.submit(batch)
+    time.sleep(3.0)                                            # the worker is planning
+    workers = [p.pid for p in pool.pool._processes.values()]
+    start = time.monotonic()
+    pool.close(cancel=True)
+    assert time.monotonic() - start < 5.0
+    time.sleep(0.5)
+    assert workers and not [p for p in workers if _alive(p)]
+    assert future.done()
