@@ -120,7 +120,8 @@ class HomeRecord:
     plan_json: str = ""
     base_dir: str = ""
     content_hash: str = ""
-    seconds: float = 0.0
+    seconds: float = 0.0            # wall time of planning the home in its worker
+    cpu_seconds: float = 0.0        # the worker's CPU time for it (less sensitive to a busy machine)
     years: tuple[YearRow, ...] = ()
     steps: tuple[StepRow, ...] = ()
     programs: tuple[ProgramRow, ...] = ()

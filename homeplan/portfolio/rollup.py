@@ -112,7 +112,7 @@ HOME_COLUMNS = ("seq", "home_id", "status", "message", "plan_name", "place", "np
                 "incentives_usd", "steps_count", "gas_closed_year", "fully_electric_year",
                 "service_amps_today", "headroom_today_amps", "peak_winter_kw_today",
                 "peak_summer_kw_today", "peak_winter_kw_after", "peak_summer_kw_after",
-                "content_hash", "seconds")
+                "content_hash", "seconds", "cpu_seconds")
 HOME_YEAR_COLUMNS = ("seq", "year", "spend_usd", "incentives_usd", "net_usd", "bill_savings_usd",
                      "bills_usd", "fossil_before_usd", "fossil_after_usd", "emissions_before_kg",
                      "emissions_after_kg", "peak_winter_kw", "peak_summer_kw", "added_winter_kw",

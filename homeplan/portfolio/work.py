@@ -12,7 +12,7 @@ from __future__ import annotations
 
 import json
 import time
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 from pathlib import Path
 from typing import Any, Literal
 
@@ -60,7 +60,14 @@ def _programs(shared: SharedCache, plan: Plan, base_dir: Path) -> tuple:
 
 
 def plan_home(batch: Batch, item: HomeInput, shared: SharedCache) -> HomeRecord:
-    """Plan one home of the batch; any problem becomes the record's status and message."""
+    """Plan one home of the batch; any problem becomes the record's status and message. The
+    record carries the wall and CPU time it took."""
+    cpu = time.process_time()
+    record = _plan_home(batch, item, shared)
+    return replace(record, cpu_seconds=round(time.process_time() - cpu, 4))
+
+
+def _plan_home(batch: Batch, item: HomeInput, shared: SharedCache) -> HomeRecord:
     start = time.perf_counter()
 
     def took() -> float:
