@@ -22,6 +22,8 @@ __all__ = [
     "ServiceLife",
     "UpgradeKind",
     "Variant",
+    "caution_ids_of",
+    "caution_titles",
     "cautions",
     "condition_factors",
     "existing_load_row",
@@ -182,8 +184,25 @@ def upgrade_kinds() -> dict[str, UpgradeKind]:
     return out
 
 
+def cautions(edition: int = 2023) -> dict[str, str]:
+    """Safety cautions by id (``data/cautions.yaml``), with the NEC edition the load calculations
+    use written into the ones that name it."""
+    return {k: v["text"].replace("{edition}", str(edition)) for k, v in _caution_records().items()}
+
+
+def caution_titles() -> dict[str, str]:
+    """The short title of each caution, by id."""
+    return {k: v["title"] for k, v in _caution_records().items()}
+
+
+def caution_ids_of(texts: tuple[str, ...] | list[str], edition: int = 2023) -> list[str | None]:
+    """The id of each caution text (None for a text that is not in the catalog)."""
+    by_text = {" ".join(t.split()): k for k, t in cautions(edition).items()}
+    return [by_text.get(" ".join(t.split())) for t in texts]
+
+
 @cache
-def cautions() -> dict[str, str]:
+def _caution_records() -> dict[str, dict[str, str]]:
     return dict(_yaml_data("cautions.yaml"))
 
 

@@ -87,6 +87,7 @@ def test_final_state_counts_every_planned_load():
     """Rebuild the last state's load list from the roadmap's steps and run NEC 220.83 directly:
     the roadmap's figure must match (every planned load counted, replaced loads removed)."""
     from dataclasses import replace
+    from types import SimpleNamespace
 
     from homeplan import catalog
     from homeplan.electrical.nec220 import nec220_83
@@ -95,9 +96,9 @@ def test_final_state_counts_every_planned_load():
 
     from .conftest import ROOT
 
-    plan = load_plan(ROOT / "sample_homes" / "cold_gas_100a.yaml").plan
+    plan = load_plan(ROOT / "sample_homes" / "newer_ac_small_solar.yaml").plan
     result = plan_roadmap(plan, ROOT / "sample_homes")
-    assert result.capacity_remedy is None  # this sample needs no remedy (checked above)
+    assert result.capacity_remedy is None  # this sample keeps its service (no 220.82 new service)
     kinds = catalog.upgrade_kinds()
     loads = existing_loads(plan)
     for step in result.roadmap.steps:
@@ -106,7 +107,8 @@ def test_final_state_counts_every_planned_load():
             continue
         gone = {ld.name for ld in loads for key in info.replaces if ld.name.startswith(f"{key} ")}
         loads = [ld for ld in loads if ld.name not in gone]
-        loads += [replace(ld, existing=False) for ld in project_loads(info.kind, info.variant, info.size, info.label)]
+        installed = SimpleNamespace(kind=info.kind, variant=info.variant, size=info.size, backup_kw=0.0)
+        loads += [replace(ld, existing=False) for ld in project_loads(installed, info.label)]
     calc = nec220_83(_dwelling(plan), loads, _service(plan), edition=plan.home.electrical.code_edition)
     last = [s for s in result.capacity if s.year is not None and "measured" not in s.label][-1]
     assert last.amps == pytest.approx(calc.amps, abs=0.01)

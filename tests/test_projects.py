@@ -2,39 +2,9 @@
 
 from __future__ import annotations
 
-import numpy as np
 import pytest
 
-from homeplan.energy.heating import hp_capacity_btuh
 from homeplan.plan import migrate
-from homeplan.planner.states import heat_pump_spec, heat_pump_tons
-
-
-@pytest.mark.parametrize("design_f,load", [(-10, 28000), (4, 25000), (12, 40000), (20, 18000)])
-def test_cold_climate_unit_carries_the_design_load(design_f, load):
-    # ACCA Manual S: the selected unit's capacity at the design temperature covers the load
-    # (capacity curve through the 47/17/5 F rating points, DOE 10 CFR 430 App. M1)
-    tons = heat_pump_tons(load, design_f, "cold_climate")
-    hp = heat_pump_spec("cold_climate", tons, 0.0)
-    cap = float(hp_capacity_btuh(hp, np.array([max(design_f, hp.cutout_f)]))[0])
-    assert 1.5 < tons < 5.0, "the cases are chosen away from the 1.5-5 t clamps"
-    assert cap >= load
-    # and not more than half a ton too big (rounded up to half tons)
-    smaller = heat_pump_spec("cold_climate", tons - 0.5, 0.0)
-    assert float(hp_capacity_btuh(smaller, np.array([max(design_f, hp.cutout_f)]))[0]) < load
-
-
-def test_unit_is_at_least_the_cooling_load():
-    # common practice, no source: a heat pump replacing an AC is at least the AC's size
-    assert heat_pump_tons(10000, 30, "ducted", cooling_btuh=42000) == 3.5
-
-
-def test_standard_unit_sized_at_17f():
-    # single-stage unit sized for the load at its 17 F rating point; strips carry the rest
-    load_17 = 30000 * (65 - 17) / (65 - 0)
-    tons = heat_pump_tons(30000, 0, "ducted")
-    hp = heat_pump_spec("ducted", tons, 10.0)
-    assert float(hp_capacity_btuh(hp, np.array([17.0]))[0]) >= load_17
 
 
 def test_migration_chain_applies_each_step_in_order():

@@ -10,7 +10,9 @@ from typing import Any
 from homeplan import catalog
 from homeplan.cli.common import load_and_plan
 from homeplan.cli.parser import EXIT_BAD_INPUT
+from homeplan.report.fmt import service_verdict
 from homeplan.report.table import text_table, usd
+from homeplan.report.view import bill_fit_lines, emergency_lines
 
 __all__ = ["cmd_capacity", "cmd_costs", "cmd_plan"]
 
@@ -36,6 +38,8 @@ def cmd_plan(args) -> int:
         return 0
     print(f"Roadmap for {rm.plan_name}, {rm.first_year}-{rm.last_year} "
           f"(objective: {rm.objective.replace('_', ' ')}). Planning estimates.\n")
+    for text in emergency_lines(rm):
+        print(f"EMERGENCY: {text}\n")
     if rm.status != "ok":
         print(rm.infeasibility or "No plan meets every requirement.", file=sys.stderr)
         return EXIT_BAD_INPUT  # the request cannot be met as asked: change the plan file
@@ -50,7 +54,8 @@ def cmd_plan(args) -> int:
     for y in rm.years:
         rows.append([y.year, usd(y.spend_usd, 10), usd(y.incentives_usd, 10), usd(y.loan_payments_usd, 10),
                      usd(y.total_bills_usd, 10), usd(y.bill_savings_usd, 10), f"{y.emissions_kg / 1000:.1f} t",
-                     f"{y.service_headroom_amps:.0f} A"])
+                     f"{y.service_headroom_amps:.0f} A"
+                     + (f" ({y.service_load_pct:.0f} %, near its limit)" if y.service_near_limit else "")])
     print(text_table(["year", "spend", "incentives in", "loan payments", "energy bills", "bill savings",
                       "CO2", "service headroom"], rows, "lrrrrrrr"))
     print()
@@ -64,6 +69,11 @@ def cmd_plan(args) -> int:
           "the equipment's remaining value at the end)")
     for b in rm.baselines[1:]:
         print(f"  {b.name}: {usd(b.npv_usd, 10)}")
+    fits = bill_fit_lines(rm)
+    if fits:
+        print("\nModel of today's home against your bills (planning estimate):")
+        for line in fits:
+            print(f"  {line}")
     for w in result.warnings:
         print(f"note: {w}")
     print()
@@ -87,14 +97,15 @@ def cmd_capacity(args) -> int:
         rows = [[r.name, f"{r.va:,.0f}", "" if r.factor is None else f"{r.factor:.0%}",
                  "" if r.counted_va is None else f"{r.counted_va:,.0f}", r.section] for r in s.rows]
         print(text_table(["load", "VA", "factor", "counted VA", "section"], rows, "lrrrl"))
-        verdict = "fits" if s.fits else "DOES NOT FIT"
+        verdict = service_verdict(s.fits, s.near_limit, s.load_pct)
         print(f"total {s.total_va:,.0f} VA = {s.amps:.1f} A on a {s.service_amps:.0f} A service: "
               f"{verdict}, headroom {s.headroom_amps:.1f} A" + (f" ({s.remedy})" if s.remedy else ""))
         for n in s.notes:
             print(f"note: {n}")
         print()
-    print(f"caution: {catalog.cautions()['electrical']}")
-    print(f"caution: {catalog.cautions()['planning']}")
+    texts = catalog.cautions(result.plan.home.electrical.code_edition)
+    for cid in ("electrical", "code_edition", "planning"):
+        print(f"caution: {texts[cid]}")
     return 0
 
 
@@ -124,6 +135,8 @@ def cmd_costs(args) -> int:
         rows.append([p.label, usd(p.cost_usd, 10), s.year if s else "-", usd(s.cost_usd, 10) if s else "",
                      usd(s.incentives_usd, 10) if s else "", usd(s.net_cost_usd, 10) if s else "",
                      p.cost_source[:60]])
+    for text in emergency_lines(rm):
+        print(f"EMERGENCY: {text}\n")
     print("Costs today and in the planned year (before and after incentives). Planning estimates.\n")
     print(text_table(["project", "cost today", "year", "cost then", "incentives", "net", "cost from"],
                      rows, "lrrrrrl"))

@@ -30,6 +30,7 @@ __all__ = [
     "BreakdownRow",
     "LoadCalcResult",
     "MeasuredDemand",
+    "added_load_demand_va",
     "nec220_82",
     "nec220_83",
     "nec220_87",
@@ -207,6 +208,42 @@ class MeasuredDemand:
             )
         if self.basis not in ("15min", "hourly_kwh_x4"):
             raise ElectricalInputError("basis", f"unknown basis {self.basis!r}; use '15min' or 'hourly_kwh_x4'")
+
+
+def added_load_demand_va(load: Load, edition: int = 2023) -> float:
+    """The demand of one new load as Article 220 counts it, before any continuous-load factor.
+
+    A range or cooktop through Table 220.55 (one appliance: 80 % under 8.75 kW; 8 kW up to 12 kW;
+    5 % more for each kW over 12, up to 27 kW); a dryer at 5,000 VA or its nameplate, whichever is
+    larger (220.54); every other load at its nameplate.
+
+    Parameters
+    ----------
+    load : Load
+        The new load, VA at nameplate.
+    edition : int
+        NEC edition year.
+
+    Returns
+    -------
+    float
+        Its demand, VA.
+
+    References
+    ----------
+    NEC 2023 Table 220.55 (Columns A, B, C and Note 1), 220.54.
+    """
+    va = float(load.va)
+    if load.category == "range":
+        kw = va / 1000.0
+        if kw < tables.factor("range_column_c_min_kw", edition):
+            return va * tables.factor("range_column_ab_single_factor", edition)
+        over = max(0, math.floor(kw - 12.0 + 0.5)) if kw > 12.0 else 0  # each kW or major fraction
+        return tables.factor("range_column_c_single_va", edition) * (
+            1.0 + over * tables.factor("range_over_12kw_increase_pct", edition) / 100.0)
+    if load.category == "dryer":
+        return max(va, tables.factor("dryer_min_va", edition))
+    return va
 
 
 def peak_kw_bound_from_hourly_kwh(hourly_kwh: Iterable[float], edition: int = 2023) -> float:
@@ -667,7 +704,9 @@ def nec220_87(
 ) -> LoadCalcResult:
     """NEC 220.87: existing load from measured maximum demand at 125 % plus the new loads.
 
-    New loads are counted at nameplate; the larger of new heating or cooling only (220.60).
+    New loads are counted as Article 220 counts them (:func:`added_load_demand_va`: ranges by
+    Table 220.55, dryers by 220.54, the rest at nameplate); the larger of new heating or cooling
+    only (220.60).
     ``continuous_new_load_at_125`` (default True, the conservative reading; inspectors differ)
     counts continuous new loads (EV chargers, water heaters, an EMS setpoint) at 125 %.
     Homes with solar or batteries are refused (the measured peak hides the load behind on-site
@@ -707,7 +746,8 @@ def nec220_87(
 
     References
     ----------
-    NEC 2020/2023 220.87 and its exception (30-day recording); 220.60; 625.42.
+    NEC 2020/2023 220.87 and its exception (30-day recording); 220.60; Table 220.55; 220.54;
+    625.42.
     """
     tables.check_edition(edition)
     if not isinstance(measured, MeasuredDemand):
@@ -744,8 +784,10 @@ def nec220_87(
     for ld in rest:
         if ld.category in HVAC_CATEGORIES:
             continue
-        f = f_cont if ld.continuous else 1.0
-        rows.append(BreakdownRow(ld.name, ld.va, f, ld.va * f, sec, "new load" + (", continuous" if ld.continuous else "")))
+        f = (f_cont if ld.continuous else 1.0) * added_load_demand_va(ld, edition) / max(ld.va, 1e-9)
+        how = {"range": "Table 220.55", "dryer": "220.54"}.get(ld.category, "nameplate")
+        rows.append(BreakdownRow(ld.name, ld.va, f, ld.va * f, sec,
+                                 f"new load, {how}" + (", continuous" if ld.continuous else "")))
     hvac = [ld for ld in rest if ld.category in HVAC_CATEGORIES]
     heat, cool = _hvac_sides(hvac, "full", edition)
     label, chosen, omitted = _pick_side(heat, cool)

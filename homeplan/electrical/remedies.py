@@ -27,7 +27,15 @@ from typing import Any
 from homeplan.electrical import tables
 from homeplan.electrical.errors import ElectricalInputError
 from homeplan.electrical.loads import Dwelling, Ems, Load, Service
-from homeplan.electrical.nec220 import CAUTION, LoadCalcResult, _check_loads, nec220_82, nec220_83
+from homeplan.electrical.nec220 import (
+    CAUTION,
+    LoadCalcResult,
+    MeasuredDemand,
+    _check_loads,
+    nec220_82,
+    nec220_83,
+    nec220_87,
+)
 from homeplan.electrical.nec705 import BackfeedResult, backfeed_check, max_inverter_amps
 
 __all__ = ["ProposedLoad", "Remedy", "RemedyCosts", "ServiceUpgrade", "Variant", "find_remedy"]
@@ -251,16 +259,20 @@ class _Outcome:
 
 
 def _calc(dwelling: Dwelling, loads: list[Load], svc: Service, new_service: bool, ems: Ems | None,
-          edition: int, existing_hvac_in_a: str) -> LoadCalcResult:
+          edition: int, existing_hvac_in_a: str, measured: MeasuredDemand | None = None,
+          continuous_at_125: bool = True) -> LoadCalcResult:
     if new_service:
         return nec220_82(dwelling, loads, svc, edition=edition, ems=ems)
+    if measured is not None:  # the existing load is the measured peak: only new loads are added
+        return nec220_87(measured, [ld for ld in loads if not ld.existing], svc, edition=edition, ems=ems,
+                         continuous_new_load_at_125=continuous_at_125)
     return nec220_83(dwelling, loads, svc, edition=edition, ems=ems, existing_hvac_in_a=existing_hvac_in_a)
 
 
 def _evaluate(
     dwelling: Dwelling, loads: list[Load], svc: Service, new_service: bool, use_ems: bool, solar: str,
     inverter_amps: float, rule: str, edition: int, existing_hvac_in_a: str, ems_min_amps: float,
-    margin_amps: float,
+    margin_amps: float, measured: MeasuredDemand | None = None, continuous_at_125: bool = True,
 ) -> _Outcome | None:
     backfeed = None
     derated: float | None = None
@@ -287,13 +299,15 @@ def _evaluate(
         if managed_va <= min_va:
             return None
         loads = [replace(ld, ems_controlled=True) if ld.ems_eligible and not ld.existing else ld for ld in loads]
-        probe = _calc(dwelling, loads, svc, new_service, Ems(min_va), edition, existing_hvac_in_a)
+        probe = _calc(dwelling, loads, svc, new_service, Ems(min_va), edition, existing_hvac_in_a,
+                      measured, continuous_at_125)
         room_va = (svc.limit_amps - margin_amps) * svc.volts - (probe.total_va - min_va)
         setpoint_amps = math.floor(room_va / svc.volts + 1e-9)
         if setpoint_amps < ems_min_amps or setpoint_amps * svc.volts >= managed_va:
             return None  # EMS cannot help, or is not needed (the plain option is cheaper)
         ems = Ems(setpoint_amps * svc.volts)
-    calc = _calc(dwelling, loads, svc, new_service, ems, edition, existing_hvac_in_a)
+    calc = _calc(dwelling, loads, svc, new_service, ems, edition, existing_hvac_in_a, measured,
+                 continuous_at_125)
     feasible = calc.fits and calc.headroom_amps >= margin_amps - 1e-9 and (backfeed is None or backfeed.fits)
     return _Outcome(feasible, calc, backfeed, svc, ems, derated)
 
@@ -311,6 +325,8 @@ def find_remedy(
     existing_hvac_in_a: str = "other_load",
     margin_amps: float = 0.0,
     max_combinations: int = 50_000,
+    measured: MeasuredDemand | None = None,
+    continuous_new_load_at_125: bool = True,
 ) -> Remedy:
     """Cheapest combination of variants, EMS, solar connection and service size that fits.
 
@@ -345,6 +361,11 @@ def find_remedy(
         Headroom required on top of the calculation, A.
     max_combinations : int
         Largest number of combinations to check.
+    measured : MeasuredDemand or None
+        A measured maximum demand: the existing service is then checked by 220.87 (the measured
+        peak at 125 % plus the new loads) instead of 220.83; a new service still by 220.82.
+    continuous_new_load_at_125 : bool
+        With ``measured``: count continuous new loads at 125 % (inspectors differ).
 
     Returns
     -------
@@ -359,7 +380,7 @@ def find_remedy(
 
     References
     ----------
-    NEC 2023 (2020 selectable) 220.83 (existing service), 220.82 (new service), 220.70/750.30
+    NEC 2023 (2020 selectable) 220.83 or 220.87 (existing service), 220.82 (new service), 220.70/750.30
     (EMS setpoint counted), 705.12(B) (busbar), 705.11 (supply side), 230.79(C); remedy order is
     common practice, no source.
     """
@@ -417,7 +438,8 @@ def find_remedy(
             for so_i, solar in enumerate(solar_opts):
                 for use_ems in ems_opts:
                     out = _evaluate(dwelling, loads, svc, up is not None, use_ems, solar, inverter_output_amps,
-                                    backfeed_rule, edition, existing_hvac_in_a, ems_min_amps, margin_amps)
+                                    backfeed_rule, edition, existing_hvac_in_a, ems_min_amps, margin_amps,
+                                    measured, continuous_new_load_at_125)
                     checked += 1
                     if out is None:
                         continue

@@ -9,6 +9,8 @@ from types import MappingProxyType
 
 __all__ = [
     "DATA_DIR",
+    "calibration_setting",
+    "table_value",
     "constant",
     "efficiency",
     "emission_factor",
@@ -96,6 +98,35 @@ def efficiency(key: str) -> float:
         If there is no such row.
     """
     return _keyed("efficiencies", "value")[key]
+
+
+def table_value(table: str, key: str) -> float:
+    """The ``value`` of row ``key`` in a key/value table (``calibration``, ``design_loads``,
+    ``peak_demand``...).
+
+    Parameters
+    ----------
+    table : str
+        Table name without ``.csv``.
+    key : str
+        Row key.
+
+    Returns
+    -------
+    float
+        The value, in the unit of its row.
+
+    Raises
+    ------
+    KeyError
+        If there is no such row.
+    """
+    return _keyed(table, "value")[key]
+
+
+def calibration_setting(key: str) -> float:
+    """A calibration limit or bound from ``calibration.csv`` (see :func:`table_value`)."""
+    return table_value("calibration", key)
 
 
 def emission_factor(key: str) -> float:

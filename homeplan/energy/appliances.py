@@ -160,6 +160,11 @@ class DryerSpec:
         if self.kind not in DRYER_KINDS:
             raise ValueError(f"dryer kind must be one of {DRYER_KINDS}")
 
+    @property
+    def loads(self) -> float:
+        """Loads dried per year (given, or the default in ``data/efficiencies.csv``)."""
+        return efficiency("dryer_loads_per_yr") if self.loads_per_yr is None else self.loads_per_yr
+
 
 def dryer_annual_input(spec: DryerSpec) -> dict[str, float]:
     """Annual dryer energy by fuel: {'electricity': kWh, fuel: units}.
@@ -179,8 +184,7 @@ def dryer_annual_input(spec: DryerSpec) -> dict[str, float]:
     ----------
     DOE 10 CFR 430 Appendix D2 (CEF in lb/kWh; gas energy converted at 3412 Btu/kWh).
     """
-    loads = efficiency("dryer_loads_per_yr") if spec.loads_per_yr is None else spec.loads_per_yr
-    lb = loads * efficiency("dryer_lb_per_load")
+    lb = spec.loads * efficiency("dryer_lb_per_load")
     if spec.kind in ("natural_gas", "propane"):
         total_kwh = lb / efficiency("dryer_cef_gas")
         share = efficiency("dryer_gas_share")

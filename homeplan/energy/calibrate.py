@@ -2,19 +2,27 @@
 
 Two methods, both from the utility-bill ("fuel use") approach: the summer-baseload split and the
 degree-day regression; a floor-area fallback when there are no bills (flagged as estimated).
+Then the model of the whole home is fitted to the bills (:func:`fit_scales`) and the fit is
+graded the way ASHRAE Guideline 14 grades a calibrated simulation (:func:`fit_statistics`).
 """
 
 from __future__ import annotations
 
+import itertools
+from collections.abc import Mapping
 from dataclasses import dataclass
 
 import numpy as np
 
-from homeplan.energy._data import efficiency
+from homeplan.energy._data import calibration_setting, efficiency
 from homeplan.energy.units import btu_to_kwh
 
 __all__ = [
     "Calibration",
+    "FitStatistics",
+    "ScaleFit",
+    "fit_scales",
+    "fit_statistics",
     "calibrate_annual",
     "calibrate_from_floor_area",
     "calibrate_regression",
@@ -337,3 +345,209 @@ def calibrate_from_floor_area(floor_area_ft2: float, design_temp_f: float,
     ua = floor_area_ft2 * efficiency(f"ua_per_ft2_{vintage}")
     return Calibration(ua, design_heating_load_btuh(ua, design_temp_f), 0.0, float("nan"),
                        f"floor-area default ({vintage})", True)
+
+
+# ------------------------------------------------------------------------------ fitting the model
+
+
+@dataclass(frozen=True)
+class FitStatistics:
+    """How well modelled monthly use follows the bills (ASHRAE Guideline 14 measures).
+
+    Attributes
+    ----------
+    n : int
+        Number of bills compared.
+    nmbe_pct : float
+        Normalised mean bias error, % (positive: the model uses less than the bills).
+    cv_rmse_pct : float
+        Coefficient of variation of the root-mean-square error, %.
+    r2 : float or None
+        Coefficient of determination of modelled against billed use (None when the bills do not
+        vary).
+    """
+
+    n: int
+    nmbe_pct: float
+    cv_rmse_pct: float
+    r2: float | None
+
+    @property
+    def meets_monthly_criteria(self) -> bool:
+        """True when NMBE and CV(RMSE) are within the Guideline 14 limits for monthly data.
+
+        References
+        ----------
+        ASHRAE Guideline 14-2014, calibrated simulation with monthly data: NMBE within +/-5 %,
+        CV(RMSE) at most 15 % (from memory; limits in ``data/calibration.csv``).
+        """
+        return (abs(self.nmbe_pct) <= calibration_setting("monthly_nmbe_limit_pct")
+                and self.cv_rmse_pct <= calibration_setting("monthly_cv_rmse_limit_pct"))
+
+
+def fit_statistics(measured: np.ndarray, modelled: np.ndarray, n_params: int = 1) -> FitStatistics:
+    """NMBE, CV(RMSE) and R-squared of modelled against measured use.
+
+    NMBE = sum(y - y_hat) / ((n - p) * mean(y)); CV(RMSE) = sqrt(sum((y - y_hat)^2) / (n - p)) /
+    mean(y); both in %. R-squared = 1 - SS_res / SS_tot.
+
+    Parameters
+    ----------
+    measured : numpy.ndarray
+        Billed use of each period, trade units.
+    modelled : numpy.ndarray
+        Modelled use of the same periods, same unit.
+    n_params : int
+        Number of model parameters p (degrees of freedom taken by the fit).
+
+    Returns
+    -------
+    FitStatistics
+        The three measures.
+
+    Raises
+    ------
+    ValueError
+        If the arrays differ in length, there are not more periods than parameters, or the mean
+        billed use is not positive.
+
+    References
+    ----------
+    ASHRAE Guideline 14-2014, statistical indices of a calibrated model: NMBE and CV(RMSE) with
+    n - p degrees of freedom (from memory).
+    """
+    y = np.asarray(measured, float)
+    y_hat = np.asarray(modelled, float)
+    if y.shape != y_hat.shape:
+        raise ValueError("measured and modelled must have the same length")
+    n = y.size
+    dof = n - n_params
+    if dof <= 0:
+        raise ValueError("need more periods than parameters")
+    mean = float(y.mean())
+    if mean <= 0:
+        raise ValueError("the billed use must be positive on average")
+    resid = y - y_hat
+    nmbe = float(resid.sum()) / (dof * mean) * 100.0
+    cv = float(np.sqrt((resid ** 2).sum() / dof)) / mean * 100.0
+    ss_tot = float(((y - mean) ** 2).sum())
+    r2 = 1.0 - float((resid ** 2).sum()) / ss_tot if ss_tot > 0 else None
+    return FitStatistics(n, nmbe, cv, r2)
+
+
+@dataclass(frozen=True)
+class ScaleFit:
+    """Scale factors that make the modelled parts of a fuel's use add up to its bills.
+
+    Attributes
+    ----------
+    scales : mapping of str to float
+        One factor per modelled part, dimensionless.
+    matches_total : bool
+        True when the scaled parts reproduce the billed total exactly (False when a bound
+        stopped it).
+    """
+
+    scales: Mapping[str, float]
+    matches_total: bool
+
+
+def _solve(a: np.ndarray, y: np.ndarray, t: np.ndarray | None, total: float) -> np.ndarray | None:
+    """Least squares of ``a @ s = y``, with ``t @ s = total`` when ``t`` is given (KKT system)."""
+    k = a.shape[1]
+    ata = a.T @ a
+    aty = a.T @ y
+    if t is None:
+        sol, *_ = np.linalg.lstsq(ata, aty, rcond=None)
+        return sol
+    kkt = np.zeros((k + 1, k + 1))
+    kkt[:k, :k] = ata
+    kkt[:k, k] = t
+    kkt[k, :k] = t
+    rhs = np.append(aty, total)
+    try:
+        sol = np.linalg.solve(kkt, rhs)
+    except np.linalg.LinAlgError:
+        sol, *_ = np.linalg.lstsq(kkt, rhs, rcond=None)
+    return sol[:k]
+
+
+def fit_scales(billed: np.ndarray, parts: Mapping[str, np.ndarray], fixed: np.ndarray | None = None,
+               bounds: Mapping[str, tuple[float, float]] | None = None) -> ScaleFit:
+    """Scale factors s_k, within bounds, so that sum_k s_k * part_k + fixed follows the bills.
+
+    The billed total is matched exactly when the bounds allow it; among the factors that match
+    it, those with the least squared monthly error are chosen (with a single billing period, as
+    for an annual total, give a single part). Every combination of parts held at a bound is
+    tried (a handful of parts: exact, no solver needed).
+
+    Parameters
+    ----------
+    billed : numpy.ndarray
+        Billed use of each period (12 months, or 1 for an annual total), trade units.
+    parts : mapping of str to numpy.ndarray
+        Modelled use of each part (e.g. ``heating``, ``base``) at scale 1, per period.
+    fixed : numpy.ndarray or None
+        Modelled use that is not scaled (e.g. an electric car's charging), per period.
+    bounds : mapping of str to (float, float) or None
+        Lowest and highest factor of each part; missing parts are unbounded above 0.
+
+    Returns
+    -------
+    ScaleFit
+        The factors and whether the billed total is met.
+
+    Raises
+    ------
+    ValueError
+        If there are no parts, or their lengths differ from the bills'.
+
+    References
+    ----------
+    ASHRAE Guideline 14-2014, calibrated simulation: adjust uncertain model inputs until the
+    model reproduces the bills (from memory); equality-constrained least squares by the
+    Karush-Kuhn-Tucker system (Boyd & Vandenberghe, Convex Optimization, 2004, sec. 10.1.1).
+    """
+    names = list(parts)
+    if not names:
+        raise ValueError("nothing to fit")
+    y = np.asarray(billed, float).ravel()
+    a = np.column_stack([np.asarray(parts[k], float).ravel() for k in names])
+    if a.shape[0] != y.size:
+        raise ValueError("parts and bills must cover the same periods")
+    f = np.zeros_like(y) if fixed is None else np.asarray(fixed, float).ravel()
+    r = y - f
+    total = float(r.sum())
+    col_total = a.sum(axis=0)
+    bounds = bounds or {}
+    lo = np.array([bounds.get(k, (0.0, np.inf))[0] for k in names])
+    hi = np.array([bounds.get(k, (0.0, np.inf))[1] for k in names])
+    live = col_total > 0  # a part the model gives nothing for cannot be fitted
+    best: tuple[float, np.ndarray, bool] | None = None
+    for exact in (True, False):
+        for states in itertools.product((0, 1, 2), repeat=len(names)):  # free, at low, at high
+            if any(st == 2 and not np.isfinite(hi[i]) for i, st in enumerate(states)):
+                continue
+            s = np.where(np.array(states) == 1, lo, np.where(np.array(states) == 2, hi, 0.0))
+            s = np.where(live, s, 1.0)
+            free = [i for i, st in enumerate(states) if st == 0 and live[i]]
+            rest = r - a @ np.where([i in free for i in range(len(names))], 0.0, s)
+            if free:
+                sol = _solve(a[:, free], rest, col_total[free] if exact else None,
+                             float(rest.sum()))
+                if sol is None:
+                    continue
+                s[free] = sol
+            elif exact and abs(float((a @ s).sum()) - total) > 1e-9 * max(abs(total), 1.0):
+                continue
+            if np.any(s < lo - 1e-9) or np.any(s > hi + 1e-9):
+                continue
+            err = float(((r - a @ s) ** 2).sum())
+            if best is None or err < best[0] - 1e-12:
+                best = (err, s.copy(), exact)
+        if best is not None:
+            break
+    if best is None:  # no combination fits: every part at its nearest bound to scale 1
+        s = np.clip(np.ones(len(names)), lo, hi)
+        return ScaleFit(dict(zip(names, map(float, s), strict=True)), False)
+    return ScaleFit(dict(zip(names, map(float, best[1]), strict=True)), best[2])

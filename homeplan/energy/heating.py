@@ -187,6 +187,10 @@ class CoolingSpec:
     ----------
     seer2 : float
         Seasonal energy efficiency ratio 2, Btu/Wh.
+    capacity_btuh : float or None
+        Rated cooling capacity, Btu/h (None: unknown); used for the peak demand, not the energy.
+    variable_speed : bool
+        The compressor modulates (inverter) instead of running at full capacity or not at all.
 
     References
     ----------
@@ -194,6 +198,8 @@ class CoolingSpec:
     """
 
     seer2: float = 13.4
+    capacity_btuh: float | None = None
+    variable_speed: bool = False
 
 
 def heating_load_btuh(ua_btuh_f: float, temp_f: np.ndarray, balance_f: float = 65.0) -> np.ndarray:

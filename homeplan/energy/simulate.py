@@ -197,9 +197,11 @@ def with_heat_pump(spec: HomeEnergySpec, hp: HeatPumpSpec) -> HomeEnergySpec:
     Returns
     -------
     HomeEnergySpec
-        A copy of ``spec`` heated by ``hp`` and cooled at its SEER2.
+        A copy of ``spec`` heated by ``hp`` and cooled at its SEER2 (its rated cooling capacity
+        taken as its nominal 47 F heating capacity; modulating when it does not cycle).
     """
-    return replace(spec, heating=hp, cooling=CoolingSpec(seer2=hp.seer2))
+    return replace(spec, heating=hp, cooling=CoolingSpec(seer2=hp.seer2, capacity_btuh=hp.capacity_47_btuh,
+                                                         variable_speed=hp.cycling_cd == 0.0))
 
 
 class SiteCache:
@@ -394,8 +396,8 @@ class EnergyResult:
         Grid export of each month, kWh (12 values).
     monthly_solar_kwh : numpy.ndarray
         Solar production of each month, kWh (12 values).
-    end_use_units : dict of str to dict of str to float
-        Annual use by end use and fuel, trade units per year.
+    monthly_end_use_units : dict of str to dict of str to numpy.ndarray
+        Use of each month by end use and fuel, trade units (12 values).
     monthly_bills_usd : dict of str to numpy.ndarray
         Bill of each month by fuel, USD (12 values).
     peak_kw : float
@@ -425,7 +427,7 @@ class EnergyResult:
     monthly_grid_import_kwh: np.ndarray
     monthly_grid_export_kwh: np.ndarray
     monthly_solar_kwh: np.ndarray
-    end_use_units: dict[str, dict[str, float]]
+    monthly_end_use_units: dict[str, dict[str, np.ndarray]]
     monthly_bills_usd: dict[str, np.ndarray]
     peak_kw: float
     peak_winter_kw: float
@@ -435,6 +437,12 @@ class EnergyResult:
     backup_heat_hours: int
     heating_delivered_kwh: float
     label: str = ""
+
+    @property
+    def end_use_units(self) -> dict[str, dict[str, float]]:
+        """Annual use by end use and fuel, trade units per year."""
+        return {u: {f: float(v.sum()) for f, v in by_fuel.items()}
+                for u, by_fuel in self.monthly_end_use_units.items()}
 
     @property
     def annual_units(self) -> dict[str, float]:
@@ -585,7 +593,12 @@ def simulate(spec: HomeEnergySpec, cache: SiteCache | None = None) -> EnergyResu
     zero = np.zeros(n)
     hourly_fuel: dict[str, np.ndarray] = {}  # hourly combustion fuel use, trade units
     annual_other: dict[str, float] = {}  # fuels without an hourly shape (vehicles)
-    end_use: dict[str, dict[str, float]] = {u: {} for u in END_USES}
+    end_use: dict[str, dict[str, np.ndarray]] = {u: {} for u in END_USES}  # monthly, trade units
+    starts = timegrid.month_start_hours()
+    share = timegrid.month_days() / timegrid.DAYS_PER_YEAR
+
+    def monthly_of(hourly: np.ndarray) -> np.ndarray:
+        return np.add.reduceat(hourly, starts)
 
     # Space heating.
     backup_hours = 0
@@ -597,8 +610,8 @@ def simulate(spec: HomeEnergySpec, cache: SiteCache | None = None) -> EnergyResu
         heat_kwh = hh.electric_kwh
         if hh.fuel is not None:
             _add(hourly_fuel, hh.fuel, hh.fuel_units)
-            end_use["heating"][hh.fuel] = float(hh.fuel_units.sum())
-        end_use["heating"]["electricity"] = float(heat_kwh.sum())
+            end_use["heating"][hh.fuel] = monthly_of(hh.fuel_units)
+        end_use["heating"]["electricity"] = monthly_of(heat_kwh)
         backup_hours = hh.backup_hours
         delivered_kwh = float(btu_to_kwh(load.sum()))
 
@@ -608,7 +621,7 @@ def simulate(spec: HomeEnergySpec, cache: SiteCache | None = None) -> EnergyResu
         cool_load = (spec.ua_btuh_f * spec.cooling_load_multiplier
                      * cache.cooling_degree_hours(spec.cooling_balance_f))
         cool_kwh = cooling_kwh(spec.cooling.seer2, cool_load)
-        end_use["cooling"]["electricity"] = float(cool_kwh.sum())
+        end_use["cooling"]["electricity"] = monthly_of(cool_kwh)
 
     elec = heat_kwh + cool_kwh
 
@@ -619,7 +632,7 @@ def simulate(spec: HomeEnergySpec, cache: SiteCache | None = None) -> EnergyResu
             elec = elec + wh
         else:
             _add(hourly_fuel, spec.water_heater.fuel, wh)
-        end_use["water"][spec.water_heater.fuel] = float(wh.sum())
+        end_use["water"][spec.water_heater.fuel] = monthly_of(wh)
 
     # Cooking and drying.
     if spec.cooking is not None:
@@ -629,7 +642,7 @@ def simulate(spec: HomeEnergySpec, cache: SiteCache | None = None) -> EnergyResu
             elec = elec + prof
         else:
             _add(hourly_fuel, fuel, prof)
-        end_use["cooking"][fuel] = units
+        end_use["cooking"][fuel] = monthly_of(prof)
     if spec.dryer is not None:
         for fuel, units in dryer_annual_input(spec.dryer).items():
             prof = cache.profile("dryer", units)
@@ -637,21 +650,24 @@ def simulate(spec: HomeEnergySpec, cache: SiteCache | None = None) -> EnergyResu
                 elec = elec + prof
             else:
                 _add(hourly_fuel, fuel, prof)
-            end_use["drying"][fuel] = units
+            end_use["drying"][fuel] = monthly_of(prof)
 
     # Vehicles.
     for v in spec.vehicles:
         fuel, units = vehicle_annual_input(v)
         if fuel == "electricity":
-            elec = elec + cache.ev_hourly(v)
+            ev = cache.ev_hourly(v)
+            elec = elec + ev
+            months = monthly_of(ev)
         else:
             annual_other[fuel] = annual_other.get(fuel, 0.0) + units
-        end_use["vehicles"][fuel] = end_use["vehicles"].get(fuel, 0.0) + units
+            months = units * share
+        end_use["vehicles"][fuel] = end_use["vehicles"].get(fuel, np.zeros(12)) + months
 
     # Other electric loads.
     if spec.plug_kwh_per_yr > 0:
         elec = elec + cache.profile("plug", spec.plug_kwh_per_yr)
-        end_use["plug"]["electricity"] = spec.plug_kwh_per_yr
+        end_use["plug"]["electricity"] = monthly_of(cache.profile("plug", spec.plug_kwh_per_yr))
 
     # Solar and battery.
     solar = cache.pv_ac_kw(spec.solar) if spec.solar is not None and spec.solar.dc_kw > 0 else zero
@@ -665,11 +681,9 @@ def simulate(spec: HomeEnergySpec, cache: SiteCache | None = None) -> EnergyResu
     grid_export = np.maximum(-net, 0.0)
 
     # Monthly energy.
-    starts = timegrid.month_start_hours()
     monthly: dict[str, np.ndarray] = {"electricity": np.add.reduceat(elec, starts)}
     for fuel, arr in hourly_fuel.items():
         monthly[fuel] = np.add.reduceat(arr, starts)
-    share = timegrid.month_days() / timegrid.DAYS_PER_YEAR
     for fuel, units in annual_other.items():
         monthly[fuel] = monthly.get(fuel, np.zeros(12)) + units * share
     if spec.gas_service_open and "natural_gas" not in monthly:
@@ -706,7 +720,7 @@ def simulate(spec: HomeEnergySpec, cache: SiteCache | None = None) -> EnergyResu
         monthly_grid_import_kwh=m_imp,
         monthly_grid_export_kwh=m_exp,
         monthly_solar_kwh=np.add.reduceat(solar, starts),
-        end_use_units=end_use,
+        monthly_end_use_units=end_use,
         monthly_bills_usd=bills,
         peak_kw=float(elec.max()),
         peak_winter_kw=float(elec[cache.winter_mask].max()),

@@ -12,6 +12,7 @@ from homeplan.energy._data import constant, efficiency
 __all__ = [
     "CHARGING_SCHEDULES",
     "VehicleSpec",
+    "daily_charging_kw",
     "daily_charging_profile",
     "ev_charging_hourly",
     "ev_wall_kwh_per_mile",
@@ -193,8 +194,23 @@ def ev_charging_hourly(spec: VehicleSpec) -> np.ndarray:
     numpy.ndarray
         Home charging energy of each hour, kWh from the wall (8760 values).
     """
+    return np.tile(daily_charging_kw(spec), timegrid.DAYS_PER_YEAR)
+
+
+def daily_charging_kw(spec: VehicleSpec) -> np.ndarray:
+    """One day's home charging by hour of day (every day the same), kW = kWh per hour.
+
+    Parameters
+    ----------
+    spec : VehicleSpec
+        The electric vehicle.
+
+    Returns
+    -------
+    numpy.ndarray
+        Charging of each hour of the day, kW (24 values).
+    """
     _, annual = vehicle_annual_input(spec)
     start = {"overnight": spec.plug_in_hour, "solar": 10, "tou": spec.window_start_hour,
              "immediate": 18}[spec.schedule]
-    prof = daily_charging_profile(annual / timegrid.DAYS_PER_YEAR, start, spec.charger_kw)
-    return np.tile(prof, timegrid.DAYS_PER_YEAR)
+    return daily_charging_profile(annual / timegrid.DAYS_PER_YEAR, start, spec.charger_kw)

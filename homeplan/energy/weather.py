@@ -473,6 +473,10 @@ def _components(normals: ClimateNormals, rng: np.random.Generator) -> _Component
 
     # Day-to-day weather: AR(1) anomalies, larger in winter, smoothed to hours, plus hourly noise.
     z_day = _ar1(rng, timegrid.DAYS_PER_YEAR, 0.7) * (1.0 - 0.4 * season_day)
+    # A typical year's months sit near their long-term means (TMY months are picked for it,
+    # Hall et al. 1978): the day-to-day weather averages out within each month.
+    month_of_day = timegrid.hour_month()[::24] - 1
+    z_day = z_day - (np.bincount(month_of_day, z_day) / np.bincount(month_of_day))[month_of_day]
     z_h = np.interp(hours, day_centres, z_day) + 0.25 * _ar1(rng, n, 0.9)
     anomaly = z_h / z_h.std()
     # Cold outbreaks: an extra push on the cold side only (real winter anomalies skew cold).

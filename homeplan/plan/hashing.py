@@ -1,8 +1,9 @@
 """A stable content hash of a plan: the same inputs give the same hash on every machine.
 
-The hash covers the *validated* content (``Plan.model_dump(mode="json")``), so it ignores what
-does not change the plan's meaning: comments, key order, whitespace, quoting, SI spellings that
-convert to the same internal value, and defaults written out or left implicit. It is shown on
+The hash covers the *validated* content (``Plan.model_dump(mode="json", exclude_defaults=True)``),
+so it ignores what does not change the plan's meaning: comments, key order, whitespace, quoting,
+SI spellings that convert to the same internal value, and defaults written out or left implicit
+- and a new optional field added to the format does not change the hash of existing plans. It is shown on
 printouts and in the app so an installer and a homeowner can tell at a glance whether they are
 looking at the same plan.
 
@@ -32,6 +33,6 @@ def canonical_json(data: Any) -> str:
 
 def content_hash(plan: Any) -> str:
     """First 12 hex characters of SHA-256 over the canonical JSON of the validated plan."""
-    data = plan.model_dump(mode="json")
+    data = plan.model_dump(mode="json", exclude_defaults=True)
     digest = hashlib.sha256(canonical_json(data).encode("utf-8")).hexdigest()
     return digest[:HASH_CHARS]

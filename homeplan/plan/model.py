@@ -27,6 +27,7 @@ __all__ = [
     "ElectricUsage",
     "Electrical",
     "ElectricalLoad",
+    "EmergencyFunds",
     "ExistingBattery",
     "ExistingSolar",
     "GallonPrice",
@@ -151,6 +152,9 @@ class Electrical(Section):
         None, gt=0, le=500, description="Highest 15-minute demand over the period measured."
     )
     peak_demand_period: Literal["12_months", "30_days"] = "12_months"
+    continuous_loads_at_125: bool = Field(
+        True, description="With a measured peak (NEC 220.87): count continuous new loads such as "
+        "chargers at 125 % (the conservative reading; ask the inspector).")
     small_appliance_circuits: int = Field(2, ge=0, le=20)
     laundry_circuits: int = Field(1, ge=0, le=5)
     loads: list[ElectricalLoad] | None = Field(
@@ -303,6 +307,13 @@ class ElectricUsage(Section):
     monthly_kwh: list[Annotated[float, Field(ge=0)]] | None = Field(
         None, min_length=12, max_length=12, description="January to December."
     )
+    bills_show: Literal["used", "net", "bought"] | None = Field(
+        None,
+        description="What the kWh on the bills are when the home has solar: 'net' (bought minus "
+        "sent back, as under net metering), 'bought' (only what came from the grid; what was sent "
+        "back is credited apart) or 'used' (the home's whole use). Without solar they are 'used'; "
+        "with solar and no answer, 'net' is assumed.",
+    )
 
 
 class GasUsage(Section):
@@ -323,6 +334,11 @@ class Usage(Section):
     """Energy use from the household's bills; used to calibrate the model."""
 
     year: Year | None = None
+    weather_file: str | None = Field(
+        None,
+        description="EPW or TMY3-format file of the weather during the billed year, relative to "
+        "the plan file; the bills are then weather-normalised to the typical year.",
+    )
     electricity: ElectricUsage | None = None
     gas: GasUsage | None = None
     propane: GallonUsage | None = None
@@ -405,6 +421,21 @@ class Loan(Section):
     term_years: int = Field(ge=1, le=40)
 
 
+class EmergencyFunds(Section):
+    """How the household pays for an essential replacement (heat, hot water) beyond the year's
+    budget: savings first, then a loan on these terms; what neither covers is over budget."""
+
+    savings_usd: Money = Field(0, description="Savings that can go to an emergency replacement.")
+    loan_rate_pct: float | None = Field(None, ge=0, le=40, description="Emergency loan rate.")
+    loan_term_years: int | None = Field(None, ge=1, le=40, description="Emergency loan term.")
+
+    @model_validator(mode="after")
+    def _loan_complete(self) -> EmergencyFunds:
+        if (self.loan_rate_pct is None) != (self.loan_term_years is None):
+            raise ValueError("an emergency loan needs both loan_rate_pct and loan_term_years")
+        return self
+
+
 class Budget(Section):
     usd_per_year: Money = Field(description="What the household can spend each year.")
     first_year: Year | None = Field(None, description="Default: next calendar year.")
@@ -414,6 +445,9 @@ class Budget(Section):
     discount_rate_pct: float = Field(3.0, ge=0, le=30)
     by_year: dict[Year, Money] | None = Field(None, description="Budgets that differ by year.")
     loans: list[Loan] = []
+    emergency: EmergencyFunds | None = Field(
+        None, description="How a failed heating system or water heater is paid for beyond the budget."
+    )
 
 
 class ProjectOption(Section):
@@ -430,6 +464,9 @@ class ProjectOption(Section):
     cop_5f: float | None = Field(None, ge=1, le=5, description="Heat pump COP at 5 F.")
     capacity_5f_pct: float | None = Field(None, ge=10, le=130, description="Capacity at 5 F, % of 47 F.")
     amps: float | None = Field(None, gt=0, le=400, description="Charger or service amps.")
+    backup: Literal["electric", "existing"] | None = Field(
+        None, description="Heat pump backup heat: electric (strips or heaters, the default) or "
+        "existing (keep the fuel-burning furnace or boiler as a dual-fuel backup).")
 
 
 Objective = Literal["npv", "emissions", "gas_off_early", "out_of_pocket"]

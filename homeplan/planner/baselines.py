@@ -15,7 +15,7 @@ from __future__ import annotations
 from homeplan.money.finance import discount_factor, remaining_value_share
 from homeplan.planner.breakdowns import breakdown_cost, lfl_cost, replaceable_items
 from homeplan.planner.context import Context
-from homeplan.planner.states import StateEnergy
+from homeplan.planner.states import StateEnergy, peak_fields
 from homeplan.result.roadmap import Baseline, YearTotals
 
 __all__ = ["bills_in_year", "do_nothing", "like_for_like"]
@@ -26,7 +26,8 @@ def bills_in_year(ctx: Context, bills: dict[str, float], t: int) -> dict[str, fl
     return {f: v * (1 + ctx.escalation(f)) ** t for f, v in bills.items()}
 
 
-def do_nothing(ctx: Context, base_energy: StateEnergy, headroom_amps: float = 0.0) -> Baseline:
+def do_nothing(ctx: Context, base_energy: StateEnergy, headroom_amps: float = 0.0,
+               load_pct: float | None = None) -> Baseline:
     """Keep today's home: its bills each year (breakdowns are counted in every NPV)."""
     years = []
     cumulative = 0.0
@@ -39,12 +40,12 @@ def do_nothing(ctx: Context, base_energy: StateEnergy, headroom_amps: float = 0.
                                 peak_kw=round(base_energy.peak_kw, 2),
                                 service_headroom_amps=round(headroom_amps, 1),
                                 energy={k: round(v, 1) for k, v in base_energy.units.items()},
-                                peak_winter_kw=round(base_energy.summary.peak_winter_kw, 2),
-                                peak_summer_kw=round(base_energy.summary.peak_summer_kw, 2)))
+                                service_load_pct=load_pct, **peak_fields(base_energy)))
     return Baseline("do_nothing", "do nothing (pay for breakdowns as they come)", tuple(years), 0.0)
 
 
-def like_for_like(ctx: Context, base_energy: StateEnergy, headroom_amps: float = 0.0) -> Baseline:
+def like_for_like(ctx: Context, base_energy: StateEnergy, headroom_amps: float = 0.0,
+                  load_pct: float | None = None) -> Baseline:
     """Replace each appliance with the same kind on the same fuel in its likely end-of-life year."""
     rate = ctx.plan.budget.discount_rate_pct
     infl = ctx.plan.prices.inflation_pct / 100.0
@@ -76,8 +77,7 @@ def like_for_like(ctx: Context, base_energy: StateEnergy, headroom_amps: float =
                                 peak_kw=round(base_energy.peak_kw, 2),
                                 service_headroom_amps=round(headroom_amps, 1),
                                 energy={k: round(v, 1) for k, v in base_energy.units.items()},
-                                peak_winter_kw=round(base_energy.summary.peak_winter_kw, 2),
-                                peak_summer_kw=round(base_energy.summary.peak_summer_kw, 2)))
+                                service_load_pct=load_pct, **peak_fields(base_energy)))
     npv += salvage * discount_factor(rate, len(ctx.years))
     for key, (_pid, item_cost) in replaceable_items(ctx).items():
         until = min(breakdowns_before[key], end) - ctx.first_year

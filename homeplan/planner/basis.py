@@ -18,16 +18,11 @@ from collections.abc import Iterable
 from dataclasses import dataclass, replace
 from pathlib import Path
 
-import numpy as np
-
 from homeplan.catalog import ReferenceClimate, performance, reference_climates
-from homeplan.energy import calibrate
 from homeplan.energy import weather as wx
 from homeplan.energy.appliances import (
     CookingSpec,
     DryerSpec,
-    cooking_annual_input,
-    dryer_annual_input,
 )
 from homeplan.energy.battery import BatterySpec
 from homeplan.energy.calibrate import Calibration
@@ -42,14 +37,21 @@ from homeplan.energy.heating import (
 from homeplan.energy.rates import ElectricRate, FuelPrice, FuelPrices, TouPeriod
 from homeplan.energy.simulate import HomeEnergySpec, SiteCache, simulate
 from homeplan.energy.solar import SolarArraySpec, SolarSite
-from homeplan.energy.units import btu_per_unit
 from homeplan.energy.vehicles import VehicleSpec
-from homeplan.energy.water import WaterHeaterSpec, hot_water_gal_per_day, water_heater_annual_input
+from homeplan.energy.water import WaterHeaterSpec
 from homeplan.energy.weather import Weather
 from homeplan.errors import PlanRuleError
 from homeplan.plan.fuels import TANK_FUELS, appliance_fuel, engine_fuel
 from homeplan.plan.model import Appliance, Plan
+from homeplan.planner.calibration import (
+    appliance_efficiency,
+    first_heat_loss,
+    fit_to_bills,
+    heating_appliance,
+)
 from homeplan.planner.lifecycle import appliance_type
+from homeplan.planner.peaks import PeakBasis, peak_basis
+from homeplan.result.roadmap import BillFit
 
 __all__ = [
     "HomeBasis",
@@ -59,10 +61,8 @@ __all__ = [
     "home_basis",
     "load_weather",
     "nearest_reference_climate",
+    "appliance_efficiency",
 ]
-
-DAYS_IN_MONTH = np.array([31, 28, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31], dtype=float)
-
 
 def nearest_reference_climate(lat: float, lon: float) -> tuple[ReferenceClimate, float]:
     """The reference climate nearest by great-circle distance (km)."""
@@ -80,6 +80,21 @@ def nearest_reference_climate(lat: float, lon: float) -> tuple[ReferenceClimate,
 # ------------------------------------------------------------------------------ weather
 
 
+def _read_weather_file(key: tuple[str, ...], name: str, base_dir: Path | None) -> Weather:
+    """A weather file (EPW or TMY3) named in the plan at ``key``, relative to the plan's folder."""
+    path = Path(name)
+    if not path.is_absolute() and base_dir is not None:
+        path = base_dir / path
+    if not path.exists():
+        raise PlanRuleError(key, f"weather file not found: {path}",
+                            "give a path relative to the plan file, or remove the key")
+    try:
+        return wx.read_weather(path)
+    except (ValueError, KeyError, IndexError) as exc:
+        raise PlanRuleError(key, f"cannot read weather file: {exc}",
+                            "use an EPW (.epw) or TMY3 (.csv) file") from None
+
+
 def load_weather(plan: Plan, base_dir: Path | None) -> tuple[Weather, str]:
     """The weather year for the plan and a note on where it came from.
 
@@ -90,21 +105,11 @@ def load_weather(plan: Plan, base_dir: Path | None) -> tuple[Weather, str]:
     c = h.climate
     notes: list[str] = []
     if c.weather_file:
-        path = Path(c.weather_file)
-        if not path.is_absolute() and base_dir is not None:
-            path = base_dir / path
-        if not path.exists():
-            raise PlanRuleError(("home", "climate", "weather_file"), f"weather file not found: {path}",
-                                "give a path relative to the plan file, or remove the key")
-        try:
-            w = wx.read_weather(path)
-        except (ValueError, KeyError, IndexError) as exc:
-            raise PlanRuleError(("home", "climate", "weather_file"), f"cannot read weather file: {exc}",
-                                "use an EPW (.epw) or TMY3 (.csv) file") from None
+        w = _read_weather_file(("home", "climate", "weather_file"), c.weather_file, base_dir)
         if c.heating_design_f is not None or c.cooling_design_f is not None:
             w = replace(w, heating_design_f=c.heating_design_f or w.heating_design_f,
                         cooling_design_f=c.cooling_design_f or w.cooling_design_f)
-        return w, f"weather file {path.name}"
+        return w, f"weather file {Path(c.weather_file).name}"
     lat = h.location.latitude if h.location else None
     lon = h.location.longitude if h.location else None
     ref = None
@@ -133,30 +138,12 @@ def load_weather(plan: Plan, base_dir: Path | None) -> tuple[Weather, str]:
 # ------------------------------------------------------------------------------ equipment
 
 
-def _heating_appliance(plan: Plan) -> Appliance | None:
-    for kind in ("furnace", "boiler", "heat_pump", "mini_split", "baseboard"):
-        for a in plan.appliances:
-            if a.kind == kind:
-                return a
-    return None
-
-
 def _cooling_appliance(plan: Plan) -> Appliance | None:
     for kind in ("central_ac", "heat_pump", "mini_split", "room_ac"):
         for a in plan.appliances:
             if a.kind == kind:
                 return a
     return None
-
-
-def _default_efficiency(a: Appliance) -> float:
-    if a.afue:
-        return a.afue
-    fuel = appliance_fuel(a)
-    if fuel == "electric":
-        return 1.0
-    # from memory: furnaces/boilers of the 1990s-2000s 0.78-0.80 AFUE; condensing 0.95
-    return 0.95 if a.type == "condensing" else 0.80
 
 
 def existing_heat_pump(a: Appliance, design_load_btuh: float) -> HeatPumpSpec:
@@ -170,7 +157,7 @@ def existing_heat_pump(a: Appliance, design_load_btuh: float) -> HeatPumpSpec:
 
 
 def heating_spec_today(plan: Plan, design_load_btuh: float) -> HeatingSpec | None:
-    a = _heating_appliance(plan)
+    a = heating_appliance(plan)
     if a is None:
         return None
     fuel = appliance_fuel(a)
@@ -178,14 +165,15 @@ def heating_spec_today(plan: Plan, design_load_btuh: float) -> HeatingSpec | Non
         return existing_heat_pump(a, design_load_btuh)
     if fuel == "electric":
         return ResistanceHeatSpec()
-    return FurnaceSpec(fuel=engine_fuel(fuel), afue=_default_efficiency(a), kind=a.kind)
+    return FurnaceSpec(fuel=engine_fuel(fuel), afue=appliance_efficiency(a), kind=a.kind)
 
 
 def cooling_spec_today(plan: Plan) -> CoolingSpec | None:
     a = _cooling_appliance(plan)
     if a is None:
         return None
-    return CoolingSpec(seer2=a.seer2 or (10.0 if a.kind == "room_ac" else 13.0))
+    return CoolingSpec(seer2=a.seer2 or (10.0 if a.kind == "room_ac" else 13.0),
+                       capacity_btuh=a.capacity_btuh, variable_speed=a.kind == "mini_split")
 
 
 def water_spec_today(plan: Plan) -> WaterHeaterSpec | None:
@@ -272,92 +260,6 @@ def emission_factors(plan: Plan) -> EmissionFactors:
     return EmissionFactors.default(grid_kg_per_kwh=plan.prices.grid_kg_co2_per_kwh)
 
 
-# ------------------------------------------------------------------------------ calibration
-
-
-def _heating_fuel_bills(plan: Plan, fuel: str) -> tuple[np.ndarray | None, float | None]:
-    u = plan.usage
-    if u is None:
-        return None, None
-    if fuel == "gas" and u.gas is not None:
-        m = np.array(u.gas.monthly_therms, float) if u.gas.monthly_therms else None
-        return m, u.gas.annual_therms if m is None else float(m.sum())
-    if fuel in TANK_FUELS:
-        g = getattr(u, fuel)
-        if g is not None:
-            m = np.array(g.monthly_gal, float) if g.monthly_gal else None
-            return m, g.annual_gal if m is None else float(m.sum())
-    if fuel == "electric" and u.electricity is not None:
-        m = np.array(u.electricity.monthly_kwh, float) if u.electricity.monthly_kwh else None
-        return m, u.electricity.annual_kwh if m is None else float(m.sum())
-    return None, None
-
-
-def _vintage(plan: Plan) -> str:
-    y = plan.home.year_built
-    if y is None or y < 1980 or plan.home.envelope == "leaky":
-        return "pre1980" if (y is None or y < 1980) else "1980_2000"
-    return "1980_2000" if y <= 2000 else "post2000"
-
-
-def calibrate_home(plan: Plan, weather: Weather, base: dict) -> tuple[Calibration, list[str]]:
-    """Heat-loss coefficient from the heating fuel bills, or a floor-area default (flagged).
-
-    ``base`` holds the non-heating specs of today's home, used to estimate the baseload on the
-    heating fuel when only an annual total is known.
-    """
-    notes: list[str] = []
-    design = float(weather.heating_design_f)
-    hdd = float(weather.hdd65)
-    a = _heating_appliance(plan)
-    if a is not None and a.kind not in ("heat_pump", "mini_split"):
-        fuel = appliance_fuel(a)
-        monthly, annual = _heating_fuel_bills(plan, fuel)
-        eff = _default_efficiency(a)
-        btu = btu_per_unit(engine_fuel(fuel))
-        try:
-            if monthly is not None and monthly.sum() > 0:
-                cal = calibrate.calibrate_summer_baseload(monthly, DAYS_IN_MONTH, hdd, design, eff,
-                                                          btu_per_unit=btu)
-                if cal.ua_btuh_f > 0:
-                    notes.append(f"heat loss calibrated from your monthly {fuel} use ({cal.method})")
-                    return cal, notes
-            if annual:
-                baseload = _baseload_on_fuel(plan, fuel, base, weather)
-                if annual > baseload:
-                    cal = calibrate.calibrate_annual(annual, baseload, hdd, design, eff, btu_per_unit=btu)
-                    notes.append(f"heat loss calibrated from your annual {fuel} use, minus an "
-                                 "estimated baseload for water heating, cooking and drying")
-                    return cal, notes
-        except (ValueError, TypeError) as exc:
-            notes.append(f"could not calibrate from the bills ({exc}); using floor-area defaults")
-    cal = calibrate.calibrate_from_floor_area(plan.home.floor_area_ft2, design, _vintage(plan))
-    envelope = {"leaky": 1.2, "average": 1.0, "tight": 0.8}[plan.home.envelope]  # common practice, no source
-    if envelope != 1.0:
-        cal = replace(cal, ua_btuh_f=cal.ua_btuh_f * envelope,
-                      design_load_btuh=cal.design_load_btuh * envelope)
-    notes.append("no usable heating bills: heat loss estimated from floor area and age (less certain)")
-    return cal, notes
-
-
-def _baseload_on_fuel(plan: Plan, fuel: str, base: dict, weather: Weather) -> float:
-    """Estimated yearly non-heating use of the heating fuel (water, cooking, drying)."""
-    f = engine_fuel(fuel)
-    total = 0.0
-    w = base.get("water_heater")
-    if w is not None and w.fuel == f:
-        rise = 125.0 - float(np.mean(weather.temp_f)) - 5.0  # mains ~ annual mean air + ~5 F (Burch & Christensen 2007, from memory)
-        total += water_heater_annual_input(w, hot_water_gal_per_day(plan.home.occupants), max(rise, 40.0))
-    c = base.get("cooking")
-    if c is not None:
-        cf, units = cooking_annual_input(c)
-        total += units if cf == f else 0.0
-    d = base.get("dryer")
-    if d is not None:
-        total += dryer_annual_input(d).get(f, 0.0)
-    return total
-
-
 # ------------------------------------------------------------------------------ the basis
 
 
@@ -371,21 +273,35 @@ class HomeBasis:
     base: HomeEnergySpec          # the home today
     weather_note: str
     notes: tuple[str, ...]
+    bill_fits: tuple[BillFit, ...] = ()   # how the model reproduces each fuel's bills
+    peak: PeakBasis | None = None         # today's peak demand and design-day demand
 
     @property
     def design_load_btuh(self) -> float:
         return float(self.calibration.design_load_btuh)
 
 
+def _bill_year_site(plan: Plan, base_dir: Path | None, typical: Weather) -> tuple[SiteCache | None, str | None]:
+    """The cache of the billed year's weather (``usage.weather_file``), when the plan gives one."""
+    u = plan.usage
+    if u is None or not u.weather_file:
+        return None, None
+    w = _read_weather_file(("usage", "weather_file"), u.weather_file, base_dir)
+    w = replace(w, heating_design_f=typical.heating_design_f, cooling_design_f=typical.cooling_design_f)
+    return SiteCache(w), Path(u.weather_file).name
+
+
 def home_basis(plan: Plan, base_dir: Path | None = None,
                place: tuple[Weather, str, SolarSite] | None = None) -> HomeBasis:
-    """The home's basis. ``place`` gives the weather year, its note and its solar geometry when
-    they are already known (homes of one place share them: :mod:`homeplan.planner.shared`);
-    otherwise they are loaded for this home alone."""
+    """Today's home: weather, solar geometry, heat loss and equipment, fitted to the bills.
+
+    ``place`` gives the weather year, its note and its solar geometry when they are already
+    known (homes of one place share them: :mod:`homeplan.planner.shared`); otherwise they are
+    loaded for this home alone."""
     weather, wnote, solar_site = place if place is not None else (*load_weather(plan, base_dir), None)
     parts = {"water_heater": water_spec_today(plan), "cooking": cooking_spec_today(plan),
              "dryer": dryer_spec_today(plan)}
-    cal, notes = calibrate_home(plan, weather, parts)
+    cal, notes = first_heat_loss(plan, weather, parts)
     roof = plan.home.roof
     solar = None
     if plan.home.solar is not None:
@@ -410,65 +326,28 @@ def home_basis(plan: Plan, base_dir: Path | None = None,
                                  if any(appliance_fuel(a) == f for a in plan.appliances)),
         label="today", **parts,
     )
-    # plug loads: what the electric bills show beyond the modelled end uses
-    notes = list(notes)
-    u = plan.usage
-    billed = None
-    if u is not None and u.electricity is not None:
-        billed = (sum(u.electricity.monthly_kwh) if u.electricity.monthly_kwh else u.electricity.annual_kwh)
-    if billed:
-        trial = simulate(replace(spec, plug_kwh_per_yr=0.0), site)
-        modelled = float(trial.load_kw.sum())
-        solar_kwh = float(trial.solar_kw.sum())
-        plug = billed + solar_kwh - modelled  # bills show net of solar used on site (approx.)
-        floor = 1500.0  # common practice, no source: fridge, lights and electronics rarely less
-        if plug < floor:
-            notes.append(f"the electric bills ({billed:,.0f} kWh) are below the modelled uses; "
-                         f"other plug loads set to {floor:,.0f} kWh")
-            plug = floor
-        spec = replace(spec, plug_kwh_per_yr=plug)
-        monthly = u.electricity.monthly_kwh
-        if monthly and spec.cooling is not None:
-            spec, note = _calibrate_cooling(spec, site, monthly, billed, floor)
-            if note:
-                notes.append(note)
-    else:
+    bill_site, bill_weather = _bill_year_site(plan, base_dir, weather)
+    spec, fits, fit_notes = fit_to_bills(plan, spec, site, bill_site)
+    heat_fit = next((f for f in fits if f.heating > 0 and "heating" in f.method), None)
+    if heat_fit is not None:  # the fit to the bills supersedes the first estimate
+        cal = replace(cal, method=f"{heat_fit.fuel} bills ({heat_fit.method}; heating needed below "
+                                  f"{spec.heating_balance_f:g} F)", estimated=False)
+        notes = [f"heat loss fitted to your {heat_fit.fuel} bills; the house needs heat below "
+                 f"about {spec.heating_balance_f:g} F outdoors"]
+    notes = [*notes, *fit_notes]
+    if bill_weather:
+        wnote += f"; bills fitted under the billed year's weather ({bill_weather})"
+    if not any(f.fuel == "electricity" for f in fits):
         notes.append("no electric bills: other plug loads use the default "
                      f"{spec.plug_kwh_per_yr:,.0f} kWh a year")
+    if spec.ua_btuh_f != cal.ua_btuh_f or spec.heating_balance_f != 65.0:
+        # the fitted home's own load at the design temperature: UA x (balance - design), the
+        # balance temperature crediting the gains the bills show (Manual J's 70 F indoor
+        # without gains would add a margin)
+        cal = replace(cal, ua_btuh_f=spec.ua_btuh_f, design_load_btuh=spec.design_heating_load_btuh)
+    peak = peak_basis(plan, spec, simulate(spec, site))
     return HomeBasis(weather=weather, site=site, calibration=cal, base=spec, weather_note=wnote,
-                     notes=tuple(notes))
-
-
-SUMMER = slice(5, 9)  # June to September
-
-
-def _calibrate_cooling(spec: HomeEnergySpec, site: SiteCache, monthly_kwh: list[float], billed: float,
-                       floor: float) -> tuple[HomeEnergySpec, str | None]:
-    """Scale the sensible degree-hour cooling load so June-September matches the bills.
-
-    Cooling energy is linear in the load multiplier, so two simulations give the line; the
-    plug loads are then re-derived from the annual bill. The multiplier stands for the solar and
-    latent gains the degree-hour model leaves out (kept between 0.5 and 4).
-
-    References
-    ----------
-    ASHRAE Guideline 14-2014 (calibrating a model to monthly utility bills, from memory).
-    """
-
-    def summer(m: float) -> float:
-        r = simulate(replace(spec, cooling_load_multiplier=m), site)
-        return float(np.asarray(r.monthly_grid_import_kwh)[SUMMER].sum())
-
-    a1, a2 = summer(1.0), summer(2.0)
-    slope = a2 - a1
-    target = float(sum(monthly_kwh[SUMMER]))
-    if slope <= 1.0:
-        return spec, None
-    m = float(min(max(1.0 + (target - a1) / slope, 0.5), 4.0))
-    trial = simulate(replace(spec, cooling_load_multiplier=m, plug_kwh_per_yr=0.0), site)
-    plug = max(billed + float(trial.solar_kw.sum()) - float(trial.load_kw.sum()), floor)
-    return (replace(spec, cooling_load_multiplier=m, plug_kwh_per_yr=plug),
-            f"cooling calibrated to your summer electric bills (load x {m:.1f})")
+                     notes=tuple(notes), bill_fits=fits, peak=peak)
 
 
 # ------------------------------------------------------------------------------ states

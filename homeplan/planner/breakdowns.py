@@ -15,6 +15,8 @@ NIST Handbook 135, "Life-Cycle Costing Manual for the Federal Energy Management 
 
 from __future__ import annotations
 
+from dataclasses import dataclass
+
 from homeplan.catalog import like_for_like_cost
 from homeplan.money.finance import discount_factor, remaining_value_share
 from homeplan.plan.fuels import HOME_FUELS, appliance_fuel
@@ -23,9 +25,12 @@ from homeplan.planner.context import Context
 from homeplan.planner.projects import replaced_fuels
 
 __all__ = [
+    "ESSENTIAL_SERVICE",
     "LFL_PREFIX",
+    "EmergencyItem",
     "breakdown_cost",
     "breakdowns_by_year",
+    "emergency_items",
     "expected_breakdowns",
     "fossil_projects",
     "lfl_cost",
@@ -34,6 +39,39 @@ __all__ = [
 
 LFL_PREFIX = "like_for_like:"
 """Id prefix of the like-for-like replacement the scheduler may choose instead of an upgrade."""
+
+ESSENTIAL_SERVICE = {"furnace": "heat", "boiler": "heat", "heat_pump": "heat", "mini_split": "heat",
+                     "baseboard": "heat", "water_heater": "hot water"}
+"""Appliance kinds whose failure leaves the home without an essential service: a failed one is
+replaced in the first plan year, over budget if need be (common practice, no source: a home is
+not left without heat or hot water)."""
+
+
+@dataclass(frozen=True)
+class EmergencyItem:
+    """A failed appliance that provides an essential service, and the two ways to replace it."""
+
+    key: str                   # appliance id in the plan
+    label: str                 # "oil boiler"
+    service: str               # "heat" or "hot water"
+    upgrade: str               # the project that replaces it with electric equipment
+    like_for_like: str | None  # the like-for-like project id, when the catalog prices one
+
+
+def emergency_items(ctx: Context) -> list[EmergencyItem]:
+    """Failed appliances (``choices.failed_now`` or ``condition: failed``) that provide heat or
+    hot water and that a candidate project replaces."""
+    failed = set(ctx.plan.choices.failed_now) | {a.key for a in ctx.plan.appliances
+                                                  if a.condition == "failed"}
+    items = replaceable_items(ctx)
+    out = []
+    for a in ctx.plan.appliances:
+        if a.key not in failed or a.kind not in ESSENTIAL_SERVICE or a.key not in items:
+            continue
+        lfl = f"{LFL_PREFIX}{a.key}" if lfl_cost(ctx, a.key) > 0 else None
+        out.append(EmergencyItem(a.key, ctx.outlooks[a.key].label, ESSENTIAL_SERVICE[a.kind],
+                                 items[a.key][0], lfl))
+    return out
 
 
 def fossil_projects(ctx: Context) -> list[str]:

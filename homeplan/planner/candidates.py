@@ -19,22 +19,26 @@ common practice, no source: air sealing before heat pump sizing, roof before sol
 from __future__ import annotations
 
 import difflib
+from collections.abc import Mapping
 from dataclasses import dataclass, field
 
 from homeplan import catalog
 from homeplan.errors import PlanRuleError
 from homeplan.plan.fuels import HOME_FUELS, appliance_fuel
-from homeplan.plan.model import Plan
+from homeplan.plan.model import Appliance, Plan
 from homeplan.planner import lifecycle
 
 __all__ = [
     "CAPACITY_GROUP",
+    "INSTALL_ORDER",
     "MILESTONE_FOR_FUEL",
     "Candidate",
     "any_of_groups",
     "build_graph",
     "candidates",
+    "dual_fuel_backup",
     "heat_pump_variant",
+    "install_order",
     "layers",
     "prerequisites_closure",
     "project_nodes",
@@ -45,6 +49,17 @@ HEATING_KINDS = ("furnace", "boiler", "central_ac", "room_ac", "baseboard")
 CAPACITY_GROUP = "any_of:capacity"
 LOWER_POWER = "lower_power_variants"
 MILESTONE_FOR_FUEL = {"gas": "close_gas", "propane": "remove_propane_tank", "oil": "remove_oil_tank"}
+
+INSTALL_ORDER: dict[str, int] = {
+    "panel_upgrade": 0, "service_upgrade": 0, "load_management": 0, "panel_space": 0,
+    "roof": 1, "envelope": 2, "heat_pump": 3, "heat_pump_water_heater": 4, "induction_range": 5,
+    "heat_pump_dryer": 6, "ev_charger": 7, "ev": 8, "solar": 9, "battery": 10,
+    "close_gas": 20, "remove_propane_tank": 20, "remove_oil_tank": 20,
+}
+"""Safe order of work within a year, by upgrade kind: room on the service first, the roof before
+anything goes on it, the building shell before the equipment sized for it, the new heat source
+and appliances before the fuel they replace is shut off, the charger before the car (common
+practice, no source). The upgrade graph's own edges come first (:func:`install_order`)."""
 
 
 @dataclass(frozen=True)
@@ -64,7 +79,7 @@ class Candidate:
 def _has_ducts(plan: Plan) -> bool:
     if plan.home.has_ducts is not None:
         return plan.home.has_ducts
-    return any(a.kind in ("furnace", "central_ac") for a in plan.appliances)
+    return any(a.kind in ("furnace", "central_ac", "heat_pump") for a in plan.appliances)
 
 
 def heat_pump_variant(plan: Plan, design_temp_f: float | None) -> str:
@@ -87,10 +102,12 @@ def candidates(plan: Plan) -> list[Candidate]:
         out.append(Candidate(cid, kind, label, cautions=k.cautions, milestone=k.milestone, **kw))
 
     apps = plan.appliances
-    heating = [a for a in apps if a.kind in HEATING_KINDS]
-    if heating or not any(a.kind in ("heat_pump", "mini_split") for a in apps):
-        add("heat_pump", "heat_pump", replaces=tuple(a.key for a in heating),
-            variant=heat_pump_variant(plan, plan.home.climate.heating_design_f))
+    # a new heat pump replaces the heating and cooling equipment there is, an old heat pump
+    # included - but a fuel-burning furnace or boiler kept as its dual-fuel backup stays
+    kept = dual_fuel_backup(plan)
+    heating = [a for a in apps if a.kind in (*HEATING_KINDS, "heat_pump", "mini_split") and a is not kept]
+    add("heat_pump", "heat_pump", replaces=tuple(a.key for a in heating),
+        variant=heat_pump_variant(plan, plan.home.climate.heating_design_f))
     for a in apps:
         fuel = appliance_fuel(a)
         if a.kind == "water_heater" and lifecycle.appliance_type(a) != "heat_pump":
@@ -98,7 +115,8 @@ def candidates(plan: Plan) -> list[Candidate]:
                 replaces=(a.key,), variant="v240")
         elif a.kind in ("range", "cooktop") and fuel in HOME_FUELS:
             add(_unique(out, "induction_range", a.key), "induction_range", replaces=(a.key,), variant="full")
-        elif a.kind == "dryer" and fuel in HOME_FUELS:
+        elif a.kind == "dryer" and (fuel in HOME_FUELS or (fuel == "electric" and a.type != "heat_pump")):
+            # a resistance dryer swapped for a heat pump one also frees room on the service
             add(_unique(out, "heat_pump_dryer", a.key), "heat_pump_dryer", replaces=(a.key,), variant="v120")
     ev_ids = []
     for i, v in enumerate(plan.vehicles):
@@ -122,10 +140,25 @@ def candidates(plan: Plan) -> list[Candidate]:
             add("roof", "roof", replaces=("roof",))
     for remedy in ("panel_upgrade", "service_upgrade", "load_management"):
         add(remedy, remedy)
+    if plan.home.electrical.free_spaces is not None:  # known: the new circuits must find room
+        add("panel_space", "panel_space")
+    replaced = {key for c in out for key in c.replaces}
     for fuel, milestone in MILESTONE_FOR_FUEL.items():
-        if any(appliance_fuel(a) == fuel for a in apps):
+        on_fuel = [a for a in apps if appliance_fuel(a) == fuel]
+        # a fuel is closed only when every appliance on it can be replaced
+        if on_fuel and all(a.key in replaced for a in on_fuel):
             add(milestone, milestone)
     return out
+
+
+def dual_fuel_backup(plan: Plan) -> Appliance | None:
+    """The fuel-burning furnace or boiler kept as the new heat pump's backup, when the plan asks
+    for it (``options.heat_pump.backup: existing``) and the home has one."""
+    opt = plan.options.get("heat_pump")
+    if opt is None or opt.backup != "existing":
+        return None
+    return next((a for a in plan.appliances if a.kind in ("furnace", "boiler")
+                 and appliance_fuel(a) in HOME_FUELS), None)
 
 
 def _unique(existing: list[Candidate], base: str, key: str) -> str:
@@ -270,6 +303,21 @@ def prerequisites_closure(g, pid: str) -> set[str]:
                 out.add(u)
                 stack.append(u)
     return out
+
+
+def install_order(g, ranks: Mapping[str, float], urgent: frozenset[str] = frozenset()) -> list[str]:
+    """The items of ``ranks`` (project id -> rank, e.g. from :data:`INSTALL_ORDER`) in a safe
+    order: every "requires" and "better before" edge of the graph between two of them is kept,
+    and otherwise lower ranks come first (then ids, for a stable answer). An ``urgent`` project
+    (an emergency replacement) does not wait for "better before" work."""
+    import networkx as nx
+
+    h = nx.DiGraph()
+    h.add_nodes_from(ranks)
+    h.add_edges_from((u, v) for u, v, d in g.edges(data=True)
+                     if u in ranks and v in ranks and (d["kind"] == "requires" or (
+                         d["kind"] == "better_before" and v not in urgent)))
+    return list(nx.lexicographical_topological_sort(h, key=lambda n: (ranks[n], n)))
 
 
 def project_nodes(g) -> list[str]:

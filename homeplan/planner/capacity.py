@@ -19,7 +19,6 @@ from dataclasses import dataclass, field, replace
 
 from homeplan import catalog
 from homeplan.catalog import existing_load_row, performance
-from homeplan.electrical.errors import ElectricalInputError, MethodNotApplicableError
 from homeplan.electrical.loads import Dwelling, Ems, Load, Service
 from homeplan.electrical.nec220 import (
     LoadCalcResult,
@@ -37,21 +36,24 @@ from homeplan.electrical.remedies import (
     Variant,
     find_remedy,
 )
+from homeplan.electrical.tables import practice
 from homeplan.electrical.upgrade_loads import loads_for_upgrade
 from homeplan.plan.fuels import appliance_fuel
 from homeplan.plan.model import Plan
 from homeplan.planner.context import Context
 from homeplan.planner.lifecycle import appliance_type
 from homeplan.planner.projects import ProjectDetail, with_variant
+from homeplan.planner.solar_connection import Connection, connection_options, inverter_amps
 from homeplan.result.figures import CapacityRow, CapacityState
 
 __all__ = [
     "REMEDY_PROJECTS",
     "CapacityModel",
     "CapacityPlan",
-    "breaker_spaces_note",
+    "breaker_spaces",
     "existing_loads",
-    "measured_capacity",
+    "measured_demand",
+    "other_method_capacity",
     "plan_capacity",
     "project_loads",
     "state_capacity",
@@ -111,17 +113,19 @@ def _names_for(keys: tuple[str, ...], loads: list[Load]) -> tuple[str, ...]:
     return tuple(ld.name for ld in loads if ld.name.startswith(prefixes))
 
 
-def project_loads(kind: str, variant_id: str | None, size: float, name: str) -> tuple[Load, ...]:
-    """The new loads of one project in one variant."""
-    k = catalog.upgrade_kinds()[kind]
+def project_loads(d: ProjectDetail, name: str) -> tuple[Load, ...]:
+    """The new loads of one project as it will be installed (variant, size, backup heat)."""
+    k = catalog.upgrade_kinds()[d.kind]
     if not k.capacity_load:
         return ()
-    v = k.variant(variant_id)
+    v = k.variant(d.variant)
     if v is None:
         return ()
     if k.category == "heating":
-        return loads_for_upgrade("heating", name=name, va_per_ton=v.va_per_ton, tons=size,
-                                 strips_kw=v.strips_kw or 0.0, strips_interlocked=v.strips_interlocked)
+        # backup the variant does not bring can run with the compressor (not interlocked)
+        interlocked = v.strips_interlocked and d.backup_kw <= (v.strips_kw or 0.0)
+        return loads_for_upgrade("heating", name=name, va_per_ton=v.va_per_ton, tons=d.size,
+                                 strips_kw=d.backup_kw, strips_interlocked=interlocked)
     if k.category == "vehicles":
         return loads_for_upgrade("vehicles", name=name, amps=v.amps)
     volts = 120 if (v.va or 0) <= 1920 else 240
@@ -139,31 +143,17 @@ def _dwelling(plan: Plan) -> Dwelling:
     return Dwelling(plan.home.floor_area_ft2, max(e.small_appliance_circuits, 2), max(e.laundry_circuits, 1))
 
 
-def _inverter_amps(ctx: Context, pids: set[str]) -> float:
-    amps = 0.0
-    for pid in pids:
-        d = ctx.details[pid]
-        if d.kind == "solar":
-            amps += d.size / 1.2 * 1000.0 / 240.0  # AC rating at a 1.2 DC/AC ratio (PVWatts default)
-        elif d.kind == "battery":
-            amps += performance()["battery_default_kw"] * d.size / performance()["battery_default_kwh"] * 1000 / 240
-    h = ctx.plan.home
-    if h.solar is not None:
-        amps += (h.solar.inverter_kw or h.solar.size_kw / 1.2) * 1000.0 / 240.0
-    if h.battery is not None:
-        amps += h.battery.power_kw * 1000.0 / 240.0
-    return amps
-
-
 @dataclass(frozen=True)
 class CapacityModel:
     """Linear capacity data for the scheduler plus the remedy behind it.
 
-    ``use``: amps each load project adds to today's calculated load (alone); ``provided``: amps
-    of room the chosen remedy project makes; ``excluded``: remedy projects the plan does not use.
+    ``use``: amps each load project adds to today's calculated load (alone; negative when it
+    frees room, e.g. a resistance dryer swapped for a heat pump one); ``provided``: amps of room
+    the chosen remedy project makes; ``excluded``: remedy projects the plan does not use.
     """
 
     base_headroom: float
+    method: str = "220.83"        # how the existing service is checked: "220.83" or "220.87"
     use: dict[str, float] = field(default_factory=dict)
     provided: dict[str, float] = field(default_factory=dict)
     excluded: frozenset[str] = frozenset()
@@ -172,7 +162,11 @@ class CapacityModel:
     remedy_project: str | None = None
     variant_notes: dict[str, str] = field(default_factory=dict)
     ems_setpoint_va: float | None = None
-    solar_connection: str | None = None
+    connections: dict[frozenset[str], Connection] = field(default_factory=dict)
+
+    def connection(self, pv: set[str] | frozenset[str]) -> Connection | None:
+        """The connection of a set of new solar and battery projects (None for none)."""
+        return self.connections.get(frozenset(pv)) if pv else None
 
 
 @dataclass(frozen=True)
@@ -208,6 +202,8 @@ def _plan_capacity(ctx: Context) -> CapacityPlan:
     kinds = catalog.upgrade_kinds()
     dwelling, service = _dwelling(plan), _service(plan)
     base = existing_loads(plan)
+    measured = measured_demand(plan)
+    cont = plan.home.electrical.continuous_loads_at_125
     today = nec220_83(dwelling, base, service, edition=edition)
     if today.headroom_amps < 0:
         notes.append(
@@ -228,7 +224,7 @@ def _plan_capacity(ctx: Context) -> CapacityPlan:
         vs = []
         for vid in variants:
             alt = with_variant(d, plan, ctx.basis, vid) if vid != d.variant else d
-            vs.append(Variant(label=vid, loads=project_loads(d.kind, vid, alt.size, pid),
+            vs.append(Variant(label=vid, loads=project_loads(alt, pid),
                               extra_cost_usd=max(0.0, alt.cost_today_usd - d.cost_today_usd)))
         proposed.append(ProposedLoad(name=pid, variants=tuple(vs),
                                      replaces=_names_for(d.candidate.replaces, base)))
@@ -239,13 +235,19 @@ def _plan_capacity(ctx: Context) -> CapacityPlan:
         upgrades = (ServiceUpgrade(p["service_upgrade_new_amps"], details["service_upgrade"].cost_today_usd),)
     costs = RemedyCosts(
         ems_usd=details["load_management"].cost_today_usd if "load_management" in offered else None,
-        derate_main_usd=p["derate_main_usd"], supply_side_usd=p["supply_side_usd"],
         service_upgrades=upgrades, ems_min_setpoint_amps=p["ems_min_setpoint_amps"],
     )
-    solar_pids = {pid for pid, d in details.items() if d.kind in ("solar", "battery")
-                  and pid not in plan.choices.exclude}
-    remedy = find_remedy(dwelling, base, service, proposed, costs, inverter_output_amps=_inverter_amps(ctx, solar_pids),
-                         edition=edition)
+    # the loads decide the service; the solar and battery connection is decided for each set of
+    # them the plan may end with (solar_connection.py). With a measured peak, the existing
+    # service is checked both ways and the method that needs the cheaper remedy is used.
+    remedy = find_remedy(dwelling, base, service, proposed, costs, edition=edition)
+    method = "220.83"
+    if measured is not None:
+        by_peak = find_remedy(dwelling, base, service, proposed, costs, edition=edition,
+                              measured=measured, continuous_new_load_at_125=cont)
+        if _remedy_cost(by_peak) < _remedy_cost(remedy):
+            remedy, method = by_peak, "220.87"
+            today = nec220_87(measured, [], service, edition=edition, continuous_new_load_at_125=cont)
     if not remedy.fits:
         notes.append("even the largest remedy on offer does not make every electric load fit the "
                      "service; the plan keeps the loads that fit (see the power view)")
@@ -261,45 +263,97 @@ def _plan_capacity(ctx: Context) -> CapacityPlan:
     elif remedy.ems is not None:
         chosen = "load_management"
         ems_setpoint_va = remedy.ems.setpoint_va
-    extra = 0.0
-    solar_connection = None
-    if remedy.derated_main_amps:
-        solar_connection = f"main breaker derated to {remedy.derated_main_amps:g} A for the solar connection"
-        extra = p["derate_main_usd"]
-    elif remedy.supply_side:
-        solar_connection = "supply-side solar connection (the panel's busbar cannot take the backfeed)"
-        extra = p["supply_side_usd"]
-    if extra and "solar" in details and not details["solar"].quoted:
-        d = details["solar"]
-        details["solar"] = replace(d, cost_today_usd=d.cost_today_usd + extra,
-                                   cost_source=f"{d.cost_source}; plus {solar_connection}")
-        variant_notes["solar"] = solar_connection
+    pv = [pid for pid, d in details.items() if d.kind in ("solar", "battery")
+          and pid not in plan.choices.exclude]
+    # a derated main must still carry the end state's load on today's panel
+    load_amps = float(remedy.calc.amps) if remedy.service_upgrade is None else None
+    connections = connection_options(ctx.with_details(details), service, load_amps, pv)
+    _add_connection_costs(details, connections)
     # linear use per load: its amps against today's home, one at a time
     use: dict[str, float] = {}
     for pid in load_pids:
         d = details[pid]
-        loads = _apply(base, d.candidate.replaces, project_loads(d.kind, d.variant, d.size, pid))
-        after = nec220_83(dwelling, loads, service, edition=edition)
-        use[pid] = max(0.0, float(after.amps - today.amps))
+        if method == "220.87":
+            after = nec220_87(measured, project_loads(d, pid), service, edition=edition,
+                              continuous_new_load_at_125=cont)
+        else:
+            after = nec220_83(dwelling, _apply(base, d.candidate.replaces, project_loads(d, pid)), service,
+                              edition=edition)
+        use[pid] = float(after.amps - today.amps)  # negative: a swap that frees room
     provided: dict[str, float] = {}
     if chosen == "service_upgrade":
-        provided[chosen] = float(remedy.service.limit_amps - service.limit_amps)
+        # the larger service is checked by 220.82, which counts the new loads together more
+        # lightly than the sum of their 220.83 increments: the room it makes is what lets the
+        # end state fit exactly (at least the difference of the ratings)
+        end_fits_exactly = (sum(use.values()) + float(today.amps) - float(service.limit_amps)
+                            + float(remedy.service.limit_amps - remedy.calc.amps))
+        provided[chosen] = max(float(remedy.service.limit_amps - service.limit_amps), end_fits_exactly)
     elif chosen == "load_management":
         all_loads = list(base)
         for pid in load_pids:
             d = details[pid]
-            all_loads = _apply(all_loads, d.candidate.replaces, project_loads(d.kind, d.variant, d.size, pid))
-        plain = nec220_83(dwelling, all_loads, service, edition=edition)
+            all_loads = _apply(all_loads, d.candidate.replaces, project_loads(d, pid))
+        plain = (nec220_87(measured, [ld for ld in all_loads if not ld.existing], service, edition=edition,
+                           continuous_new_load_at_125=cont) if method == "220.87"
+                 else nec220_83(dwelling, all_loads, service, edition=edition))
         provided[chosen] = max(0.0, float(plain.amps - remedy.calc.amps))
     if chosen is None and remedy.needed is False:
-        notes.append("the service carries every planned electric load: no panel or service upgrade needed")
+        how = " (by your measured peak, NEC 220.87)" if method == "220.87" else ""
+        notes.append(f"the service carries every planned electric load{how}: no panel or service upgrade "
+                     "needed")
     model = CapacityModel(
-        base_headroom=max(float(today.headroom_amps), 0.0), use=use, provided=provided,
+        base_headroom=max(float(today.headroom_amps), 0.0), method=method, use=use, provided=provided,
         excluded=frozenset(r for r in REMEDY_PROJECTS if r in details and r != chosen),
         notes=tuple(notes), remedy=remedy, remedy_project=chosen, variant_notes=variant_notes,
-        ems_setpoint_va=ems_setpoint_va, solar_connection=solar_connection,
+        ems_setpoint_va=ems_setpoint_va, connections=connections,
     )
     return CapacityPlan(model, details)
+
+
+def _remedy_cost(remedy: Remedy) -> tuple[float, int]:
+    """What a remedy costs (infinite when nothing on offer makes the loads fit), then how many
+    changes it makes to the plan as wanted."""
+    cost = float("inf") if not remedy.fits or remedy.cost_usd is None else float(remedy.cost_usd)
+    return cost, len(remedy.changes)
+
+
+def measured_demand(plan: Plan) -> MeasuredDemand | None:
+    """The plan's measured peak for NEC 220.87, when it gives one and the method applies.
+
+    A 30-day recording may miss the season's heating or cooling: the larger of the home's
+    heating or cooling nameplate is added (220.87 exception, the conservative reading). Homes
+    with solar or a battery are left to 220.83: the meter does not see the load they supply.
+
+    References
+    ----------
+    NEC 2023 220.87 and its exception.
+    """
+    e = plan.home.electrical
+    if e.peak_demand_kw is None or plan.home.solar is not None or plan.home.battery is not None:
+        return None
+    hvac = [ld.va for ld in existing_loads(plan)
+            if ld.category in ("heating", "cooling", "heat_pump_compressor", "supplemental_heat")]
+    seasonal = (max(hvac) if hvac else 0.0) if e.peak_demand_period == "30_days" else None
+    return MeasuredDemand(e.peak_demand_kw, e.peak_demand_period, seasonal)
+
+
+def _add_connection_costs(details: dict[str, ProjectDetail],
+                          connections: dict[frozenset[str], Connection]) -> None:
+    """The array pays for its own connection, the battery for what it adds to it."""
+    solar = [pid for s in connections for pid in s if details[pid].kind == "solar"]
+    for pid in {p for s in connections for p in s}:
+        d = details[pid]
+        if d.quoted:
+            continue
+        if d.kind == "solar":
+            extra = connections[frozenset({pid})].cost_usd
+        else:
+            with_solar = frozenset({pid, *solar[:1]})
+            alone = connections[frozenset(solar[:1])].cost_usd if solar else 0.0
+            extra = connections[with_solar].cost_usd - alone
+        if extra > 0:
+            details[pid] = replace(d, cost_today_usd=d.cost_today_usd + extra,
+                                   cost_source=f"{d.cost_source}; plus its connection to the service")
 
 
 def _apply(loads: list[Load], replaces: tuple[str, ...], new: tuple[Load, ...]) -> list[Load]:
@@ -319,7 +373,7 @@ def state_capacity(ctx: Context, model: CapacityModel, done: set[str], label: st
         d = ctx.details.get(pid)
         if d is None or not kinds[d.kind].capacity_load:
             continue
-        loads = _apply(loads, d.candidate.replaces, project_loads(d.kind, d.variant, d.size, d.label))
+        loads = _apply(loads, d.candidate.replaces, project_loads(d, d.label))
     remedy_note = None
     ems = None
     if model.remedy_project and model.remedy_project in done:
@@ -336,29 +390,36 @@ def state_capacity(ctx: Context, model: CapacityModel, done: set[str], label: st
     if ems is not None and not any(ld.ems_controlled for ld in loads):
         ems = None
     pv = {p for p in done if p in ctx.details and ctx.details[p].kind in ("solar", "battery")}
-    inverter = _inverter_amps(ctx, pv)
+    inverter = inverter_amps(ctx, pv)
+    conn = model.connection(pv)
     notes: list[str] = []
-    if (inverter > 0 and model.remedy is not None and model.remedy.derated_main_amps and pv
-            and model.remedy.derated_main_amps < service.limit_amps):
+    if conn is not None and conn.kind == "derated_main" and conn.derated_main_amps is not None \
+            and conn.derated_main_amps < service.limit_amps:
         service = Service(service_amps=service.service_amps, busbar_amps=service.busbar_amps,
-                          main_breaker_amps=model.remedy.derated_main_amps, volts=service.volts)
-        remedy_note = (remedy_note + "; " if remedy_note else "") + \
-            f"main breaker derated to {model.remedy.derated_main_amps:g} A for the solar connection"
+                          main_breaker_amps=conn.derated_main_amps, volts=service.volts)
+        remedy_note = (remedy_note + "; " if remedy_note else "") + conn.words
+    measured = measured_demand(plan) if model.method == "220.87" else None
     if remedy_note and "upgraded" in remedy_note:
         calc = nec220_82(dwelling, loads, service, edition=edition)
+    elif measured is not None:
+        calc = nec220_87(measured, [ld for ld in loads if not ld.existing], service, edition=edition, ems=ems,
+                         continuous_new_load_at_125=plan.home.electrical.continuous_loads_at_125)
     else:
         calc = nec220_83(dwelling, loads, service, edition=edition, ems=ems)
     fits = bool(calc.fits)
     if inverter > 0:
-        supply_side = bool(model.remedy is not None and model.remedy.supply_side and pv)
-        bf = backfeed_check(service, inverter, rule="supply_side" if supply_side else "120", edition=edition)
+        supply_side = conn is not None and conn.kind == "supply_side"
+        pcs = conn.pcs_limit_amps if conn is not None and conn.kind == "power_control" else None
+        bf = backfeed_check(service, inverter, rule="supply_side" if supply_side else "120",
+                            pcs_limit_amps=pcs, edition=edition)
         notes.append(f"{bf.section}: {inverter:.0f} A of solar/battery inverter output; "
                      + ("supply-side connection" if supply_side else
                         f"the panel accepts {bf.max_inverter_amps:.0f} A by the 120 % rule")
+                     + (f"; a power control system limits it to {pcs:.0f} A" if pcs else "")
                      + ("" if bf.fits else " - DOES NOT FIT"))
         fits = fits and bool(bf.fits)
     state = _state(calc, label, year, remedy_note, tuple(calc.notes) + tuple(notes))
-    return replace(state, fits=fits) if fits != state.fits else state
+    return replace(state, fits=fits, near_limit=state.near_limit and fits) if fits != state.fits else state
 
 
 def _state(calc: LoadCalcResult, label: str, year: int | None, remedy: str | None,
@@ -367,71 +428,60 @@ def _state(calc: LoadCalcResult, label: str, year: int | None, remedy: str | Non
     rows = tuple(CapacityRow(r.load_name, float(r.va), None if r.factor is None else float(r.factor),
                              None if r.counted_va is None else float(r.counted_va), r.section)
                  for r in calc.rows)
+    pct = 100.0 * float(calc.amps) / float(calc.service_amps)
     return CapacityState(label=label, year=year, method=calc.method, total_va=float(calc.total_va),
                          amps=float(calc.amps), service_amps=float(calc.service_amps),
                          headroom_amps=float(calc.headroom_amps), fits=bool(calc.fits), rows=rows,
-                         remedy=remedy, notes=notes)
+                         remedy=remedy, notes=notes, load_pct=round(pct, 1),
+                         near_limit=bool(calc.fits) and pct > practice("near_limit_pct"))
 
 
-def measured_capacity(ctx: Context, done: set[str], year: int | None) -> CapacityState | None:
-    """NEC 220.87 from the measured 12-month (or 30-day) peak, when the plan gives one.
-
-    The measured peak covers the home as it is; the loads the roadmap adds by ``year`` are added
-    at nameplate (continuous ones at 125 %, the conservative reading). Homes with solar or a
-    battery are refused, as the code text does by default: the meter hides load behind on-site
-    generation.
+def other_method_capacity(ctx: Context, model: CapacityModel, done: set[str],
+                          year: int | None) -> CapacityState:
+    """The state checked by the method the plan does not use: NEC 220.87 from the measured peak
+    when the plan uses 220.83, and the reverse - shown beside it, an inspector may accept either.
 
     References
     ----------
-    NEC 2023 220.87 (2020 text excludes services with solar or peak shaving).
+    NEC 2023 220.83 and 220.87 (either may show that an existing service carries added loads).
     """
-    plan = ctx.plan
-    e = plan.home.electrical
-    if e.peak_demand_kw is None:
-        return None
-    kinds = catalog.upgrade_kinds()
-    new: list[Load] = []
-    for pid in sorted(done):
-        d = ctx.details.get(pid)
-        if d is not None and kinds[d.kind].capacity_load:
-            new.extend(project_loads(d.kind, d.variant, d.size, d.label))
-    has_pv = plan.home.solar is not None or plan.home.battery is not None
-    label = "today, from your measured peak" if year is None else f"{year}, from your measured peak"
-    try:
-        # a 30-day recording may miss the season's heating or cooling: add the larger of the
-        # home's heating or cooling nameplate (220.87 exception, conservative reading)
-        hvac = [ld.va for ld in existing_loads(plan)
-                if ld.category in ("heating", "cooling", "heat_pump_compressor", "supplemental_heat")]
-        seasonal = (max(hvac) if hvac else 0.0) if e.peak_demand_period == "30_days" else None
-        calc = nec220_87(MeasuredDemand(e.peak_demand_kw, e.peak_demand_period, seasonal),
-                         new, _service(plan), edition=e.code_edition, has_solar_or_battery=has_pv)
-    except (MethodNotApplicableError, ElectricalInputError) as exc:  # refused or not applicable: say why
+    e = ctx.plan.home.electrical
+    when = "today" if year is None else str(year)
+    if model.method == "220.87":
+        state = state_capacity(ctx, replace(model, method="220.83"), done,
+                               f"{when}, by the 220.83 calculation", year)
+        return replace(state, notes=state.notes + (
+            "the alternative to the measured-peak method the plan uses: an inspector may accept either",))
+    label = f"{when}, from your measured peak"
+    measured = measured_demand(ctx.plan)
+    if measured is None:
         return CapacityState(label=label, year=year, method="NEC 220.87 (not used)", total_va=None,
                              amps=None, service_amps=float(e.service_amps), headroom_amps=None, fits=True,
-                             notes=(str(exc),))
-    return _state(calc, label, year, None, tuple(calc.notes) + (
+                             notes=("NEC 220.87 is not used for a home with solar or a battery: the meter "
+                                    "does not see the load they supply",))
+    probe = replace(model, method="220.87")
+    state = state_capacity(ctx, probe, done, label, year)
+    return replace(state, notes=state.notes + (
         "an alternative to the 220.83 calculation: an inspector may accept either",))
 
 
-def breaker_spaces_note(ctx: Context, done: set[str]) -> str | None:
-    """Whether the new circuits fit the panel's free breaker spaces (a 240 V circuit takes two
-    spaces, a 120 V one takes one). Common practice, no source: when they do not, an electrician
-    uses tandem breakers where the panel allows them, or replaces the panel."""
-    free = ctx.plan.home.electrical.free_spaces
-    if free is None:
-        return None
-    kinds = catalog.upgrade_kinds()
+def breaker_spaces(ctx: Context, d: ProjectDetail, model: CapacityModel | None = None) -> int:
+    """Breaker spaces a project's new circuits take in the panel, less those its removal of old
+    electric loads frees (negative: it frees more than it takes). A 240 V circuit takes two
+    spaces, a 120 V one takes one; solar or a battery connected in the panel takes a two-pole
+    backfeed breaker (none on the supply side).
+
+    References
+    ----------
+    Common practice, no source (a double-pole breaker takes two spaces of a residential panel);
+    NEC 2023 705.12(B) (load-side connection through a breaker in the panel).
+    """
+    if d.kind in ("solar", "battery"):
+        conn = model.connection({d.id}) if model is not None else None
+        return 0 if conn is not None and conn.kind == "supply_side" else 2
+    if not catalog.upgrade_kinds()[d.kind].capacity_load:
+        return 0
     today = existing_loads(ctx.plan)
-    need = 0
-    for pid in done:
-        d = ctx.details.get(pid)
-        if d is None or not kinds[d.kind].capacity_load:
-            continue
-        if d.candidate.replaces and _names_for(d.candidate.replaces, today):
-            continue  # reuses the circuit of the electric appliance it replaces
-        for ld in project_loads(d.kind, d.variant, d.size, d.label):
-            need += 2 if ld.volts >= 208 else 1
-    if need <= free:
-        return None
-    return (f"the new circuits need about {need} breaker spaces and the panel has {free} free: "
-            "tandem breakers (where the panel is listed for them) or a new panel - an electrician decides")
+    gone = set(_names_for(d.candidate.replaces, today))
+    freed = sum(2 if ld.volts >= 208 else 1 for ld in today if ld.name in gone)
+    return sum(2 if ld.volts >= 208 else 1 for ld in project_loads(d, d.label)) - freed

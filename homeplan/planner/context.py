@@ -18,9 +18,10 @@ from pathlib import Path
 from types import MappingProxyType
 from typing import TYPE_CHECKING, Any, TypeVar
 
-from homeplan.energy.simulate import EnergyResult
+from homeplan.energy.simulate import EnergyResult, HomeEnergySpec
 from homeplan.plan.model import Plan
 from homeplan.planner.basis import HomeBasis, home_basis
+from homeplan.planner.peaks import meter_peak
 from homeplan.planner.projects import ProjectDetail
 from homeplan.planner.shared import SharedCache
 from homeplan.planner.states import (
@@ -149,20 +150,30 @@ class Context:
 
     def choice(self, pid: str) -> Choice:
         d = self.details[pid]
-        return Choice(pid, d.kind, d.variant, d.size, d.candidate.replaces)
+        return Choice(pid, d.kind, d.variant, d.size, d.candidate.replaces, d.backup_kw, d.backup_kind)
 
     def simulate(self, done: Iterable[str], label: str = "") -> EnergyResult:
         """The full simulated typical year (hourly arrays included) with the projects ``done``."""
+        return simulate_state(self.basis, self.spec(done, label))
+
+    def spec(self, done: Iterable[str], label: str = "") -> HomeEnergySpec:
+        """The home's energy spec with the projects ``done``."""
         choices = sorted((self.choice(p) for p in done if p in self.details),
                          key=lambda c: APPLY_ORDER.get(c.kind, 50))
-        return simulate_state(self.basis, state_spec(self.basis, self.plan, choices, label=label))
+        return state_spec(self.basis, self.plan, choices, label=label)
 
     def energy(self, done: Iterable[str], label: str = "") -> StateEnergy:
         """What the roadmap needs from the typical year with the projects ``done`` (cached)."""
         done = frozenset(done)
         choices = frozenset(self.choice(p) for p in done if p in self.details)
-        return self.cache.state(self.basis_key, choices,
-                                lambda: summarise_energy(self.simulate(done, label), label))
+
+        def make() -> StateEnergy:
+            spec = self.spec(done, label)
+            result = simulate_state(self.basis, spec)
+            peak = meter_peak(self.basis.peak, spec, result) if self.basis.peak is not None else None
+            return summarise_energy(result, label, peak)
+
+        return self.cache.state(self.basis_key, choices, make)
 
     def escalation(self, fuel: str) -> float:
         """Yearly price change of a bill fuel (fraction): its own rate, else inflation (plus the

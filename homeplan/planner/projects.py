@@ -6,7 +6,7 @@ catalog range at the plan's cost level, or from the user's contractor quote.
 
 References
 ----------
-ACCA Manual S for heat pump selection (via :func:`homeplan.planner.states.heat_pump_tons`);
+ACCA Manual S for heat pump selection (via :func:`homeplan.planner.states.heat_pump_selection`);
 cost ranges and learning rates with their sources in ``homeplan/data/upgrades.yaml``.
 """
 
@@ -18,14 +18,15 @@ from typing import Any
 
 from homeplan import catalog
 from homeplan.catalog import performance
+from homeplan.energy.selection import BTUH_PER_TON, HeatPumpSelection, with_size
 from homeplan.energy.sizing import array_kw_for_coverage
 from homeplan.money.costs import cost_in_year as grow_cost
 from homeplan.money.costs import cost_trend_from_record
 from homeplan.plan.fuels import appliance_fuel
 from homeplan.plan.model import Plan
 from homeplan.planner.basis import HomeBasis
-from homeplan.planner.candidates import Candidate
-from homeplan.planner.states import cooling_load_btuh, heat_pump_tons
+from homeplan.planner.candidates import Candidate, dual_fuel_backup
+from homeplan.planner.states import heat_pump_backup, heat_pump_selection
 
 __all__ = [
     "ProjectDetail",
@@ -52,6 +53,9 @@ class ProjectDetail:
     life_years: float
     cost_change: dict[str, Any]
     quoted: bool = False
+    backup_kw: float = 0.0        # electric backup heat of a heat pump (strips or heaters), kW
+    backup_kind: str = ""         # "strips", "heaters", "existing" (dual fuel) or "" (none)
+    sizing: HeatPumpSelection | None = None  # a heat pump's loads, size and capacity at design
 
     @property
     def id(self) -> str:
@@ -111,17 +115,29 @@ def detail(plan: Plan, c: Candidate, basis: HomeBasis, electrified_kwh: float,
         v = k.variants[0]
     design_f = float(basis.weather.heating_design_f)
     size = 1.0
-    if opt and opt.size:
+    sizing = None
+    if c.kind == "heat_pump":
+        sizing = heat_pump_selection(plan, basis, v.id if v else None)
+        size = sizing.nominal_tons
+        if opt and opt.size:
+            size = opt.size
+            sizing = with_size(sizing, size * BTUH_PER_TON, "the size you chose")
+    elif opt and opt.size:
         size = opt.size
-    elif c.kind == "heat_pump":
-        size = heat_pump_tons(basis.design_load_btuh, design_f, v.id if v else None,
-                              cooling_load_btuh(plan, basis))
     elif c.kind == "solar":
         size = solar_size_kw(plan, electrified_kwh, specific_yield)
     elif c.kind == "battery":
         size = performance()["battery_default_kwh"]
     elif c.kind == "roof":
         size = roof_area_ft2(plan)
+    backup_kw, backup_kind = 0.0, ""
+    kept = dual_fuel_backup(plan) if c.kind == "heat_pump" else None
+    if kept is not None:
+        backup_kind = "existing"
+    elif c.kind == "heat_pump":
+        backup_kw, backup_kind = heat_pump_backup(v.id if v else None, size, basis.design_load_btuh,
+                                                  design_f)
+    own_kw = float(v.strips_kw or 0.0) if v else 0.0
     level = plan.prices.cost_level
     if opt and opt.cost_usd is not None:
         cost = opt.cost_usd
@@ -134,10 +150,22 @@ def detail(plan: Plan, c: Candidate, basis: HomeBasis, electrified_kwh: float,
         cost = per * units * (v.cost_factor if v else 1.0)
         source = f"catalog {level} estimate: {k.cost.source}"
         quoted = False
+    label = v.label if v else ""
+    if kept is not None:
+        label += f", keeping the {appliance_fuel(kept)} {kept.kind} as backup"
+    elif backup_kw > own_kw:  # backup the variant does not bring: its cost and its name
+        p = performance()
+        per_kw = p["hp_backup_heaters_usd_per_kw" if backup_kind == "heaters" else "hp_backup_strips_usd_per_kw"]
+        if not quoted:
+            cost += (backup_kw - own_kw) * per_kw
+        what = "electric heaters" if backup_kind == "heaters" else "backup strips"
+        label += (f" ({backup_kw:g} kW)" if own_kw else
+                  f", with {backup_kw:g} kW {what} for the coldest hours")
     return ProjectDetail(
-        candidate=c, variant=v.id if v else None, variant_label=v.label if v else "",
+        candidate=c, variant=v.id if v else None, variant_label=label,
         size=float(size), size_unit=k.size_unit, cost_today_usd=float(round(cost, 2)),
         cost_source=source, life_years=k.life_years, cost_change=dict(k.cost_change), quoted=quoted,
+        backup_kw=float(backup_kw), backup_kind=backup_kind, sizing=sizing,
     )
 
 

@@ -25,24 +25,32 @@ from dataclasses import dataclass, field
 
 from homeplan import catalog
 from homeplan.money.finance import discount_factor, remaining_value_share
-from homeplan.plan.fuels import HOME_FUELS
+from homeplan.plan.fuels import HOME_FUELS, appliance_fuel
 from homeplan.planner.breakdowns import (
     LFL_PREFIX,
+    EmergencyItem,
     breakdown_cost,
+    emergency_items,
     fossil_projects,
     lfl_cost,
     replaceable_items,
 )
-from homeplan.planner.candidates import MILESTONE_FOR_FUEL, prerequisites_closure
-from homeplan.planner.capacity import CapacityModel
+from homeplan.planner.candidates import (
+    INSTALL_ORDER,
+    MILESTONE_FOR_FUEL,
+    dual_fuel_backup,
+    install_order,
+    prerequisites_closure,
+)
+from homeplan.planner.capacity import CapacityModel, breaker_spaces
 from homeplan.planner.context import Context
 from homeplan.planner.incentives import IncentiveModel
 from homeplan.planner.projects import cost_in_year_usd
-from homeplan.planner.states import APPLY_ORDER
 from homeplan.schedule.explain import diagnose_infeasible, explain
 from homeplan.schedule.milp import MilpSolver, Solution
 from homeplan.schedule.problem import (
     ExclusiveGroup,
+    FollowUp,
     IncentiveGroup,
     Prerequisite,
     Problem,
@@ -58,7 +66,10 @@ __all__ = [
     "ScheduleOutcome",
     "build_problem",
     "coefficients",
+    "emergency_allowance",
+    "emergency_reason",
     "schedule",
+    "work_order",
 ]
 
 OBJECTIVE = {"npv": "max_npv", "emissions": "min_emissions", "gas_off_early": "earliest_gas_closure",
@@ -152,6 +163,7 @@ def build_problem(ctx: Context, co: dict[str, Coefficients], capacity: CapacityM
     years = ctx.years
     T = len(years)
     projects = []
+    urgent = {e.upgrade for e in emergency_items(ctx)}  # a failure overrides a later pin
     for pid, d in ctx.details.items():
         c = co[pid]
         life = d.life_years
@@ -186,16 +198,32 @@ def build_problem(ctx: Context, co: dict[str, Coefficients], capacity: CapacityM
             id=pid, label=d.label, cost_usd=[c.cost_usd[t] - c.pos_incentive_usd[t] for t in range(T)],
             value_usd=value, emissions_kg=emissions, savings_usd=savings,
             undone_penalty_usd=penalty, excluded=pid in plan.choices.exclude or pid in capacity.excluded,
-            earliest_year=earliest, latest_year=latest, pinned_year=plan.choices.pins.get(pid),
+            earliest_year=earliest, latest_year=latest,
+            pinned_year=None if pid in urgent else plan.choices.pins.get(pid),
             window_reason=(f"{item or 'the old one'} reaches {plan.choices.replace_at_risk_pct:.0f} % "
                            "failure risk") if latest else "",
-            capacity_use=capacity.use.get(pid, 0.0), capacity_provided=capacity.provided.get(pid, 0.0),
+            capacity_use=max(capacity.use.get(pid, 0.0), 0.0),
+            capacity_provided=capacity.provided.get(pid, 0.0) + max(-capacity.use.get(pid, 0.0), 0.0),
+            spaces_use=float(max(breaker_spaces(ctx, d, capacity), 0)),
+            spaces_provided=float(max(-breaker_spaces(ctx, d, capacity), 0)
+                                  + catalog.upgrade_kinds()[d.kind].extra.get("provides_spaces", 0)),
             failure_item=item, failure_prob_by_year=cumulative if item else (),
         ))
     prereqs = []
     for u, v, data in ctx.graph.edges(data=True):
         if data["kind"] == "requires" and u in ctx.details and v in ctx.details:
             prereqs.append(Prerequisite(project=v, requires_any=(u,), label=data.get("why", "")))
+    followups = []
+    for fuel, milestone in MILESTONE_FOR_FUEL.items():
+        if milestone not in ctx.details or milestone in plan.choices.pins:
+            continue
+        after = tuple(u for u, _, data in ctx.graph.in_edges(milestone, data=True)
+                      if data["kind"] == "requires" and u in ctx.details)
+        if after:
+            # common practice, no source: an unused tank is a leak and fire risk and an open
+            # service keeps its fixed charge: the fuel goes within a year of its last appliance
+            followups.append(FollowUp(milestone, after, 1,
+                                      f"within a year of the last {fuel} appliance's replacement"))
     order_projects, order_prereqs, exclusive = better_before(ctx)
     projects.extend(order_projects)
     prereqs.extend(order_prereqs)
@@ -212,6 +240,7 @@ def build_problem(ctx: Context, co: dict[str, Coefficients], capacity: CapacityM
     objective, objective_project = _objective(ctx)
     b = plan.budget
     budget = [float((b.by_year or {}).get(y, b.usd_per_year)) for y in years]
+    budget[0] += emergency_allowance(ctx, co)
     loan_limit = sum(loan.amount_usd for loan in b.loans)
     first_loan = b.loans[0] if b.loans else None
     return Problem(
@@ -221,9 +250,11 @@ def build_problem(ctx: Context, co: dict[str, Coefficients], capacity: CapacityM
         loan_term_years=first_loan.term_years if first_loan else 10,
         savings_to_budget=b.add_bill_savings, prerequisites=tuple(prereqs),
         capacity_base=capacity.base_headroom, max_per_year=plan.choices.max_projects_per_year,
+        spaces_base=(None if plan.home.electrical.free_spaces is None
+                     else float(plan.home.electrical.free_spaces)),
         incentive_groups=tuple(g for g in groups if all(pid in ctx.details for pid, _ in g.rates)),
         targets=tuple(targets), objective=objective, objective_project=objective_project,
-        exclusive_groups=tuple(exclusive),
+        exclusive_groups=tuple(exclusive), followups=tuple(followups),
     )
 
 
@@ -240,8 +271,19 @@ def _objective(ctx: Context) -> tuple[str, str | None]:
 
 
 def _target_notes(ctx: Context, implicit_target: bool) -> list[str]:
-    """What the plan says about its goal: the cars left out of it, an objective that cannot apply."""
+    """What the plan says about its goal: the cars left out of it, an objective that cannot apply,
+    a pin that a failure overrides."""
     notes = []
+    for e in emergency_items(ctx):
+        pinned = ctx.plan.choices.pins.get(e.upgrade)
+        if pinned is not None and pinned != ctx.first_year:
+            notes.append(f"the {e.label} has failed: {ctx.details[e.upgrade].label.lower()}, which you "
+                         f"pinned to {pinned}, may come in {ctx.first_year} instead")
+    backup = dual_fuel_backup(ctx.plan)
+    if backup is not None and ctx.plan.choices.all_electric:
+        notes.append(f"the {backup.key.replace('_', ' ')} stays as the heat pump's backup, as the plan asks: "
+                     f"the home keeps burning {appliance_fuel(backup)} in the coldest hours and is not "
+                     "fully electric")
     by = all_electric_by(ctx, implicit_target)
     if by is not None:
         kept = [ctx.details[p].label for p in fossil_projects(ctx) if not _reachable(ctx, p, by)]
@@ -289,25 +331,51 @@ def breakdown_projects(ctx: Context, excluded_lfl: bool = False) -> tuple[list[P
     infl = ctx.plan.prices.inflation_pct / 100.0
     projects: list[Project] = []
     prereqs: list[Prerequisite] = []
+    emergencies = {e.key: e for e in emergency_items(ctx)}
     for key, (pid, item_cost) in replaceable_items(ctx).items():
         o = ctx.outlooks[key]
         alternatives = [pid]
         today = lfl_cost(ctx, key)
         fossil = o.fuel in HOME_FUELS
-        if key != "roof" and today > 0 and not (excluded_lfl and fossil):
+        # a failed heat source or water heater is always offered like for like as well
+        if key != "roof" and today > 0 and (key in emergencies or not (excluded_lfl and fossil)):
             lid = f"{LFL_PREFIX}{key}"
             costs = [today * (1 + infl) ** t for t in range(T)]
             salvage = [c * remaining_value_share(T - t, o.median_life_years) * discount_factor(rate, T)
                        for t, c in enumerate(costs)]
             projects.append(Project(id=lid, label=f"Replace the {o.label} like-for-like", cost_usd=costs,
-                                    value_usd=salvage, excluded=pid in ctx.plan.choices.pins))
+                                    value_usd=salvage,
+                                    excluded=pid in ctx.plan.choices.pins and key not in emergencies))
             alternatives.append(lid)
         penalty = [breakdown_cost(ctx, key, t, item_cost) for t in range(T)]
         cid = f"{COVER_PREFIX}{key}"
+        e = emergencies.get(key)
         projects.append(Project(id=cid, label=f"{o.label} replaced", cost_usd=[0.0] * T,
-                                undone_penalty_usd=penalty))
+                                undone_penalty_usd=penalty,
+                                pinned_year=ctx.first_year if e is not None else None,
+                                pin_reason=emergency_reason(e) if e is not None else ""))
         prereqs.append(Prerequisite(project=cid, requires_any=tuple(alternatives)))
     return projects, prereqs
+
+
+def emergency_reason(e: EmergencyItem) -> str:
+    """Why a failed essential appliance is replaced in the first year, in words."""
+    return f"the {e.label} has failed: replaced at once, a home needs {e.service}"
+
+
+def emergency_allowance(ctx: Context, co: dict[str, Coefficients]) -> float:
+    """Money beyond the first year's budget for the failed heat source or water heater: the
+    cheapest way to restore each service (like for like when the catalog prices it, else the
+    upgrade after point-of-sale incentives), paid from savings, an emergency loan or over budget
+    (:func:`homeplan.planner.build.emergency_funding`)."""
+    total = 0.0
+    for e in emergency_items(ctx):
+        if e.like_for_like is not None:
+            total += lfl_cost(ctx, e.key)
+        else:
+            c = co[e.upgrade]
+            total += c.cost_usd[0] - c.pos_incentive_usd[0]
+    return total
 
 
 def solve(problem: Problem) -> Solution:
@@ -315,6 +383,27 @@ def solve(problem: Problem) -> Solution:
     against 20-100 ms without, benchmarks/bench_pipeline.py); a 1e-5 relative gap is well below
     a dollar on these plans."""
     return MilpSolver(time_limit_s=20.0, mip_rel_gap=1e-5, presolve=True).solve(problem)
+
+
+def work_order(ctx: Context, placed: dict[str, int]) -> list[str]:
+    """Projects and like-for-like replacements (id -> year) in the order the work is done: by
+    year, and within a year in the safe order of :func:`~homeplan.planner.candidates.install_order`
+    (a like-for-like replacement ranks with the upgrade it stands in for)."""
+    items = replaceable_items(ctx)
+    urgent = frozenset(p for e in emergency_items(ctx) for p in (e.upgrade, e.like_for_like) if p)
+    out: list[str] = []
+    for year in sorted(set(placed.values())):
+        ranks: dict[str, float] = {}
+        for pid in (p for p, y in placed.items() if y == year):
+            if pid.startswith(LFL_PREFIX):
+                upgrade = items.get(pid[len(LFL_PREFIX):], ("", None))[0]
+                kind = ctx.details[upgrade].kind if upgrade in ctx.details else ""
+            else:
+                kind = ctx.details[pid].kind
+            # an emergency replacement comes first, after any room it needs on the service
+            ranks[pid] = 0.5 if pid in urgent else INSTALL_ORDER.get(kind, 15)
+        out.extend(install_order(ctx.graph, ranks, urgent))
+    return out
 
 
 def _reachable(ctx: Context, pid: str, by: int) -> bool:
@@ -347,7 +436,7 @@ def schedule(ctx: Context, capacity: CapacityModel, incentives: IncentiveModel) 
     passes = 1
     if solution.feasible:
         done = {p: y for p, y in solution.done().items() if p in ctx.details}
-        order = sorted(done, key=lambda p: (done[p], _order_key(ctx, p)))
+        order = work_order(ctx, done)
         co2 = {}
         for pid in ctx.details:
             before = set(order[:order.index(pid)]) if pid in done else set(done)
@@ -383,10 +472,3 @@ def _solve_relaxing(ctx: Context, co: dict[str, Coefficients], capacity: Capacit
         if not any(p.latest_year for p in problem.projects):
             break
     return problem, solution, None
-
-
-def _order_key(ctx: Context, pid: str) -> int:
-    kind = ctx.details[pid].kind
-    if catalog.upgrade_kinds()[kind].capacity_remedy:
-        return -1
-    return APPLY_ORDER.get(kind, 50)

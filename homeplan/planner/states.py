@@ -14,51 +14,58 @@ Appendix M1 (heat pump rating points 47/17/5 F); NEC 625.42 and SAE J1772 (charg
 
 from __future__ import annotations
 
+import math
 from collections.abc import Iterable
 from dataclasses import dataclass, replace
+
+import numpy as np
 
 from homeplan import catalog
 from homeplan.catalog import performance
 from homeplan.energy.appliances import CookingSpec, DryerSpec
 from homeplan.energy.battery import BatterySpec
-from homeplan.energy.heating import CoolingSpec, HeatPumpSpec, size_heat_pump
+from homeplan.energy.heating import CoolingSpec, HeatPumpSpec, hp_capacity_btuh
+from homeplan.energy.selection import HeatPumpSelection, design_cooling_load, select_heat_pump
 from homeplan.energy.simulate import EnergyResult, HomeEnergySpec, simulate, with_heat_pump
 from homeplan.energy.solar import SolarArraySpec
 from homeplan.energy.vehicles import VehicleSpec
 from homeplan.energy.water import WaterHeaterSpec
-from homeplan.plan.fuels import FOSSIL_FUELS, UNIT_KEY, bill_fuel
+from homeplan.plan.fuels import FOSSIL_FUELS, UNIT_KEY, appliance_fuel, bill_fuel, engine_fuel
 from homeplan.plan.model import Plan, ProjectOption
-from homeplan.planner.basis import HomeBasis, fuel_prices
+from homeplan.planner.basis import HomeBasis, appliance_efficiency, fuel_prices
+from homeplan.planner.candidates import INSTALL_ORDER, dual_fuel_backup
+from homeplan.planner.peaks import MeterPeak
 from homeplan.result.figures import EnergySummary
 
 __all__ = [
     "APPLY_ORDER",
     "Choice",
     "StateEnergy",
-    "cooling_load_btuh",
+    "heat_pump_backup",
     "heat_pump_class",
     "heat_pump_spec",
-    "heat_pump_tons",
+    "heat_pump_selection",
+    "peak_fields",
     "simulate_state",
     "state_spec",
     "summarise_energy",
 ]
 
-APPLY_ORDER = {"envelope": 0, "heat_pump": 1, "heat_pump_water_heater": 2, "induction_range": 3,
-               "heat_pump_dryer": 4, "ev": 5, "solar": 6, "battery": 7, "close_gas": 8,
-               "remove_propane_tank": 8, "remove_oil_tank": 8}
-"""The order in which a state's projects are applied to the home's spec (and shown within a year)."""
+APPLY_ORDER = INSTALL_ORDER
+"""The order in which a state's projects are applied to the home's spec: the order of the work."""
 
 
 @dataclass(frozen=True)
 class Choice:
-    """A project as it will be installed: which variant and what size."""
+    """A project as it will be installed: which variant, what size, how much backup heat (kW)."""
 
     project_id: str
     kind: str
     variant: str | None
     size: float
     replaces: tuple[str, ...] = ()
+    backup_kw: float = 0.0
+    backup_kind: str = ""
 
 
 def heat_pump_class(variant: str | None) -> str:
@@ -67,51 +74,69 @@ def heat_pump_class(variant: str | None) -> str:
     return (v.hp_class if v is not None else None) or "single_stage"
 
 
-def heat_pump_spec(variant: str | None, tons: float, strips_kw: float) -> HeatPumpSpec:
-    """A new heat pump of ``tons`` nominal 47 F capacity with its class's ratings; backup strips
-    (resistance) when the variant has them, else none."""
+def heat_pump_spec(variant: str | None, tons: float, strips_kw: float, backup_fuel: str | None = None,
+                   backup_afue: float = 1.0) -> HeatPumpSpec:
+    """A new heat pump of ``tons`` nominal 47 F capacity with its class's ratings; its backup is a
+    kept furnace or boiler burning ``backup_fuel`` (engine fuel name) at ``backup_afue``, else
+    electric resistance when it has backup kW, else none."""
+    if backup_fuel is not None:
+        return HeatPumpSpec.typical(heat_pump_class(variant), tons * 12000.0, backup=backup_fuel,
+                                    backup_afue=backup_afue)
     backup = "resistance" if strips_kw > 0 else "none"
     return HeatPumpSpec.typical(heat_pump_class(variant), tons * 12000.0, backup=backup)
 
 
-def heat_pump_tons(design_load_btuh: float, design_temp_f: float, variant: str | None,
-                   cooling_btuh: float = 0.0) -> float:
-    """Nominal tons: enough heat at the design condition, and at least the cooling load.
+def heat_pump_backup(variant: str | None, tons: float, design_load_btuh: float,
+                     design_temp_f: float) -> tuple[float, str]:
+    """Electric backup heat a new heat pump needs: (kW, kind), kind ``strips`` (in the air
+    handler of a ducted system) or ``heaters`` (baseboard or wall heaters, without ducts).
 
-    Cold-climate and ductless units are sized to carry the full design heating load at the
-    design temperature (down to their cut-out). Standard single-stage units are sized to carry
-    the load at 17 F, their lower rating point, and lean on backup strips below it (sizing
-    them for the design temperature gives units that short-cycle in mild weather). Either way
-    the unit is at least as large as the cooling load. Half-ton steps, 1.5-5 t (common practice,
-    no source; larger homes need two systems). The arithmetic is
-    :func:`homeplan.energy.heating.size_heat_pump`.
+    When the unit's capacity at the design temperature is below the design load - or the design
+    temperature is below its cut-out, where it gives none - the shortfall is covered by electric
+    resistance heat, in steps of ``hp_backup_step_kw``; a variant's own strips count towards it.
 
     References
     ----------
-    ACCA Manual S (equipment selection at the design condition); NEEP cold-climate air-source
-    heat pump sizing guidance (from memory).
+    ACCA Manual S (supplemental heat for the design-condition shortfall of a heat pump); DOE
+    10 CFR 430 Subpart B Appendix M1 rating points (capacity at the design temperature, via
+    :func:`homeplan.energy.heating.hp_capacity_btuh`); 1 kW = 3,412.14 Btu/h (US EIA).
     """
     p = performance()
-    kind = heat_pump_class(variant)
-    spec = size_heat_pump(design_load_btuh, design_temp_f, kind, step_btuh=6000.0,
-                          size_at_f=p["hp_single_stage_sizing_f"] if kind == "single_stage" else None,
-                          cooling_load_btuh=cooling_btuh, min_btuh=p["hp_min_btuh"],
-                          max_btuh=p["hp_max_btuh"])
-    return float(spec.capacity_47_btuh / 12000.0)
+    v = catalog.upgrade_kinds()["heat_pump"].variant(variant)
+    own = float(v.strips_kw or 0.0) if v is not None else 0.0
+    hp = HeatPumpSpec.typical(heat_pump_class(variant), tons * 12000.0)
+    shortfall = design_load_btuh - float(hp_capacity_btuh(hp, np.array([design_temp_f]))[0])
+    kind = "heaters" if heat_pump_class(variant) == "ductless" else "strips"
+    if shortfall <= 0:
+        return own, "strips" if own else ""
+    step = p["hp_backup_step_kw"]
+    need = math.ceil(shortfall / 3412.14 / step - 1e-9) * step
+    return max(own, need), kind
 
 
-def cooling_load_btuh(plan: Plan, basis: HomeBasis) -> float:
-    """The cooling the home needs: the existing air conditioner's size when known, else the
-    sensible load at the 1 % design temperature with a 30 % allowance for latent and solar gains
-    (common practice, no source)."""
-    sizes = [a.capacity_btuh for a in plan.appliances
-             if a.kind in ("central_ac", "heat_pump", "mini_split") and a.capacity_btuh]
-    if sizes:
-        return float(max(sizes))
-    t_cool = basis.weather.cooling_design_f
-    if t_cool is None or not any(a.kind in ("central_ac", "room_ac") for a in plan.appliances):
-        return 0.0
-    return float(basis.calibration.ua_btuh_f) * max(float(t_cool) - 75.0, 0.0) * 1.3
+def heat_pump_selection(plan: Plan, basis: HomeBasis, variant: str | None) -> HeatPumpSelection:
+    """The catalog size of the variant's heat pump class for the home's design loads.
+
+    The heating load is the fitted home's load at the heating design temperature; the cooling
+    load a block load at the cooling design temperature from the same heat loss, the floor area
+    and the occupants. The size follows ACCA Manual S (never the size of today's air
+    conditioner): see :func:`homeplan.energy.selection.select_heat_pump`. Half-ton steps,
+    1.5-5 t (``hp_min_btuh``, ``hp_max_btuh``; larger homes need two systems).
+
+    References
+    ----------
+    ACCA Manual S (equipment selection); ACCA Manual J (8th ed.) cooling design conditions
+    (from memory).
+    """
+    p = performance()
+    w = basis.weather
+    cooling = 0.0
+    if w.cooling_design_f is not None:
+        cooling = design_cooling_load(float(basis.calibration.ua_btuh_f), float(w.cooling_design_f),
+                                      plan.home.floor_area_ft2, float(plan.home.occupants)).total_btuh
+    return select_heat_pump(basis.design_load_btuh, cooling, float(w.heating_design_f),
+                            heat_pump_class(variant), float(w.hdd65), float(w.cdd65),
+                            min_btuh=p["hp_min_btuh"], max_btuh=p["hp_max_btuh"])
 
 
 def _with_quoted_ratings(hp: HeatPumpSpec, opt: ProjectOption | None) -> HeatPumpSpec:
@@ -170,9 +195,12 @@ def state_spec(basis: HomeBasis, plan: Plan, done: Iterable[Choice], label: str 
     for c in done:
         k = c.kind
         if k == "heat_pump":
-            v = kinds["heat_pump"].variant(c.variant)
-            strips = (v.strips_kw or 0.0) if v else 0.0
-            hp = heat_pump_spec(c.variant, c.size, strips)
+            kept = dual_fuel_backup(plan) if c.backup_kind == "existing" else None
+            if kept is not None:
+                hp = heat_pump_spec(c.variant, c.size, 0.0, engine_fuel(appliance_fuel(kept)),
+                                    appliance_efficiency(kept))
+            else:
+                hp = heat_pump_spec(c.variant, c.size, c.backup_kw)
             hp = _with_quoted_ratings(hp, plan.options.get(c.project_id))
             spec = with_heat_pump(spec, hp)
         elif k == "heat_pump_water_heater":
@@ -184,7 +212,9 @@ def state_spec(basis: HomeBasis, plan: Plan, done: Iterable[Choice], label: str 
             useful = spec.cooking.useful_kwh if spec.cooking else None
             spec = replace(spec, cooking=CookingSpec(kind="induction", useful_kwh_per_yr=useful))
         elif k == "heat_pump_dryer":
-            spec = replace(spec, dryer=DryerSpec(kind="heat_pump"))
+            # the household's own number of loads (fitted to its bills) carries over
+            loads = spec.dryer.loads_per_yr if spec.dryer else None
+            spec = replace(spec, dryer=DryerSpec(kind="heat_pump", loads_per_yr=loads))
         elif k == "ev":
             key = c.replaces[0]
             idx = next(i for i, _ in enumerate(plan.vehicles) if plan.vehicle_key(i) == key)
@@ -233,9 +263,18 @@ class StateEnergy:
     emissions_kg: float
     peak_kw: float
     summary: EnergySummary
+    peak: MeterPeak | None = None      # the peak a meter would show in this state
 
 
-def summarise_energy(result: EnergyResult, label: str) -> StateEnergy:
+def peak_fields(state: StateEnergy) -> dict[str, float]:
+    """A state's peak demand as a meter would show it, as YearTotals fields (none when unknown)."""
+    if state.peak is None:
+        return {}
+    return {"peak_demand_kw": round(state.peak.kw, 2), "peak_demand_winter_kw": round(state.peak.winter_kw, 2),
+            "peak_demand_summer_kw": round(state.peak.summer_kw, 2)}
+
+
+def summarise_energy(result: EnergyResult, label: str, peak: MeterPeak | None = None) -> StateEnergy:
     """The annual and monthly figures of a simulated state, keyed by the result's fuel names."""
     monthly = {UNIT_KEY[f]: tuple(float(x) for x in v) for f, v in result.monthly_units.items()
                if f in UNIT_KEY}
@@ -251,7 +290,10 @@ def summarise_energy(result: EnergyResult, label: str) -> StateEnergy:
                             emissions_kg=emissions, peak_kw=float(result.peak_kw),
                             fuel_money_out_usd=money_out, peak_winter_kw=float(result.peak_winter_kw),
                             peak_summer_kw=float(result.peak_summer_kw),
-                            backup_heat_hours=int(result.backup_heat_hours))
+                            backup_heat_hours=int(result.backup_heat_hours),
+                            peak_demand_kw=peak.kw if peak else None,
+                            peak_demand_winter_kw=peak.winter_kw if peak else None,
+                            peak_demand_summer_kw=peak.summer_kw if peak else None)
     units = {UNIT_KEY[f]: float(v.sum()) for f, v in result.monthly_units.items() if f in UNIT_KEY}
     return StateEnergy(bills_usd=bills, units=units, emissions_kg=emissions,
-                       peak_kw=float(result.peak_kw), summary=summary)
+                       peak_kw=float(result.peak_kw), summary=summary, peak=peak)

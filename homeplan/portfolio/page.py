@@ -13,8 +13,8 @@ from __future__ import annotations
 from pathlib import Path
 
 from homeplan import __version__, catalog
+from homeplan.electrical.tables import practice
 from homeplan.plan.save import write_atomic
-from homeplan.portfolio.record import NEAR_LIMIT_SHARE
 from homeplan.portfolio.rollup import Rollup
 from homeplan.report.charts import Series, bars_by_year_svg
 from homeplan.report.html import CSP, CSS, e, table_html
@@ -141,7 +141,8 @@ def render_page(r: Rollup, title: str = "", printed: str = "", complete: bool = 
                        usd(y["bill_savings_usd"]), usd(y["fossil_before_usd"]), usd(y["fossil_after_usd"]))
                       for y in ys)
         grid = tuple((str(y["year"]), _t(y["emissions_before_t"]), _t(y["emissions_after_t"]),
-                      _kw(y["added_winter_kw_sum"]), _kw(y["added_winter_kw_diversified"]),
+                      f"{_kw(y['peak_demand_winter_kw_sum'])} / {_kw(y['peak_demand_summer_kw_sum'])}",
+                      _kw(y["added_winter_kw_diversified"]),
                       _kw(y["added_summer_kw_diversified"]), f"{y['service_upgrades']:,}",
                       f"{y['homes_near_limit']:,} / {y['homes_over_limit']:,}") for y in ys)
         parts.append('<section class="years"><h2>The numbers</h2><h3>Money</h3>' + table_html(Table(
@@ -149,11 +150,13 @@ def render_page(r: Rollup, title: str = "", printed: str = "", complete: bool = 
              "fossil fuel $, doing nothing", "fossil fuel $, roadmaps"), money, "nrrrrrr",
             note="Incentives by the year the money arrives; bill savings against doing nothing."),
             "years") + "<h3>Emissions and the grid</h3>" + table_html(Table(
-            ("year", "CO2e, doing nothing", "CO2e, roadmaps", "added winter peak, sum of homes",
+            ("year", "CO2e, doing nothing", "CO2e, roadmaps", "peak demand winter / summer, sum of homes",
              "added winter peak, diversified", "added summer peak, diversified", "service upgrades",
              "homes near / over the service limit"), grid, "nrrrrrrr",
-            note=f"Near the limit: less than {NEAR_LIMIT_SHARE:.0%} of the service rating left by the "
-                 "NEC 220.83 load calculation; over: none left. Diversified peaks: see the chart."),
+            note="Peak demand: each home's peak as a meter would show it on the winter and the summer "
+                 "design day, added up (not diversified). Near the limit: the NEC 220.83 calculated "
+                 f"load fits but is above {practice('near_limit_pct'):g} % of the service rating; over: "
+                 "it does not fit. Diversified peaks: see the chart."),
             "years") + "</section>")
     if r.program_totals:
         rows = tuple((t.name, usd(t.amount_usd), f"{t.homes:,}", f"{t.homes_at_cap:,}",

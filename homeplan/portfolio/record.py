@@ -8,9 +8,13 @@ result, none is computed anew, except the differences named below:
 - fossil money before / after: the bills for gas, propane, oil, gasoline and diesel (fixed
   charges included) of the do-nothing baseline, and of the roadmap, in each year;
 - emissions before / after: the do-nothing baseline's and the roadmap's, each year;
-- added winter / summer peak: the year's peak minus today's peak in the same season;
-- near the service limit: less than :data:`NEAR_LIMIT_SHARE` of the service rating left by
-  the NEC 220.83 calculation at the year's end (over the limit: none left).
+- peak demand: the year's peak demand as a meter would show it, on the winter and on the summer
+  design day (the roadmap's ``peak_demand_*``); the added winter / summer peak is that minus
+  the same figure of the do-nothing baseline in that year (today's home). A home whose roadmap
+  has no peak demand figure keeps them empty;
+- near the service limit: the roadmap's ``service_near_limit`` that year (the NEC 220.83
+  calculated load fits but is above the near-limit share of the rating); over the limit: no
+  headroom left.
 """
 
 from __future__ import annotations
@@ -26,7 +30,6 @@ from homeplan.result import PlanResult
 from homeplan.result.figures import CapacityState
 
 __all__ = [
-    "NEAR_LIMIT_SHARE",
     "HomeRecord",
     "HomeStatus",
     "ProgramRow",
@@ -35,10 +38,6 @@ __all__ = [
     "failed_record",
     "home_record",
 ]
-
-NEAR_LIMIT_SHARE = 0.10
-"""A home is near its service limit when less than this share of its rating is left (common
-practice, no source: electricians treat the last tenth of a service as spoken for)."""
 
 HomeStatus = Literal["ok", "infeasible", "error", "failed"]
 """ok: planned; infeasible: no roadmap meets the plan's requirements (the reason is kept);
@@ -60,10 +59,11 @@ class YearRow:
     fossil_after_usd: float
     emissions_before_kg: float
     emissions_after_kg: float
-    peak_winter_kw: float
-    peak_summer_kw: float
-    added_winter_kw: float
-    added_summer_kw: float
+    peak_demand_kw: float | None
+    peak_demand_winter_kw: float | None
+    peak_demand_summer_kw: float | None
+    added_winter_kw: float | None
+    added_summer_kw: float | None
     service_amps: float
     headroom_amps: float
     near_limit: bool
@@ -113,10 +113,10 @@ class HomeRecord:
     fully_electric_year: int | None = None
     service_amps_today: float | None = None
     headroom_today_amps: float | None = None
-    peak_winter_kw_today: float | None = None
-    peak_summer_kw_today: float | None = None
-    peak_winter_kw_after: float | None = None
-    peak_summer_kw_after: float | None = None
+    peak_demand_winter_kw_today: float | None = None
+    peak_demand_summer_kw_today: float | None = None
+    peak_demand_winter_kw_after: float | None = None
+    peak_demand_summer_kw_after: float | None = None
     plan_json: str = ""
     base_dir: str = ""
     content_hash: str = ""
@@ -144,6 +144,17 @@ def _service_by_year(capacity: tuple[CapacityState, ...], years: list[int]) -> d
     return out
 
 
+def _kw(value: float | None) -> float | None:
+    return None if value is None else round(float(value), 2)
+
+
+def _added(year_kw: float | None, today_kw: float | None) -> float | None:
+    """A year's peak minus today's in the same season (none when either is unknown)."""
+    if year_kw is None or today_kw is None:
+        return None
+    return round(year_kw - today_kw, 2)
+
+
 def _program_cap(program: Program, ami_pct: float | None) -> float | None:
     if program.tiers and ami_pct is not None:
         tier = next((t for t in program.tiers if t.contains(ami_pct)), None)
@@ -163,8 +174,8 @@ def home_record(seq: int, home_id: str, plan: Plan, result: PlanResult, base_dir
         seq=seq, home_id=home_id, plan_name=rm.plan_name, place=place, first_year=rm.first_year,
         service_amps_today=today_cap.service_amps if today_cap else None,
         headroom_today_amps=today_cap.headroom_amps if today_cap else None,
-        peak_winter_kw_today=result.energy_before.peak_winter_kw,
-        peak_summer_kw_today=result.energy_before.peak_summer_kw,
+        peak_demand_winter_kw_today=_kw(result.energy_before.peak_demand_winter_kw),
+        peak_demand_summer_kw_today=_kw(result.energy_before.peak_demand_summer_kw),
         plan_json=json.dumps(plan.model_dump(mode="json"), sort_keys=True, separators=(",", ":")),
         base_dir=base_dir, content_hash=result.content_hash, seconds=seconds,
     )
@@ -174,7 +185,6 @@ def home_record(seq: int, home_id: str, plan: Plan, result: PlanResult, base_dir
     steps = tuple(StepRow(s.year, s.project_id, kinds.get(s.project_id, "replacement"), s.cost_usd,
                           round(s.incentives_usd, 2)) for s in rm.steps)
     nothing = {y.year: y for y in rm.baseline("do_nothing").years}
-    today_w, today_s = result.energy_before.peak_winter_kw, result.energy_before.peak_summer_kw
     service = _service_by_year(result.capacity, [y.year for y in rm.years])
     years = []
     for y in rm.years:
@@ -186,11 +196,12 @@ def home_record(seq: int, home_id: str, plan: Plan, result: PlanResult, base_dir
             fossil_before_usd=round(sum(v for f, v in base.bills_usd.items() if f in FOSSIL_FUELS), 2),
             fossil_after_usd=round(sum(v for f, v in y.bills_usd.items() if f in FOSSIL_FUELS), 2),
             emissions_before_kg=base.emissions_kg, emissions_after_kg=y.emissions_kg,
-            peak_winter_kw=y.peak_winter_kw, peak_summer_kw=y.peak_summer_kw,
-            added_winter_kw=round(y.peak_winter_kw - today_w, 2),
-            added_summer_kw=round(y.peak_summer_kw - today_s, 2),
+            peak_demand_kw=y.peak_demand_kw, peak_demand_winter_kw=y.peak_demand_winter_kw,
+            peak_demand_summer_kw=y.peak_demand_summer_kw,
+            added_winter_kw=_added(y.peak_demand_winter_kw, base.peak_demand_winter_kw),
+            added_summer_kw=_added(y.peak_demand_summer_kw, base.peak_demand_summer_kw),
             service_amps=amps, headroom_amps=y.service_headroom_amps,
-            near_limit=0.0 <= y.service_headroom_amps < NEAR_LIMIT_SHARE * amps,
+            near_limit=y.service_near_limit,
             over_limit=y.service_headroom_amps < 0.0,
             service_upgrades=sum(1 for s in steps if s.year == y.year and s.kind == "service_upgrade"),
         ))
@@ -210,7 +221,7 @@ def home_record(seq: int, home_id: str, plan: Plan, result: PlanResult, base_dir
         incentives_usd=round(sum(s.incentives_usd for s in rm.steps), 2), steps_count=len(rm.steps),
         gas_closed_year=milestones.get("gas_service_closed"),
         fully_electric_year=milestones.get("fully_electric"),
-        peak_winter_kw_after=result.energy_after.peak_winter_kw,
-        peak_summer_kw_after=result.energy_after.peak_summer_kw,
+        peak_demand_winter_kw_after=_kw(result.energy_after.peak_demand_winter_kw),
+        peak_demand_summer_kw_after=_kw(result.energy_after.peak_demand_summer_kw),
         years=tuple(years), steps=steps, programs=tuple(program_rows), **common,
     )

@@ -5,10 +5,13 @@ a bad row, a planner error) are counted and listed, not added. Sums are taken by
 order of the homes in the input, so the same homes give the same sums whatever order they were
 planned in; money is rounded to the cent, energy and power to 0.01.
 
-Peak load: each home's added winter (December-February) and summer (June-August) peak is its
-year's seasonal peak minus today's, from its simulated typical year. Individual peaks do not all
-happen in the same hour, so their sum overstates what the grid carries; the diversified figure
-multiplies the sum by the coincidence factor of a group of n homes,
+Peak load: each home's peak demand in a year is the roadmap's ``peak_demand_*``, the peak a
+meter would show on the winter and on the summer design day (today's measured or estimated peak
+moved by the design-day demand of the big electric loads); its added winter and summer peak is
+that minus the do-nothing baseline's in the same year. The roll-up sums both. Individual peaks
+do not all happen in the same hour, so their sum overstates what the grid carries; the
+diversified figure multiplies the sum of the added peaks by the coincidence factor of a group of
+n homes,
 
     c(n) = c_inf + (1 - c_inf) / sqrt(n)
 
@@ -47,7 +50,7 @@ __all__ = [
 ]
 
 DATA = Path(__file__).with_name("data")
-METHOD = ("sum of each home's change in its seasonal peak x c(n) = c_inf + (1 - c_inf)/sqrt(n) "
+METHOD = ("sum of each home's change in its design-day peak demand x c(n) = c_inf + (1 - c_inf)/sqrt(n) "
           "for the n homes whose peak changed (Rusck 1956)")
 
 
@@ -87,8 +90,9 @@ SELECT y.year, COUNT(*),
   SUM(y.spend_usd), SUM(y.incentives_usd), SUM(y.net_usd), SUM(y.bill_savings_usd),
   SUM(y.fossil_before_usd), SUM(y.fossil_after_usd),
   SUM(y.emissions_before_kg), SUM(y.emissions_after_kg),
+  SUM(y.peak_demand_kw), SUM(y.peak_demand_winter_kw), SUM(y.peak_demand_summer_kw),
   SUM(y.added_winter_kw), SUM(y.added_summer_kw),
-  SUM(ABS(y.added_winter_kw) >= 0.01), SUM(ABS(y.added_summer_kw) >= 0.01),
+  COALESCE(SUM(ABS(y.added_winter_kw) >= 0.01), 0), COALESCE(SUM(ABS(y.added_summer_kw) >= 0.01), 0),
   SUM(y.service_upgrades), SUM(y.near_limit), SUM(y.over_limit)
 FROM home_years y JOIN homes h ON h.seq = y.seq
 WHERE h.status = 'ok'
@@ -99,6 +103,7 @@ YEAR_COLUMNS = (
     "year", "homes", "spend_usd", "incentives_usd", "net_usd", "bill_savings_usd",
     "fossil_before_usd", "fossil_after_usd", "fossil_avoided_usd",
     "emissions_before_t", "emissions_after_t", "emissions_avoided_t",
+    "peak_demand_kw_sum", "peak_demand_winter_kw_sum", "peak_demand_summer_kw_sum",
     "added_winter_kw_sum", "added_summer_kw_sum", "homes_winter_changed", "homes_summer_changed",
     "added_winter_kw_diversified", "added_summer_kw_diversified",
     "service_upgrades", "homes_near_limit", "homes_over_limit",
@@ -110,12 +115,14 @@ PROGRAM_COLUMNS = ("program_id", "name", "year", "amount_usd", "homes", "cumulat
 WORK_COLUMNS = ("year", "kind", "steps", "cost_usd", "incentives_usd")
 HOME_COLUMNS = ("seq", "home_id", "status", "message", "plan_name", "place", "npv_usd", "spend_usd",
                 "incentives_usd", "steps_count", "gas_closed_year", "fully_electric_year",
-                "service_amps_today", "headroom_today_amps", "peak_winter_kw_today",
-                "peak_summer_kw_today", "peak_winter_kw_after", "peak_summer_kw_after",
+                "service_amps_today", "headroom_today_amps", "peak_demand_winter_kw_today",
+                "peak_demand_summer_kw_today", "peak_demand_winter_kw_after",
+                "peak_demand_summer_kw_after",
                 "content_hash", "seconds", "cpu_seconds")
 HOME_YEAR_COLUMNS = ("seq", "year", "spend_usd", "incentives_usd", "net_usd", "bill_savings_usd",
                      "bills_usd", "fossil_before_usd", "fossil_after_usd", "emissions_before_kg",
-                     "emissions_after_kg", "peak_winter_kw", "peak_summer_kw", "added_winter_kw",
+                     "emissions_after_kg", "peak_demand_kw", "peak_demand_winter_kw",
+                     "peak_demand_summer_kw", "added_winter_kw",
                      "added_summer_kw", "service_amps", "headroom_amps", "near_limit",
                      "over_limit", "service_upgrades")
 
@@ -163,7 +170,7 @@ def rollup(store: Store, coincidence: Coincidence | None = None,
     years = []
     for row in store.conn.execute(YEAR_SQL):
         (year, homes, spend, inc, net, savings, f_before, f_after, e_before, e_after,
-         w_sum, s_sum, w_n, s_n, upgrades, near, over) = row
+         p_sum, pw_sum, ps_sum, w_sum, s_sum, w_n, s_n, upgrades, near, over) = row
         years.append({
             "year": year, "homes": homes, "spend_usd": _r(spend), "incentives_usd": _r(inc),
             "net_usd": _r(net), "bill_savings_usd": _r(savings),
@@ -172,6 +179,8 @@ def rollup(store: Store, coincidence: Coincidence | None = None,
             "emissions_before_t": _r((e_before or 0) / 1000, 3),
             "emissions_after_t": _r((e_after or 0) / 1000, 3),
             "emissions_avoided_t": _r(((e_before or 0) - (e_after or 0)) / 1000, 3),
+            "peak_demand_kw_sum": _r(p_sum), "peak_demand_winter_kw_sum": _r(pw_sum),
+            "peak_demand_summer_kw_sum": _r(ps_sum),
             "added_winter_kw_sum": _r(w_sum), "added_summer_kw_sum": _r(s_sum),
             "homes_winter_changed": w_n, "homes_summer_changed": s_n,
             "added_winter_kw_diversified": _r((w_sum or 0) * coincidence_factor(w_n, co.winter)),

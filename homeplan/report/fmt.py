@@ -21,6 +21,8 @@ __all__ = [
     "money_signed",
     "number",
     "pct",
+    "peak_demand_kw",
+    "service_verdict",
     "short",
     "tonnes",
 ]
@@ -40,6 +42,16 @@ def clean(text: object, one_line: bool = True) -> str:
 def short(text: str, limit: int) -> str:
     """Cut long text to ``limit`` characters with an ellipsis."""
     return text if len(text) <= limit else text[: max(limit - 3, 1)].rstrip() + "..."
+
+
+def service_verdict(fits: bool, near_limit: bool = False, load_pct: float | None = None) -> str:
+    """How a load calculation ends, in words: "fits", "fits, near its limit (98 % of the rating)"
+    or "DOES NOT FIT"."""
+    if not fits:
+        return "DOES NOT FIT"
+    if near_limit and load_pct is not None:
+        return f"fits, near its limit ({load_pct:.0f} % of the rating)"
+    return "fits"
 
 
 def finite(value: float | None) -> bool:
@@ -75,6 +87,13 @@ def number(value: float | None, digits: int = 0, unit: str = "") -> str:
     if s.startswith("-") and float(s.replace(",", "")) == 0:
         s = s[1:]
     return f"{s} {unit}".strip()
+
+
+def peak_demand_kw(summary: object) -> float:
+    """The peak demand to show for an energy summary: the meter's kind when known, else the
+    highest hourly average."""
+    meter = getattr(summary, "peak_demand_kw", None)
+    return float(meter) if meter is not None else float(getattr(summary, "peak_kw", 0.0))
 
 
 def tonnes(kg: float | None) -> str:

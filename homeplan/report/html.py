@@ -159,6 +159,8 @@ def render_html(r: Report) -> str:
         f'<li><span class="v">{_arrow(e(v))}</span><span class="k">{_arrow(e(k))}</span></li>'
         for k, v in r.headline) + "</ul>")
     parts.append("</div></section>")
+    for text in r.emergencies:
+        parts.append(f'<div class="attention"><b>Emergency.</b> {e(text)}</div>')
     if r.status != "ok":
         parts.append('<div class="attention"><b>No roadmap fits these inputs.</b> '
                      f"{e(r.infeasibility)}</div>")

@@ -103,6 +103,7 @@ def reminders(result: Any, today: dt.date | None = None) -> list[Reminder]:
                                                      for i in s.incentives))
         if s.reasons:
             lines.append("Why then: " + "; ".join(clean(r) for r in s.reasons))
+        lines.extend(f"Safety: {clean(c)}" for c in s.cautions)
         lines.append("Ask two or three licensed contractors for written quotes, permits included.")
         quote_day = dt.date(s.year - 1, 10, 1)
         if today is not None and quote_day < today <= dt.date(s.year, 12, 31):

@@ -73,6 +73,8 @@ def render_text(r: Report) -> str:
     out.append("")
     for k, v in r.headline:
         out.append(f"{v:>10}  {k}")
+    for text in r.emergencies:
+        out += ["", "EMERGENCY", _wrap(text, w)]
     if r.status != "ok":
         out += ["", "NO ROADMAP FITS THESE INPUTS", _wrap(r.infeasibility, w)]
     for warn in r.warnings:
@@ -125,6 +127,7 @@ def render_markdown(r: Report) -> str:
         out += [md(r.subtitle), ""]
     out += [f"- **{md(k)}:** {md(v)}" for k, v in r.home]
     out += ["", " | ".join(f"**{md(v)}** {md(k)}" for k, v in r.headline), ""]
+    out += [f"> **Emergency.** {md(text)}" + "\n" for text in r.emergencies]
     if r.status != "ok":
         out += [f"> **No roadmap fits these inputs.** {md(r.infeasibility)}", ""]
     out += [f"> {md(w)}" for w in r.warnings]

@@ -28,6 +28,8 @@ from homeplan.report.fmt import (
     money_signed,
     number,
     pct,
+    peak_demand_kw,
+    service_verdict,
     tonnes,
 )
 from homeplan.units import display_area, display_temp
@@ -42,8 +44,11 @@ __all__ = [
     "Timeline",
     "build_report",
     "collect_cautions",
+    "bill_fit_lines",
+    "emergency_lines",
     "footer_line",
     "group_of",
+    "step_safety",
 ]
 
 # Groups of upgrade categories (homeplan/data/upgrades.yaml): one colour each on the timeline.
@@ -117,6 +122,7 @@ class Report:
     subtitle: str
     status: str                                 # "ok" or "infeasible"
     infeasibility: str
+    emergencies: tuple[str, ...]                # failed heat or hot water: shown first
     home: tuple[tuple[str, str], ...]
     headline: tuple[tuple[str, str], ...]
     timeline: Timeline
@@ -150,13 +156,10 @@ def group_of(result: Any, project_id: str) -> str:
     return next((g for g, cats in GROUPS.items() if cat in cats), "other")
 
 
-def _caution_title(cid: str) -> str:
-    return cid.replace("_", " ").capitalize()
-
-
 def collect_cautions(result: Any) -> tuple[tuple[str, str], ...]:
     """Cautions for the work in this roadmap: catalog ids expanded, free text kept; planning first."""
-    known = catalog.cautions()
+    known = catalog.cautions(result.plan.home.electrical.code_edition)
+    titles = catalog.caution_titles()
     ids: list[str] = ["planning"]
     road = result.roadmap
     for s in road.steps:
@@ -178,7 +181,7 @@ def collect_cautions(result: Any) -> tuple[tuple[str, str], ...]:
         if not text or text in seen:
             continue
         seen.add(text)
-        out.append((_caution_title(key) if key is not None else "Note", text))
+        out.append((titles[key] if key is not None else "Note", text))
     return tuple(out)
 
 
@@ -257,13 +260,90 @@ def _headline(result: Any) -> list[tuple[str, str]]:
     return out
 
 
+def emergency_lines(road: Any) -> tuple[str, ...]:
+    """What the roadmap does about each failed heat source or water heater, in words (shown at
+    the top of every view and printout)."""
+    out = []
+    for e in road.emergencies:
+        text = (f"The {clean(e.label)} has failed: {clean(e.step_label).lower()} in {e.year} "
+                f"({money(e.step_cost_usd)} after point-of-sale incentives), before anything else "
+                f"that year, so the home keeps its {clean(e.service)}.")
+        if e.other_id and e.other_cost_usd is not None:
+            gap = e.other_cost_usd - e.step_cost_usd
+            text += (f" The other way, {clean(e.other_label).lower()}, costs "
+                     f"{money(abs(gap))} {'more' if gap > 0 else 'less'} now.")
+        if e.over_budget_usd > 0.5:
+            paid = []
+            if e.from_savings_usd > 0.5:
+                paid.append(f"{money(e.from_savings_usd)} from savings")
+            if e.from_loan_usd > 0.5:
+                paid.append(f"{money(e.from_loan_usd)} from the emergency loan (its payments come on "
+                            "top of the yearly budget)")
+            if e.unfunded_usd > 0.5:
+                paid.append(f"{money(e.unfunded_usd)} over budget - no savings or loan given for it")
+            text += f" {e.year} spends {money(e.over_budget_usd)} beyond its budget: " + "; ".join(paid) + "."
+        out.append(text)
+    return tuple(dict.fromkeys(out))
+
+
+_FUEL_WORDS = {"electricity": "Electricity", "gas": "Gas", "propane": "Propane", "oil": "Heating oil"}
+_UNIT_WORDS = {"kWh": "kWh", "therm": "therms", "gal": "gallons"}
+
+
+def bill_fit_lines(road: Any) -> tuple[str, ...]:
+    """How the model of today's home reproduces each fuel's bills, one line per fuel.
+
+    References
+    ----------
+    ASHRAE Guideline 14-2014, monthly calibration criteria (NMBE within +/-5 %, CV(RMSE) at most
+    15 %; from memory).
+    """
+    out = []
+    for f in road.calibration:
+        unit = _UNIT_WORDS.get(f.unit, f.unit)
+        text = (f"{_FUEL_WORDS.get(f.fuel, clean(f.fuel))}: {f.billed:,.0f} {unit} billed, "
+                f"{f.modelled:,.0f} modelled ({f.annual_error_pct:+.1f} %)")
+        if f.monthly and f.cv_rmse_pct is not None and f.nmbe_pct is not None:
+            verdict = ("within ASHRAE Guideline 14's limits for monthly bills (5 %, 15 %)"
+                       if f.meets_guideline_14 else
+                       "outside ASHRAE Guideline 14's limits for monthly bills (5 %, 15 %): "
+                       "the monthly pattern is only roughly followed")
+            text += (f"; month by month: bias {round(f.nmbe_pct, 1) + 0.0:+.1f} %, scatter (CV of RMSE) "
+                     f"{f.cv_rmse_pct:.1f} %, {verdict}")
+        elif not f.monthly:
+            text += "; yearly total only, the months are not checked"
+        parts = [f"{name} {value:,.0f}" for name, value in (
+            ("heating", f.heating), ("cooling", f.cooling),
+            ("hot water, cooking, drying and other uses", f.base), ("cars", f.other)) if value >= 0.5]
+        if parts:
+            text += f"; of which {', '.join(parts)}"
+            if f.solar >= 0.5:
+                text += f", less {f.solar:,.0f} from the solar panels"
+        if abs(f.typical_year - f.modelled) > 0.005 * max(f.modelled, 1.0):
+            text += f"; {f.typical_year:,.0f} in a typical year"
+        out.append(text)
+    return tuple(out)
+
+
+def step_safety(step: Any, edition: int) -> str:
+    """The short titles of a step's cautions ("Licensed electrician and permit; ..."), or ""."""
+    titles = catalog.caution_titles()
+    ids = catalog.caution_ids_of(step.cautions, edition)
+    return "; ".join(titles[i] if i is not None else "see the safety notes"
+                     for i in dict.fromkeys(ids))
+
+
 def _steps_table(result: Any) -> Table:
     rows = []
     road = result.roadmap
+    edition = result.plan.home.electrical.code_edition
     for s in road.steps:
         label, detail = _step_what(s)
         what = f"{label} ({detail})" if detail else label
         reason = "; ".join(clean(r) for r in s.reasons if clean(r))
+        safety = step_safety(s, edition)
+        if safety:
+            reason += (". " if reason else "") + f"Safety: {safety}."
         rows.append((str(s.year), what, money(s.cost_usd), money(s.incentives_usd),
                      money(s.net_cost_usd), reason))
     total = None
@@ -315,11 +395,15 @@ def _energy_table(result: Any) -> Table:
                      _change(b.fuel_money_out_usd, a.fuel_money_out_usd, money_signed, True)))
     rows.append(("CO2e a year", tonnes(b.emissions_kg), tonnes(a.emissions_kg),
                  _change(b.emissions_kg, a.emissions_kg, lambda v: tonnes(v))))
-    rows.append(("Peak demand", number(b.peak_kw, 1, "kW"), number(a.peak_kw, 1, "kW"),
-                 _change(b.peak_kw, a.peak_kw, lambda v: number(v, 1, "kW"))))
+    pb, pa = peak_demand_kw(b), peak_demand_kw(a)
+    meter = b.peak_demand_kw is not None
+    rows.append(("Peak demand (as a meter shows it)" if meter else "Peak demand (highest hour)",
+                 number(pb, 1, "kW"), number(pa, 1, "kW"), _change(pb, pa, lambda v: number(v, 1, "kW"))))
     return Table(("Typical year", clean(b.label) or "Today", clean(a.label) or "After the plan",
                   "Change"), tuple(rows), "lrrr", None,
-                 "A typical weather year at today's prices; bills include fixed charges.")
+                 "A typical weather year at today's prices; bills include fixed charges. Peak "
+                 "demand: " + clean(getattr(result.roadmap, "assumptions", {}).get(
+                     "peak_demand", "the highest hour of the modelled year")) + ".")
 
 
 def _change(before: float, after: float, fmt: Any, is_money: bool = False) -> str:
@@ -338,7 +422,7 @@ def _capacity_table(result: Any) -> tuple[Table, tuple[str, ...]]:
     for c in result.capacity:
         rows.append((clean(c.label), clean(c.method), number(c.amps, 0, "A"),
                      number(c.service_amps, 0, "A"), number(c.headroom_amps, 0, "A"),
-                     "yes" if c.fits else "NO", clean(c.remedy) or ""))
+                     service_verdict(c.fits, c.near_limit, c.load_pct), clean(c.remedy) or ""))
         notes.extend(clean(n) for n in c.notes if clean(n))
     table = Table(("Home as of", "Method", "Calculated load", "Service", "Headroom", "Fits",
                    "What the plan does"), tuple(rows), "llrrrll", None,
@@ -444,6 +528,8 @@ def _assumptions(plan: Any, result: Any) -> list[tuple[str, str]]:
             continue
         text = number(value, 0, "Btu/h") if key.endswith("_btuh") and finite(value) else _assumption_value(value)
         out.append((label, text))
+    for line in bill_fit_lines(result.roadmap):
+        out.append(("Model against your bills", line))
     return out
 
 
@@ -479,6 +565,7 @@ def build_report(result: Any, today: dt.date | None = None, tool_version: str | 
         subtitle=subtitle,
         status=clean(road.status),
         infeasibility=clean(road.infeasibility),
+        emergencies=emergency_lines(road),
         home=tuple(_home_lines(plan, result)),
         headline=tuple(_headline(result)),
         timeline=timeline,

@@ -24,6 +24,7 @@ from homeplan.result.plan_result import PlanResult
 from homeplan.result.roadmap import (
     SCHEMA_VERSION,
     Baseline,
+    Emergency,
     IncentiveLine,
     Milestone,
     Roadmap,
@@ -36,6 +37,7 @@ __all__ = [
     "Baseline",
     "CapacityRow",
     "CapacityState",
+    "Emergency",
     "EnergySummary",
     "Finance",
     "HourlyProfile",

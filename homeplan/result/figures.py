@@ -66,8 +66,8 @@ class CapacityRow:
 class CapacityState:
     """The service load calculation for one state of the home.
 
-    ``total_va``, ``amps`` and ``headroom_amps`` are None when the method does not apply to the
-    home (the notes say why).
+    ``total_va``, ``amps``, ``headroom_amps`` and ``load_pct`` are None when the method does not
+    apply to the home (the notes say why).
     """
 
     label: str                     # "today", "2028: after Heat pump"
@@ -81,6 +81,8 @@ class CapacityState:
     rows: tuple[CapacityRow, ...] = ()
     remedy: str | None = None      # what the plan does to make it fit, in words
     notes: tuple[str, ...] = ()
+    load_pct: float | None = None  # calculated load as a share of the service rating, percent
+    near_limit: bool = False       # fits, but above the near-limit share (electrical/data/practice.csv)
 
     @property
     def applies(self) -> bool:
@@ -90,7 +92,12 @@ class CapacityState:
 
 @dataclass(frozen=True)
 class EnergySummary:
-    """A typical year of one state of the home."""
+    """A typical year of one state of the home.
+
+    ``peak_kw`` (and its seasons) is the highest hourly average of the modelled year, the figure
+    for energy; ``peak_demand_kw`` is the peak a meter would show: today's measured (or
+    estimated) peak moved by the design-day demand of the state's big loads.
+    """
 
     label: str
     monthly: dict[str, tuple[float, ...]]   # 'electricity_kwh', 'gas_therm', 'solar_kwh', ... 12 values
@@ -103,6 +110,9 @@ class EnergySummary:
     peak_summer_kw: float = 0.0
     backup_heat_hours: int = 0              # hours a year the heat pump's backup heat runs
     solar_kwh_per_kw: float = 0.0           # specific yield of the array, when there is one
+    peak_demand_kw: float | None = None     # the peak a meter would show (see planner/peaks.py)
+    peak_demand_winter_kw: float | None = None
+    peak_demand_summer_kw: float | None = None
 
 
 ProgramUse = ProgramTotal

@@ -28,6 +28,8 @@ __all__ = [
     "SCHEMA_VERSION",
     "Baseline",
     "BaselineKind",
+    "BillFit",
+    "Emergency",
     "IncentiveKind",
     "IncentiveLine",
     "Milestone",
@@ -39,7 +41,7 @@ __all__ = [
     "YearTotals",
 ]
 
-SCHEMA_VERSION = "1.2"
+SCHEMA_VERSION = "1.4"
 """Version of the JSON produced by :meth:`Roadmap.to_dict`. Bump the minor part for added
 fields, the major part for renamed/removed fields or changed meaning."""
 
@@ -90,6 +92,10 @@ def _json_value(value: Any) -> Any:
     return str(value)
 
 
+def _opt_num(value: Any) -> float | None:
+    return None if value is None else float(value)
+
+
 def _num(value: Any) -> float:
     return float("nan") if value is None else float(value)
 
@@ -131,7 +137,11 @@ class Step:
     ``cost_usd`` is the installed price before any incentive; ``net_cost_usd`` is what the
     household pays after all incentives (whenever they arrive); ``financed_usd`` is the part paid
     by a loan. ``reasons`` are plain-words explanations of the year (see ``explain.py``);
-    ``cautions`` are safety notes (see ``homeplan/data/cautions.yaml``).
+    ``cautions`` are safety notes (see ``homeplan/data/cautions.yaml``); ``replaces`` are the ids
+    of the appliances, vehicles or roof the step takes over (empty for additions). A heat pump
+    step carries the loads it was sized for, its heating capacity at the design temperature and
+    its nominal size in tons (None on other steps). Within a year the roadmap lists steps in the
+    order the work is done.
     """
 
     project_id: str
@@ -145,11 +155,17 @@ class Step:
     financed_usd: float = 0.0
     reasons: tuple[str, ...] = ()
     cautions: tuple[str, ...] = ()
+    replaces: tuple[str, ...] = ()
+    heating_load_btuh: float | None = None
+    cooling_load_btuh: float | None = None
+    capacity_at_design_btuh: float | None = None
+    nominal_tons: float | None = None
 
     def __post_init__(self) -> None:
         object.__setattr__(self, "incentives", _tuple(self.incentives))
         object.__setattr__(self, "reasons", _tuple(self.reasons))
         object.__setattr__(self, "cautions", _tuple(self.cautions))
+        object.__setattr__(self, "replaces", _tuple(self.replaces))
 
     @property
     def incentives_usd(self) -> float:
@@ -168,6 +184,11 @@ class Step:
             "financed_usd": _json_number(self.financed_usd),
             "reasons": list(self.reasons),
             "cautions": list(self.cautions),
+            "replaces": list(self.replaces),
+            "heating_load_btuh": _json_number(self.heating_load_btuh),
+            "cooling_load_btuh": _json_number(self.cooling_load_btuh),
+            "capacity_at_design_btuh": _json_number(self.capacity_at_design_btuh),
+            "nominal_tons": _json_number(self.nominal_tons),
         }
 
     @classmethod
@@ -184,6 +205,11 @@ class Step:
             financed_usd=_num(data.get("financed_usd", 0.0)),
             reasons=tuple(data.get("reasons", ())),
             cautions=tuple(data.get("cautions", ())),
+            replaces=tuple(data.get("replaces", ())),
+            heating_load_btuh=_opt_num(data.get("heating_load_btuh")),
+            cooling_load_btuh=_opt_num(data.get("cooling_load_btuh")),
+            capacity_at_design_btuh=_opt_num(data.get("capacity_at_design_btuh")),
+            nominal_tons=_opt_num(data.get("nominal_tons")),
         )
 
 
@@ -200,12 +226,16 @@ class YearTotals:
     - ``bill_savings_usd``: total bills of the do-nothing baseline minus this plan's total bills.
     - ``cumulative_usd``: running total of net spend + loan payments + bills since ``first_year``.
     - ``emissions_kg``: CO2e from all fuels that year.
-    - ``peak_kw``: highest hourly electricity demand of the modelled typical year in that year's
-      state of the home; ``peak_winter_kw`` and ``peak_summer_kw`` the same in December-February
-      and June-August (what a grid planner adds up for many homes).
+    - ``peak_kw``: highest hourly average electricity demand of the modelled typical year in that
+      year's state of the home (the energy model's figure).
+    - ``peak_demand_kw``: the peak a meter would show in that state: today's measured (or
+      estimated) peak moved by the design-day demand of the big electric loads;
+      ``peak_demand_winter_kw`` and ``peak_demand_summer_kw`` are the two design days.
     - ``service_headroom_amps``: service rating minus the NEC 220.83 calculated load at year end
       (negative means over capacity).
     - ``energy``: energy use by fuel, unit in the key (``electricity_kwh``, ``gas_therm``...).
+    - ``service_load_pct``: the NEC 220.83 calculated load as a percentage of the service rating
+      at year end; ``service_near_limit``: it fits but above 90 % of the rating.
     """
 
     year: int
@@ -220,8 +250,11 @@ class YearTotals:
     peak_kw: float = 0.0
     service_headroom_amps: float = 0.0
     energy: dict[str, float] = field(default_factory=dict)
-    peak_winter_kw: float = 0.0
-    peak_summer_kw: float = 0.0
+    service_load_pct: float | None = None
+    service_near_limit: bool = False
+    peak_demand_kw: float | None = None
+    peak_demand_winter_kw: float | None = None
+    peak_demand_summer_kw: float | None = None
 
     def __post_init__(self) -> None:
         object.__setattr__(self, "bills_usd", dict(self.bills_usd))
@@ -245,8 +278,11 @@ class YearTotals:
             "peak_kw": _json_number(self.peak_kw),
             "service_headroom_amps": _json_number(self.service_headroom_amps),
             "energy": _json_value(self.energy),
-            "peak_winter_kw": _json_number(self.peak_winter_kw),
-            "peak_summer_kw": _json_number(self.peak_summer_kw),
+            "service_load_pct": _json_number(self.service_load_pct),
+            "service_near_limit": self.service_near_limit,
+            "peak_demand_kw": _json_number(self.peak_demand_kw),
+            "peak_demand_winter_kw": _json_number(self.peak_demand_winter_kw),
+            "peak_demand_summer_kw": _json_number(self.peak_demand_summer_kw),
         }
 
     @classmethod
@@ -263,14 +299,18 @@ class YearTotals:
                 "emissions_kg",
                 "peak_kw",
                 "service_headroom_amps",
-                "peak_winter_kw",
-                "peak_summer_kw",
             )
         }
+        pct = data.get("service_load_pct")
         return cls(
             year=int(data["year"]),
             bills_usd={k: _num(v) for k, v in data.get("bills_usd", {}).items()},
             energy={k: _num(v) for k, v in data.get("energy", {}).items()},
+            service_load_pct=None if pct is None else float(pct),
+            service_near_limit=bool(data.get("service_near_limit", False)),
+            peak_demand_kw=_opt_num(data.get("peak_demand_kw")),
+            peak_demand_winter_kw=_opt_num(data.get("peak_demand_winter_kw")),
+            peak_demand_summer_kw=_opt_num(data.get("peak_demand_summer_kw")),
             **nums,
         )
 
@@ -330,6 +370,123 @@ class Baseline:
 
 
 @dataclass(frozen=True)
+class Emergency:
+    """A failed appliance that provides heat or hot water, replaced in the first plan year.
+
+    ``step_id`` is the step the roadmap takes (the upgrade or the like-for-like replacement) at
+    ``step_cost_usd`` after point-of-sale incentives; ``other_id`` the other way, at
+    ``other_cost_usd`` (None when the catalog has no price for it). ``over_budget_usd`` is what
+    the first year spends beyond its budget, paid ``from_savings_usd``, ``from_loan_usd`` (the
+    plan's emergency loan, repaid from the next year) and ``unfunded_usd`` (neither covers it).
+    """
+
+    item: str
+    label: str
+    service: str
+    year: int
+    step_id: str
+    step_label: str
+    step_cost_usd: float
+    other_id: str | None = None
+    other_label: str = ""
+    other_cost_usd: float | None = None
+    over_budget_usd: float = 0.0
+    from_savings_usd: float = 0.0
+    from_loan_usd: float = 0.0
+    unfunded_usd: float = 0.0
+
+    def to_dict(self) -> dict[str, Any]:
+        return {k: (_json_number(v) if isinstance(v, float) else v) for k, v in {
+            "item": self.item, "label": self.label, "service": self.service, "year": self.year,
+            "step_id": self.step_id, "step_label": self.step_label,
+            "step_cost_usd": self.step_cost_usd, "other_id": self.other_id,
+            "other_label": self.other_label, "other_cost_usd": self.other_cost_usd,
+            "over_budget_usd": self.over_budget_usd, "from_savings_usd": self.from_savings_usd,
+            "from_loan_usd": self.from_loan_usd, "unfunded_usd": self.unfunded_usd,
+        }.items()}
+
+    @classmethod
+    def from_dict(cls, data: Mapping[str, Any]) -> Emergency:
+        other = data.get("other_cost_usd")
+        return cls(
+            item=data["item"], label=data["label"], service=data["service"], year=int(data["year"]),
+            step_id=data["step_id"], step_label=data["step_label"],
+            step_cost_usd=_num(data["step_cost_usd"]), other_id=data.get("other_id"),
+            other_label=data.get("other_label", ""),
+            other_cost_usd=None if other is None else float(other),
+            **{k: _num(data.get(k, 0.0)) for k in ("over_budget_usd", "from_savings_usd",
+                                                    "from_loan_usd", "unfunded_usd")},
+        )
+
+
+@dataclass(frozen=True)
+class BillFit:
+    """How the model of today's home reproduces one fuel's bills.
+
+    Amounts are yearly, in the fuel's trade ``unit`` (``kWh``, ``therm``, ``gal``), counted the
+    way the bills count them (electricity net of solar when the bills are). ``modelled`` is the
+    model under the weather of the billed year (the typical year when no weather file of the
+    bill year is given); ``typical_year`` is the same home in the typical year, the figure the
+    plan uses (the bills weather-normalised). ``heating``, ``cooling``, ``base`` and ``other`` split
+    the modelled site use (base: water heating, cooking, drying and other plug loads; other:
+    cars); ``solar`` is the production the electric bills net out (0 for bills of the whole
+    use). The fit measures are ASHRAE Guideline 14's for monthly data (None for an annual
+    total or tank deliveries); ``meets_guideline_14`` is None when they were not computed.
+    """
+
+    fuel: str
+    unit: str
+    billed: float
+    modelled: float
+    typical_year: float
+    monthly: bool = False
+    nmbe_pct: float | None = None
+    cv_rmse_pct: float | None = None
+    r2: float | None = None
+    meets_guideline_14: bool | None = None
+    heating: float = 0.0
+    cooling: float = 0.0
+    base: float = 0.0
+    other: float = 0.0
+    solar: float = 0.0
+    method: str = ""
+
+    @property
+    def annual_error_pct(self) -> float:
+        """Modelled against billed yearly use, % (positive: the model uses more; 0.01 % steps)."""
+        return round((self.modelled / self.billed - 1.0) * 100.0, 2) + 0.0 if self.billed else 0.0
+
+    def to_dict(self) -> dict[str, Any]:
+        return {
+            "fuel": self.fuel, "unit": self.unit,
+            "billed": _json_number(self.billed), "modelled": _json_number(self.modelled),
+            "typical_year": _json_number(self.typical_year), "monthly": self.monthly,
+            "nmbe_pct": _json_number(self.nmbe_pct), "cv_rmse_pct": _json_number(self.cv_rmse_pct),
+            "r2": _json_number(self.r2), "meets_guideline_14": self.meets_guideline_14,
+            "heating": _json_number(self.heating), "cooling": _json_number(self.cooling),
+            "base": _json_number(self.base), "other": _json_number(self.other),
+            "solar": _json_number(self.solar), "method": self.method,
+        }
+
+    @classmethod
+    def from_dict(cls, data: Mapping[str, Any]) -> BillFit:
+        def opt(key: str) -> float | None:
+            v = data.get(key)
+            return None if v is None else float(v)
+
+        return cls(
+            fuel=data["fuel"], unit=data["unit"], billed=_num(data["billed"]),
+            modelled=_num(data["modelled"]), typical_year=_num(data["typical_year"]),
+            monthly=bool(data.get("monthly", False)), nmbe_pct=opt("nmbe_pct"),
+            cv_rmse_pct=opt("cv_rmse_pct"), r2=opt("r2"),
+            meets_guideline_14=data.get("meets_guideline_14"),
+            heating=_num(data.get("heating", 0.0)), cooling=_num(data.get("cooling", 0.0)),
+            base=_num(data.get("base", 0.0)), other=_num(data.get("other", 0.0)),
+            solar=_num(data.get("solar", 0.0)), method=data.get("method", ""),
+        )
+
+
+@dataclass(frozen=True)
 class Roadmap:
     """The full result of planning one home.
 
@@ -354,9 +511,13 @@ class Roadmap:
     infeasibility: str | None = None
     assumptions: dict[str, Any] = field(default_factory=dict)
     cautions: tuple[str, ...] = ()
+    emergencies: tuple[Emergency, ...] = ()
+    calibration: tuple[BillFit, ...] = ()
     schema_version: str = SCHEMA_VERSION
 
     def __post_init__(self) -> None:
+        object.__setattr__(self, "emergencies", _tuple(self.emergencies))
+        object.__setattr__(self, "calibration", _tuple(self.calibration))
         object.__setattr__(self, "steps", tuple(sorted(_tuple(self.steps), key=lambda s: s.year)))
         object.__setattr__(self, "years", _tuple(self.years))
         object.__setattr__(self, "milestones", _tuple(self.milestones))
@@ -392,6 +553,8 @@ class Roadmap:
             "baselines": [b.to_dict() for b in self.baselines],
             "assumptions": _json_value(self.assumptions),
             "cautions": list(self.cautions),
+            "emergencies": [e.to_dict() for e in self.emergencies],
+            "calibration": [c.to_dict() for c in self.calibration],
         }
 
     @classmethod
@@ -417,5 +580,7 @@ class Roadmap:
             infeasibility=data.get("infeasibility"),
             assumptions=dict(data.get("assumptions", {})),
             cautions=tuple(data.get("cautions", ())),
+            emergencies=tuple(Emergency.from_dict(e) for e in data.get("emergencies", ())),
+            calibration=tuple(BillFit.from_dict(c) for c in data.get("calibration", ())),
             schema_version=version,
         )

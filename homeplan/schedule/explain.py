@@ -106,12 +106,23 @@ def _why_not_earlier(problem: Problem, years: dict[str, int | None], i: int, y: 
             out.append("waiting for budget")
         if "capacity" in nearest:
             out.append("waiting for service capacity")
+        if "spaces" in nearest:
+            out.append("waiting for room in the panel")
         if "max_per_year" in nearest:
             out.append(
                 f"earlier years are already full ({problem.max_per_year} projects a year at most)"
             )
         if "prerequisite" in nearest and not any(o.startswith("after ") for o in out):
             out.append("after its prerequisites")
+        if "followup" in nearest and not out:  # only when nothing else holds it back
+            for fu in problem.followups:
+                if p.id in fu.after:
+                    n = fu.within_years
+                    out.append(f"done earlier, {_the(problem.project(fu.project).name)} would have to "
+                               f"follow within {n} year{'s' if n != 1 else ''}")
+                    break
+        if not out:
+            out.append("earlier years are blocked by the plan's other requirements")
         return out
     # an earlier year was possible: the objective chose this one
     feasible = [s for s, v in blocked if not v]
@@ -156,6 +167,9 @@ def _why_not_later(problem: Problem, i: int, y: int) -> list[str]:
     for tg in problem.targets:
         if p.id in tg.project_ids and tg.by_year == y:
             out.append(f"to be {tg.label} by {y}")
+    for fu in problem.followups:
+        if fu.project == p.id and fu.label:
+            out.append(fu.label)
     if p.failure_item and p.failure_prob_by_year:
         probs = p.failure_prob_by_year
         t = y - fy
@@ -216,6 +230,7 @@ def _why_not_done(problem: Problem, years: dict[str, int | None], i: int,
         "budget": "no room in the budget",
         "prerequisite": "its prerequisites are not in the plan",
         "capacity": "not enough service capacity",
+        "spaces": "no free breaker spaces",
         "max_per_year": "every year already has the most projects allowed",
         "exclusive": "an alternative was chosen instead",
     }
@@ -299,6 +314,8 @@ def _relaxations(problem: Problem) -> dict[str, Callable[[Problem], Problem]]:
         "budget": lambda pr: pr.replace(budget_usd=tuple(b + big for b in pr.budget_usd)),
         "target": lambda pr: pr.replace(targets=()),
         "capacity": lambda pr: pr.replace(capacity_base=None),
+        "spaces": lambda pr: pr.replace(spaces_base=None),
+        "followup": lambda pr: pr.replace(followups=()),
         "max_per_year": lambda pr: pr.replace(max_per_year=None),
         "prerequisite": lambda pr: pr.replace(prerequisites=()),
         "window": no_windows,
@@ -314,6 +331,8 @@ _NAMES = {
     "budget": "the yearly budget",
     "target": "the target year",
     "capacity": "the electrical service capacity",
+    "spaces": "the free breaker spaces",
+    "followup": "the follow-up of a fuel's last appliance",
     "max_per_year": "the limit on projects per year",
     "prerequisite": "the prerequisites",
     "window": "the incentive/availability windows",

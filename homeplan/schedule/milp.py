@@ -40,7 +40,11 @@ Constraints (each a block of rows in one sparse matrix)
                  when strict). This "done by" form is tighter in the LP relaxation than
                  ``x[A,t] <= sum_B D[B,t]`` and gives the same integer solutions.
     capacity     for each t: ``sum_p (use_p - provided_p) D[p,t] <= capacity_base``.
+    spaces       the same with breaker spaces: ``sum_p (spaces_use_p - spaces_provided_p) D[p,t]
+                 <= spaces_base``.
     per year     for each t: ``sum_p x[p,t] <= max_per_year``.
+    follow-up    for each t: ``sum_{a in after} D[a,t] - D[p,t+k] <= |after| - 1`` (all done by t
+                 forces p done by t + k).
     interaction  positive value: ``w <= D[a,t]``, ``w <= D[b,t]`` (maximising pushes w up to
                  the product); negative value: ``w >= D[a,t] + D[b,t] - 1`` (pushed down).
                  Exact for binary D (standard product linearisation).
@@ -382,6 +386,20 @@ def build_model(
         for t in range(nt):
             coefs = {di(p, t): net[p] for p in range(np_) if net[p]}
             rows.add(coefs, -inf, pr.capacity_base)
+    # follow-ups: all of "after" done by t -> the project done by t + within
+    for fu in pr.followups:
+        pf = pr.index(fu.project)
+        after = [pr.index(a) for a in fu.after]
+        for t in range(nt - fu.within_years):
+            coefs = {di(a, t): 1.0 for a in after}
+            coefs[di(pf, t + fu.within_years)] = coefs.get(di(pf, t + fu.within_years), 0.0) - 1.0
+            rows.add(coefs, -inf, float(len(after) - 1))
+    # breaker spaces in every year's state
+    if pr.spaces_base is not None:
+        net = [p.spaces_use - p.spaces_provided for p in pr.projects]
+        for t in range(nt):
+            coefs = {di(p, t): net[p] for p in range(np_) if net[p]}
+            rows.add(coefs, -inf, pr.spaces_base)
     # max per year
     if pr.max_per_year is not None:
         for t in range(nt):

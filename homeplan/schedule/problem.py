@@ -24,6 +24,8 @@ Semantics (shared by every solver):
   every year on its own (unspent money is lost). Total borrowing ``sum_t L[t] <= loan_limit_usd``.
 - *end of life*: ``undone_penalty_usd[p][t]`` (expected emergency cost in year t) is paid for
   each year t in which p is not yet done (``1 - D[p,t]``); doing p in year t avoids year t's risk.
+- *follow-ups*: once every project in ``after`` is done by t, ``project`` is done by
+  ``t + within_years`` (a constraint only while that year is inside the horizon).
 - *capped incentives*: group g earns ``min(cap_usd_per_year, sum_p rate_p * cost[p,t] x[p,t])``
   in year t (so two capped items in two years can earn two caps).
 - *NPV* (objective ``max_npv``), discount factor ``df[t] = (1 + discount_rate) ** -t``::
@@ -67,6 +69,7 @@ __all__ = [
     "TOL_USD",
     "Evaluation",
     "ExclusiveGroup",
+    "FollowUp",
     "IncentiveGroup",
     "Interaction",
     "Prerequisite",
@@ -123,6 +126,10 @@ class Project:
         Capacity added on the service, e.g. A (see ``Problem.capacity_base``).
     capacity_provided : float
         Capacity freed on the service, same unit.
+    spaces_use : float
+        Breaker spaces its new circuits take in the panel (see ``Problem.spaces_base``).
+    spaces_provided : float
+        Breaker spaces it makes (a subpanel, a new panel).
     failure_item : str
         For explanations only: the item that may fail ("the water heater").
     failure_prob_by_year : tuple of float
@@ -148,6 +155,8 @@ class Project:
     pinned_year: int | None = None
     capacity_use: float = 0.0
     capacity_provided: float = 0.0
+    spaces_use: float = 0.0
+    spaces_provided: float = 0.0
     failure_item: str = ""
     failure_prob_by_year: tuple[float, ...] = ()
     window_reason: str = ""
@@ -327,6 +336,34 @@ class Target:
 
 
 @dataclass(frozen=True)
+class FollowUp:
+    """``project`` is done at most ``within_years`` after every project in ``after`` is done
+    (e.g. a fuel's tank removed soon after the last appliance on the fuel is replaced).
+
+    Attributes
+    ----------
+    project : str
+        The project that follows.
+    after : tuple of str
+        The projects it follows; until all of them are done it is free.
+    within_years : int
+        Years it may wait once they are, >= 0.
+    label : str
+        For explanations: why it follows (e.g. "the last oil appliance is gone").
+    """
+
+    project: str
+    after: tuple[str, ...]
+    within_years: int = 1
+    label: str = ""
+
+    def __post_init__(self) -> None:
+        object.__setattr__(self, "after", tuple(self.after))
+        if self.within_years < 0:
+            raise ValueError("within_years must be >= 0")
+
+
+@dataclass(frozen=True)
 class Problem:
     """A scheduling problem over ``T = len(budget_usd)`` years starting at ``first_year``.
 
@@ -360,6 +397,8 @@ class Problem:
         Choose-one groups.
     capacity_base : float or None
         Service capacity available, e.g. A.
+    spaces_base : float or None
+        Free breaker spaces in the panel (None: not known, no constraint).
     max_per_year : int or None
         Most projects in one year.
     incentive_groups : tuple of IncentiveGroup
@@ -368,6 +407,8 @@ class Problem:
         Done-by targets.
     interactions : tuple of Interaction
         Value of project pairs.
+    followups : tuple of FollowUp
+        Projects that must follow others within some years.
     objective : str
         One of :data:`OBJECTIVES`.
     objective_project : str or None
@@ -391,10 +432,12 @@ class Problem:
     prerequisites: tuple[Prerequisite, ...] = ()
     exclusive_groups: tuple[ExclusiveGroup, ...] = ()
     capacity_base: float | None = None
+    spaces_base: float | None = None
     max_per_year: int | None = None
     incentive_groups: tuple[IncentiveGroup, ...] = ()
     targets: tuple[Target, ...] = ()
     interactions: tuple[Interaction, ...] = ()
+    followups: tuple[FollowUp, ...] = ()
     objective: str = "max_npv"
     objective_project: str | None = None
 
@@ -501,6 +544,8 @@ class Problem:
             refs += [k for k, _ in ig.rates]
         for tg in self.targets:
             refs += list(tg.project_ids)
+        for fu in self.followups:
+            refs += [fu.project, *fu.after]
         for it in self.interactions:
             refs += [it.a, it.b]
             if len(it.value_usd) != n:
@@ -749,8 +794,10 @@ FAMILIES = (
     "prerequisite",
     "exclusive",
     "capacity",
+    "spaces",
     "max_per_year",
     "target",
+    "followup",
     "objective_project",
 )
 
@@ -881,6 +928,14 @@ def evaluate_batch(problem: Problem, placements: np.ndarray) -> dict[str, np.nda
     else:
         out["capacity"] = np.zeros(n, bool)
 
+    # breaker spaces, the same way
+    if pr.spaces_base is not None:
+        net = np.array([p.spaces_use - p.spaces_provided for p in pr.projects])
+        used = np.einsum("npt,p->nt", done_by, net)
+        out["spaces"] = (used > pr.spaces_base + 1e-9).any(axis=1)
+    else:
+        out["spaces"] = np.zeros(n, bool)
+
     # max per year
     if pr.max_per_year is not None:
         out["max_per_year"] = (x.sum(axis=1) > pr.max_per_year).any(axis=1)
@@ -895,6 +950,16 @@ def evaluate_batch(problem: Problem, placements: np.ndarray) -> dict[str, np.nda
             yi = y[:, pr.index(pid)]
             tg_bad |= (yi < 0) | (yi > by)
     out["target"] = tg_bad
+
+    # follow-ups: once every "after" project is done by t, the project is done by t + within
+    fu_bad = np.zeros(n, bool)
+    for fu in pr.followups:
+        last = np.max(np.stack([np.where(y[:, pr.index(a)] < 0, nt, y[:, pr.index(a)])
+                                for a in fu.after]), axis=0)
+        yp = y[:, pr.index(fu.project)]
+        due = last + fu.within_years
+        fu_bad |= (last < nt) & (due < nt) & ((yp < 0) | (yp > due))
+    out["followup"] = fu_bad
 
     # objective project
     if pr.objective_project is not None:

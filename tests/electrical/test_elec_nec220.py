@@ -271,6 +271,27 @@ def test_220_87_new_hvac_larger_of_heating_cooling() -> None:
     assert r.total_va == pytest.approx(20760)  # hand calculation above
 
 
+@pytest.mark.parametrize("range_kw,demand_va", [
+    (11.5, 8000.0),    # NEC 2023 Table 220.55 Column C: one range not over 12 kW -> 8 kW
+    (12.0, 8000.0),    # the same, at 12 kW
+    (14.0, 8800.0),    # Note 1: 5 % more for each kW over 12: 8,000 x 1.10
+    (16.4, 9600.0),    # 4.4 kW over 12 -> 4 (the 0.4 is not a major fraction): 8,000 x 1.20
+    (16.6, 10000.0),   # 4.6 -> 5 (a major fraction counts): 8,000 x 1.25
+    (5.76, 4608.0),    # Column B, one appliance 3.5-8.75 kW: 80 %
+])
+def test_220_87_counts_a_new_range_by_table_220_55(range_kw, demand_va) -> None:
+    r = nec220_87(MeasuredDemand(4.0), [_va("Induction range", range_kw * 1000, "range")], Service(100))
+    assert r.total_va == pytest.approx(4000 * 1.25 + demand_va)  # NEC 2023 220.87 + Table 220.55
+
+
+def test_220_87_counts_a_new_dryer_at_5000_va_at_least() -> None:
+    # NEC 2023 220.54: 5,000 VA or the nameplate rating, whichever is larger
+    small = nec220_87(MeasuredDemand(4.0), [_va("Heat pump dryer", 3600, "dryer")], Service(100))
+    big = nec220_87(MeasuredDemand(4.0), [_va("Dryer", 5600, "dryer")], Service(100))
+    assert small.total_va == pytest.approx(5000 + 5000)
+    assert big.total_va == pytest.approx(5000 + 5600)
+
+
 def test_220_87_refused_with_solar_unless_allowed() -> None:
     # electrical.md: 2020 text excludes services with solar or peak shaving
     with pytest.raises(MethodNotApplicableError, match="220.87"):

@@ -63,6 +63,8 @@ def test_yearly_sums_are_the_sums_of_the_homes(straight_run, summed):
         assert y["fossil_avoided_usd"] == pytest.approx(y["fossil_before_usd"] - y["fossil_after_usd"], abs=0.02)
         assert y["emissions_before_t"] == pytest.approx(math.fsum(r["emissions_before_kg"] for r in mine) / 1000,
                                                         abs=0.001)
+        for col in ("peak_demand_kw", "peak_demand_winter_kw", "peak_demand_summer_kw"):
+            assert y[f"{col}_sum"] == pytest.approx(math.fsum(r[col] for r in mine), abs=0.01), col
         w = math.fsum(r["added_winter_kw"] for r in mine)
         n = sum(abs(r["added_winter_kw"]) >= 0.01 for r in mine)
         assert y["added_winter_kw_sum"] == pytest.approx(w, abs=0.01)

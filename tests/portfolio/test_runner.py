@@ -47,6 +47,14 @@ def test_every_home_is_planned_by_the_single_home_path(community, straight_run):
             assert row["npv_usd"] == expected.npv_usd
             assert row["plan_json"] == expected.plan_json
             assert store.home_years(item.seq) == list(expected.years)
+            # the peaks are the single-home roadmap's meter peaks; added = minus doing nothing
+            nothing = {y.year: y for y in alone.roadmap.baseline("do_nothing").years}
+            for got, y in zip(store.home_years(item.seq), alone.roadmap.years, strict=True):
+                assert y.peak_demand_winter_kw is not None
+                assert (got.peak_demand_winter_kw, got.peak_demand_summer_kw) == (
+                    y.peak_demand_winter_kw, y.peak_demand_summer_kw)
+                assert got.added_winter_kw == pytest.approx(
+                    y.peak_demand_winter_kw - nothing[y.year].peak_demand_winter_kw, abs=0.006)
 
 
 def test_every_home_is_stored_once(straight_run):

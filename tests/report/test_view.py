@@ -23,8 +23,9 @@ def test_cautions_deduplicated_whether_given_as_id_or_text() -> None:
              Step("close_gas", "Close the gas service", 2029, cautions=[known["gas_line"], "Mind the dog."])]
     out = collect_cautions(make_result(steps=steps))
     titles = [t for t, _ in out]
-    assert titles[0] == "Planning"                       # always first
-    assert titles.count("Refrigerant") == 1 and titles.count("Gas line") == 1
+    named = catalog.caution_titles()
+    assert titles[0] == named["planning"]                # always first
+    assert titles.count(named["refrigerant"]) == 1 and titles.count(named["gas_line"]) == 1
     assert ("Note", "Mind the dog.") in out
 
 

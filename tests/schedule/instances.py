@@ -2,10 +2,13 @@
 
 from __future__ import annotations
 
+import dataclasses
+
 import numpy as np
 
 from homeplan.schedule.problem import (
     ExclusiveGroup,
+    FollowUp,
     IncentiveGroup,
     Interaction,
     Prerequisite,
@@ -115,6 +118,16 @@ def random_problem(
     )
     loans = rng.random() < 0.3
     obj = objective or str(rng.choice(OBJECTIVES, p=[0.55, 0.15, 0.15, 0.15]))
+    # breaker spaces and follow-ups, drawn last so that the draws above stay as they were
+    spaces = rng.random() < 0.3
+    followups = []
+    if n_p >= 3 and rng.random() < 0.3:
+        picked = [str(s) for s in rng.choice(ids, size=3, replace=False)]
+        followups.append(FollowUp(picked[0], tuple(picked[1:]), int(rng.integers(0, 2))))
+    if spaces:
+        projects = [dataclasses.replace(p, spaces_use=float(rng.choice([0, 1, 2, 2])),
+                                        spaces_provided=float(rng.choice([0, 0, 0, 0, 6])))
+                    for p in projects]
     return Problem(
         first_year=first_year,
         budget_usd=budget,
@@ -128,6 +141,8 @@ def random_problem(
         prerequisites=tuple(prereqs),
         exclusive_groups=tuple(groups),
         capacity_base=float(rng.choice([40, 60, 80])) if rng.random() < 0.4 else None,
+        spaces_base=float(rng.choice([0, 1, 2, 4])) if spaces else None,
+        followups=tuple(followups),
         max_per_year=int(rng.integers(1, 3)) if rng.random() < 0.3 else None,
         incentive_groups=tuple(incentives),
         targets=tuple(targets),

@@ -65,6 +65,10 @@ def test_instances_cover_every_feature() -> None:
             seen.add("savings")
         if pr.capacity_base is not None:
             seen.add("capacity")
+        if pr.spaces_base is not None:
+            seen.add("spaces")
+        if pr.followups:
+            seen.add("followup")
         if pr.max_per_year is not None:
             seen.add("max_per_year")
         if pr.incentive_groups:
@@ -92,7 +96,7 @@ def test_instances_cover_every_feature() -> None:
                 seen.add("window")
     expected = {
         "max_npv", "min_emissions", "earliest_gas_closure", "min_out_of_pocket", "carryover",
-        "no_carryover", "loans", "savings", "capacity", "max_per_year", "incentives", "targets",
+        "no_carryover", "loans", "savings", "capacity", "spaces", "followup", "max_per_year", "incentives", "targets",
         "exclusive", "any_of", "strict", "pin", "excluded", "penalty", "window", "synergy", "overlap",
     }  # fmt: skip
     assert expected <= seen, expected - seen

@@ -9,6 +9,8 @@ from typing import TYPE_CHECKING
 from rich.text import Text
 from textual.containers import Vertical
 
+from homeplan.report.view import emergency_lines
+
 if TYPE_CHECKING:
     from homeplan.plan.model import Plan
     from homeplan.result import PlanResult
@@ -66,6 +68,9 @@ def banner_text(data: ViewData) -> Text | None:
         return Text(f"! No roadmap fits: {data.infeasible}", style="bold")
     if data.result is None:
         return Text("Planning... the roadmap appears here in a moment.", style="italic")
+    urgent = emergency_lines(data.result.roadmap)
+    if urgent:
+        return Text("! " + " ".join(urgent), style="bold")
     return None
 
 

@@ -10,6 +10,8 @@ from textual.app import ComposeResult
 from textual.containers import VerticalScroll
 from textual.widgets import Static
 
+from homeplan.report.fmt import peak_demand_kw
+from homeplan.report.view import bill_fit_lines
 from homeplan.tui.format import ESTIMATES, bar, fuel_label, num, usd
 from homeplan.tui.widgets.base import View, ViewData, banner_text
 
@@ -136,9 +138,14 @@ class EnergyView(View):
         bills.append("Bills in a typical year  ", style="bold")
         bills.append(f"now {usd(sum(before.bills_usd.values()))}, after "
                      f"{usd(sum(after.bills_usd.values()))}; peak demand now "
-                     f"{num(before.peak_kw, 'kW', 1)}, after {num(after.peak_kw, 'kW', 1)}; "
+                     f"{num(peak_demand_kw(before), 'kW', 1)}, after {num(peak_demand_kw(after), 'kW', 1)}; "
                      f"emissions now {before.emissions_kg / 1000:.1f} t, after "
                      f"{after.emissions_kg / 1000:.1f} t CO2e.\n")
+        fits = bill_fit_lines(data.result.roadmap)
+        if fits:
+            bills.append("Model of today's home against your bills\n", style="bold")
+            for line in fits:
+                bills.append(f"  {line}\n")
         bills.append(ESTIMATES, style="italic")
         self.query_one("#energy-bills", Static).update(bills)
 

@@ -8,6 +8,7 @@ from textual.containers import VerticalScroll
 from textual.widgets import Static
 
 from homeplan.plan.fuels import FOSSIL_FUELS, appliance_fuel
+from homeplan.report.view import step_safety
 from homeplan.tui.format import ESTIMATES, trunc, usd
 from homeplan.tui.widgets.base import View, ViewData, banner_text
 
@@ -71,6 +72,11 @@ def next_text(data: ViewData, width: int = 80) -> Text:
     if now[0].reasons:
         out.append("Why now: ", style="bold")
         out.append(f"{now[0].reasons[0]}\n")
+    edition = data.plan.home.electrical.code_edition
+    safety = "; ".join(dict.fromkeys(t for s in now for t in step_safety(s, edition).split("; ") if t))
+    if safety:
+        out.append("Safety: ", style="bold")
+        out.append(f"{safety} (Roadmap, enter: the details)\n")
     after = [s for s in rm.steps if s.year > first_year]
     if after:
         shown = 3 if width >= 100 else 2

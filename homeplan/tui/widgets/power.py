@@ -10,6 +10,7 @@ from textual.containers import VerticalScroll
 from textual.widgets import DataTable, Static
 
 from homeplan.catalog import cautions
+from homeplan.report.fmt import service_verdict
 from homeplan.tui.format import num, trunc
 from homeplan.tui.widgets.base import View, ViewData, banner_text
 
@@ -19,10 +20,11 @@ if TYPE_CHECKING:
 __all__ = ["PowerView", "caution_text", "state_details"]
 
 
-def caution_text() -> Text:
+def caution_text(edition: int = 2023) -> Text:
     out = Text()
     out.append("Safety: ", style="bold")
-    out.append(cautions().get("electrical", "Electrical work needs a licensed electrician."))
+    texts = cautions(edition)
+    out.append(texts["electrical"] + " " + texts["code_edition"])
     out.append(" Load figures here are planning estimates.", style="italic")
     return out
 
@@ -45,7 +47,8 @@ def state_details(state: CapacityState, width: int) -> Text:
         out.append(f"{trunc(r.name, name_w):<{name_w}} {r.va:>8,.0f} {factor:>7} "
                    f"{counted:>9}  {r.section.removeprefix(prefix)}\n")
     out.append(f"{'Total':<{name_w}} {'':>8} {'':>7} {state.total_va:>9,.0f}  "
-               f"= {state.amps:.0f} A on a {state.service_amps:.0f} A service\n", style="bold")
+               f"= {state.amps:.0f} A on a {state.service_amps:.0f} A service: "
+               f"{service_verdict(state.fits, state.near_limit, state.load_pct)}\n", style="bold")
     if state.remedy:
         out.append("Remedy: ", style="bold")
         out.append(state.remedy + "\n")
@@ -69,6 +72,8 @@ class PowerView(View):
         self.states: tuple[CapacityState, ...] = ()
 
     def show(self, data: ViewData) -> None:
+        self.query_one("#power-caution", Static).update(
+            caution_text(data.plan.home.electrical.code_edition))
         banner = self.query_one("#power-banner", Static)
         text = banner_text(data)
         banner.update(text or "")
@@ -85,7 +90,8 @@ class PowerView(View):
             table.add_column("Remedy", key="remedy")
         self.states = data.result.capacity if data.result is not None else ()
         for i, s in enumerate(self.states):
-            fits = Text("yes") if s.fits else Text("NO", style="bold reverse")
+            fits = (Text("NO", style="bold reverse") if not s.fits else
+                    Text(f"near {s.load_pct:.0f}%", style="bold") if s.near_limit else Text("yes"))
             table.add_row(Text(trunc(s.label, 34 if wide else 24)),
                           Text(num(s.amps), justify="right"),
                           Text(num(s.service_amps), justify="right"),

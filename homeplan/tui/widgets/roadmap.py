@@ -116,12 +116,12 @@ def row_details(data: ViewData, row: Row) -> Text:
         out.append(f"Cost today about {usd(info.cost_usd)} before incentives ({info.cost_source}).\n")
         if not row.excluded:
             out.append("The planner did not place it within the horizon; p pins it to a year.\n")
-    ids = row.step.cautions if row.step else info.cautions if info else ()
-    texts = caution_texts()
-    for cid in ids:
-        if cid in texts:
-            out.append("Caution: ", style="bold")
-            out.append(texts[cid] + "\n")
+    texts = caution_texts(data.plan.home.electrical.code_edition)
+    shown = row.step.cautions if row.step else tuple(texts[c] for c in (info.cautions if info else ())
+                                                       if c in texts)
+    for text in shown:
+        out.append("Caution: ", style="bold")
+        out.append(text + "\n")
     return out
 
 
