@@ -160,7 +160,7 @@ def stages(csv_path: Path, template: Path, n: int) -> None:
 
 def main() -> None:
     ap = argparse.ArgumentParser()
-    ap.add_argument("--homes", default="100,300,1000", help="sizes, comma-separated")
+    ap.add_argument("--homes", default="100,300,1000", help="sizes, comma-separated (0: none)")
     ap.add_argument("--dask", type=int, default=200, help="homes for the dask comparison (0: skip)")
     ap.add_argument("--workers", type=int, default=os.cpu_count() or 1)
     ap.add_argument("--stages", type=int, default=0, help="also time the planner's stages on N homes")
@@ -170,7 +170,7 @@ def main() -> None:
         csv_path, template, out, workers, scheduler = args.one
         print(json.dumps(one_run(csv_path, template, out, int(workers), scheduler or None)))
         return
-    sizes = [int(s) for s in args.homes.split(",")]
+    sizes = [int(s) for s in args.homes.split(",") if s.strip() and int(s) > 0]  # 0: skip
     tmp = Path(tempfile.mkdtemp(prefix="bench_portfolio_"))
     print(f"portfolio benchmark, {args.workers} local workers, cores {os.cpu_count()}; load {load()}")
     print(f"{'homes':>6s} {'wall':>8s} {'homes/s':>8s} {'wall s/home':>11s} {'CPU s/home':>10s} "
