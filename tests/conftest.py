@@ -16,3 +16,17 @@ SAMPLES = sorted((ROOT / "sample_homes").glob("*.yaml"))
 @pytest.fixture
 def sample_paths():
     return SAMPLES
+
+
+@pytest.fixture(autouse=True, scope="session")
+def _private_cache_folder(tmp_path_factory):
+    """Commands run by the tests keep their weather years in a folder of the test session, never
+    in the user's cache folder."""
+    folder = tmp_path_factory.mktemp("homeplan-cache")
+    old = os.environ.get("HOMEPLAN_CACHE_DIR")
+    os.environ["HOMEPLAN_CACHE_DIR"] = str(folder)
+    yield folder
+    if old is None:
+        os.environ.pop("HOMEPLAN_CACHE_DIR", None)
+    else:
+        os.environ["HOMEPLAN_CACHE_DIR"] = old

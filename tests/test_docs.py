@@ -6,6 +6,7 @@ import re
 
 import pytest
 
+from homeplan.plan.alternatives import options
 from homeplan.plan.load import load_plan
 from homeplan.planner import candidates as graph
 
@@ -31,7 +32,8 @@ def test_example_is_valid(block, tmp_path):
     f = tmp_path / "docs" / "example.yaml"
     f.write_text(block)
     loaded = load_plan(f)
-    graph.build_graph(loaded.plan)
+    for _, opt in options(loaded):  # named options are plans too
+        graph.build_graph(opt.plan)
 
 
 def test_readme_quick_start():
@@ -55,6 +57,9 @@ def test_roadmap_json_doc_matches_the_code():
     assert incentives and data["milestones"] and data["baselines"], "the fixture shows every part"
     keys = set(data) | set(data["steps"][0]) | set(data["years"][0]) | set(data["baselines"][0])
     keys |= set(data["milestones"][0]) | set(incentives[0])
+    risk = data["price_risk"]
+    keys |= set(risk) | set(risk["plan_cost_usd"]) | set(risk["shocks"][0]) | set(risk["years"][0])
+    keys |= set(risk["fuels"][0]) | set(risk["solar"])
     documented = set(re.findall(r"^\| `(\w+)` \|", doc, flags=re.M))
     assert keys - documented == set()
     for unit_key in UNIT_KEY.values():

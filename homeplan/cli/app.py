@@ -45,8 +45,10 @@ def run_portfolio(store: Path, light: bool | None = None) -> int:
     return int(result or 0) if app.return_code in (None, 0) else int(app.return_code)
 
 
-def run(path: str | None, light: bool | None = None) -> int:
-    """Open ``path`` (or the new-plan form when it does not exist); returns an exit code."""
+def run(path: str | None, light: bool | None = None, use_store: bool = True) -> int:
+    """Open ``path`` (or the new-plan form when it does not exist); returns an exit code.
+    ``use_store`` False (``--no-cache``) keeps nothing in the user's cache folder. A portfolio's
+    results folder (or its ``.sqlite`` file) opens read-only."""
     store = _portfolio(path)
     if store is not None:
         return run_portfolio(store, light)
@@ -64,13 +66,15 @@ def run(path: str | None, light: bool | None = None) -> int:
     else:
         new_path = path
     # textual (~0.3 s) is imported only once the file is known to be good
-    from homeplan.tui.app import HomeplanApp
+    from homeplan.tui.app import EnginePlanner, HomeplanApp
 
-    app = HomeplanApp(session=session, new_path=new_path, light=light)
+    app = HomeplanApp(session=session, new_path=new_path, light=light,
+                      planner=EnginePlanner(use_store=use_store))
     result = app.run()
     return int(result or 0) if app.return_code in (None, 0) else int(app.return_code)
 
 
 def cmd_open(args) -> int:
     """CLI entry: ``args.file`` (may not exist yet) and optional ``args.light``."""
-    return run(getattr(args, "file", None), light=getattr(args, "light", None) or None)
+    return run(getattr(args, "file", None), light=getattr(args, "light", None) or None,
+               use_store=not getattr(args, "no_cache", False))

@@ -5,24 +5,41 @@ from __future__ import annotations
 import datetime as dt
 import os
 from collections.abc import Mapping
+from dataclasses import replace
 from typing import Any
 
 from homeplan.errors import InputError
 from homeplan.plan.load import LoadedPlan, load_plan
 from homeplan.planner.chain import plan_roadmap
+from homeplan.planner.context import PlannerCache
+from homeplan.planner.diskstore import default_store
+from homeplan.planner.sensitivity import sensitivity
 from homeplan.result.plan_result import PlanResult
 
-__all__ = ["load_and_plan", "now_utc"]
+__all__ = ["load_and_plan", "now_utc", "planner_cache", "with_sensitivity"]
 
 
-def load_and_plan(path: str, values: Mapping[tuple, Any] | None = None) -> tuple[LoadedPlan, PlanResult]:
+def load_and_plan(path: str, values: Mapping[tuple, Any] | None = None,
+                  use_store: bool = True) -> tuple[LoadedPlan, PlanResult]:
     """Load a plan file, set command-line ``values`` (paths of keys), plan it.
 
     Every problem - in the file, in a value, or a rule the plan breaks - is an InputError located
-    in the file (exit code 2).
+    in the file (exit code 2). ``use_store`` False (``--no-cache``) keeps nothing on disk.
     """
     loaded = load_plan(path).with_values(values or {})
-    return loaded, plan_roadmap(loaded)
+    return loaded, plan_roadmap(loaded, cache=planner_cache(use_store))
+
+
+def planner_cache(use_store: bool = True) -> PlannerCache:
+    """A planner cache backed by the user's disk store (or by nothing with ``use_store`` False)."""
+    return PlannerCache(store=default_store() if use_store else None)
+
+
+def with_sensitivity(loaded: LoadedPlan, result: PlanResult) -> PlanResult:
+    """The result with its sensitivity ranking (the home re-planned about twenty times)."""
+    if result.roadmap.status != "ok":
+        return result
+    return replace(result, sensitivity=sensitivity(loaded, result, cache=planner_cache()))
 
 
 def now_utc() -> dt.datetime:

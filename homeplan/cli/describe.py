@@ -10,12 +10,14 @@ from pathlib import Path
 from typing import TYPE_CHECKING
 
 from homeplan.errors import PlanRuleError
+from homeplan.plan.alternatives import options
 from homeplan.plan.load import LoadedPlan, load_plan
 from homeplan.plan.model import Plan
 from homeplan.plan.save import write_atomic
 from homeplan.plan.schema import plan_json_schema
 from homeplan.planner import candidates, lifecycle
 from homeplan.planner.incentives import load_programs
+from homeplan.planner.meter import read_meter
 from homeplan.report.table import text_table, usd
 from homeplan.units import display_area, display_temp
 
@@ -32,18 +34,26 @@ def _graph_checked(loaded: LoadedPlan) -> nx.DiGraph:
         raise loaded.locate(err) from None
 
 
-def _check_files(loaded: LoadedPlan) -> None:
-    """The files a plan refers to must exist and hold valid data (incentives, weather)."""
+def _check_files(loaded: LoadedPlan) -> tuple[str, ...]:
+    """The files a plan refers to must exist and hold valid data (incentives, weather, meter);
+    returns what the meter file tells, in words."""
     plan = loaded.plan
     base = loaded.base_dir
     try:
         load_programs(plan, base)
+        _, reading = read_meter(plan, base)
         wf = plan.home.climate.weather_file
         if wf and not (Path(wf) if Path(wf).is_absolute() else base / wf).exists():
             raise PlanRuleError(("home", "climate", "weather_file"), f"weather file not found: {wf}",
                                 "give a path relative to the plan file, or remove the key")
     except PlanRuleError as err:
         raise loaded.locate(err) from None
+    if reading is None:
+        return ()
+    m = reading.series
+    return (f"{reading.path.name}: {m.kwh.size:,} readings of {m.interval_s // 60} minutes over "
+            f"{m.span_days:.0f} days, {m.total_kwh:,.0f} kWh, highest {reading.peak_kw:.1f} kW",
+            *reading.notes)
 
 
 def plan_summary(plan: Plan, g: nx.DiGraph | None = None) -> str:
@@ -87,9 +97,16 @@ def plan_summary(plan: Plan, g: nx.DiGraph | None = None) -> str:
 def cmd_check(args) -> int:
     loaded = load_plan(args.file)
     g = _graph_checked(loaded)
-    _check_files(loaded)
+    meter = _check_files(loaded)
+    named = options(loaded)[1:]  # each option validated, its problems located in the file
+    for _, opt in named:
+        _graph_checked(opt)
     print(f"{args.file}: ok")
     print(plan_summary(loaded.plan, g))
+    if named:
+        print(f"options: {', '.join(name for name, _ in named)} (compare them: homeplan compare {args.file})")
+    for line in meter:
+        print(f"  meter:      {line}")
     if loaded.migrated_from:
         print(f"note: migrated from plan format {loaded.migrated_from}; saving writes the new format")
     return 0

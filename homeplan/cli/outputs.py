@@ -7,24 +7,30 @@ set (reproducible outputs), else from the clock (:func:`homeplan.cli.common.now_
 from __future__ import annotations
 
 import datetime as dt
+import json
 import sys
 from pathlib import Path
 
-from homeplan.cli.common import load_and_plan, now_utc
+from homeplan import __version__
+from homeplan.cli.common import load_and_plan, now_utc, with_sensitivity
 from homeplan.errors import InputError, Problem
+from homeplan.plan.alternatives import BASE_NAME, options
 from homeplan.plan.hashing import content_hash
 from homeplan.plan.load import load_plan
 from homeplan.plan.save import write_atomic
+from homeplan.planner.chain import plan_roadmap
+from homeplan.planner.context import PlannerCache
+from homeplan.report.compare import Comparison, build_comparison, comparison_json
 from homeplan.report.csvout import write_csv_dir
 from homeplan.report.diff import diff_inputs, diff_roadmaps, render_diff
-from homeplan.report.html import render_html
+from homeplan.report.html import comparison_page, render_html
 from homeplan.report.ics import render_ics
 from homeplan.report.jsonout import render_json
-from homeplan.report.text import render_markdown, render_text
+from homeplan.report.text import comparison_markdown, comparison_text, render_markdown, render_text
 from homeplan.report.view import build_report
 from homeplan.result.plan_result import PlanResult
 
-__all__ = ["FORMATS", "cmd_diff", "cmd_export", "cmd_print", "render_summary"]
+__all__ = ["FORMATS", "cmd_compare", "cmd_diff", "cmd_export", "cmd_print", "planned_options", "render_summary"]
 
 FORMATS = {".html": "html", ".htm": "html", ".md": "md", ".markdown": "md", ".txt": "txt", ".text": "txt"}
 
@@ -41,9 +47,10 @@ def _format_for(output: str | None, fmt: str | None) -> str:
     return FORMATS[ext]
 
 
-def render_summary(result: PlanResult, fmt: str, today: dt.date | None = None) -> str:
+def render_summary(result: PlanResult, fmt: str, today: dt.date | None = None,
+                   comparison: Comparison | None = None) -> str:
     """The printed summary of a result in ``fmt`` (``html``, ``md`` or ``txt``)."""
-    report = build_report(result, today=today)
+    report = build_report(result, today=today, comparison=comparison)
     if fmt == "html":
         return render_html(report)
     return render_markdown(report) if fmt == "md" else render_text(report)
@@ -51,8 +58,13 @@ def render_summary(result: PlanResult, fmt: str, today: dt.date | None = None) -
 
 def cmd_print(args) -> int:
     fmt = _format_for(args.output, args.format)
-    _, result = load_and_plan(args.file)
-    text = render_summary(result, fmt, today=now_utc().date())
+    loaded, result = load_and_plan(args.file, use_store=not args.no_cache)
+    if not getattr(args, "quick", False):
+        result = with_sensitivity(loaded, result)
+    comparison = None
+    if result.plan.alternatives:
+        comparison = build_comparison([(name, r) for name, _, r in planned_options([args.file])])
+    text = render_summary(result, fmt, today=now_utc().date(), comparison=comparison)
     if args.output and args.output != "-":
         write_atomic(args.output, text, backup=False)
         print(f"wrote {args.output}", file=sys.stderr)
@@ -64,7 +76,7 @@ def cmd_print(args) -> int:
 def cmd_export(args) -> int:
     if not (args.csv or args.ics or args.json):
         raise InputError("nothing to export: give --csv DIR, --ics FILE and/or --json FILE")
-    _, result = load_and_plan(args.file)
+    _, result = load_and_plan(args.file, use_store=not args.no_cache)
     written: list[str] = []
     if args.csv:
         written += [str(p) for p in write_csv_dir(result, args.csv, hourly=args.hourly)]
@@ -86,9 +98,49 @@ def cmd_diff(args) -> int:
         la, lb = load_plan(args.a), load_plan(args.b)
         road = None
     else:
-        la, ra = load_and_plan(args.a)
-        lb, rb = load_and_plan(args.b)
+        la, ra = load_and_plan(args.a, use_store=not args.no_cache)
+        lb, rb = load_and_plan(args.b, use_store=not args.no_cache)
         road = diff_roadmaps(ra.roadmap, rb.roadmap)
     inputs = diff_inputs(la.plan, lb.plan)
     sys.stdout.write(render_diff(args.a, args.b, inputs, road, content_hash(la.plan), content_hash(lb.plan)))
+    return 0
+
+
+def planned_options(files: list[str]) -> list[tuple[str, str, PlanResult]]:
+    """Every option of the plan files - each file as planned, then its named options - planned,
+    as ``(name, file, result)``. Names are the option's own with one file, else prefixed by the
+    file's name."""
+    out = []
+    for f in files:
+        loaded = load_plan(f)
+        cache = PlannerCache()
+        for name, opt in options(loaded):
+            label = name if len(files) == 1 else (Path(f).stem if name == BASE_NAME else f"{Path(f).stem}: {name}")
+            out.append((label, f, plan_roadmap(opt, cache=cache)))
+    return out
+
+
+def cmd_compare(args) -> int:
+    fmt = _format_for(args.output, args.format) if (args.output or args.format) else "txt"
+    planned = planned_options(list(args.files))
+    if len(planned) < 2:
+        raise InputError(Problem(args.files[0], 0, 0, "nothing to compare: one plan without options",
+                                 "give two or more plan files, or add alternatives: to the plan "
+                                 "(see docs/plan-format.md)"))
+    if args.json:
+        sys.stdout.write(json.dumps(comparison_json(planned), indent=2, allow_nan=False) + "\n")
+        return 0
+    c = build_comparison([(n, r) for n, _, r in planned])
+    if fmt == "html":
+        text = comparison_page(c, "Options side by side: " + ", ".join(c.names),
+                               now_utc().date().isoformat(), __version__)
+    elif fmt == "md":
+        text = "# " + "Options side by side\n\n" + comparison_markdown(c).split("\n", 2)[2]
+    else:
+        text = ("Options side by side. Planning estimates.\n\n" + comparison_text(c).split("\n", 2)[2])
+    if args.output and args.output != "-":
+        write_atomic(args.output, text, backup=False)
+        print(f"wrote {args.output}", file=sys.stderr)
+    else:
+        sys.stdout.write(text)
     return 0

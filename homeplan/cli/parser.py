@@ -29,7 +29,7 @@ __all__ = [
 EXIT_OK, EXIT_FAILURE, EXIT_BAD_INPUT = 0, 1, 2
 EXIT_INTERRUPTED = 130  # 128 + SIGINT, as shells report Ctrl-C
 
-OBJECTIVES = ("npv", "emissions", "gas_off_early", "out_of_pocket")
+OBJECTIVES = ("npv", "emissions", "gas_off_early", "out_of_pocket", "risk_aware")
 
 COMMANDS: dict[str, tuple[str, str]] = {
     "check": ("describe", "cmd_check"),
@@ -39,12 +39,14 @@ COMMANDS: dict[str, tuple[str, str]] = {
     "plan": ("planning", "cmd_plan"),
     "capacity": ("planning", "cmd_capacity"),
     "costs": ("planning", "cmd_costs"),
+    "sensitivity": ("planning", "cmd_sensitivity"),
     "open": ("app", "cmd_open"),
     "print": ("outputs", "cmd_print"),
     "export": ("outputs", "cmd_export"),
     "diff": ("outputs", "cmd_diff"),
     "portfolio": ("portfolio", "cmd_portfolio"),
     "community": ("portfolio", "cmd_community"),
+    "compare": ("outputs", "cmd_compare"),
 }
 """Command -> (module in ``homeplan.cli``, function taking the parsed arguments)."""
 
@@ -100,12 +102,17 @@ def build_parser() -> argparse.ArgumentParser:
     """The parser of every command (``args.command`` names the one given)."""
     p = _Parser(prog="homeplan", description="Plan a whole-home electrification, year by year.")
     p.add_argument("--version", action="version", version=f"homeplan {__version__}")
+    no_cache = ("do not read or keep the built-in weather year in the user's cache folder "
+                "(HOMEPLAN_CACHE_DIR, or the platform's user cache folder)")
+    p.add_argument("--no-cache", action="store_true", help=no_cache)
     sub = p.add_subparsers(dest="command", metavar="COMMAND", parser_class=_Parser)
 
     def command(name: str, help_: str, file: bool = True) -> argparse.ArgumentParser:
         sp = sub.add_parser(name, help=help_, description=help_)
         if file:
             sp.add_argument("file", help="plan file (YAML)")
+            # also after the command; SUPPRESS keeps the top-level value when it is not given
+            sp.add_argument("--no-cache", action="store_true", default=argparse.SUPPRESS, help=no_cache)
         return sp
 
     def json_flag(sp: argparse.ArgumentParser) -> None:
@@ -128,6 +135,8 @@ def build_parser() -> argparse.ArgumentParser:
     sp.add_argument("--objective", choices=OBJECTIVES, help="override the objective")
     json_flag(command("capacity", "electrical load calculation today and after each roadmap step"))
     json_flag(command("costs", "costs, incentives and net cost of each project by year"))
+    json_flag(command("sensitivity", "which assumptions move the net present value most (each at a "
+                      "low and a high setting, the home re-planned; takes a few seconds)"))
 
     sp = command("open", "open the plan in the terminal app (explore, edit, re-plan); "
                  "a FILE that does not exist yet starts the guided new-plan form; a portfolio's "
@@ -140,6 +149,8 @@ def build_parser() -> argparse.ArgumentParser:
     sp.add_argument("-o", "--output", help="write to this file (.html, .md or .txt) instead of stdout")
     sp.add_argument("--format", choices=("txt", "md", "html"), help="output format (default: from the "
                     "file extension, else txt)")
+    sp.add_argument("--quick", action="store_true", help="leave out the sensitivity ranking (it re-plans "
+                    "the home about twenty times)")
     sp = command("export", "export the roadmap as CSV files, an iCalendar file or JSON")
     sp.add_argument("--csv", metavar="DIR", help="write steps.csv, years.csv and monthly_energy.csv here")
     sp.add_argument("--hourly", action="store_true", help="with --csv: also hourly_energy.csv when available")
@@ -185,6 +196,13 @@ def build_parser() -> argparse.ArgumentParser:
                     "seed gives the same homes")
     sp.add_argument("--incentives", metavar="FILE", help="an incentive catalog for the template to "
                     "name (a path relative to the folder)")
+    sp = command("compare", "lay options side by side: several plan files, and the named options "
+                 "(alternatives) inside them", file=False)
+    sp.add_argument("files", nargs="+", metavar="FILE", help="plan files (YAML); each brings its own options")
+    sp.add_argument("--json", action="store_true", help="print every option's roadmap as JSON")
+    sp.add_argument("-o", "--output", help="write a printable comparison (.html, .md or .txt)")
+    sp.add_argument("--format", choices=("txt", "md", "html"), help="output format (default: from the "
+                    "file extension, else txt)")
     missing = set(sub.choices) ^ set(COMMANDS)
     assert not missing, f"commands without a module or a parser: {sorted(missing)}"
     return p

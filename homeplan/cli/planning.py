@@ -4,17 +4,20 @@ from __future__ import annotations
 
 import json
 import sys
+import textwrap
 from dataclasses import asdict
 from typing import Any
 
 from homeplan import catalog
-from homeplan.cli.common import load_and_plan
+from homeplan.cli.common import load_and_plan, with_sensitivity
 from homeplan.cli.parser import EXIT_BAD_INPUT
 from homeplan.report.fmt import service_verdict
+from homeplan.report.risk import risk_lines, sensitivity_view
 from homeplan.report.table import text_table, usd
+from homeplan.report.text import tornado_text
 from homeplan.report.view import bill_fit_lines, emergency_lines
 
-__all__ = ["cmd_capacity", "cmd_costs", "cmd_plan"]
+__all__ = ["cmd_capacity", "cmd_costs", "cmd_plan", "cmd_sensitivity"]
 
 
 def _overrides(args) -> dict[tuple, Any]:
@@ -29,11 +32,13 @@ def _overrides(args) -> dict[tuple, Any]:
 
 
 def cmd_plan(args) -> int:
-    loaded, result = load_and_plan(args.file, _overrides(args))
+    loaded, result = load_and_plan(args.file, _overrides(args), use_store=not args.no_cache)
     rm = result.roadmap
     if args.json:
         data = rm.to_dict()
         data["warnings"] = list(result.warnings)
+        if result.solver is not None:
+            data["solver"] = result.solver.to_dict()
         print(json.dumps(data, indent=2))
         return 0
     print(f"Roadmap for {rm.plan_name}, {rm.first_year}-{rm.last_year} "
@@ -74,6 +79,11 @@ def cmd_plan(args) -> int:
         print("\nModel of today's home against your bills (planning estimate):")
         for line in fits:
             print(f"  {line}")
+    lines = risk_lines(rm)
+    if lines:
+        print("\nPrice risk:")
+        for line in lines:
+            print(textwrap.fill(line, 100, initial_indent="  ", subsequent_indent="  "))
     for w in result.warnings:
         print(f"note: {w}")
     print()
@@ -83,7 +93,7 @@ def cmd_plan(args) -> int:
 
 
 def cmd_capacity(args) -> int:
-    _, result = load_and_plan(args.file)
+    _, result = load_and_plan(args.file, use_store=not args.no_cache)
     if args.json:
         print(json.dumps([asdict(s) for s in result.capacity], indent=2, allow_nan=False))
         return 0
@@ -110,7 +120,7 @@ def cmd_capacity(args) -> int:
 
 
 def cmd_costs(args) -> int:
-    _, result = load_and_plan(args.file)
+    _, result = load_and_plan(args.file, use_store=not args.no_cache)
     rm = result.roadmap
     planned = {s.project_id: s for s in rm.steps}
     if args.json:
@@ -179,4 +189,29 @@ def cmd_costs(args) -> int:
         for u in result.programs:
             paid = ", ".join(f"{y}: {usd(v, 10)}" for y, v in u.paid_by_year.items())
             print(f"  {u.name} ({u.kind.replace('_', ' ')}): {paid}" + (f"; ends {u.ends}" if u.ends else ""))
+    return 0
+
+
+def cmd_sensitivity(args) -> int:
+    loaded, result = load_and_plan(args.file)
+    if result.roadmap.status != "ok":
+        print(result.roadmap.infeasibility or "No plan meets every requirement.", file=sys.stderr)
+        return EXIT_BAD_INPUT
+    result = with_sensitivity(loaded, result)
+    if args.json:
+        print(json.dumps(result.sensitivity.to_dict(), indent=2, allow_nan=False))
+        return 0
+    view = sensitivity_view(result)
+    print("What moves the net present value most: each assumption at a low and a high setting, the "
+          "home re-planned. Planning estimates.\n")
+    if view is None:
+        print("No assumption could be varied for this plan.")
+        return 0
+    for line in view.lines:
+        print(textwrap.fill(line, 100))
+    print()
+    print(tornado_text(view.base_usd, view.bars))
+    print()
+    print(text_table(list(view.table.headers), [list(r) for r in view.table.rows], view.table.align.replace("n", "l")))
+    print(textwrap.fill(view.table.note, 100))
     return 0

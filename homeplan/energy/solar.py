@@ -196,13 +196,17 @@ class SolarSite:
 
             w = self.weather
             times = w.times(mid_hour=True)
-            sp = solarposition.get_solarposition(times, w.latitude_deg, w.longitude_deg,
-                                                 altitude=w.altitude_m)
-            app = sp["apparent_zenith"].to_numpy(float)
+            if w.sun is not None:  # computed with the same times and site when the year was made
+                sp = w.sun
+            else:
+                sp = solarposition.get_solarposition(times, w.latitude_deg, w.longitude_deg,
+                                                     altitude=w.altitude_m)
+                sp = {k: sp[k].to_numpy(float) for k in ("apparent_zenith", "zenith", "azimuth")}
+            app = sp["apparent_zenith"]
             self._solpos = {
                 "apparent_zenith": app,
-                "zenith": sp["zenith"].to_numpy(float),
-                "azimuth": sp["azimuth"].to_numpy(float),
+                "zenith": sp["zenith"],
+                "azimuth": sp["azimuth"],
                 "dni_extra": np.asarray(irradiance.get_extra_radiation(times), float),
                 "airmass": np.asarray(atmosphere.get_relative_airmass(app), float),
             }

@@ -8,6 +8,7 @@ from __future__ import annotations
 
 import hashlib
 import math
+from collections.abc import Mapping
 from dataclasses import dataclass, field
 from pathlib import Path
 
@@ -24,7 +25,10 @@ __all__ = [
     "read_tmy2",
     "read_tmy3",
     "read_weather",
+    "SUN_KEYS",
+    "SYNTHETIC_HOURLY_KEYS",
     "synthetic_weather",
+    "synthetic_year",
 ]
 
 
@@ -74,6 +78,10 @@ class Weather:
         Where the hourly data came from.
     design_source : str
         Where the design temperatures came from.
+    sun : mapping of str to numpy.ndarray or None
+        Solar position at mid-hour (``apparent_zenith``, ``zenith``, ``azimuth``, degrees) when
+        it was already computed for this site and year (the synthetic year needs it), so that
+        the solar model does not compute it a second time; None to compute it when needed.
 
     Raises
     ------
@@ -98,6 +106,7 @@ class Weather:
     cooling_design_f: float | None = None
     source: str = ""
     design_source: str = field(default="")
+    sun: Mapping[str, np.ndarray] | None = field(default=None, repr=False)
 
     def __post_init__(self) -> None:
         for name in ("temp_f", "ghi_wm2", "dni_wm2", "dhi_wm2", "wind_ms"):
@@ -426,11 +435,18 @@ def _seed(normals: ClimateNormals) -> int:
 
 
 def _ar1(rng: np.random.Generator, n: int, phi: float) -> np.ndarray:
-    """Unit-variance AR(1) series (vectorised through scipy.signal.lfilter)."""
-    from scipy.signal import lfilter
+    """Unit-variance AR(1) series ``y[i] = phi y[i-1] + e[i]`` (50 values of burn-in).
 
-    eps = rng.standard_normal(n + 50) * math.sqrt(1.0 - phi * phi)
-    return lfilter([1.0], [1.0, -phi], eps)[50:]
+    A plain recursion over floats (about 9,000 values at most, a few ms): it spares the import
+    of scipy.signal, whose ``lfilter`` computes the same sums in the same order.
+    """
+    eps = (rng.standard_normal(n + 50) * math.sqrt(1.0 - phi * phi)).tolist()
+    acc = 0.0
+    out = []
+    for e in eps:
+        acc = e + phi * acc
+        out.append(acc)
+    return np.asarray(out[50:])
 
 
 @dataclass(frozen=True)
@@ -443,7 +459,9 @@ class _Components:
 
 
 def _components(normals: ClimateNormals, rng: np.random.Generator) -> _Components:
-    from scipy.stats import beta, norm
+    # scipy.special holds what scipy.stats' norm.cdf and beta.ppf call, without scipy.stats'
+    # import (about 0.4 s); scipy.optimize, needed for the fit below, loads it anyway.
+    from scipy.special import betaincinv, ndtr
 
     n = timegrid.HOURS_PER_YEAR
     t_days = (np.arange(n) + 0.5) / 24.0
@@ -455,8 +473,8 @@ def _components(normals: ClimateNormals, rng: np.random.Generator) -> _Component
     # Daily cloud cover: AR(1) Gaussian mapped to a Beta distribution with the requested mean.
     mean_c = float(np.clip(normals.cloudiness, 0.02, 0.98))
     conc = 2.0
-    u = norm.cdf(_ar1(rng, timegrid.DAYS_PER_YEAR, 0.6))
-    cloud_day = beta.ppf(u, mean_c * conc, (1 - mean_c) * conc)
+    u = ndtr(_ar1(rng, timegrid.DAYS_PER_YEAR, 0.6))
+    cloud_day = betaincinv(mean_c * conc, (1 - mean_c) * conc, u)
     day_centres = np.arange(timegrid.DAYS_PER_YEAR) * 24 + 12.0
     hours = np.arange(n) + 0.5
     cloud_h = np.clip(
@@ -560,9 +578,7 @@ def synthetic_weather(normals: ClimateNormals) -> Weather:
     comp = _components(normals, rng)
     temp_f = _calibrate_temperature(normals, comp)
 
-    tz = normals.tz_offset_h
-    if tz is None:
-        tz = float(round(normals.longitude_deg / 15.0))
+    tz = _tz_of(normals)
     import pandas as pd
 
     wx_tmp = _fixed_tz(tz)
@@ -582,18 +598,50 @@ def synthetic_weather(normals: ClimateNormals) -> Weather:
     dhi = np.nan_to_num(np.clip(np.asarray(split["dhi"], float), 0.0, None))
 
     wind = np.clip(3.5 * np.exp(0.35 * _ar1(rng, timegrid.HOURS_PER_YEAR, 0.9) - 0.06), 0.0, None)
+    hourly = {"temp_f": temp_f, "ghi_wm2": ghi, "dni_wm2": dni, "dhi_wm2": dhi, "wind_ms": wind}
+    sun = {k: solpos[k].to_numpy(float) for k in SUN_KEYS}
+    return synthetic_year(normals, hourly, sun)
+
+
+SYNTHETIC_HOURLY_KEYS = ("temp_f", "ghi_wm2", "dni_wm2", "dhi_wm2", "wind_ms")
+SUN_KEYS = ("apparent_zenith", "zenith", "azimuth")
+
+
+def _tz_of(normals: ClimateNormals) -> float:
+    if normals.tz_offset_h is not None:
+        return normals.tz_offset_h
+    return float(round(normals.longitude_deg / 15.0))
+
+
+def synthetic_year(
+    normals: ClimateNormals, hourly: Mapping[str, np.ndarray], sun: Mapping[str, np.ndarray] | None
+) -> Weather:
+    """The :class:`Weather` of a synthetic year from its hourly arrays (as
+    :func:`synthetic_weather` makes them, or as a store kept them).
+
+    Parameters
+    ----------
+    normals : ClimateNormals
+        The site's climate targets the arrays were made for.
+    hourly : mapping of str to numpy.ndarray
+        ``temp_f``, ``ghi_wm2``, ``dni_wm2``, ``dhi_wm2``, ``wind_ms`` (8760 values each).
+    sun : mapping of str to numpy.ndarray or None
+        Solar position at mid-hour (``apparent_zenith``, ``zenith``, ``azimuth``, degrees).
+
+    Returns
+    -------
+    Weather
+        The typical year with the normals' design temperatures.
+    """
     return Weather(
-        temp_f=temp_f,
-        ghi_wm2=ghi,
-        dni_wm2=dni,
-        dhi_wm2=dhi,
-        wind_ms=wind,
+        **{k: hourly[k] for k in SYNTHETIC_HOURLY_KEYS},
         latitude_deg=normals.latitude_deg,
         longitude_deg=normals.longitude_deg,
-        tz_offset_h=tz,
+        tz_offset_h=_tz_of(normals),
         altitude_m=normals.altitude_m,
         heating_design_f=normals.heating_design_f,
         cooling_design_f=normals.cooling_design_f,
         source="synthetic typical year",
         design_source="climate normals given to the generator",
+        sun=sun,
     )

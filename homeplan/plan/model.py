@@ -18,6 +18,7 @@ from pydantic import BaseModel, ConfigDict, Field, model_validator
 
 __all__ = [
     "FORMAT_VERSION",
+    "Alternative",
     "Appliance",
     "Budget",
     "Choices",
@@ -39,6 +40,7 @@ __all__ = [
     "Loan",
     "Location",
     "Plan",
+    "PriceUncertainty",
     "Prices",
     "ProjectOption",
     "Provenance",
@@ -339,6 +341,10 @@ class Usage(Section):
         description="EPW or TMY3-format file of the weather during the billed year, relative to "
         "the plan file; the bills are then weather-normalised to the typical year.",
     )
+    meter_file: str | None = Field(
+        None, description="Green Button interval data (ESPI XML or CSV, 15-minute or hourly), "
+        "relative to the plan file: twelve complete months stand in for the electric bills, and "
+        "a continuous 15-minute record gives the measured peak demand (NEC 220.87).")
     electricity: ElectricUsage | None = None
     gas: GasUsage | None = None
     propane: GallonUsage | None = None
@@ -390,6 +396,18 @@ def _gallon(price: float) -> Any:
     return Field(default_factory=lambda: GallonPrice(usd_per_gal=price))
 
 
+class PriceUncertainty(Section):
+    """How the price risk of a roadmap is sampled (homeplan/money/prices.py)."""
+
+    paths: int = Field(2000, ge=100, le=100000, description="Number of sampled price paths.")
+    seed: int = Field(1, ge=0, description="Seed of the paths: the same seed gives the same figures.")
+    drift: Literal["plan", "history"] = Field(
+        "plan", description="plan: paths centred on the plan's escalation; history: on the "
+        "historic trend of each price.")
+    volatility_factor: float = Field(
+        1.0, ge=0, le=5, description="Multiplies the historic volatilities (0: one certain path).")
+
+
 class Prices(Section):
     """Energy prices today and how they change; defaults are US averages (see data/prices.csv)."""
 
@@ -409,6 +427,7 @@ class Prices(Section):
     cost_level: Literal["low", "typical", "high"] = Field(
         "typical", description="Which catalog cost to use when there is no quote."
     )
+    uncertainty: PriceUncertainty = PriceUncertainty()
 
 
 # ---------------------------------------------------------------- budget and choices
@@ -469,7 +488,7 @@ class ProjectOption(Section):
         "existing (keep the fuel-burning furnace or boiler as a dual-fuel backup).")
 
 
-Objective = Literal["npv", "emissions", "gas_off_early", "out_of_pocket"]
+Objective = Literal["npv", "emissions", "gas_off_early", "out_of_pocket", "risk_aware"]
 
 
 class Choices(Section):
@@ -490,6 +509,29 @@ class Choices(Section):
         50, gt=0, lt=100, description="Replace an appliance by the year its failure risk reaches this."
     )
     failed_now: list[str] = Field([], description="Appliance ids to treat as failed this year.")
+    risk_weight: float = Field(
+        1.0, ge=0, le=100, description="risk_aware objective: weight of the worst price paths' "
+        "cost (CVaR) beside the expected cost.")
+    risk_tail_pct: float = Field(
+        10, gt=0, le=100, description="risk_aware objective: the share of worst price paths whose "
+        "mean cost is weighed.")
+    risk_scenarios: int = Field(
+        100, ge=10, le=1000, description="risk_aware objective: price scenarios optimised over.")
+
+
+# ---------------------------------------------------------------- named options
+
+
+class Alternative(Section):
+    """A named option of the same plan: changes to its sections (different budgets, with or
+    without solar, keep the furnace as backup...), compared side by side with ``homeplan
+    compare`` and in the app."""
+
+    name: str = Field(min_length=1, max_length=80, description="What the option is called.")
+    description: str | None = Field(None, max_length=500, description="The option in a sentence.")
+    changes: dict[str, Any] = Field(
+        {}, description="Plan sections as in the file; mappings are merged key by key into the "
+        "plan, any other value (a list, a number) replaces the plan's.")
 
 
 # ---------------------------------------------------------------- the whole plan
@@ -516,6 +558,19 @@ class Plan(Section):
     )
     options: dict[str, ProjectOption] = Field({}, description="Project id -> overrides.")
     choices: Choices = Choices()
+    alternatives: list[Alternative] = Field(
+        [], description="Named options of this plan, each a set of changes (see docs/plan-format.md).")
+
+    @model_validator(mode="after")
+    def _alternatives_distinct(self) -> Plan:
+        names = [a.name.strip().lower() for a in self.alternatives]
+        for i, n in enumerate(names):
+            if n in names[:i]:
+                raise ValueError(f"alternatives[{i}] repeats the name '{self.alternatives[i].name}': "
+                                 "give each option its own name")
+            if "alternatives" in self.alternatives[i].changes:
+                raise ValueError(f"alternatives[{i}] changes 'alternatives': an option cannot hold options")
+        return self
 
     @model_validator(mode="after")
     def _ids_unique(self) -> Plan:

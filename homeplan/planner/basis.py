@@ -14,7 +14,7 @@ ACCA Manual J / ASHRAE Fundamentals degree-day method for the heat-loss calibrat
 from __future__ import annotations
 
 import math
-from collections.abc import Iterable
+from collections.abc import Callable, Iterable
 from dataclasses import dataclass, replace
 from pathlib import Path
 
@@ -95,11 +95,13 @@ def _read_weather_file(key: tuple[str, ...], name: str, base_dir: Path | None) -
                             "use an EPW (.epw) or TMY3 (.csv) file") from None
 
 
-def load_weather(plan: Plan, base_dir: Path | None) -> tuple[Weather, str]:
+def load_weather(plan: Plan, base_dir: Path | None,
+                 make_year: Callable[[wx.ClimateNormals], Weather] | None = None) -> tuple[Weather, str]:
     """The weather year for the plan and a note on where it came from.
 
     A weather file (EPW or TMY3) wins; otherwise a deterministic typical year is generated from
-    the climate numbers, filling gaps from the nearest reference climate (and saying so).
+    the climate numbers (by ``make_year``, default :func:`~homeplan.energy.weather.synthetic_weather`;
+    a disk store passes its reader), filling gaps from the nearest reference climate (and saying so).
     """
     h = plan.home
     c = h.climate
@@ -132,7 +134,8 @@ def load_weather(plan: Plan, base_dir: Path | None) -> tuple[Weather, str]:
         cloudiness=c.cloudiness if c.cloudiness is not None else (ref.cloudiness if ref else 0.45),
         altitude_m=(h.location.elevation_ft or 0.0) * 0.3048 if h.location else 0.0,
     )
-    return wx.synthetic_weather(normals), "; ".join(["built-in typical year", *notes])
+    year = (make_year or wx.synthetic_weather)(normals)
+    return year, "; ".join(["built-in typical year", *notes])
 
 
 # ------------------------------------------------------------------------------ equipment
@@ -292,13 +295,15 @@ def _bill_year_site(plan: Plan, base_dir: Path | None, typical: Weather) -> tupl
 
 
 def home_basis(plan: Plan, base_dir: Path | None = None,
+               make_year: Callable[[wx.ClimateNormals], Weather] | None = None,
                place: tuple[Weather, str, SolarSite] | None = None) -> HomeBasis:
     """Today's home: weather, solar geometry, heat loss and equipment, fitted to the bills.
 
     ``place`` gives the weather year, its note and its solar geometry when they are already
     known (homes of one place share them: :mod:`homeplan.planner.shared`); otherwise they are
-    loaded for this home alone."""
-    weather, wnote, solar_site = place if place is not None else (*load_weather(plan, base_dir), None)
+    loaded for this home alone (``make_year``: see :func:`load_weather`)."""
+    weather, wnote, solar_site = (place if place is not None
+                                  else (*load_weather(plan, base_dir, make_year), None))
     parts = {"water_heater": water_spec_today(plan), "cooking": cooking_spec_today(plan),
              "dryer": dryer_spec_today(plan)}
     cal, notes = first_heat_loss(plan, weather, parts)

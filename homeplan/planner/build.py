@@ -207,11 +207,13 @@ def build_result(ctx: Context, capacity: CapacityModel, incentives: IncentiveMod
         finance=Finance(plan=plan_returns(roadmap, rate, extra_flows, roadmap.npv_usd),
                         projects=project_returns(ctx, outcome, roadmap),
                         solar_hedge=solar_hedge(ctx, roadmap)),
-        solver=SolverReport(status=sol.status, seconds=sol.solve_time_s, passes=outcome.passes),
+        solver=SolverReport(status=sol.status, seconds=sol.solve_time_s, passes=outcome.passes,
+                            mip_gap=sol.mip_gap, presolve_retried=sol.presolve_retried),
         capacity_remedy=capacity.remedy_project,
         solar_connection=_connection_words(ctx, capacity, set(done)),
-        hourly=ctx.cache.memo(f"hourly:{sorted((p, ctx.details[p].variant) for p in done)}",
-                              lambda: hourly_profiles(ctx, done)),
+        hourly_source=lambda: ctx.cache.memo(
+            f"hourly:{sorted((p, ctx.details[p].variant) for p in done)}",
+            lambda: hourly_profiles(ctx, done)),
     )
 
 

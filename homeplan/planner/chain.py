@@ -1,11 +1,13 @@
 """From a plan to its result in named stages: the one path every command and view takes.
 
-    plan --home--> Context (upgrade graph, weather and heat loss, end-of-life outlooks)
+    plan --meter--> the plan with what its meter file tells (monthly use, measured peak)
+         --home--> Context (upgrade graph, weather and heat loss, end-of-life outlooks)
          --projects--> each candidate's variant, size and cost (solar sized to the electrified home)
          --capacity--> the service remedy, lower-power variants where they suffice
          --incentives--> the programs the plan lists, estimated per purchase
          --schedule--> the MILP's placement of each project in a year, refined once
          --result--> the roadmap re-simulated year by year, exact incentives, PlanResult
+         --risk--> the roadmap's cost on sampled energy price paths (price_risk)
 
 Each stage is a function of what the stages before it returned; nothing is changed in place.
 The scheduler sees linear approximations (each project's value measured against the home as it
@@ -15,30 +17,37 @@ its incentives exactly, and those are the numbers shown.
 
 from __future__ import annotations
 
+from dataclasses import replace
 from pathlib import Path
+
+import numpy as np
 
 from homeplan import catalog
 from homeplan.energy.solar import SolarArraySpec
 from homeplan.errors import PlanRuleError
+from homeplan.plan.hashing import content_hash
 from homeplan.plan.load import LoadedPlan
 from homeplan.plan.model import Plan
 from homeplan.planner import candidates, lifecycle
+from homeplan.planner.adjust import Adjustments
 from homeplan.planner.build import build_result
 from homeplan.planner.capacity import plan_capacity
 from homeplan.planner.context import Context, PlannerCache
 from homeplan.planner.incentives import IncentiveModel, plan_programs
+from homeplan.planner.meter import meter_summary, read_meter
 from homeplan.planner.projects import detail
+from homeplan.planner.risk import with_price_risk
 from homeplan.planner.scheduling import schedule
 from homeplan.result.plan_result import PlanResult
 
 __all__ = ["STAGES", "plan_roadmap", "prepare_home", "size_projects", "specific_yield"]
 
-STAGES = ("home", "projects", "capacity", "incentives", "schedule", "result")
+STAGES = ("meter", "home", "projects", "capacity", "incentives", "schedule", "result", "risk")
 """The planner's stages, in order (see the module docstring)."""
 
 
 def plan_roadmap(plan: Plan | LoadedPlan, base_dir: Path | str | None = None,
-                 cache: PlannerCache | None = None) -> PlanResult:
+                 cache: PlannerCache | None = None, adjust: Adjustments | None = None) -> PlanResult:
     """The roadmap for a plan, with everything the views show.
 
     Parameters
@@ -52,6 +61,9 @@ def plan_roadmap(plan: Plan | LoadedPlan, base_dir: Path | str | None = None,
     cache : PlannerCache, optional
         Keeps the home's weather, heat loss and simulated states between calls (a re-plan
         after a budget or pin change reuses them).
+    adjust : Adjustments, optional
+        A what-if no plan field expresses (a warmer or colder weather year, other learning
+        rates), applied between the stages; give it a cache of its own.
 
     Returns
     -------
@@ -70,20 +82,33 @@ def plan_roadmap(plan: Plan | LoadedPlan, base_dir: Path | str | None = None,
     if isinstance(plan, LoadedPlan):
         loaded = plan
         try:
-            return _run(loaded.plan, Path(base_dir) if base_dir else loaded.base_dir, cache)
+            return _run(loaded.plan, Path(base_dir) if base_dir else loaded.base_dir, cache, adjust)
         except PlanRuleError as err:
             raise loaded.locate(err) from None
-    return _run(plan, Path(base_dir) if base_dir else None, cache)
+    return _run(plan, Path(base_dir) if base_dir else None, cache, adjust)
 
 
-def _run(plan: Plan, base_dir: Path | None, cache: PlannerCache | None) -> PlanResult:
-    ctx = size_projects(prepare_home(plan, base_dir, cache or PlannerCache()))
+def _run(plan: Plan, base_dir: Path | None, cache: PlannerCache | None,
+         adjust: Adjustments | None = None) -> PlanResult:
+    adjust = adjust or Adjustments()
+    cache = cache or PlannerCache()
+    original = plan
+    plan, reading = read_meter(plan, base_dir, cache)
+    ctx = adjust.projects(size_projects(adjust.home(prepare_home(plan, base_dir, cache))))
     capacity = plan_capacity(ctx)
     ctx = ctx.with_details(capacity.details)
     incentives = IncentiveModel(ctx, plan_programs(ctx))
     outcome = schedule(ctx, capacity.model, incentives)
     notes = (ctx.basis.weather_note, *ctx.basis.notes, *capacity.model.notes, *outcome.notes)
-    return build_result(ctx, capacity.model, incentives, outcome, notes)
+    result = with_price_risk(ctx, build_result(ctx, capacity.model, incentives, outcome, notes))
+    if reading is None:
+        return result
+    # the result is of the plan as written; what the meter file told is in the roadmap's meter
+    today = next((h for h in result.hourly if h.label == "today"), None)
+    summary = meter_summary(reading, ctx.basis.weather, None if today is None else np.asarray(today.grid_import_kw))
+    return replace(result, plan=original, content_hash=content_hash(original),
+                   roadmap=replace(result.roadmap, meter=summary),
+                   warnings=tuple(dict.fromkeys((*result.warnings, *summary.notes))))
 
 
 def prepare_home(plan: Plan, base_dir: Path | None, cache: PlannerCache) -> Context:

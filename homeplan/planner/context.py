@@ -37,9 +37,18 @@ from homeplan.result.outlook import LifeOutlook
 if TYPE_CHECKING:
     import networkx as nx
 
+    from homeplan.planner.diskstore import DiskStore
+
 __all__ = ["Context", "PlannerCache", "content_key"]
 
 T = TypeVar("T")
+
+# price settings the home's basis does not depend on (only today's prices enter the simulation):
+# changing them keeps the cached basis and states
+_NOT_IN_BASIS: dict[str, Any] = {
+    "inflation_pct": True, "fossil_extra_escalation_pct": True, "cost_level": True, "uncertainty": True,
+    **{f: {"escalation_pct"} for f in ("electricity", "gas", "propane", "oil", "gasoline", "diesel")},
+}
 
 
 def content_key(*parts: object) -> str:
@@ -56,9 +65,14 @@ class PlannerCache:
     geometry, incentive programs read from files; see :mod:`homeplan.planner.shared`): it is
     asked first, and it is kept when the home changes. A shared cache is not thread-safe: give
     each thread its own.
+    With a ``store`` (:class:`~homeplan.planner.diskstore.DiskStore`), the built-in weather year
+    is also kept on disk between runs (the command line and the app use the user's store unless
+    ``--no-cache``; the library keeps nothing on disk by default).
     """
 
-    def __init__(self, max_states: int = 512, shared: SharedCache | None = None):
+    def __init__(self, max_states: int = 512, store: DiskStore | None = None,
+                 shared: SharedCache | None = None):
+        self.store = store
         self._lock = threading.Lock()
         self._basis: dict[str, HomeBasis] = {}
         self._states: dict[tuple[str, frozenset[Choice]], StateEnergy] = {}
@@ -72,15 +86,16 @@ class PlannerCache:
                           [a.model_dump(mode="json") for a in plan.appliances],
                           [v.model_dump(mode="json") for v in plan.vehicles],
                           plan.usage.model_dump(mode="json") if plan.usage else None,
-                          plan.prices.model_dump(mode="json"), str(base_dir))
+                          plan.prices.model_dump(mode="json", exclude=_NOT_IN_BASIS), str(base_dir))
         with self._lock:
             hit = self._basis.get(key)
         if hit is None:
+            make_year = self.store.weather_year if self.store else None
             place = None
             if self.shared is not None:
-                p = self.shared.place(plan, base_dir)
+                p = self.shared.place(plan, base_dir, make_year)
                 place = (p.weather, p.note, p.solar)
-            hit = home_basis(plan, base_dir, place)
+            hit = home_basis(plan, base_dir, make_year, place)
             with self._lock:
                 self._basis = {key: hit}  # one home per cache: drop other homes
                 self._states.clear()

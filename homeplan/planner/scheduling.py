@@ -46,6 +46,7 @@ from homeplan.planner.capacity import CapacityModel, breaker_spaces
 from homeplan.planner.context import Context
 from homeplan.planner.incentives import IncentiveModel
 from homeplan.planner.projects import cost_in_year_usd
+from homeplan.planner.risk import price_paths, scenario_base_usd, scenario_values
 from homeplan.schedule.explain import diagnose_infeasible, explain
 from homeplan.schedule.milp import MilpSolver, Solution
 from homeplan.schedule.problem import (
@@ -61,6 +62,7 @@ from homeplan.schedule.problem import (
 __all__ = [
     "COVER_PREFIX",
     "OBJECTIVE",
+    "PLAN_SOLVER",
     "ORDER_PREFIX",
     "Coefficients",
     "ScheduleOutcome",
@@ -73,7 +75,7 @@ __all__ = [
 ]
 
 OBJECTIVE = {"npv": "max_npv", "emissions": "min_emissions", "gas_off_early": "earliest_gas_closure",
-             "out_of_pocket": "min_out_of_pocket"}
+             "out_of_pocket": "min_out_of_pocket", "risk_aware": "min_cost_cvar"}
 """Plan-file objective -> scheduler objective."""
 
 ORDER_PREFIX = "order:"
@@ -164,10 +166,15 @@ def build_problem(ctx: Context, co: dict[str, Coefficients], capacity: CapacityM
     T = len(years)
     projects = []
     urgent = {e.upgrade for e in emergency_items(ctx)}  # a failure overrides a later pin
+    objective, objective_project = _objective(ctx)
+    # the risk-aware objective: the same projects valued on sampled price paths
+    paths = price_paths(ctx, plan.choices.risk_scenarios, T) if objective == "min_cost_cvar" else None
     for pid, d in ctx.details.items():
         c = co[pid]
         life = d.life_years
         value = [_value(ctx, c, t, life) for t in range(T)]
+        scenarios = () if paths is None else tuple(
+            tuple(v) for v in scenario_values(ctx, c.savings_by_fuel, value, paths).tolist())
         savings = [sum(s * (1 + ctx.escalation(f)) ** t for f, s in c.savings_by_fuel.items())
                    for t in range(T)]
         emissions = [c.emissions_saved_kg * (T - t) for t in range(T)]
@@ -208,6 +215,7 @@ def build_problem(ctx: Context, co: dict[str, Coefficients], capacity: CapacityM
             spaces_provided=float(max(-breaker_spaces(ctx, d, capacity), 0)
                                   + catalog.upgrade_kinds()[d.kind].extra.get("provides_spaces", 0)),
             failure_item=item, failure_prob_by_year=cumulative if item else (),
+            scenario_value_usd=scenarios,
         ))
     prereqs = []
     for u, v, data in ctx.graph.edges(data=True):
@@ -237,7 +245,6 @@ def build_problem(ctx: Context, co: dict[str, Coefficients], capacity: CapacityM
                     if p not in plan.choices.exclude and _reachable(ctx, p, by))
         if ids:
             targets.append(Target(ids, by, "fully electric"))
-    objective, objective_project = _objective(ctx)
     b = plan.budget
     budget = [float((b.by_year or {}).get(y, b.usd_per_year)) for y in years]
     budget[0] += emergency_allowance(ctx, co)
@@ -255,6 +262,8 @@ def build_problem(ctx: Context, co: dict[str, Coefficients], capacity: CapacityM
         incentive_groups=tuple(g for g in groups if all(pid in ctx.details for pid, _ in g.rates)),
         targets=tuple(targets), objective=objective, objective_project=objective_project,
         exclusive_groups=tuple(exclusive), followups=tuple(followups),
+        scenario_base_usd=() if paths is None else tuple(scenario_base_usd(ctx, paths).tolist()),
+        risk_weight=plan.choices.risk_weight, risk_tail=plan.choices.risk_tail_pct / 100.0,
     )
 
 
@@ -378,11 +387,17 @@ def emergency_allowance(ctx: Context, co: dict[str, Coefficients]) -> float:
     return total
 
 
+PLAN_SOLVER = MilpSolver(time_limit_s=20.0, mip_rel_gap=1e-5, presolve=True)
+"""The solver settings plans use. Presolve on: measured faster on the sample homes' problems
+(20-60 ms against 20-100 ms without, benchmarks/bench_pipeline.py), with the presolve-off repeat
+of :class:`~homeplan.schedule.milp.MilpSolver` when an answer does not hold up; a 1e-5 relative
+gap is well below a dollar on these plans. Graded against exhaustive enumeration by
+benchmarks/bench_solver_agreement.py and tests/schedule/test_agreement.py."""
+
+
 def solve(problem: Problem) -> Solution:
-    """Solve with HiGHS. Presolve on: measured faster on the sample homes' problems (20-60 ms
-    against 20-100 ms without, benchmarks/bench_pipeline.py); a 1e-5 relative gap is well below
-    a dollar on these plans."""
-    return MilpSolver(time_limit_s=20.0, mip_rel_gap=1e-5, presolve=True).solve(problem)
+    """Solve with :data:`PLAN_SOLVER`."""
+    return PLAN_SOLVER.solve(problem)
 
 
 def work_order(ctx: Context, placed: dict[str, int]) -> list[str]:
@@ -445,6 +460,11 @@ def schedule(ctx: Context, capacity: CapacityModel, incentives: IncentiveModel) 
         solution2 = solve(problem2)
         if solution2.feasible:
             problem, solution, co, passes = problem2, solution2, co2, 2
+    if solution.status == "time_limit":
+        gap = solution.mip_gap
+        within = f" it is within {100 * gap:.2g} % of the best possible" if gap is not None and gap == gap else ""
+        notes.append(f"The search for the best order stopped at its {PLAN_SOLVER.time_limit_s:g} s limit;"
+                     f"{within or ' it may not be the best possible'}.")
     if not solution.feasible:
         return ScheduleOutcome(problem, solution, co, capacity, infeasibility=diagnose_infeasible(problem),
                                passes=passes, notes=tuple(notes))

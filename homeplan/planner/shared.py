@@ -26,7 +26,7 @@ from pathlib import Path
 from typing import Any, TypeVar
 
 from homeplan.energy.solar import SolarSite
-from homeplan.energy.weather import Weather
+from homeplan.energy.weather import ClimateNormals, Weather
 from homeplan.plan.model import Plan
 from homeplan.planner.basis import load_weather
 
@@ -75,12 +75,14 @@ class SharedCache:
         self._places: OrderedDict[str, Place] = OrderedDict()
         self._memo: dict[str, Any] = {}
 
-    def place(self, plan: Plan, base_dir: Path | None) -> Place:
-        """The plan's weather year and solar geometry (computed once per place)."""
+    def place(self, plan: Plan, base_dir: Path | None,
+              make_year: Callable[[ClimateNormals], Weather] | None = None) -> Place:
+        """The plan's weather year and solar geometry (computed once per place; ``make_year``:
+        see :func:`~homeplan.planner.basis.load_weather`)."""
         key = place_key(plan, base_dir)
         hit = self._places.get(key)
         if hit is None:
-            weather, note = load_weather(plan, base_dir)
+            weather, note = load_weather(plan, base_dir, make_year)
             hit = Place(weather, note, SolarSite(weather))
             self._places[key] = hit
             while len(self._places) > self.max_places:

@@ -1,7 +1,7 @@
 """The portfolio's summary page: one self-contained HTML file in the printout's style.
 
 The same stylesheet, security policy (no script, no fetches) and escaping as the single-home
-printout (:mod:`homeplan.report.html`), with bar charts by year (:mod:`homeplan.report.charts`):
+printout (:mod:`homeplan.report.html`), with bar charts by year (:mod:`homeplan.report.bars`):
 what the homes spend and the incentives they draw, the money that leaves them for fossil fuel
 and their emissions before and after, and the peak load they add to the grid (diversified, the
 method named on the page). Tables follow: year by year, incentive programs (caps reached,
@@ -16,7 +16,7 @@ from homeplan import __version__, catalog
 from homeplan.electrical.tables import practice
 from homeplan.plan.save import write_atomic
 from homeplan.portfolio.rollup import Rollup
-from homeplan.report.charts import Series, bars_by_year_svg
+from homeplan.report.bars import Series, bars_by_year_svg
 from homeplan.report.html import CSP, CSS, e, table_html
 from homeplan.report.svg import COLOURS
 from homeplan.report.table import usd

@@ -10,10 +10,12 @@ from __future__ import annotations
 
 import math
 import re
+from dataclasses import dataclass
 
 from homeplan.report.table import usd
 
 __all__ = [
+    "Table",
     "clean",
     "energy_key_words",
     "finite",
@@ -26,6 +28,17 @@ __all__ = [
     "short",
     "tonnes",
 ]
+
+@dataclass(frozen=True)
+class Table:
+    """A small table of a printed view, already in words."""
+
+    headers: tuple[str, ...]
+    rows: tuple[tuple[str, ...], ...]
+    align: str            # per column: 'l' left, 'r' right (numbers), 'n' left and never wrapped
+    total: tuple[str, ...] | None = None        # a closing row, shown emphasised
+    note: str = ""
+
 
 _CONTROL = re.compile(r"[\x00-\x08\x0b-\x1f\x7f-\x9f\u2028\u2029]")
 

@@ -23,11 +23,19 @@ from __future__ import annotations
 
 from html import escape
 
+from homeplan.report.charts import (
+    HIGH_COLOUR,
+    LOW_COLOUR,
+    SERIES_COLOURS,
+    band_chart_svg,
+    tornado_svg,
+)
+from homeplan.report.compare import Comparison, range_chart_svg
 from homeplan.report.fmt import short
 from homeplan.report.svg import legend_items, timeline_svg
 from homeplan.report.view import Report, Table
 
-__all__ = ["CSP", "CSS", "e", "render_html", "table_html"]
+__all__ = ["CSP", "CSS", "comparison_html", "comparison_page", "e", "render_html", "table_html"]
 
 
 def e(text: object) -> str:
@@ -74,7 +82,7 @@ tr { break-inside: avoid; page-break-inside: avoid; }
 tbody tr:nth-child(even) td { background: var(--band); }
 tbody tr.total td { font-weight: 600; border-top: 1.5px solid var(--ink); border-bottom: 0; background: none; }
 thead { display: table-header-group; }
-svg.timeline { width: 100%; height: auto; display: block; margin: 1mm 0; }
+svg.timeline, svg.chart { width: 100%; height: auto; display: block; margin: 1mm 0; }
 .legend { display: flex; flex-wrap: wrap; gap: 1mm 5mm; font-size: 8.5pt; color: var(--muted); margin: 0 0 2mm;
   padding: 0; list-style: none; }
 .legend .sw { display: inline-block; width: 4mm; height: 2.6mm; border-radius: .6mm; margin-right: 1.5mm;
@@ -124,6 +132,38 @@ def table_html(t: Table, cls: str = "") -> str:
             f"</table>{note}")
 
 
+def comparison_html(c: Comparison) -> str:
+    """Options side by side as an HTML section (a printout's page, or a page of its own)."""
+    parts = ['<section class="compare"><h2>Options side by side</h2>', table_html(c.headline, "compare")]
+    parts.append('<div class="keep"><h3>Steps by year</h3>' + table_html(c.steps, "compare-steps") + "</div>")
+    if c.ranges:
+        parts.append('<div class="keep"><h3>Total cost across the price paths</h3>')
+        parts.append(range_chart_svg(c.ranges, "Total cost of each option: P10 to P90 bar, median mark"))
+        parts.append('<p class="note">Each bar runs from P10 to P90 of the price paths; the mark is the median.</p>')
+        parts.append(table_html(c.risk, "compare-risk") + "</div>")
+    parts += [f'<p class="note">{e(n)}</p>' for n in c.notes]
+    parts.append("</section>")
+    return "\n".join(parts)
+
+
+def comparison_page(c: Comparison, title: str, printed: str, tool_version: str) -> str:
+    """A page of its own for ``homeplan compare -o FILE.html``."""
+    return "\n".join([
+        "<!DOCTYPE html>", '<html lang="en"><head><meta charset="utf-8">',
+        f'<meta http-equiv="Content-Security-Policy" content="{e(CSP)}">',
+        '<meta name="viewport" content="width=device-width, initial-scale=1">',
+        '<meta name="referrer" content="no-referrer">',
+        f'<meta name="generator" content="homeplan {e(tool_version)}">',
+        f"<title>{e(title)}</title>", f"<style>{CSS.replace('HASH', '')}</style></head><body>",
+        '<header class="doc"><p class="kicker">Home electrification options</p>',
+        f"<h1>{e(short(title, 120))}</h1></header>",
+        comparison_html(c),
+        f'<footer class="keep"><p>Printed {e(printed)} with homeplan {e(tool_version)}. All figures are planning '
+        "estimates; local codes, permits and licensed professionals have the final word.</p></footer>",
+        "</body></html>",
+    ]) + "\n"
+
+
 def _arrow(escaped: str) -> str:
     """Draw the plain-text arrow of already-escaped text as a real one."""
     return escaped.replace(" -&gt; ", " \u2192 ")
@@ -131,6 +171,37 @@ def _arrow(escaped: str) -> str:
 
 def _facts(items: tuple[tuple[str, str], ...], cls: str = "facts") -> str:
     return f'<dl class="{cls}">' + "".join(f"<dt>{e(k)}</dt><dd>{e(v)}</dd>" for k, v in items) + "</dl>"
+
+
+def _legend(items: list[tuple[str, str]]) -> str:
+    return '<ul class="legend">' + "".join(
+        f'<li><span class="sw" style="background:{colour}"></span>{e(label)}</li>' for colour, label in items) + "</ul>"
+
+
+def _risk_sections(r: Report) -> list[str]:
+    """Price risk (band chart and tables) and what moves the result (tornado chart)."""
+    parts: list[str] = []
+    if r.risk is not None:
+        k = r.risk
+        parts.append('<section class="risk"><h2>Price risk</h2>')
+        parts += [f"<p>{e(line)}</p>" for line in k.lines]
+        parts.append('<div class="keep"><h3>Energy bills each year across the price paths</h3>')
+        parts.append(band_chart_svg(k.series, "Yearly energy bills: median line, P10 to P90 band",
+                                    "dollars of each year"))
+        parts.append(_legend([(SERIES_COLOURS[i], f"{s.label}: median, and P10 to P90 shaded")
+                              for i, s in enumerate(k.series)]) + "</div>")
+        parts.append('<div class="keep">' + table_html(k.totals, "risk-totals") + "</div>")
+        parts.append('<div class="keep">' + table_html(k.shocks, "risk-shocks") + "</div>")
+        parts.append("</section>")
+    if r.sensitivity is not None:
+        v = r.sensitivity
+        parts.append('<section class="sensitivity"><h2>What moves the result</h2>')
+        parts += [f"<p>{e(line)}</p>" for line in v.lines]
+        parts.append('<div class="keep">' + tornado_svg(v.bars, v.base_usd, "Net present value, one "
+                                                        "assumption changed at a time") + "</div>")
+        parts.append(_legend([(LOW_COLOUR, "low setting"), (HIGH_COLOUR, "high setting")]))
+        parts.append('<div class="keep">' + table_html(v.table, "sensitivity") + "</div></section>")
+    return parts
 
 
 def render_html(r: Report) -> str:
@@ -179,6 +250,9 @@ def render_html(r: Report) -> str:
     parts.append("</section>")
     # ---- page 2: year by year
     parts.append('<section class="years"><h2>Year by year</h2>' + table_html(r.years, "years") + "</section>")
+    parts += _risk_sections(r)
+    if r.comparison is not None:
+        parts.append(comparison_html(r.comparison))
     parts.append('<section class="energy keep"><h2>Energy and emissions, before and after</h2>'
                  + table_html(r.energy, "energy") + "</section>")
     parts.append('<section class="capacity"><h2>Electrical capacity</h2>' + table_html(r.capacity, "capacity"))

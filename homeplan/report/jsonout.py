@@ -27,6 +27,8 @@ def roadmap_document(result: Any) -> dict[str, Any]:
         "provenance": result.plan.provenance.model_dump(mode="json"),
         "homeplan_version": __version__,
     }
+    if result.solver is not None:
+        data["solver"] = result.solver.to_dict()
     return data
 
 

@@ -14,11 +14,13 @@ from __future__ import annotations
 
 import re
 
-from homeplan.report.fmt import short
+from homeplan.report.compare import Comparison
+from homeplan.report.fmt import money_signed, short
 from homeplan.report.table import text_table
 from homeplan.report.view import GROUP_LABELS, Report, Table, Timeline, footer_line
 
-__all__ = ["md", "render_markdown", "render_text", "timeline_text"]
+__all__ = ["comparison_markdown", "comparison_text", "md", "render_markdown", "render_text", "timeline_text",
+           "tornado_text"]
 
 _GROUP_CHAR = {"appliances": "#", "electrical": "E", "solar": "S", "vehicles": "V", "building": "B",
                "other": "*"}
@@ -62,6 +64,43 @@ def _text_table(t: Table, reason_w: int = 48) -> str:
     return out
 
 
+def tornado_text(base_usd: float, bars: tuple, width: int = 24) -> str:
+    """A tornado chart in text: the NPV as planned in the middle, each assumption's low (<) and
+    high (>) settings as bars to either side."""
+    if not bars:
+        return ""
+    reach = max(max(abs(b.low_usd - base_usd), abs(b.high_usd - base_usd)) for b in bars) or 1.0
+    out = []
+    for b in bars:
+        cells = [" "] * (2 * width + 1)
+        cells[width] = "|"
+        for value, ch in ((b.low_usd, "<"), (b.high_usd, ">")):
+            n = round(abs(value - base_usd) / reach * width)
+            for i in range(1, n + 1):
+                pos = width + i if value > base_usd else width - i
+                cells[pos] = ch
+        out.append(f"{short(b.label, 30):<30} {money_signed(b.low_usd):>10} {''.join(cells)} "
+                   f"{money_signed(b.high_usd)}")
+    out.append(f"{'':<30} {'':>10} {'as planned ' + money_signed(base_usd):^{2 * width + 1}}")
+    out.append("< low setting, > high setting; the table says which is which.")
+    return "\n".join(out)
+
+
+def _risk_text(r: Report, w: int) -> list[tuple[str, str]]:
+    out: list[tuple[str, str]] = []
+    if r.risk is not None:
+        k = r.risk
+        body = "\n\n".join(_wrap(line, w) for line in k.lines)
+        body += "\n\n" + _text_table(k.totals) + "\n\n" + _text_table(k.shocks) + "\n\n" + _text_table(k.yearly)
+        out.append(("Price risk", body))
+    if r.sensitivity is not None:
+        v = r.sensitivity
+        body = "\n".join(_wrap(line, w) for line in v.lines)
+        body += "\n\n" + tornado_text(v.base_usd, v.bars) + "\n\n" + _text_table(v.table)
+        out.append(("What moves the result", body))
+    return out
+
+
 def render_text(r: Report) -> str:
     w = 100
     out: list[str] = [short(r.title, 200), "=" * min(len(r.title), w)]
@@ -83,6 +122,8 @@ def render_text(r: Report) -> str:
         ("The roadmap", timeline_text(r.timeline)),
         ("Steps", _text_table(r.steps) + "\n" + r.money_note),
         ("Year by year", _text_table(r.years)),
+        *_risk_text(r, w),
+        *((("Options side by side", comparison_text(r.comparison).split("\n", 2)[2]),) if r.comparison else ()),
         ("Energy and emissions, before and after", _text_table(r.energy)),
         ("Electrical capacity", _text_table(r.capacity) + "".join(f"\n  - {n}" for n in r.capacity_notes)),
         ("Key assumptions", "\n".join(_wrap(f"{k + ':':<28} {v}", w, hang=29) for k, v in r.assumptions)
@@ -134,6 +175,15 @@ def render_markdown(r: Report) -> str:
     out += ["", "## The roadmap", "", "```text", timeline_text(r.timeline).replace("```", "'''"), "```", ""]
     out += ["## Steps", "", _md_table(r.steps), "", f"_{md(r.money_note)}_", ""]
     out += ["## Year by year", "", _md_table(r.years), ""]
+    if r.risk is not None:
+        out += ["## Price risk", ""] + [md(line) + "\n" for line in r.risk.lines]
+        out += [_md_table(r.risk.totals), "", _md_table(r.risk.shocks), "", _md_table(r.risk.yearly), ""]
+    if r.sensitivity is not None:
+        v = r.sensitivity
+        out += ["## What moves the result", ""] + [md(line) + "\n" for line in v.lines]
+        out += ["```text", tornado_text(v.base_usd, v.bars).replace("```", "'''"), "```", "", _md_table(v.table), ""]
+    if r.comparison is not None:
+        out += [comparison_markdown(r.comparison)]
     out += ["## Energy and emissions, before and after", "", _md_table(r.energy), ""]
     out += ["## Electrical capacity", "", _md_table(r.capacity), ""]
     out += [f"- {md(n)}" for n in r.capacity_notes]
@@ -147,3 +197,36 @@ def render_markdown(r: Report) -> str:
     if r.footer.notes:
         out += ["", md(f"Notes: {r.footer.notes}")]
     return "\n".join(out) + "\n"
+
+
+# ----------------------------------------------------------------------------- options side by side
+
+
+def _cell_table(t: Table, width: int = 28) -> str:
+    rows = [[short(c, width) if i else short(c, 40) for i, c in enumerate(row)] for row in t.rows]
+    out = text_table(list(t.headers), rows, t.align.replace("n", "l"))
+    return out + ("\n" + _wrap(t.note, 100) if t.note else "")
+
+
+def comparison_text(c: Comparison) -> str:
+    """Options side by side as plain text."""
+    steps = []
+    for row in c.steps.rows:
+        steps.append(row[0])
+        for name, cell in zip(c.names, row[1:], strict=True):
+            steps.append(_wrap(f"  {name}: {cell or '-'}", 100, hang=4))
+    parts = ["Options side by side", "--------------------", _cell_table(c.headline), "",
+             "Steps by year", "-------------", *steps]
+    if c.ranges:
+        parts += ["", "Total cost across the price paths", "---------------------------------", _cell_table(c.risk)]
+    parts += [_wrap(f"note: {n}", 100) for n in c.notes]
+    return "\n".join(parts) + "\n"
+
+
+def comparison_markdown(c: Comparison) -> str:
+    """Options side by side as Markdown."""
+    parts = ["## Options side by side", "", _md_table(c.headline), "", "### Steps by year", "", _md_table(c.steps)]
+    if c.ranges:
+        parts += ["", "### Total cost across the price paths", "", _md_table(c.risk)]
+    parts += [f"\n> {md(n)}" for n in c.notes]
+    return "\n".join(parts) + "\n"

@@ -20,7 +20,9 @@ from typing import Any
 from homeplan import __version__, catalog
 from homeplan.plan.fuels import BILL_FUELS, GASOLINE_VEHICLES, TANK_FUELS
 from homeplan.plan.hashing import content_hash
+from homeplan.report.compare import Comparison
 from homeplan.report.fmt import (
+    Table,
     clean,
     energy_key_words,
     finite,
@@ -32,6 +34,7 @@ from homeplan.report.fmt import (
     service_verdict,
     tonnes,
 )
+from homeplan.report.risk import RiskView, SensitivityView, risk_view, sensitivity_view
 from homeplan.units import display_area, display_temp
 
 __all__ = [
@@ -67,15 +70,6 @@ GROUP_LABELS: dict[str, str] = {
     "building": "Building shell and fuel lines",
     "other": "Other work",
 }
-
-
-@dataclass(frozen=True)
-class Table:
-    headers: tuple[str, ...]
-    rows: tuple[tuple[str, ...], ...]
-    align: str            # per column: 'l' left, 'r' right (numbers), 'n' left and never wrapped
-    total: tuple[str, ...] | None = None        # a closing row, shown emphasised
-    note: str = ""
 
 
 @dataclass(frozen=True)
@@ -137,6 +131,9 @@ class Report:
     warnings: tuple[str, ...]
     footer: Footer
     money_note: str = "Money is rounded: to the nearest $10 under $1,000, else to the nearest $100."
+    risk: RiskView | None = None                # price risk (None: not computed)
+    sensitivity: SensitivityView | None = None  # what moves the NPV (None: not computed)
+    comparison: Comparison | None = None        # the plan's named options side by side
 
 
 # ----------------------------------------------------------------------------- helpers
@@ -490,7 +487,9 @@ def _assumptions(plan: Any, result: Any) -> list[tuple[str, str]]:
                     f"over {loan.term_years} years"))
     out.append(("Goal", {"npv": "best value over the horizon", "emissions": "lowest emissions",
                          "gas_off_early": "close the gas service early",
-                         "out_of_pocket": "lowest out-of-pocket cost"}.get(plan.choices.objective,
+                         "out_of_pocket": "lowest out-of-pocket cost",
+                         "risk_aware": "lowest expected cost with the worst price paths weighed "
+                                       f"(x{plan.choices.risk_weight:g}, worst {plan.choices.risk_tail_pct:g} %)"}.get(plan.choices.objective,
                                                                            plan.choices.objective)))
     out.append(("Costs without a quote", f"catalog {p.cost_level} installed prices"))
     if p.grid_kg_co2_per_kwh is not None:
@@ -536,8 +535,10 @@ def _assumptions(plan: Any, result: Any) -> list[tuple[str, str]]:
 # ----------------------------------------------------------------------------- entry point
 
 
-def build_report(result: Any, today: dt.date | None = None, tool_version: str | None = None) -> Report:
-    """Everything the printed summary shows, as cleaned (not escaped) strings."""
+def build_report(result: Any, today: dt.date | None = None, tool_version: str | None = None,
+                 comparison: Comparison | None = None) -> Report:
+    """Everything the printed summary shows, as cleaned (not escaped) strings; ``comparison``
+    is the plan's named options side by side, when it has them."""
     plan = result.plan
     road = result.roadmap
     prov = plan.provenance
@@ -579,6 +580,9 @@ def build_report(result: Any, today: dt.date | None = None, tool_version: str | 
         cautions=collect_cautions(result),
         warnings=tuple(clean(w) for w in result.warnings if clean(w)),
         footer=footer,
+        risk=risk_view(road),
+        sensitivity=sensitivity_view(result),
+        comparison=comparison,
     )
 
 

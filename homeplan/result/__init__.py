@@ -19,8 +19,10 @@ from homeplan.result.figures import (
     SolverReport,
     StepReturns,
 )
+from homeplan.result.meter import MeterGap, MeterSummary
 from homeplan.result.outlook import LifeOutlook
 from homeplan.result.plan_result import PlanResult
+from homeplan.result.risk import Band, FuelShock, PriceRisk, PriceSeries, SolarPriceRisk, YearBand
 from homeplan.result.roadmap import (
     SCHEMA_VERSION,
     Baseline,
@@ -31,27 +33,38 @@ from homeplan.result.roadmap import (
     Step,
     YearTotals,
 )
+from homeplan.result.sensitivity import Sensitivity, SensitivityRow
 
 __all__ = [
     "SCHEMA_VERSION",
+    "Band",
     "Baseline",
     "CapacityRow",
     "CapacityState",
     "Emergency",
     "EnergySummary",
     "Finance",
+    "FuelShock",
     "HourlyProfile",
     "IncentiveLine",
     "LifeOutlook",
+    "MeterGap",
+    "MeterSummary",
     "Milestone",
     "PlanResult",
     "PlanReturns",
+    "PriceRisk",
+    "PriceSeries",
     "ProgramUse",
     "ProjectInfo",
     "Roadmap",
+    "Sensitivity",
+    "SensitivityRow",
     "SolarHedge",
+    "SolarPriceRisk",
     "SolverReport",
     "Step",
     "StepReturns",
+    "YearBand",
     "YearTotals",
 ]

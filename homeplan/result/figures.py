@@ -166,11 +166,23 @@ class Finance:
 
 @dataclass(frozen=True)
 class SolverReport:
-    """How the schedule was found: the solver's status, its time and the number of passes."""
+    """How the schedule was found: the solver's status (``optimal``: proven within the relative
+    gap; ``time_limit``: the best plan found when the time cap stopped the search), its wall time
+    in seconds, the number of passes, the relative optimality gap it reported and whether a
+    presolved answer had to be repeated without presolve."""
 
     status: str
     seconds: float
     passes: int
+    mip_gap: float | None = None
+    presolve_retried: bool = False
+
+    def to_dict(self) -> dict[str, object]:
+        """JSON-safe dict (the ``solver`` key of ``homeplan plan --json`` and the export)."""
+        gap = self.mip_gap
+        return {"status": self.status, "seconds": round(self.seconds, 4), "passes": self.passes,
+                "mip_gap": None if gap is None or gap != gap else gap,
+                "presolve_retried": self.presolve_retried}
 
 
 @dataclass(frozen=True)

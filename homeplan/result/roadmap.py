@@ -24,6 +24,9 @@ from collections.abc import Iterable, Mapping
 from dataclasses import dataclass, field
 from typing import Any, Literal
 
+from homeplan.result.meter import MeterSummary
+from homeplan.result.risk import PriceRisk
+
 __all__ = [
     "SCHEMA_VERSION",
     "Baseline",
@@ -41,7 +44,7 @@ __all__ = [
     "YearTotals",
 ]
 
-SCHEMA_VERSION = "1.4"
+SCHEMA_VERSION = "1.5"
 """Version of the JSON produced by :meth:`Roadmap.to_dict`. Bump the minor part for added
 fields, the major part for renamed/removed fields or changed meaning."""
 
@@ -57,7 +60,7 @@ MilestoneKind = Literal[
 ]
 BaselineKind = Literal["do_nothing", "like_for_like"]
 Status = Literal["ok", "infeasible"]
-Objective = Literal["max_npv", "min_emissions", "earliest_gas_closure", "min_out_of_pocket"]
+Objective = Literal["max_npv", "min_emissions", "earliest_gas_closure", "min_out_of_pocket", "min_cost_cvar"]
 
 
 def _tuple(items: Iterable[Any] | None) -> tuple[Any, ...]:
@@ -495,7 +498,9 @@ class Roadmap:
     from the solver's linear approximation. ``status`` is ``"ok"`` or ``"infeasible"``; when
     infeasible, ``infeasibility`` explains the blocking constraint and the smallest change that
     makes the request feasible, and ``steps`` is empty. ``assumptions`` records the inputs that
-    shaped the result (discount rate, escalation, budget...) as JSON-safe values.
+    shaped the result (discount rate, escalation, budget...) as JSON-safe values. ``price_risk``
+    is the roadmap under sampled energy prices (None: not computed, e.g. an infeasible request);
+    ``meter`` is what the plan's meter file said (None: the plan names none).
     """
 
     plan_name: str
@@ -513,6 +518,8 @@ class Roadmap:
     cautions: tuple[str, ...] = ()
     emergencies: tuple[Emergency, ...] = ()
     calibration: tuple[BillFit, ...] = ()
+    price_risk: PriceRisk | None = None
+    meter: MeterSummary | None = None
     schema_version: str = SCHEMA_VERSION
 
     def __post_init__(self) -> None:
@@ -555,6 +562,8 @@ class Roadmap:
             "cautions": list(self.cautions),
             "emergencies": [e.to_dict() for e in self.emergencies],
             "calibration": [c.to_dict() for c in self.calibration],
+            "price_risk": self.price_risk.to_dict() if self.price_risk else None,
+            "meter": self.meter.to_dict() if self.meter else None,
         }
 
     @classmethod
@@ -582,5 +591,7 @@ class Roadmap:
             cautions=tuple(data.get("cautions", ())),
             emergencies=tuple(Emergency.from_dict(e) for e in data.get("emergencies", ())),
             calibration=tuple(BillFit.from_dict(c) for c in data.get("calibration", ())),
+            price_risk=PriceRisk.from_dict(data["price_risk"]) if data.get("price_risk") else None,
+            meter=MeterSummary.from_dict(data["meter"]) if data.get("meter") else None,
             schema_version=version,
         )

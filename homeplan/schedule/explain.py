@@ -349,6 +349,8 @@ def _feasibility_problem(problem: Problem) -> Problem:
         projects = list(problem.projects)
         projects[q] = dataclasses.replace(projects[q], mandatory=True)
         return problem.replace(projects=tuple(projects), objective="max_npv", objective_project=None)
+    if problem.objective == "min_cost_cvar":
+        return problem.replace(objective="max_npv")
     return problem
 
 

@@ -21,6 +21,8 @@ Variables
     ``c[t]`` continuous >= 0: money carried from year t to t+1 (only with carryover).
     ``w[i,t]`` continuous in ``[0, 1]``: both projects of interaction i done by t (the product
     ``D[a,t] D[b,t]``), only for NPV objectives.
+    ``eta`` free and ``u[s] >= 0`` continuous, after the x columns: only for ``min_cost_cvar``
+    (the value at risk and each scenario's loss beyond it).
 
 Constraints (each a block of rows in one sparse matrix)
     link         ``D[p,t] - D[p,t-1] - x[p,t] = 0`` (so ``sum_t x[p,t] = D[p,T-1] <= 1``).
@@ -48,6 +50,9 @@ Constraints (each a block of rows in one sparse matrix)
     interaction  positive value: ``w <= D[a,t]``, ``w <= D[b,t]`` (maximising pushes w up to
                  the product); negative value: ``w >= D[a,t] + D[b,t] - 1`` (pushed down).
                  Exact for binary D (standard product linearisation).
+    scenario     ``min_cost_cvar``, for each scenario s: ``u[s] + eta + NPV_s >= base_s``, i.e.
+                 ``u[s] >= loss_s - eta`` with ``NPV_s`` the NPV's linear form with the
+                 scenario's project values (Rockafellar & Uryasev 2000).
 
 Objective (milp minimises; constants are added back when reporting)
     max_npv            ``-NPV`` with NPV as in ``problem.py``; the end-of-life term
@@ -55,16 +60,29 @@ Objective (milp minimises; constants are added back when reporting)
                        ``-sum pen df`` plus ``sum_{t>=s} pen[p,t] df[t]`` on each ``x[p,s]``.
     min_emissions      ``-sum x[p,t] emissions_kg[p,t]``.
     min_out_of_pocket  nominal spend + penalties + loan interest - incentives - bill savings.
+    min_cost_cvar      ``mean_s loss_s + risk_weight (eta + sum_s u[s] / (risk_tail S))``: the
+                       expected loss is the NPV's form with the scenarios' mean project values.
     earliest_gas_closure  two solves: minimise ``sum_t t x[q,t]`` for the objective project q,
                        then force ``D[q,t*] = 1`` (done by the earliest year) and maximise NPV.
 
 Solver settings: HiGHS presolve is off by default: on the benchmark instances it cost more CPU
 than it saved in most cases (max_npv 0.47-0.70 s with it vs 0.25-0.39 s without).
 
+Checks before an answer is believed: with presolve on, HiGHS has been seen to call a feasible
+instance infeasible and to return a worse plan as optimal (a few in some thousands of random
+instances). So when a solve with presolve reports no plan (infeasible, time limit without a
+plan, error), or when the plan it returns does not hold up in the independent evaluator of
+``problem.py`` (a violated constraint, or an objective better than the placement is really
+worth), the stage is solved again with presolve off and that answer is used
+(``Solution.presolve_retried``). ``benchmarks/bench_solver_agreement.py`` grades the product
+settings against exhaustive enumeration.
+
 References
 ----------
 HiGHS MILP solver: Huangfu & Hall, "Parallelizing the dual revised simplex method", Math. Prog.
 Comp. 10 (2018); scipy.optimize.milp documentation (scipy 1.17).
+R. T. Rockafellar, S. Uryasev, "Optimization of conditional value-at-risk", Journal of Risk 2
+(2000) 21-41 (the linear scenario formulation of CVaR).
 """
 
 from __future__ import annotations
@@ -113,6 +131,9 @@ class Solution:
         Name of the solver.
     message : str
         Solver message.
+    presolve_retried : bool
+        True when an answer found with presolve did not hold up and the solve was repeated
+        without presolve (see the module notes).
     """
 
     status: str
@@ -125,6 +146,7 @@ class Solution:
     incentives_usd: dict[str, tuple[float, ...]] = field(default_factory=dict)
     solver: str = ""
     message: str = ""
+    presolve_retried: bool = False
 
     @property
     def feasible(self) -> bool:
@@ -206,18 +228,21 @@ def _objective(pr: Problem, kind: str) -> tuple[np.ndarray, np.ndarray, np.ndarr
     cz = np.zeros((ng, nt))
     cl = np.zeros(nt)
     const = 0.0
-    if kind == "max_npv":
+    if kind in ("max_npv", "min_cost_cvar"):
         max_lag = max((ig.arrives_after_years for ig in pr.incentive_groups), default=0)
         df = pr.discount_factors(extra_years=max_lag + 1)
         dfh = df[:nt]
         pen_d = pen * dfh[None, :]
         tail = np.cumsum(pen_d[:, ::-1], axis=1)[:, ::-1]  # sum_{t>=s}
-        cx = -(pr.matrix("value_usd") - cost * dfh[None, :] + tail)
+        value = pr.matrix("value_usd") if kind == "max_npv" else pr.scenario_values().mean(axis=0)
+        cx = -(value - cost * dfh[None, :] + tail)
         const = -float(pen_d.sum())  # NPV constant; minimised objective is -NPV
         for g, ig in enumerate(pr.incentive_groups):
             lag = ig.arrives_after_years
             cz[g] = -df[lag : lag + nt]
         cl = pr.loan_npv_cost_per_usd()
+        if kind == "min_cost_cvar":  # expected loss: mean base cost - expected NPV
+            return cx, cz, cl, -const + float(np.mean(pr.scenario_base_usd))
         return cx, cz, cl, -const
     if kind == "min_emissions":
         return -pr.matrix("emissions_kg"), cz, cl, 0.0
@@ -270,10 +295,11 @@ def build_model(
     n_x, n_z = np_ * nt, ng * nt
     n_l = nt if pr.loan_limit_usd > 0 else 0
     n_c = nt if pr.carryover else 0
-    inter = pr.interactions if kind == "max_npv" else ()
+    inter = pr.interactions if kind in ("max_npv", "min_cost_cvar") else ()
     n_w = len(inter) * nt
     n_h = n_x
-    n = n_x + n_z + n_l + n_c + n_w + n_h
+    n_r = 1 + pr.n_scenarios if kind == "min_cost_cvar" else 0
+    n = n_x + n_z + n_l + n_c + n_w + n_h + n_r
 
     def di(p: int, t: int) -> int:
         return p * nt + t
@@ -292,6 +318,9 @@ def build_model(
 
     def xi(p: int, t: int) -> int:
         return n_x + n_z + n_l + n_c + n_w + p * nt + t
+
+    def ri(s: int) -> int:  # eta is ri(0), u[s] is ri(s + 1)
+        return n_x + n_z + n_l + n_c + n_w + n_h + s
 
     def add_x(coefs: dict[int, float], p: int, t: int, v: float) -> None:
         coefs[xi(p, t)] = coefs.get(xi(p, t), 0.0) + v
@@ -421,14 +450,81 @@ def build_model(
             elif v < 0:
                 rows.add({wi(i, t): 1.0, di(pa, t): -1.0, di(pb, t): -1.0}, -1.0, inf)
 
+    cx, cz, cl, const = _objective(pr, kind)
+    cr = np.zeros(n_r)
+    if n_r:
+        _scenario_rows(pr, rows, cz, cl, cw, inter, (ri, xi, zi, li, wi), n_l)
+        lb[ri(0)] = -np.inf
+        cr[0] = pr.risk_weight
+        cr[1:] = pr.risk_weight / (pr.risk_tail * pr.n_scenarios)
     a_matrix = sparse.csr_array(
         (rows.vals, (rows.rows, rows.cols)), shape=(len(rows.lb), n), dtype=float
     )
-    cx, cz, cl, const = _objective(pr, kind)
-    c = np.concatenate([np.zeros(n_x), cz.ravel(), cl[:n_l], np.zeros(n_c), cw.ravel(), cx.ravel()])
+    c = np.concatenate([np.zeros(n_x), cz.ravel(), cl[:n_l], np.zeros(n_c), cw.ravel(), cx.ravel(), cr])
     return _Model(
         c, const, integrality, lb, ub, a_matrix, np.array(rows.lb), np.array(rows.ub), n_x, n_z, n_l
     )
+
+
+def _placed_years(pr: Problem, model: _Model, x: np.ndarray) -> dict[str, int | None]:
+    """Calendar year per project id read from the solver's "done by" columns."""
+    done_by = x[: model.n_x].reshape(len(pr.projects), pr.n_years) > 0.5
+    years: dict[str, int | None] = {}
+    for p, proj in enumerate(pr.projects):
+        hit = np.flatnonzero(done_by[p])
+        years[proj.id] = int(pr.first_year + hit[0]) if hit.size else None
+    return years
+
+
+def _holds_up(pr: Problem, model: _Model, res: Any, stage: str | None, gap: float) -> bool:
+    """True when the plan in ``res`` is feasible in the independent evaluator and worth at least
+    what the solver says (within the relative gap). The first stage of ``earliest_gas_closure``
+    (a year index) is checked for feasibility only."""
+    ev = evaluate(pr, _placed_years(pr, model, res.x))
+    if ev.violations:
+        return False
+    if stage == "earliest":
+        return True
+    claimed = float(res.fun) + model.const  # minimised: -NPV, -kg saved or out-of-pocket USD
+    if pr.objective == "earliest_gas_closure":
+        true = -ev.npv_usd  # the second stage maximises NPV with the earliest year held
+    elif pr.objective in ("min_out_of_pocket", "min_cost_cvar"):
+        true = ev.objective_value
+    else:
+        true = -ev.objective_value
+    return true <= claimed + max(gap, 1e-9) * max(1.0, abs(claimed)) + 1e-6
+
+
+def _scenario_rows(pr: Problem, rows: _Rows, cz: np.ndarray, cl: np.ndarray, cw: np.ndarray,
+                   inter: tuple, cols: tuple, n_l: int) -> None:
+    """``u[s] + eta + NPV_s >= base_s`` for each scenario: ``NPV_s`` has the objective's
+    z, L and w coefficients (negated: they are the minimised -NPV's) and the scenario's x values."""
+    ri, xi, zi, li, wi = cols
+    nt = pr.n_years
+    max_lag = max((ig.arrives_after_years for ig in pr.incentive_groups), default=0)
+    dfh = pr.discount_factors(extra_years=max_lag + 1)[:nt]
+    pen_d = pr.matrix("undone_penalty_usd") * dfh[None, :]
+    tail = np.cumsum(pen_d[:, ::-1], axis=1)[:, ::-1]
+    common = -pr.matrix("cost_usd") * dfh[None, :] + tail
+    k_pen = float(pen_d.sum())
+    shared: dict[int, float] = {}
+    for g in range(cz.shape[0]):
+        for t in range(nt):
+            shared[zi(g, t)] = -cz[g, t]
+    for t in range(n_l):
+        shared[li(t)] = -cl[t]
+    for i in range(len(inter)):
+        for t in range(nt):
+            shared[wi(i, t)] = -cw[i, t]
+    values = pr.scenario_values()
+    for s in range(pr.n_scenarios):
+        coefs = dict(shared)
+        a = values[s] + common
+        for p, t in zip(*np.nonzero(a), strict=True):
+            coefs[xi(int(p), int(t))] = float(a[p, t])
+        coefs[ri(0)] = 1.0
+        coefs[ri(s + 1)] = 1.0
+        rows.add(coefs, pr.scenario_base_usd[s] + k_pen, np.inf)
 
 
 @dataclass(frozen=True)
@@ -444,22 +540,25 @@ class MilpSolver:
         Relative MIP gap at which HiGHS stops, fraction.
     presolve : bool
         True to run HiGHS presolve.
+    retry_without_presolve : bool
+        With presolve on: solve a stage again without presolve when its answer does not hold up
+        (see the module notes).
     """
 
     time_limit_s: float = 30.0
     mip_rel_gap: float = 1e-7
     presolve: bool = False
+    retry_without_presolve: bool = True
 
-    def _run(self, model: _Model, time_limit_s: float) -> tuple[Any, float]:
+    def _highs(self, model: _Model, time_limit_s: float, presolve: bool) -> Any:
         from scipy.optimize import Bounds, LinearConstraint, milp
 
-        t0 = time.perf_counter()
         constraints = (
             [LinearConstraint(model.a_matrix, model.row_lb, model.row_ub)]
             if model.a_matrix.shape[0]
             else []
         )
-        res = milp(
+        return milp(
             model.c,
             integrality=model.integrality,
             bounds=Bounds(model.lb, model.ub),
@@ -467,11 +566,23 @@ class MilpSolver:
             options={
                 "time_limit": max(time_limit_s, 1e-3),
                 "mip_rel_gap": self.mip_rel_gap,
-                "presolve": self.presolve,
+                "presolve": presolve,
                 "disp": False,
             },
         )
-        return res, time.perf_counter() - t0
+
+    def _run(
+        self, pr: Problem, model: _Model, time_limit_s: float, stage: str | None
+    ) -> tuple[Any, bool]:
+        """One stage's solve, repeated without presolve when the presolved answer is doubtful
+        (the repeat gets the stage's time limit again). Returns the result and whether it was
+        repeated."""
+        res = self._highs(model, time_limit_s, self.presolve)
+        if self.presolve and self.retry_without_presolve and (
+            res.x is None or not _holds_up(pr, model, res, stage, self.mip_rel_gap)
+        ):
+            return self._highs(model, time_limit_s, False), True
+        return res, False
 
     def solve(self, problem: Problem) -> Solution:
         """Solve ``problem`` (in two stages for ``earliest_gas_closure``).
@@ -491,11 +602,12 @@ class MilpSolver:
         latest: dict[int, int] | None = None
         first_value: float | None = None
         first_stage_limited = False
+        retried = False
         if pr.objective == "earliest_gas_closure":
             m1 = build_model(pr, "earliest")
-            res1, _ = self._run(m1, self.time_limit_s)
+            res1, retried = self._run(pr, m1, self.time_limit_s, "earliest")
             if res1.x is None:
-                return self._failed(res1, time.perf_counter() - started)
+                return self._failed(res1, time.perf_counter() - started, retried)
             q = pr.index(pr.objective_project)  # type: ignore[arg-type]
             dq = res1.x[q * pr.n_years : (q + 1) * pr.n_years]
             t_star = int(np.argmax(dq > 0.5))
@@ -504,28 +616,28 @@ class MilpSolver:
             first_value = float(pr.first_year + t_star)
         model = build_model(pr, None, latest)
         remaining = self.time_limit_s - (time.perf_counter() - started)
-        res, _ = self._run(model, remaining)
+        res, retried_now = self._run(pr, model, remaining, None)
+        retried = retried or retried_now
         elapsed = time.perf_counter() - started
         if res.x is None:
-            return self._failed(res, elapsed)
-        sol = self._solution(pr, model, res, elapsed, first_value)
+            return self._failed(res, elapsed, retried)
+        sol = dataclasses.replace(
+            self._solution(pr, model, res, elapsed, first_value), presolve_retried=retried
+        )
         if first_stage_limited:  # the earliest year itself is not proven
             sol = dataclasses.replace(sol, status="time_limit")
         return sol
 
-    def _failed(self, res: Any, elapsed: float) -> Solution:
+    def _failed(self, res: Any, elapsed: float, retried: bool) -> Solution:
         status = {2: "infeasible", 1: "no_solution"}.get(int(res.status), "error")
-        return Solution(status, solve_time_s=elapsed, solver="highs", message=str(res.message))
+        return Solution(status, solve_time_s=elapsed, solver="highs", message=str(res.message),
+                        presolve_retried=retried)
 
     def _solution(
         self, pr: Problem, model: _Model, res: Any, elapsed: float, first_value: float | None
     ) -> Solution:
         nt = pr.n_years
-        xs = res.x[: model.n_x].reshape(len(pr.projects), nt) > 0.5  # done-by D[p,t]
-        years: dict[str, int | None] = {}
-        for p, proj in enumerate(pr.projects):
-            hit = np.flatnonzero(xs[p])
-            years[proj.id] = int(pr.first_year + hit[0]) if hit.size else None
+        years = _placed_years(pr, model, res.x)
         zs = res.x[model.n_x : model.n_x + model.n_z].reshape(len(pr.incentive_groups), nt)
         loans = res.x[model.n_x + model.n_z : model.n_x + model.n_z + nt] if model.n_l else np.zeros(nt)
         value = float(res.fun) + model.const + 0.0  # + 0.0 turns -0.0 into 0.0
@@ -533,7 +645,7 @@ class MilpSolver:
         npv = 0.0 - value if kind_npv else None
         if pr.objective in ("max_npv", "min_emissions"):
             objective_value = 0.0 - value
-        elif pr.objective == "min_out_of_pocket":
+        elif pr.objective in ("min_out_of_pocket", "min_cost_cvar"):
             objective_value = value
         else:
             objective_value = first_value

@@ -43,6 +43,13 @@ Semantics (shared by every solver):
   of years after completion.
 - *earliest closure* (``earliest_gas_closure``): ``objective_project`` must be done; minimise its
   year, then (lexicographically) maximise NPV.
+- *risk-aware* (``min_cost_cvar``), over ``S`` equally likely price scenarios: scenario s values
+  each project by ``scenario_value_usd[s]`` (``value_usd`` where a project has none) and costs
+  ``loss_s = scenario_base_usd[s] - NPV_s``, the household's total cost in present value (the
+  base is what the home costs in that scenario before any project); minimise
+  ``mean_s loss_s + risk_weight * CVaR_tail(loss)``, where ``CVaR_tail`` is the mean of the worst
+  ``risk_tail`` share of the scenarios' losses (Rockafellar & Uryasev 2000; the MILP uses their
+  linear form ``eta + sum_s u_s / (tail S)``, ``u_s >= loss_s - eta``, ``u_s >= 0``).
 
 Loans: for a fixed placement the cheapest feasible borrowing is "just in time" (borrow only the
 shortfall, in the year it occurs): borrowing later never raises any prefix of repayments and
@@ -53,6 +60,8 @@ References
 ----------
 Annuity payment ``a = r / (1 - (1 + r) ** -n)``: standard loan amortisation formula (e.g. Brealey,
 Myers & Allen, *Principles of Corporate Finance*, ch. 2).
+R. T. Rockafellar, S. Uryasev, "Optimization of conditional value-at-risk", Journal of Risk 2
+(2000) 21-41 (CVaR of equally likely scenarios and its linear programming form).
 """
 
 from __future__ import annotations
@@ -83,7 +92,7 @@ __all__ = [
     "years_from_sequence",
 ]
 
-OBJECTIVES = ("max_npv", "min_emissions", "earliest_gas_closure", "min_out_of_pocket")
+OBJECTIVES = ("max_npv", "min_emissions", "earliest_gas_closure", "min_out_of_pocket", "min_cost_cvar")
 TOL_USD = 1e-6
 """Absolute tolerance for money comparisons in :func:`evaluate_batch` (scaled by magnitude)."""
 
@@ -139,6 +148,9 @@ class Project:
     pin_reason : str
         For explanations only: replaces "pinned by you to Y" (e.g. "it failed: replaced in
         2026").
+    scenario_value_usd : tuple of tuple of float
+        ``min_cost_cvar`` only: ``value_usd`` in each price scenario (``[S][T]``; empty = the
+        same in every scenario), USD.
     """
 
     id: str
@@ -161,8 +173,10 @@ class Project:
     failure_prob_by_year: tuple[float, ...] = ()
     window_reason: str = ""
     pin_reason: str = ""
+    scenario_value_usd: tuple[tuple[float, ...], ...] = ()
 
     def __post_init__(self) -> None:
+        object.__setattr__(self, "scenario_value_usd", tuple(_floats(v) for v in self.scenario_value_usd))
         for name in (
             "cost_usd",
             "value_usd",
@@ -413,6 +427,13 @@ class Problem:
         One of :data:`OBJECTIVES`.
     objective_project : str or None
         Project whose year ``earliest_gas_closure`` minimises.
+    scenario_base_usd : tuple of float
+        ``min_cost_cvar``: the home's total cost in each price scenario before any project
+        (present value, USD); its length is the number of scenarios S.
+    risk_weight : float
+        ``min_cost_cvar``: weight of the CVaR beside the expected cost, dimensionless.
+    risk_tail : float
+        ``min_cost_cvar``: share of the worst scenarios the CVaR averages, fraction in (0, 1].
 
     Raises
     ------
@@ -440,9 +461,13 @@ class Problem:
     followups: tuple[FollowUp, ...] = ()
     objective: str = "max_npv"
     objective_project: str | None = None
+    scenario_base_usd: tuple[float, ...] = ()
+    risk_weight: float = 1.0
+    risk_tail: float = 0.1
 
     def __post_init__(self) -> None:
         object.__setattr__(self, "budget_usd", _floats(self.budget_usd))
+        object.__setattr__(self, "scenario_base_usd", _floats(self.scenario_base_usd))
         for name in (
             "projects",
             "prerequisites",
@@ -455,6 +480,11 @@ class Problem:
         self.validate()
 
     # -- basic facts ---------------------------------------------------------------------
+    @property
+    def n_scenarios(self) -> int:
+        """Number of price scenarios, S (0: none)."""
+        return len(self.scenario_base_usd)
+
     @property
     def n_years(self) -> int:
         """Number of horizon years, T."""
@@ -559,6 +589,15 @@ class Problem:
             raise ValueError("objective earliest_gas_closure needs objective_project")
         if self.loan_limit_usd > 0 and self.loan_term_years < 1:
             raise ValueError("loan_term_years must be >= 1")
+        n_s = self.n_scenarios
+        if self.objective == "min_cost_cvar" and n_s == 0:
+            raise ValueError("objective min_cost_cvar needs scenario_base_usd (one per scenario)")
+        if not 0 < self.risk_tail <= 1 or self.risk_weight < 0:
+            raise ValueError("risk_tail must be in (0, 1] and risk_weight >= 0")
+        for p in self.projects:
+            if p.scenario_value_usd and (len(p.scenario_value_usd) != n_s
+                                         or any(len(v) != n for v in p.scenario_value_usd)):
+                raise ValueError(f"{p.id}.scenario_value_usd must be {n_s} x {n} values")
 
     def replace(self, **changes: object) -> Problem:
         """A copy with fields changed (``dataclasses.replace``).
@@ -640,6 +679,22 @@ class Problem:
             values = getattr(p, name)
             if values:
                 out[i] = values
+        return out
+
+    def scenario_values(self) -> np.ndarray:
+        """``[S, P, T]`` array of each project's value in each scenario (``value_usd`` where a
+        project has no scenario values).
+
+        Returns
+        -------
+        numpy.ndarray
+            Present values, USD, shape ``[S, P, T]``.
+        """
+        base = self.matrix("value_usd")
+        out = np.repeat(base[None, :, :], self.n_scenarios, axis=0)
+        for i, p in enumerate(self.projects):
+            if p.scenario_value_usd:
+                out[:, i, :] = np.asarray(p.scenario_value_usd)
         return out
 
     def discount_factors(self, extra_years: int = 0) -> np.ndarray:
@@ -767,6 +822,9 @@ class Evaluation:
         Capped incentive earned per group and year, USD.
     money_left_usd : tuple of float
         Money left after each year, USD.
+    risk_cost_usd : float or None
+        Expected cost plus ``risk_weight`` times its CVaR over the scenarios, USD (None: the
+        problem has no scenarios).
     """
 
     years: dict[str, int | None]
@@ -778,6 +836,7 @@ class Evaluation:
     loans_usd: tuple[float, ...] = ()
     incentives_usd: dict[str, tuple[float, ...]] = field(default_factory=dict)
     money_left_usd: tuple[float, ...] = ()
+    risk_cost_usd: float | None = None
 
     @property
     def feasible(self) -> bool:
@@ -808,7 +867,8 @@ def evaluate_batch(problem: Problem, placements: np.ndarray) -> dict[str, np.nda
     (True = violated), ``feasible``, ``npv_usd``, ``emissions_kg``, ``out_of_pocket_usd``,
     ``year_index`` (of ``objective_project``, or -1), ``loans_usd`` ``[N, T]``,
     ``money_left_usd`` ``[N, T]`` (carry after each year, or unspent money without carryover)
-    and ``incentives_usd`` ``[N, G, T]``.
+    and ``incentives_usd`` ``[N, G, T]``; with scenarios also ``scenario_cost_usd`` ``[N, S]``
+    (``loss_s``) and ``risk_cost_usd`` (expected loss + ``risk_weight`` x CVaR).
 
     Parameters
     ----------
@@ -991,6 +1051,12 @@ def evaluate_batch(problem: Problem, placements: np.ndarray) -> dict[str, np.nda
         both = done_by[:, pr.index(it.a), :] * done_by[:, pr.index(it.b), :]
         npv += both @ np.asarray(it.value_usd)
     out["npv_usd"] = npv
+    if pr.n_scenarios:
+        spread = pr.scenario_values() - value[None, :, :]  # [S,P,T]
+        npv_s = npv[:, None] + np.einsum("npt,spt->ns", x, spread)
+        loss = np.asarray(pr.scenario_base_usd)[None, :] - npv_s
+        out["scenario_cost_usd"] = loss
+        out["risk_cost_usd"] = loss.mean(axis=1) + pr.risk_weight * _cvar(loss, pr.risk_tail)
     out["emissions_kg"] = np.einsum("npt,pt->n", x, pr.matrix("emissions_kg"))
     oop = spend.sum(axis=1) + np.einsum("npt,pt->n", 1.0 - done_by, pen)
     oop += loans.sum(axis=1) * pr.loan_interest_per_usd()
@@ -1000,9 +1066,24 @@ def evaluate_batch(problem: Problem, placements: np.ndarray) -> dict[str, np.nda
     return out
 
 
+def _cvar(losses: np.ndarray, tail: float) -> np.ndarray:
+    """Mean of the worst ``tail`` share of equally likely losses (last axis): the ``floor(k)``
+    largest count fully, the next by ``k - floor(k)``, over ``k = tail S`` (Rockafellar & Uryasev
+    2000, the minimum over eta of ``eta + sum (L - eta)^+ / k``)."""
+    s = losses.shape[-1]
+    k = tail * s
+    whole = int(np.floor(k + 1e-9))
+    worst = -np.sort(-losses, axis=-1)
+    total = worst[..., :whole].sum(axis=-1)
+    if whole < s and k - whole > 1e-9:
+        total = total + (k - whole) * worst[..., whole]
+    return total / k
+
+
 def objective_of(problem: Problem, ev: Mapping[str, np.ndarray]) -> np.ndarray:
     """The objective value in its natural sense: NPV USD (higher is better), kg saved (higher),
-    calendar year of ``objective_project`` (lower), out-of-pocket USD (lower).
+    calendar year of ``objective_project`` (lower), out-of-pocket USD (lower), risk-aware cost
+    USD (lower).
 
     Parameters
     ----------
@@ -1023,6 +1104,8 @@ def objective_of(problem: Problem, ev: Mapping[str, np.ndarray]) -> np.ndarray:
         return ev["emissions_kg"]
     if obj == "min_out_of_pocket":
         return ev["out_of_pocket_usd"]
+    if obj == "min_cost_cvar":
+        return ev["risk_cost_usd"]
     return ev["year_index"].astype(float) + problem.first_year
 
 
@@ -1080,6 +1163,7 @@ def evaluate(problem: Problem, years: Mapping[str, int | None]) -> Evaluation:
             for g, ig in enumerate(problem.incentive_groups)
         },
         money_left_usd=tuple(float(v) for v in ev["money_left_usd"][0]),
+        risk_cost_usd=float(ev["risk_cost_usd"][0]) if "risk_cost_usd" in ev else None,
     )
 
 

@@ -24,6 +24,8 @@ from textual.widgets import Footer, Static, TabbedContent, TabPane
 from textual.worker import Worker, WorkerState
 
 from homeplan.errors import InputError, PlanRuleError
+from homeplan.plan.alternatives import BASE_NAME, option
+from homeplan.plan.load import LoadedPlan
 from homeplan.plan.model import Fuel, Plan, VehicleFuel
 from homeplan.plan.save import write_atomic
 from homeplan.tui import newplan
@@ -71,6 +73,7 @@ OBJECTIVES = (
     ("Lowest emissions", "emissions"),
     ("Off gas soonest", "gas_off_early"),
     ("Least out of pocket", "out_of_pocket"),
+    ("Least price risk", "risk_aware"),
 )
 APPLIANCE_KINDS = ("furnace", "boiler", "central_ac", "room_ac", "heat_pump", "mini_split",
                    "baseboard", "water_heater", "range", "cooktop", "wall_oven", "dryer")
@@ -96,12 +99,14 @@ class PlannerUnavailable(RuntimeError):
 class EnginePlanner:
     """The real planner, imported on first use (in the worker thread, after the first paint).
 
-    One per open plan: its ``PlannerCache`` keeps weather and per-home results between re-plans.
+    One per open plan: its ``PlannerCache`` keeps weather and per-home results between re-plans
+    (and, with ``use_store``, the built-in weather year in the user's cache folder between runs).
     """
 
-    def __init__(self) -> None:
+    def __init__(self, use_store: bool = True) -> None:
         self._run: Callable[..., PlanResult] | None = None
         self._cache: Any = None
+        self._use_store = use_store
 
     def __call__(self, plan: Plan, base_dir: Path) -> PlanResult:
         if self._run is None:
@@ -109,9 +114,11 @@ class EnginePlanner:
                 # the planner loads numpy, scipy, pvlib and networkx: after the first paint
                 from homeplan.planner.chain import plan_roadmap
                 from homeplan.planner.context import PlannerCache
+                from homeplan.planner.diskstore import default_store
             except ImportError as exc:
                 raise PlannerUnavailable(f"homeplan.planner could not be imported ({exc})") from None
-            self._run, self._cache = plan_roadmap, PlannerCache()
+            store = default_store() if self._use_store else None
+            self._run, self._cache = plan_roadmap, PlannerCache(store=store)
         return self._run(plan, base_dir=base_dir, cache=self._cache)
 
 
@@ -184,6 +191,7 @@ class HomeplanApp(App[int]):
         self._plan_busy = False   # a planner worker is busy
         self._plan_pending = False   # edits arrived while it was busy
         self._stale: set[str] = set()
+        self.option_index = 0     # 0: the plan as planned; i: its i-th named option
         self.animation_level = "none"  # calm: nothing slides or fades
         for theme in THEMES:
             self.register_theme(theme)
@@ -211,6 +219,7 @@ class HomeplanApp(App[int]):
 
     def _open_session(self, session: PlanSession) -> None:
         self.session = session
+        self.option_index = 0
         self.planner = self._planner_given or EnginePlanner()
         self.result, self.moved, self.plan_error, self.unavailable = None, {}, None, None
         self._plan_pending = False
@@ -232,7 +241,7 @@ class HomeplanApp(App[int]):
 
     def view_data(self) -> ViewData:
         assert self.session is not None
-        return ViewData(plan=self.session.plan, result=self.result, path=self.session.path,
+        return ViewData(plan=self.shown_plan() or self.session.plan, result=self.result, path=self.session.path,
                         moved=self.moved, planning=self.planning, error=self.plan_error,
                         unavailable=self.unavailable)
 
@@ -281,9 +290,12 @@ class HomeplanApp(App[int]):
             status.update(Text(" homeplan - no plan open", style="bold"))
             return
         s = self.session
-        plan = s.plan
+        plan = self.shown_plan() or s.plan
         text = Text(" ")
         text.append(s.name, style="bold")
+        if s.plan.alternatives:  # which named option is on screen (o switches)
+            text.append(f" · {self.option_name()} ({self.option_index + 1}/{len(s.plan.alternatives) + 1})",
+                        style="bold reverse")
         text.append("  ")
         if self.planning:
             text.append("planning…", style="italic")
@@ -316,16 +328,67 @@ class HomeplanApp(App[int]):
         if self._plan_busy:
             self._plan_pending = True
             return
+        plan, problem = self._option()
+        if plan is None:
+            self.planning, self.plan_error = False, problem
+            self.refresh_views()
+            return
         self._plan_busy = True
-        self.run_planner(self.planner, self.session.plan, self.session.base_dir, self.generation)
+        self.run_planner(self.planner, plan, self.session.base_dir, self.generation)
+
+    def shown_plan(self) -> Plan | None:
+        """The plan on screen: the plan itself, or its named option with the option's changes
+        merged over the plan as edited (None if the option is not valid: see ``option_problem``)."""
+        return self._option()[0]
+
+    def option_problem(self) -> str | None:
+        """Why the option on screen is not valid, in words (None: it is)."""
+        return self._option()[1]
+
+    def _option(self) -> tuple[Plan | None, str | None]:
+        if self.session is None:
+            return None, None
+        self.option_index = min(self.option_index, len(self.session.plan.alternatives))
+        if self.option_index == 0:
+            return self.session.plan, None
+        loaded = LoadedPlan(self.session.plan, self.session.document, self.session.path)
+        try:
+            return option(loaded, self.option_index - 1).plan, None
+        except InputError as err:
+            return None, "This option is not valid: " + problem_words(err)
+
+    def option_name(self) -> str:
+        """The name of the option on screen."""
+        if self.session is None or self.option_index == 0:
+            return BASE_NAME
+        return self.session.plan.alternatives[self.option_index - 1].name
+
+    def action_next_option(self) -> None:
+        """Show the plan's next named option (the plan itself after the last)."""
+        if self.session is None:
+            return
+        n = len(self.session.plan.alternatives)
+        if not n:
+            self.notify("This plan has no named options: add alternatives: to the file "
+                        "(see docs/plan-format.md).", title="Options")
+            return
+        self.option_index = (self.option_index + 1) % (n + 1)
+        self.plan_error = None
+        self.notify(f"Showing {self.option_name()} ({self.option_index + 1} of {n + 1}). Edits change "
+                    "the plan itself; an option's changes apply on top of it.", title="Options")
+        self.start_plan()
 
     def _planner_done(self) -> None:
         self._plan_busy = False
         if self._plan_pending and self.session is not None and self.planner is not None:
             self._plan_pending = False
+            plan, problem = self._option()
+            if plan is None:
+                self.planning, self.plan_error = False, problem
+                self.refresh_views()
+                return
             self._plan_busy = True
-            self.run_planner(self.planner, self.session.plan, self.session.base_dir,
-                             self.generation)
+            self.run_planner(self.planner, plan, self.session.base_dir, self.generation)
 
     @work(thread=True, exclusive=True, group="plan", exit_on_error=False)
     def run_planner(self, planner: Planner, plan: Plan, base_dir: Path,

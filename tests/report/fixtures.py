@@ -18,6 +18,7 @@ from homeplan.result import (
     ProgramUse,
     ProjectInfo,
 )
+from homeplan.result.risk import Band, FuelShock, PriceRisk, PriceSeries, SolarPriceRisk, YearBand
 from homeplan.result.roadmap import Baseline, IncentiveLine, Milestone, Roadmap, Step, YearTotals
 
 PLAN_YAML = """\
@@ -83,6 +84,25 @@ def make_plan(**overrides: object):
     return load_plan_text(plan_text(**overrides), "<test>").plan
 
 
+def make_price_risk(first_year: int = 2027, years: int = 10) -> PriceRisk:
+    """Invented price-risk figures (not the output of the engines), bands widening with time."""
+    def band(mid: float, half: float) -> Band:
+        return Band(mid - half, mid, mid + half * 1.3, mid + half * 0.1)
+
+    yearly = tuple(YearBand(first_year + i, band(2900.0 - 80 * i, 60.0 * i), band(2900.0 + 60 * i, 150.0 * i))
+                   for i in range(years))
+    return PriceRisk(
+        paths=2000, seed=1, drift="plan", history_years="2001-2024",
+        plan_cost_usd=band(61000.0, 3500.0), like_for_like_cost_usd=band(66000.0, 8000.0),
+        do_nothing_cost_usd=band(67400.0, 8500.0), plan_beats_like_for_like_pct=72.5,
+        plan_beats_do_nothing_pct=78.0, bill_shock_before_usd=410.0, bill_shock_after_usd=95.0,
+        shocks=(FuelShock("electricity", 2.9, 44.0, 80.0), FuelShock("gas", 10.0, 150.0, 0.0)),
+        years=yearly,
+        fuels=(PriceSeries("electricity", 2.9, 2.5, 2.9, "invented"), PriceSeries("gas", 10.0, 2.5, 1.8, "invented")),
+        solar=SolarPriceRisk(0.11, Band(0.19, 0.23, 0.28, 0.235), 97.0, 25, False),
+    )
+
+
 def make_result(plan=None, label_suffix: str = "", steps=None, hostile_labels: bool = False) -> PlanResult:
     """A roadmap of four steps over 2027-2036, with one milestone and a do-nothing baseline."""
     plan = plan or make_plan()
@@ -126,7 +146,8 @@ def make_result(plan=None, label_suffix: str = "", steps=None, hostile_labels: b
                    milestones=[Milestone(2031, "Gas service closed", "gas_service_closed"),
                                Milestone(2031, "Fully electric home", "fully_electric")],
                    baselines=[base], npv_usd=6400.0,
-                   assumptions={"discount_rate_pct": 3.0, "incentive_data_as_of": "2026-11-01"})
+                   assumptions={"discount_rate_pct": 3.0, "incentive_data_as_of": "2026-11-01"},
+                   price_risk=make_price_risk())
     months = tuple(float(v) for v in (900, 800, 700, 500, 400, 450, 600, 620, 480, 500, 700, 880))
     before = EnergySummary("Today", {"electricity_kwh": months, "gas_therm": tuple(v / 5 for v in months)},
                            {"electricity_kwh": 7500.0, "gas_therm": 1100.0},

@@ -92,7 +92,7 @@ def test_pdf_pages_and_text(tmp_path: Path, paper, size_pts) -> None:
     page = write_page(tmp_path, "summary.html", result, paper)
     pdf = tmp_path / "summary.pdf"
     to_pdf(tmp_path, page, pdf)
-    assert pdf_pages(pdf) == 3
+    assert pdf_pages(pdf) == 4  # glance, year by year, price risk, assumptions and safety
     size = pdf_size_pts(pdf)
     if size is not None:
         assert size == pytest.approx(size_pts, abs=1.5)
@@ -100,12 +100,13 @@ def test_pdf_pages_and_text(tmp_path: Path, paper, size_pts) -> None:
     if text is None:
         pytest.skip("pdftotext (poppler-utils) not installed: page count checked, text not")
     pages = [p for p in text.split("\f") if p.strip()]
-    assert len(pages) == 3
+    assert len(pages) == 4
     # the first page is the one for the fridge: the home, the timeline and the steps
     assert "At a glance" in pages[0] and "The roadmap" in pages[0] and "Heat pump" in pages[0]
-    assert "page 1 of 3" in pages[0]                              # the page margin box
+    assert "page 1 of 4" in pages[0]                              # the page margin box
     flat = " ".join(text.split())
-    order = ["At a glance", "The roadmap", "Steps", "Year by year", "Energy and emissions, before and after",
+    order = ["At a glance", "The roadmap", "Steps", "Year by year", "Price risk",
+             "Energy and emissions, before and after",
              "Electrical capacity", "Key assumptions", "Safety", "Plan content hash"]
     positions, at = [], 0
     for h in order:  # each heading after the one before (step lines also say "Safety:")

@@ -32,7 +32,8 @@ def _wired() -> bool:
 @pytest.fixture
 def run(monkeypatch):
     assert _wired(), "the CLI must register print, export and diff"
-    monkeypatch.setattr(outputs, "load_and_plan", lambda _path: (None, make_result()))
+    monkeypatch.setattr(outputs, "load_and_plan", lambda _path, **_kw: (None, make_result()))
+    monkeypatch.setattr(outputs, "with_sensitivity", lambda _loaded, result: result)  # no re-planning
     monkeypatch.setenv("SOURCE_DATE_EPOCH", "1796083200")  # 2026-12-01T00:00:00Z
     return cli.main
 

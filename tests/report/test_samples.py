@@ -51,3 +51,5 @@ def test_every_output_of_a_sample(path) -> None:
     data = json.loads(render_json(result))
     assert Roadmap.from_dict(data).steps == result.roadmap.steps
     assert data["plan"]["content_hash"] == report.footer.content_hash
+    # the schedule is proven best within the plan solver's relative gap (1e-5)
+    assert data["solver"]["status"] == "optimal" and 0.0 <= data["solver"]["mip_gap"] <= 1e-5

@@ -150,3 +150,29 @@ def random_problem(
         objective=obj,
         objective_project=str(rng.choice(ids)) if obj == "earliest_gas_closure" else None,
     )
+
+
+def cvar_problem(seed: int, max_combinations: int = 30_000) -> Problem:
+    """A random problem with the risk-aware objective: the instance of ``random_problem(seed)``
+    with S equally likely price scenarios added (each project's value scaled by its own random
+    factor per scenario, as a price path would), a base cost per scenario, and a CVaR weight
+    and tail (fractional tails included, e.g. 30 % of 7 scenarios)."""
+    base = random_problem(seed, max_combinations=max_combinations, objective="max_npv")
+    rng = np.random.default_rng([seed, 17])
+    n_s = int(rng.integers(1, 13))
+    n_t = base.n_years
+    projects = []
+    for p in base.projects:
+        if not p.value_usd or rng.random() < 0.2:
+            projects.append(p)  # the same value in every scenario
+            continue
+        factors = np.exp(rng.normal(0.0, float(rng.choice([0.1, 0.3, 0.6])), size=(n_s, 1)))
+        trend = 1.0 + float(rng.normal(0, 0.02)) * np.arange(n_t)[None, :]
+        values = np.round(np.asarray(p.value_usd)[None, :] * factors * trend)
+        projects.append(dataclasses.replace(p, scenario_value_usd=tuple(tuple(v) for v in values)))
+    return base.replace(
+        projects=tuple(projects), objective="min_cost_cvar", objective_project=None,
+        scenario_base_usd=tuple(float(v) for v in np.round(rng.uniform(20_000, 60_000, size=n_s))),
+        risk_weight=float(rng.choice([0.0, 0.5, 1.0, 3.0])),
+        risk_tail=float(rng.choice([0.1, 0.25, 0.3, 0.5, 1.0])),
+    )

@@ -572,3 +572,31 @@ async def test_fast_typing_plans_only_the_latest_edit(plan_file):
         await settle(pilot)
         assert seen == [9000, 10000, 13000]
         assert app.result.plan.budget.usd_per_year == 13000 and not app.planning
+
+
+async def test_o_switches_between_the_plans_named_options(plan_file):
+    with plan_file.open("a") as fh:
+        fh.write("alternatives:\n  - name: Double budget\n    changes:\n      budget: {usd_per_year: 18000}\n")
+    app = make_app(plan_file)
+    async with app.run_test(size=(100, 30)) as pilot:
+        await settle(pilot)
+        base = app.session.plan.budget.usd_per_year
+        assert "As planned (1/2)" in text_of(app, "#status")
+        await pilot.press("o")
+        await settle(pilot)
+        assert app.result.plan.budget.usd_per_year == 18000
+        assert "Double budget (2/2)" in text_of(app, "#status")
+        await pilot.press("o")
+        await settle(pilot)
+        assert app.result.plan.budget.usd_per_year == base
+        assert "As planned (1/2)" in text_of(app, "#status")
+
+
+async def test_o_without_options_says_how_to_add_them(plan_file):
+    app = make_app(plan_file)
+    async with app.run_test(size=(100, 30)) as pilot:
+        await settle(pilot)
+        await pilot.press("o")
+        await pilot.pause()
+        assert app.option_index == 0
+        assert any("alternatives" in n.message for n in app._notifications)

@@ -7,10 +7,11 @@ from textual.app import ComposeResult
 from textual.containers import VerticalScroll
 from textual.widgets import DataTable, Static
 
+from homeplan.report.risk import risk_lines
 from homeplan.tui.format import ESTIMATES, kusd, spark, usd
 from homeplan.tui.widgets.base import View, ViewData, banner_text
 
-__all__ = ["MoneyView", "running_chart"]
+__all__ = ["MoneyView", "band_chart", "running_chart"]
 
 BASELINES = (("do_nothing", "Do nothing"), ("like_for_like", "Replace when it breaks"))
 
@@ -35,6 +36,41 @@ def running_chart(data: ViewData, width: int) -> Text:
         out.append("".join(ch * stretch for ch in spark(values, top)),
                    style="bold" if label == "This plan" else "")
         out.append(f"  {usd(values[-1]) if values else '-'}\n")
+    return out
+
+
+def band_chart(data: ViewData, width: int) -> Text:
+    """Each year's energy bills across the price paths, the plan above doing nothing: a line from
+    P10 to P90 with the median marked, on one dollar scale."""
+    rm = data.roadmap
+    out = Text()
+    risk = rm.price_risk if rm is not None else None
+    if risk is None or not risk.years:
+        return out
+    label_w, value_w = 13, 7
+    span = max(12, min(60, width - label_w - value_w - 8))
+    lo = min(min(y.plan_bills_usd.p10, y.do_nothing_bills_usd.p10) for y in risk.years)
+    hi = max(max(y.plan_bills_usd.p90, y.do_nothing_bills_usd.p90) for y in risk.years)
+    scale = span / max(hi - lo, 1.0)
+
+    def row(b) -> str:  # noqa: ANN001 - a Band
+        cells = [" "] * (span + 1)
+        a, c, m = (round((v - lo) * scale) for v in (b.p10, b.p90, b.p50))
+        for i in range(a, c + 1):
+            cells[i] = "─"
+        cells[m] = "●"
+        return "".join(cells)
+
+    out.append(f"Energy bills each year across {risk.paths:,} price paths (─ P10 to P90, ● median)\n",
+               style="bold")
+    out.append(" " * label_w + kusd(lo).ljust(span - 4) + kusd(hi).rjust(5) + "\n", style="dim")
+    for y in risk.years:
+        out.append(f"{y.year} plan".ljust(label_w))
+        out.append(row(y.plan_bills_usd), style="bold")
+        out.append(f" {kusd(y.plan_bills_usd.p50):>{value_w}}\n")
+        out.append("     nothing".ljust(label_w))
+        out.append(row(y.do_nothing_bills_usd), style="dim")
+        out.append(f" {kusd(y.do_nothing_bills_usd.p50):>{value_w}}\n")
     return out
 
 
@@ -90,6 +126,13 @@ class MoneyView(View):
                          "since the first year for this plan, doing nothing, and replacing each "
                          "thing like-for-like when it breaks. Ahead: doing nothing minus this plan."
                          "\n")
+            lines = risk_lines(rm)
+            if lines:
+                chart.append("\nPrice risk\n", style="bold")
+                for line in lines:
+                    chart.append(line + "\n")
+                chart.append("\n")
+                chart.append_text(band_chart(data, self.app.size.width))
         chart.append(ESTIMATES, style="italic")
         self.query_one("#money-chart-text", Static).update(chart)
 
