@@ -16,6 +16,7 @@ from homeplan.energy.simulate import SiteCache
 from homeplan.energy.solar import SolarSite
 from homeplan.plan.load import load_plan, validate_document
 from homeplan.plan.save import set_in
+from homeplan.planner.diskstore import DiskStore
 from homeplan.planner.shared import SharedCache, place_key
 
 from .conftest import ROOT, SAMPLES
@@ -80,3 +81,16 @@ def test_a_solar_site_belongs_to_its_weather(homes):
     SiteCache(a.weather, a.solar)
     with pytest.raises(ValueError, match="same weather"):
         SiteCache(a.weather, SolarSite(b.weather))
+
+
+def test_a_shared_place_reads_its_weather_year_through_the_disk_store(homes, tmp_path):
+    plan, folder = homes[0]
+    assert plan.home.climate.weather_file is None  # a generated year: the store keeps it
+    alone = _same(plan_roadmap(plan, folder, PlannerCache()))
+    store = DiskStore(tmp_path)
+    shared = SharedCache()
+    got = _same(plan_roadmap(plan, folder, PlannerCache(store=store, shared=shared)))
+    assert got == alone
+    assert list(tmp_path.glob("*.npz")) or list(tmp_path.rglob("*.npz"))  # the year was kept
+    again = _same(plan_roadmap(plan, folder, PlannerCache(store=DiskStore(tmp_path), shared=SharedCache())))
+    assert again == alone  # read back from the store
