@@ -1,18 +1,27 @@
-"""Re-plan speed of the whole pipeline (simulation included) on every sample home.
+"""Plan speed on every sample home: fresh processes, warm re-plans, peak memory.
 
-Prints, per sample home:
-- new process: wall time of `homeplan plan --json` in a fresh interpreter (imports included);
-- cold: first plan of the home in a running process (empty cache, libraries imported);
-- budget / pin change: median re-plan time with a warm cache after changing only the budget
-  or one pin (targets: <= 150 ms re-plan, <= 1.5 s cold).
+Prints, per sample home (min / median / max over the runs, wall time):
+- first run: ``homeplan plan --json`` in a fresh interpreter with an empty disk store
+  (target <= 1.6 s on an idle machine);
+- fresh plan: the same with the store already holding the home's weather year
+  (target <= 1.0 s median);
+- check: ``homeplan check`` in a fresh interpreter (target <= 0.4 s);
+- peak memory of the fresh ``homeplan plan`` (max resident set, target <= 150 MB);
+- warm re-plan in a running process after changing only the budget or one pin, at the plan's
+  own horizon (target <= 100 ms median) and at a 30-year horizon (target <= 300 ms).
+
+Usage: python benchmarks/bench_pipeline.py [--runs N] [--replans N]
 """
 
 from __future__ import annotations
 
+import argparse
 import copy
+import os
 import statistics
 import subprocess
 import sys
+import tempfile
 import time
 from pathlib import Path
 
@@ -24,38 +33,80 @@ from homeplan.plan.load import load_plan, validate_document  # noqa: E402
 from homeplan.plan.save import set_in  # noqa: E402
 
 
-def timed(fn) -> float:
+def _child(args: list[str], store: str) -> tuple[float, float]:
+    """Wall seconds and max resident MB of ``homeplan ARGS`` in a fresh interpreter."""
+    env = {**os.environ, "HOMEPLAN_CACHE_DIR": store}
     t = time.perf_counter()
-    fn()
-    return time.perf_counter() - t
+    proc = subprocess.Popen([sys.executable, "-m", "homeplan.cli", *args], env=env,
+                            stdout=subprocess.DEVNULL, stderr=subprocess.DEVNULL)
+    _, status, usage = os.wait4(proc.pid, 0)  # this child's own resource use
+    wall = time.perf_counter() - t
+    proc.returncode = os.waitstatus_to_exitcode(status)
+    if proc.returncode != 0:
+        raise SystemExit(f"homeplan {' '.join(args)} failed with exit code {proc.returncode}")
+    return wall, usage.ru_maxrss / 1024.0  # KiB on Linux
 
 
-def main(repeats: int = 7) -> None:
-    # warm the imports once so "cold" measures the home, not the interpreter
-    first = sorted((ROOT / "sample_homes").glob("*.yaml"))[0]
-    plan_roadmap(load_plan(first).plan, first.parent)
-    print(f"{'sample':28s} {'new process':>12s} {'cold':>8s} {'budget':>8s} {'pin':>8s}   (median of {repeats})")
-    for path in sorted((ROOT / "sample_homes").glob("*.yaml")):
-        loaded = load_plan(path)
-        proc = timed(lambda p=path: subprocess.run([sys.executable, "-m", "homeplan.cli", "plan", "--json", str(p)],
-                                                   check=True, capture_output=True))
-        cache = PlannerCache()
-        cold = timed(lambda lp=loaded, p=path, c=cache: plan_roadmap(lp.plan, p.parent, c))
-        result = plan_roadmap(loaded.plan, path.parent, cache)
-        budget_times, pin_times = [], []
-        for i in range(repeats):
-            doc = copy.deepcopy(loaded.document)
-            set_in(doc, ("budget", "usd_per_year"), loaded.plan.budget.usd_per_year + 500 * (i + 1))
-            plan, _ = validate_document(doc, str(path))
-            budget_times.append(timed(lambda p=plan, d=path.parent, c=cache: plan_roadmap(p, d, c)))
+def _stats(values: list[float], scale: float = 1000.0) -> str:
+    v = [x * scale for x in values]
+    return f"{min(v):5.0f}/{statistics.median(v):5.0f}/{max(v):5.0f}"
+
+
+def _replans(path: Path, horizon: int | None, n: int) -> tuple[list[float], list[float]]:
+    loaded = load_plan(path)
+    doc0 = copy.deepcopy(loaded.document)
+    if horizon is not None:
+        set_in(doc0, ("budget", "horizon_years"), horizon)
+    plan0, _ = validate_document(doc0, str(path))
+    cache = PlannerCache()
+    result = plan_roadmap(plan0, path.parent, cache)
+    budget, pin = [], []
+    for i in range(n):
+        doc = copy.deepcopy(doc0)
+        set_in(doc, ("budget", "usd_per_year"), plan0.budget.usd_per_year + 500 * (i + 1))
+        plan, _ = validate_document(doc, str(path))
+        t = time.perf_counter()
+        plan_roadmap(plan, path.parent, cache)
+        budget.append(time.perf_counter() - t)
+        if result.roadmap.steps:
             step = result.roadmap.steps[-1]
-            doc = copy.deepcopy(loaded.document)
+            doc = copy.deepcopy(doc0)
             year = max(result.roadmap.first_year, step.year - 1 - (i % 2))
             set_in(doc, ("choices", "pins"), {step.project_id: year})
             plan, _ = validate_document(doc, str(path))
-            pin_times.append(timed(lambda p=plan, d=path.parent, c=cache: plan_roadmap(p, d, c)))
-        print(f"{path.name:28s} {proc * 1000:10.0f}ms {cold * 1000:6.0f}ms "
-              f"{statistics.median(budget_times) * 1000:6.0f}ms {statistics.median(pin_times) * 1000:6.0f}ms")
+            t = time.perf_counter()
+            plan_roadmap(plan, path.parent, cache)
+            pin.append(time.perf_counter() - t)
+    return budget, pin
+
+
+def main() -> None:
+    ap = argparse.ArgumentParser(description=__doc__.splitlines()[0])
+    ap.add_argument("--runs", type=int, default=5, help="fresh processes per figure")
+    ap.add_argument("--replans", type=int, default=7, help="warm re-plans per figure")
+    args = ap.parse_args()
+    samples = sorted((ROOT / "sample_homes").glob("*.yaml"))
+    plan_roadmap(load_plan(samples[0]))  # import once so the warm figures measure the planner
+    print(f"load average at start {os.getloadavg()[0]:.2f}; figures in ms as min/median/max "
+          f"({args.runs} fresh processes, {args.replans} re-plans)")
+    print(f"{'sample':24s} {'first run':>17s} {'fresh plan':>17s} {'check':>17s} {'MB':>5s} "
+          f"{'budget':>17s} {'pin':>17s} {'budget 30y':>17s} {'pin 30y':>17s}")
+    for path in samples:
+        first, fresh, check, mem = [], [], [], []
+        for _ in range(args.runs):
+            with tempfile.TemporaryDirectory() as store:
+                wall, _mb = _child(["plan", "--json", str(path)], store)
+                first.append(wall)
+                wall, mb = _child(["plan", "--json", str(path)], store)
+                fresh.append(wall)
+                mem.append(mb)
+                check.append(_child(["check", str(path)], store)[0])
+        budget, pin = _replans(path, None, args.replans)
+        budget30, pin30 = _replans(path, 30, args.replans)
+        print(f"{path.stem:24s} {_stats(first):>17s} {_stats(fresh):>17s} {_stats(check):>17s} "
+              f"{max(mem):5.0f} {_stats(budget):>17s} {_stats(pin):>17s} {_stats(budget30):>17s} "
+              f"{_stats(pin30):>17s}")
+    print(f"load average at end {os.getloadavg()[0]:.2f}")
 
 
 if __name__ == "__main__":

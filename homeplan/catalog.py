@@ -42,9 +42,11 @@ def _data_text(name: str) -> str:
 
 
 def _yaml_data(name: str) -> Any:
-    from ruamel.yaml import YAML
+    """A built-in YAML table, read with PyYAML's C loader (no comments or positions are needed
+    for the shipped data; about 30 times faster than a pure-Python round-trip parser)."""
+    import yaml
 
-    return YAML(typ="safe").load(_data_text(name))
+    return yaml.load(_data_text(name), Loader=getattr(yaml, "CSafeLoader", yaml.SafeLoader))
 
 
 @dataclass(frozen=True)

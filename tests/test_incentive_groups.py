@@ -1,6 +1,7 @@
 """Yearly caps shared by several items reach the scheduler: splitting capped items over two tax
 years is found when it pays (the shape of 26 USC 25C as amended in 2022: a percentage of cost
-with an aggregate cap per tax year that resets each year - reference notes, money.md)."""
+with an aggregate cap per tax year that resets each year: 26 USC 25C(b) and the IRS Instructions
+for Form 5695 (2023), Part II)."""
 
 from __future__ import annotations
 
@@ -54,3 +55,23 @@ def test_one_year_cap_is_applied_exactly_when_together():
     result = plan_roadmap(load_plan_text(text).plan)
     paid = {s.project_id: s.incentives_usd for s in result.roadmap.steps}
     assert paid["heat_pump_water_heater"] + paid["envelope"] == 1200
+
+
+def test_vehicle_credits_are_said_to_be_not_modelled():
+    """Plans with an electric vehicle say the vehicle credits are not modelled (26 USC 30D and
+    25E ended for vehicles acquired after 2025-09-30, Pub. L. 119-21); others do not."""
+    from homeplan.planner.incentives import VEHICLE_CREDITS_NOTE
+
+    base = """\
+home:
+  climate: {hdd65: 6000, heating_design_f: 5, cdd65: 700, cooling_design_f: 90}
+  floor_area_ft2: 1500
+  electrical: {service_amps: 200}
+appliances: [{kind: water_heater, fuel: gas, year_installed: 2015}]
+budget: {usd_per_year: 20000, first_year: 2027}
+"""
+    with_ev = plan_roadmap(load_plan_text(base + "vehicles: [{fuel: gasoline, replace_year: 2028}]\n").plan)
+    without = plan_roadmap(load_plan_text(base).plan)
+    assert VEHICLE_CREDITS_NOTE in with_ev.warnings
+    assert "30D" in VEHICLE_CREDITS_NOTE and "2025-09-30" in VEHICLE_CREDITS_NOTE
+    assert VEHICLE_CREDITS_NOTE not in without.warnings

@@ -143,7 +143,8 @@ def test_npv_equals_numpy_financial_on_the_yearly_flows(path):
 @pytest.mark.parametrize("path", SAMPLES, ids=[p.name for p in SAMPLES])
 def test_npv_plan_beats_the_baselines(path):
     """Free to choose (no all-electric target), the optimised plan is worth at least as much as
-    doing nothing or replacing like-for-like (issue: 'NPV at least the best baseline's')."""
+    doing nothing or replacing like-for-like (a requirement of the planner: NPV at least the
+    best baseline's)."""
     plan, result = run(path, choices__all_electric=False, choices__pins={})
     best = max(b.npv_usd for b in result.roadmap.baselines)
     assert result.roadmap.npv_usd >= best - 1.0

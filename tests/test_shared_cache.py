@@ -78,9 +78,9 @@ def test_a_solar_site_belongs_to_its_weather(homes):
     shared = SharedCache()
     a = shared.place(*homes[0])
     b = shared.place(*homes[1])
-    SiteCache(a.weather, a.solar)
+    SiteCache(a.weather, solar=a.solar)
     with pytest.raises(ValueError, match="same weather"):
-        SiteCache(a.weather, SolarSite(b.weather))
+        SiteCache(a.weather, solar=SolarSite(b.weather))
 
 
 def test_a_shared_place_reads_its_weather_year_through_the_disk_store(homes, tmp_path):

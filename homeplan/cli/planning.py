@@ -119,15 +119,51 @@ def cmd_capacity(args) -> int:
     return 0
 
 
+def _project_cautions(result, planned) -> dict[str, list[str]]:
+    """Caution ids of each listed project: its catalog cautions, and those its planned step adds
+    (a combustion test while fuel still burns)."""
+    edition = result.plan.home.electrical.code_edition
+    out: dict[str, list[str]] = {}
+    for p in result.projects:
+        ids = list(p.cautions)
+        if p.id in planned:
+            ids += [c for c in catalog.caution_ids_of(planned[p.id].cautions, edition) if c]
+        out[p.id] = list(dict.fromkeys(ids))
+    return out
+
+
+def _caution_lines(result, planned) -> list[str]:
+    """Each caution once, with the projects it concerns, then the planning caution."""
+    texts = catalog.cautions(result.plan.home.electrical.code_edition)
+    titles = catalog.caution_titles()
+    labels = {p.id: p.label for p in result.projects}
+    by_caution: dict[str, list[str]] = {}
+    for pid, ids in _project_cautions(result, planned).items():
+        for cid in ids:
+            by_caution.setdefault(cid, []).append(labels[pid])
+    if "electrical" in by_caution:
+        by_caution.setdefault("code_edition", [])
+    lines = []
+    for cid, who in by_caution.items():
+        if cid in texts:
+            about = f" ({', '.join(dict.fromkeys(who))})" if who else ""
+            lines.append(f"caution: {titles.get(cid, cid)}{about}: {' '.join(texts[cid].split())}")
+    lines.append(f"caution: {' '.join(texts['planning'].split())}")
+    return lines
+
+
 def cmd_costs(args) -> int:
     _, result = load_and_plan(args.file, use_store=not args.no_cache)
     rm = result.roadmap
     planned = {s.project_id: s for s in rm.steps}
     if args.json:
+        texts = catalog.cautions(result.plan.home.electrical.code_edition)
+        cautions = _project_cautions(result, planned)
         data = {
             "projects": [
                 {"id": p.id, "label": p.label, "variant": p.variant, "size": p.size, "size_unit": p.size_unit,
                  "cost_today_usd": p.cost_usd, "cost_source": p.cost_source,
+                 "cautions": [texts[c] for c in cautions[p.id] if c in texts],
                  "planned": planned[p.id].to_dict() if p.id in planned else None}
                 for p in result.projects
             ],
@@ -189,6 +225,9 @@ def cmd_costs(args) -> int:
         for u in result.programs:
             paid = ", ".join(f"{y}: {usd(v, 10)}" for y, v in u.paid_by_year.items())
             print(f"  {u.name} ({u.kind.replace('_', ' ')}): {paid}" + (f"; ends {u.ends}" if u.ends else ""))
+    print()
+    for line in _caution_lines(result, planned):
+        print(line)
     return 0
 
 

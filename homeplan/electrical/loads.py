@@ -347,7 +347,8 @@ def nameplate_load(key: str, *, name: str | None = None, existing: bool = True, 
 
     References
     ----------
-    Row sources in ``homeplan/electrical/data/nameplates.csv`` (NEC Annex D examples, electrical.md).
+    Row sources in ``homeplan/electrical/data/nameplates.csv`` (NEC Informative Annex D examples;
+    other rows marked from memory).
     """
     table = tables.nameplates()
     if key not in table:

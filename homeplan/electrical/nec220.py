@@ -270,7 +270,8 @@ def peak_kw_bound_from_hourly_kwh(hourly_kwh: Iterable[float], edition: int = 20
 
     References
     ----------
-    electrical.md (practice note on NEC 220.87); factor in ``code_factors.csv``.
+    Common practice, no source (an inspector's call on NEC 220.87 data, not code text); factor
+    in ``code_factors.csv``.
     """
     values = [float(v) for v in hourly_kwh]
     if not values:

@@ -131,7 +131,7 @@ def section(rule: str, edition: int) -> str:
 
 @cache
 def standard_ocpd_amps() -> tuple[int, ...]:
-    """Standard breaker and fuse ratings, ascending (NEC 240.6(A)).
+    """Standard breaker and fuse ratings, ascending (NEC 2023 240.6(A)).
 
     Returns
     -------

@@ -122,8 +122,8 @@ def cooking_annual_input(spec: CookingSpec) -> tuple[str, float]:
 
     References
     ----------
-    ENERGY STAR Emerging Technology Award 2021; reference/energy.md
-    (kWh_induction = therms * 29.307 * 0.32 / 0.85).
+    ENERGY STAR Emerging Technology Award 2021 (cooking transfer efficiencies), so
+    kWh_induction = therms * 29.307 * 0.32 / 0.85.
     """
     input_kwh = spec.useful_kwh / transfer_efficiency(spec.kind)
     if spec.kind in ("natural_gas", "propane"):

@@ -99,7 +99,7 @@ def ua_from_heating_fuel(heating_fuel_units: float, btu_per_unit: float, efficie
     References
     ----------
     ASHRAE Handbook - Fundamentals, ch. 19 "Energy Estimating and Modeling Methods"
-    (degree-day method, Q = 24 UA HDD / efficiency); reference/energy.md worked example.
+    (degree-day method, Q = 24 UA HDD / efficiency).
     """
     if hdd65 <= 0:
         raise ValueError("hdd65 must be positive")
@@ -126,7 +126,8 @@ def design_heating_load_btuh(ua_btuh_f: float, design_temp_f: float, indoor_f: f
 
     References
     ----------
-    ACCA Manual J (99 % heating design dry-bulb); reference/energy.md (65 F base; 70 F adds ~8 %).
+    ACCA Manual J (99 % heating design dry-bulb; 70 F indoor design, from memory); a 65 F base
+    matches the degree days (70 F adds (70 - T) / (65 - T) - 1, about 8 % at 5 F).
     """
     return ua_btuh_f * max(indoor_f - design_temp_f, 0.0)
 
@@ -154,7 +155,7 @@ def split_summer_baseload(use_units: np.ndarray, days: np.ndarray, n_base_months
     References
     ----------
     Utility-bill "fuel use" method: B = mean use/day in the lowest summer months;
-    F_h,m = use_m - B * days_m (reference/energy.md).
+    F_h,m = use_m - B * days_m (the PRISM-style baseload split, Fels 1986, from memory).
     """
     use = np.asarray(use_units, float)
     d = np.asarray(days, float)
@@ -201,7 +202,7 @@ def calibrate_summer_baseload(use_units: np.ndarray, days: np.ndarray, hdd65: fl
 
     References
     ----------
-    ASHRAE Handbook - Fundamentals, ch. 19 (degree-day method); reference/energy.md.
+    ASHRAE Handbook - Fundamentals, ch. 19 (degree-day method).
     """
     base, heating = split_summer_baseload(use_units, days, n_base_months)
     f_h = float(heating.sum())
@@ -213,7 +214,7 @@ def calibrate_summer_baseload(use_units: np.ndarray, days: np.ndarray, hdd65: fl
 def calibrate_annual(annual_units: float, baseload_units_per_yr: float, hdd65: float,
                      design_temp_f: float, efficiency_frac: float,
                      btu_per_unit: float = 100_000.0, distribution_eff: float = 1.0) -> Calibration:
-    """Annual form of the baseload split: F_h = annual - baseload (reference/energy.md check value).
+    """Annual form of the baseload split: F_h = annual - baseload.
 
     Parameters
     ----------
@@ -244,7 +245,8 @@ def calibrate_annual(annual_units: float, baseload_units_per_yr: float, hdd65: f
 
     References
     ----------
-    reference/energy.md "Heat loss from fuel bills" (F_h = annual - 365 B; UA = Q / (24 HDD65)).
+    ASHRAE Handbook - Fundamentals, ch. 19 (degree-day method): F_h = annual - 365 B;
+    UA = Q / (24 HDD65).
     """
     f_h = annual_units - baseload_units_per_yr
     ua = ua_from_heating_fuel(f_h, btu_per_unit, efficiency_frac, hdd65, distribution_eff)

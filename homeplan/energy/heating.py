@@ -191,15 +191,20 @@ class CoolingSpec:
         Rated cooling capacity, Btu/h (None: unknown); used for the peak demand, not the energy.
     variable_speed : bool
         The compressor modulates (inverter) instead of running at full capacity or not at all.
+    eer2 : float or None
+        Full-load efficiency at 95 F outdoors, Btu/Wh (None: unknown, a typical ratio to SEER2 is
+        used); used for the peak demand, not the energy.
 
     References
     ----------
-    DOE 10 CFR 430 Subpart B Appendix M1 (SEER2); RESNET MINHERS Addendum 71 (SEER2 = 0.95 SEER).
+    DOE 10 CFR 430 Subpart B Appendix M1 (SEER2; EER2 at the 95 F full-load test); RESNET
+    MINHERS Addendum 71 (SEER2 = 0.95 SEER).
     """
 
     seer2: float = 13.4
     capacity_btuh: float | None = None
     variable_speed: bool = False
+    eer2: float | None = None
 
 
 def heating_load_btuh(ua_btuh_f: float, temp_f: np.ndarray, balance_f: float = 65.0) -> np.ndarray:

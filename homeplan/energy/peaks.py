@@ -137,7 +137,8 @@ def design_day_demand(spec: HomeEnergySpec, heating_design_f: float, cooling_des
     if spec.cooling is not None and cooling_design_f is not None and cooling_load_btuh > 0:
         cap = spec.cooling.capacity_btuh or cooling_load_btuh
         delivered = min(cooling_load_btuh, cap) if spec.cooling.variable_speed else cap
-        cooling_kw = delivered / (spec.cooling.seer2 * peak_setting("eer2_per_seer2") * 1000.0)
+        eer2 = spec.cooling.eer2 or spec.cooling.seer2 * peak_setting("eer2_per_seer2")
+        cooling_kw = delivered / (eer2 * 1000.0)  # EER2 in Btu/Wh: Btu/h / EER2 = W
     water_kw = 0.0
     w = spec.water_heater
     if w is not None and w.fuel == "electricity":

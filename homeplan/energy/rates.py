@@ -252,7 +252,7 @@ def electric_bill(rate: ElectricRate, import_kwh: np.ndarray, export_kwh: np.nda
 
     References
     ----------
-    Zinaman et al. (2017) NREL/BR-6A20-68469; reference/money.md "Export credit designs".
+    Zinaman et al. (2017) NREL/BR-6A20-68469 (export credit designs).
     """
     p = hourly_price(rate) if price is None else price
     starts = timegrid.month_start_hours()
@@ -306,7 +306,8 @@ def fuel_bill(price: FuelPrice, monthly_units: np.ndarray, service_open: bool) -
 
     References
     ----------
-    reference/money.md "Prices" (fixed monthly charges; closing gas service as a saving).
+    Common practice, no source: a utility's fixed monthly charge is billed while the account is
+    open, so closing the gas service saves it.
     """
     fixed = price.fixed_usd_per_month if service_open else 0.0
     return np.asarray(monthly_units, float) * price.usd_per_unit + fixed

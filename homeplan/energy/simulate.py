@@ -31,7 +31,7 @@ from homeplan.energy.heating import (
     heating_hourly,
 )
 from homeplan.energy.rates import ElectricRate, FuelPrices, electric_bill, fuel_bill, hourly_price
-from homeplan.energy.solar import SolarArraySpec, SolarSite
+from homeplan.energy.solar import ArrayKeeper, SolarArraySpec, SolarSite
 from homeplan.energy.units import FUEL_UNITS, btu_to_kwh
 from homeplan.energy.vehicles import VehicleSpec, ev_charging_hourly, vehicle_annual_input
 from homeplan.energy.water import (
@@ -217,15 +217,19 @@ class SiteCache:
     ----------
     weather : Weather
         The home's typical-year weather.
+    keep : ArrayKeeper or None
+        Keeps weather-only hourly arrays (the solar output per kWdc) between runs; None keeps
+        them in memory only.
     solar : SolarSite, optional
-        The solar geometry of this weather, already built (default: a new one).
+        The solar geometry of this weather, already built (default: a new one, with ``keep``).
     """
 
-    def __init__(self, weather: Weather, solar: SolarSite | None = None) -> None:
+    def __init__(self, weather: Weather, keep: ArrayKeeper | None = None,
+                 solar: SolarSite | None = None) -> None:
         if solar is not None and solar.weather is not weather:
             raise ValueError("a shared SolarSite must be built on this same weather")
         self.weather = weather
-        self.solar = solar if solar is not None else SolarSite(weather)
+        self.solar = solar if solar is not None else SolarSite(weather, keep)
         self._memo: dict[tuple, object] = {}
         self.hour_of_day = timegrid.hour_of_day()
         self.month = timegrid.hour_month()

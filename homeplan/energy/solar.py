@@ -8,13 +8,16 @@ per-kWdc AC profile by the array size.
 
 from __future__ import annotations
 
+from collections.abc import Callable
 from dataclasses import dataclass
 
 import numpy as np
 
+from homeplan.energy._data import constant
 from homeplan.energy.units import f_to_c
 
 __all__ = [
+    "ArrayKeeper",
     "SolarArraySpec",
     "SolarSite",
     "default_losses_pct",
@@ -81,8 +84,15 @@ class SolarArraySpec:
                 self.gamma_pdc, self.losses_pct, self.temp_model, self.transposition, self.albedo)
 
 
+ArrayKeeper = Callable[[tuple, Callable[[], np.ndarray]], np.ndarray]
+"""``keep(parts, make)``: the array stored under the content key ``parts``, or ``make()``'s,
+stored (a disk store passes its reader; the energy engine itself keeps nothing on disk)."""
+
+
 def default_losses_pct() -> float:
-    """pvlib.pvsystem.pvwatts_losses() with its default loss categories (14.08 %).
+    """PVWatts' default system losses combined as ``100 (1 - prod(1 - L_i / 100))`` (14.08 %),
+    the formula of ``pvlib.pvsystem.pvwatts_losses`` with the categories in ``constants.csv``
+    (computed here so that a plan whose solar output is stored on disk need not import pvlib).
 
     Returns
     -------
@@ -93,9 +103,14 @@ def default_losses_pct() -> float:
     ----------
     Dobos (2014) NREL/TP-6A20-62641 (PVWatts default system losses).
     """
-    from pvlib.pvsystem import pvwatts_losses
+    keep = 1.0
+    for name in _PVWATTS_LOSSES:
+        keep *= 1.0 - constant(f"pvwatts_loss_{name}_pct") / 100.0
+    return 100.0 * (1.0 - keep)
 
-    return float(pvwatts_losses())
+
+_PVWATTS_LOSSES = ("soiling", "shading", "snow", "mismatch", "wiring", "connections", "lid",
+                   "nameplate_rating", "age", "availability")
 
 
 def pvwatts_dc_kw(poa_wm2: np.ndarray, temp_cell_c: np.ndarray, pdc0_kw: float,
@@ -175,8 +190,10 @@ class SolarSite:
     King et al. (2004) SAND2004-3535 (SAPM cell temperature) via pvlib.temperature.sapm_cell.
     """
 
-    def __init__(self, weather) -> None:  # weather: homeplan.energy.weather.Weather
+    def __init__(self, weather, keep: ArrayKeeper | None = None) -> None:
+        # weather: homeplan.energy.weather.Weather
         self.weather = weather
+        self.keep = keep
         self._solpos: dict[str, np.ndarray] | None = None
         self._poa: dict[tuple, tuple[np.ndarray, np.ndarray]] = {}
         self._ac: dict[tuple, np.ndarray] = {}
@@ -262,11 +279,20 @@ class SolarSite:
         """
         key = spec.shape_key()
         if key not in self._ac:
-            g, tc = self.poa_and_cell_temp(spec)
-            losses = default_losses_pct() if spec.losses_pct is None else spec.losses_pct
-            pdc = pvwatts_dc_kw(g, tc, 1.0, spec.gamma_pdc) * (1.0 - losses / 100.0)
-            pdc0_inv = 1.0 / spec.dc_ac_ratio / spec.inverter_eff_nom
-            ac = pvwatts_inverter_kw(pdc, pdc0_inv, spec.inverter_eff_nom)
+
+            def make() -> np.ndarray:
+                g, tc = self.poa_and_cell_temp(spec)
+                losses = default_losses_pct() if spec.losses_pct is None else spec.losses_pct
+                pdc = pvwatts_dc_kw(g, tc, 1.0, spec.gamma_pdc) * (1.0 - losses / 100.0)
+                pdc0_inv = 1.0 / spec.dc_ac_ratio / spec.inverter_eff_nom
+                return pvwatts_inverter_kw(pdc, pdc0_inv, spec.inverter_eff_nom)
+
+            if self.keep is not None:  # kept between runs: pvlib is not even imported then
+                losses = default_losses_pct() if spec.losses_pct is None else spec.losses_pct
+                ac = np.array(self.keep(("solar_ac_kw_per_kwdc", self.weather.digest(),
+                                         key, losses), make), dtype=float)
+            else:
+                ac = make()
             ac.setflags(write=False)
             self._ac[key] = ac
         return self._ac[key]

@@ -122,7 +122,8 @@ def ev_wall_kwh_per_mile(spec: VehicleSpec) -> float:
 
     References
     ----------
-    reference/energy.md "Vehicles": charging efficiency 0.85-0.90; do not count losses twice.
+    From memory: Level 2 charging efficiency 0.85-0.90. The EPA fuel economy label's kWh per
+    100 miles is measured at the wall (40 CFR 600): do not count losses twice.
     """
     if spec.label_is_wall:
         return spec.kwh_per_mile
@@ -147,7 +148,7 @@ def vehicle_annual_input(spec: VehicleSpec) -> tuple[str, float]:
 
     References
     ----------
-    EPA fuel economy label (mpg; kWh/mile); reference/energy.md "Vehicles".
+    EPA fuel economy label (mpg; kWh/mile).
     """
     if spec.fuel == "electricity":
         return "electricity", spec.miles_per_yr * ev_wall_kwh_per_mile(spec) * spec.home_charging_share

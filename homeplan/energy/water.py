@@ -62,7 +62,7 @@ class WaterHeaterSpec:
 
     @classmethod
     def heat_pump(cls, uef: float = 3.75) -> WaterHeaterSpec:
-        """Heat pump water heater (typical UEF 2.0-4.0, reference/energy.md).
+        """Heat pump water heater (typical UEF 2.0-4.0, from memory).
 
         Parameters
         ----------
@@ -115,7 +115,7 @@ def hot_water_delivered_btu_per_yr(gal_per_day: float, rise_f: float) -> float:
 
     References
     ----------
-    reference/energy.md "Water heating" (Q_hw formula).
+    Definition of the Btu (heat to raise 1 lb of water 1 F): Q = gal x 8.34 lb/gal x rise.
     """
     return gal_per_day * constant("lb_per_gallon_water") * rise_f * 365.0
 
@@ -139,7 +139,7 @@ def water_heater_annual_input(spec: WaterHeaterSpec, gal_per_day: float, rise_f:
 
     References
     ----------
-    DOE 10 CFR 430 Appendix E (UEF); reference/energy.md.
+    DOE 10 CFR 430 Subpart B Appendix E (UEF).
     """
     return hot_water_delivered_btu_per_yr(gal_per_day, rise_f) / spec.uef / btu_per_unit(spec.fuel)
 
@@ -200,7 +200,8 @@ def water_heating_hourly(spec: WaterHeaterSpec, gal_per_day: float, mains_f: np.
 
     References
     ----------
-    reference/energy.md Q_hw / UEF; Burch & Christensen (2007) mains temperature (from memory).
+    Q_hw / UEF (DOE 10 CFR 430 Subpart B Appendix E); Burch & Christensen (2007) mains
+    temperature (from memory).
     """
     rise = np.maximum(spec.setpoint_f - mains_f, 0.0)
     daily_units = (gal_per_day * constant("lb_per_gallon_water") * rise) / spec.uef / btu_per_unit(

@@ -119,6 +119,21 @@ class Weather:
             if not self.design_source:
                 object.__setattr__(self, "design_source", "hourly percentiles of this year")
 
+    def digest(self) -> str:
+        """SHA-256 of the hourly values and the site: a content key for results made from them.
+
+        Returns
+        -------
+        str
+            Hex digest.
+        """
+        h = hashlib.sha256()
+        for name in ("temp_f", "ghi_wm2", "dni_wm2", "dhi_wm2", "wind_ms"):
+            h.update(np.ascontiguousarray(getattr(self, name), dtype=float).tobytes())
+        h.update(repr((self.latitude_deg, self.longitude_deg, self.tz_offset_h,
+                       self.altitude_m)).encode())
+        return h.hexdigest()
+
     def temp_percentile_f(self, pct: float) -> float:
         """Hourly dry-bulb percentile (1.0 gives the 99 % heating value, 99.0 the 1 % cooling).
 

@@ -220,7 +220,7 @@ def wright_cost_factor(learning_rate_pct: float, doublings: float) -> float:
     References
     ----------
     T. P. Wright, "Factors affecting the cost of airplanes", J. Aeronautical Sciences 3 (1936).
-    money.md: cost(n doublings) = c0 * (1 - learning_rate)^n.
+    Cost after n doublings of cumulative production: c0 * (1 - learning_rate)^n.
     """
     if not 0 <= learning_rate_pct < 100:
         raise ValueError("learning rate must be in [0, 100) percent per doubling")

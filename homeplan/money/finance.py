@@ -61,7 +61,7 @@ def loan_payment_usd(
 
     References
     ----------
-    Annuity (amortisation) formula; numpy-financial ``pmt``; money.md "loan payment".
+    Annuity (amortisation) formula; numpy-financial ``pmt``.
     """
     n = round(term_years * payments_per_year)
     if n <= 0:

@@ -42,7 +42,7 @@ References
     cap, income tiers by % of AMI.
 IRS Notice 2013-70 / IRS FAQ on energy credits (from memory): rebates and subsidies reduce the
     cost basis on which a credit is computed.
-Pub. L. 119-21 (2025): 25C/25D end after 2025-12-31 (see money.md).
+Pub. L. 119-21 (2025): 25C/25D end after 2025-12-31.
 """
 
 from __future__ import annotations
@@ -107,10 +107,15 @@ PROJECT_KINDS: frozenset[str] = frozenset(
         "close_gas",
         "remove_propane_tank",
         "remove_oil_tank",
+        "windows",
+        "exterior_door",
+        "central_ac",
     }
 )
 """Project kinds a program may cover: the upgrade ids of ``homeplan/data/upgrades.yaml`` plus
-``wiring`` and ``energy_audit`` (items some programs pay for separately)."""
+``wiring`` and ``energy_audit`` (items some programs pay for separately) and ``windows``,
+``exterior_door`` (one purchase per door) and ``central_ac``, which the planner does not propose
+but a household's own purchases may include (26 USC 25C caps them on their own)."""
 
 KIND_ALIASES: Mapping[str, str] = MappingProxyType({"gas_closure": "close_gas"})
 """Other names accepted in catalogs and purchases, mapped to the project kind."""
@@ -442,7 +447,8 @@ class Purchase:
     Raises
     ------
     ValueError
-        If ``cost_usd`` is negative.
+        If ``cost_usd`` is negative, or ``kind`` is not one of :data:`PROJECT_KINDS` (an unknown
+        kind is an error, never a silent $0).
     """
 
     project_id: str
@@ -457,6 +463,10 @@ class Purchase:
 
     def __post_init__(self) -> None:
         object.__setattr__(self, "kind", KIND_ALIASES.get(self.kind, self.kind))
+        if self.kind not in PROJECT_KINDS:
+            raise ValueError(f"purchase {self.project_id!r}: unknown project kind {self.kind!r} "
+                             f"(no program can pay for it; use one of: "
+                             f"{', '.join(sorted(PROJECT_KINDS))})")
         if self.cost_usd < 0:
             raise ValueError(f"purchase {self.project_id!r}: cost_usd cannot be negative")
 

@@ -34,6 +34,10 @@ def rule_problems(plan: Plan) -> list[tuple[tuple, str, str]]:
         if a.fuel and a.fuel not in FUELS_BY_KIND[a.kind]:
             out.append((("appliances", i, "fuel"), f"a {a.kind.replace('_', ' ')} does not burn {a.fuel}",
                         f"use one of {', '.join(sorted(FUELS_BY_KIND[a.kind]))}"))
+        for old, new in (("seer", "seer2"), ("hspf", "hspf2"), ("eer", "eer2")):
+            if getattr(a, old) is not None and getattr(a, new) is not None:
+                out.append((("appliances", i, old), f"both {old} (a pre-2023 rating) and {new} are given",
+                            f"give the one on the equipment's label: {new} from 2023, {old} before"))
         if a.year_installed is not None and a.year_installed > first:
             out.append((("appliances", i, "year_installed"),
                         f"installed in {a.year_installed}, after the plan's first year {first}",

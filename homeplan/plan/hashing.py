@@ -19,7 +19,7 @@ import hashlib
 import json
 from typing import Any
 
-__all__ = ["canonical_json", "content_hash"]
+__all__ = ["canonical_json", "content_hash", "sha256_hex"]
 
 HASH_CHARS = 12
 """Hex characters kept: 48 bits, plenty to tell plans of one household apart by eye."""
@@ -31,8 +31,12 @@ def canonical_json(data: Any) -> str:
                       allow_nan=False)
 
 
+def sha256_hex(text: str) -> str:
+    """SHA-256 (FIPS 180-4) of the UTF-8 bytes of ``text``, as 64 hex characters."""
+    return hashlib.sha256(text.encode("utf-8")).hexdigest()
+
+
 def content_hash(plan: Any) -> str:
     """First 12 hex characters of SHA-256 over the canonical JSON of the validated plan."""
     data = plan.model_dump(mode="json", exclude_defaults=True)
-    digest = hashlib.sha256(canonical_json(data).encode("utf-8")).hexdigest()
-    return digest[:HASH_CHARS]
+    return sha256_hex(canonical_json(data))[:HASH_CHARS]

@@ -277,6 +277,14 @@ class Appliance(Section):
     uef: float | None = Field(None, gt=0.3, le=5.0, description="Water heater UEF.")
     seer2: float | None = Field(None, gt=5, le=40)
     hspf2: float | None = Field(None, gt=3, le=15)
+    seer: float | None = Field(None, gt=5, le=40, description="A pre-2023 rating (equipment made "
+                               "before 2023): converted to SEER2. Give seer or seer2, not both.")
+    hspf: float | None = Field(None, gt=3, le=15, description="A pre-2023 rating: converted to "
+                               "HSPF2. Give hspf or hspf2, not both.")
+    eer2: float | None = Field(None, gt=4, le=30, description="Full-load cooling efficiency at 95 F "
+                               "outdoors, Btu/Wh (sets the summer peak demand).")
+    eer: float | None = Field(None, gt=4, le=30, description="A pre-2023 rating: converted to EER2. "
+                              "Give eer or eer2, not both.")
     capacity_btuh: float | None = Field(None, gt=0, le=500000)
     tank_gal: float | None = Field(None, gt=0, le=200)
     nameplate_va: float | None = Field(None, gt=0, le=60000)

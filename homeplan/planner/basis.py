@@ -35,8 +35,9 @@ from homeplan.energy.heating import (
     ResistanceHeatSpec,
 )
 from homeplan.energy.rates import ElectricRate, FuelPrice, FuelPrices, TouPeriod
+from homeplan.energy.ratings import eer2_from_eer, hspf2_from_hspf, seer2_from_seer
 from homeplan.energy.simulate import HomeEnergySpec, SiteCache, simulate
-from homeplan.energy.solar import SolarArraySpec, SolarSite
+from homeplan.energy.solar import ArrayKeeper, SolarArraySpec, SolarSite
 from homeplan.energy.vehicles import VehicleSpec
 from homeplan.energy.water import WaterHeaterSpec
 from homeplan.energy.weather import Weather
@@ -62,6 +63,10 @@ __all__ = [
     "load_weather",
     "nearest_reference_climate",
     "appliance_efficiency",
+    "rated_eer2",
+    "rated_hspf2",
+    "rated_seer2",
+    "rating_notes",
 ]
 
 def nearest_reference_climate(lat: float, lon: float) -> tuple[ReferenceClimate, float]:
@@ -149,12 +154,49 @@ def _cooling_appliance(plan: Plan) -> Appliance | None:
     return None
 
 
+def rated_seer2(a: Appliance) -> float | None:
+    """The appliance's SEER2: as given, or converted from a pre-2023 SEER (split-system factor,
+    the default when the equipment type is not known; RESNET MINHERS Addendum 71)."""
+    if a.seer2 is not None:
+        return a.seer2
+    return seer2_from_seer(a.seer) if a.seer is not None else None
+
+
+def rated_hspf2(a: Appliance) -> float | None:
+    """The heat pump's HSPF2: as given, or converted from a pre-2023 HSPF (split-system factor;
+    RESNET MINHERS Addendum 71)."""
+    if a.hspf2 is not None:
+        return a.hspf2
+    return hspf2_from_hspf(a.hspf) if a.hspf is not None else None
+
+
+def rated_eer2(a: Appliance) -> float | None:
+    """The appliance's EER2: as given, or converted from a pre-2023 EER (split-system factor, the
+    ratio of DOE's paired 2023 standard levels; 10 CFR 430.32(c))."""
+    if a.eer2 is not None:
+        return a.eer2
+    return eer2_from_eer(a.eer) if a.eer is not None else None
+
+
+def rating_notes(plan: Plan) -> list[str]:
+    """One note per pre-2023 rating converted, with the figure used."""
+    out = []
+    for a in plan.appliances:
+        for old, new, value in (("SEER", "SEER2", rated_seer2(a)), ("HSPF", "HSPF2", rated_hspf2(a)),
+                                ("EER", "EER2", rated_eer2(a))):
+            given = getattr(a, old.lower())
+            if given is not None and getattr(a, new.lower()) is None:
+                out.append(f"the {a.key.replace('_', ' ')}'s {old} {given:g} (a pre-2023 rating) is "
+                           f"counted as {new} {value:.1f} (split-system conversion)")
+    return out
+
+
 def existing_heat_pump(a: Appliance, design_load_btuh: float) -> HeatPumpSpec:
     """Today's heat pump: a typical single-stage unit of its size (else the design load, at least
     1.5 t) with backup strips, its COP curve scaled by its HSPF2 against a 7.5 HSPF2 unit."""
     cap = a.capacity_btuh or max(design_load_btuh, performance()["hp_min_btuh"])
-    hp = HeatPumpSpec.typical("single_stage", cap, backup="resistance", seer2=a.seer2 or 14.3)
-    hspf_ratio = (a.hspf2 or 7.5) / 7.5
+    hp = HeatPumpSpec.typical("single_stage", cap, backup="resistance", seer2=rated_seer2(a) or 14.3)
+    hspf_ratio = (rated_hspf2(a) or 7.5) / 7.5
     return replace(hp, cop_47=hp.cop_47 * hspf_ratio, cop_17=hp.cop_17 * hspf_ratio,
                    cop_5=max(1.0, hp.cop_5 * hspf_ratio))
 
@@ -175,8 +217,9 @@ def cooling_spec_today(plan: Plan) -> CoolingSpec | None:
     a = _cooling_appliance(plan)
     if a is None:
         return None
-    return CoolingSpec(seer2=a.seer2 or (10.0 if a.kind == "room_ac" else 13.0),
-                       capacity_btuh=a.capacity_btuh, variable_speed=a.kind == "mini_split")
+    return CoolingSpec(seer2=rated_seer2(a) or (10.0 if a.kind == "room_ac" else 13.0),
+                       capacity_btuh=a.capacity_btuh, variable_speed=a.kind == "mini_split",
+                       eer2=rated_eer2(a))
 
 
 def water_spec_today(plan: Plan) -> WaterHeaterSpec | None:
@@ -187,7 +230,7 @@ def water_spec_today(plan: Plan) -> WaterHeaterSpec | None:
             if kind == "heat_pump":
                 return WaterHeaterSpec.heat_pump(a.uef or performance()["hpwh_240v_uef"])
             default_uef = {"natural_gas": 0.62, "propane": 0.62, "heating_oil": 0.55,
-                           "electricity": 0.92}[fuel]  # reference notes: typical UEF (from memory)
+                           "electricity": 0.92}[fuel]  # typical UEF (from memory)
             if kind == "tankless" and fuel != "electricity":
                 default_uef = 0.87
             return WaterHeaterSpec(fuel=fuel, uef=a.uef or default_uef, kind=kind or "storage")
@@ -296,12 +339,14 @@ def _bill_year_site(plan: Plan, base_dir: Path | None, typical: Weather) -> tupl
 
 def home_basis(plan: Plan, base_dir: Path | None = None,
                make_year: Callable[[wx.ClimateNormals], Weather] | None = None,
+               keep: ArrayKeeper | None = None,
                place: tuple[Weather, str, SolarSite] | None = None) -> HomeBasis:
     """Today's home: weather, solar geometry, heat loss and equipment, fitted to the bills.
 
     ``place`` gives the weather year, its note and its solar geometry when they are already
     known (homes of one place share them: :mod:`homeplan.planner.shared`); otherwise they are
-    loaded for this home alone (``make_year``: see :func:`load_weather`)."""
+    loaded for this home alone (``make_year``: see :func:`load_weather`; ``keep``: see
+    :class:`~homeplan.energy.simulate.SiteCache`)."""
     weather, wnote, solar_site = (place if place is not None
                                   else (*load_weather(plan, base_dir, make_year), None))
     parts = {"water_heater": water_spec_today(plan), "cooking": cooking_spec_today(plan),
@@ -318,7 +363,7 @@ def home_basis(plan: Plan, base_dir: Path | None = None,
     if plan.home.battery is not None:
         b = plan.home.battery
         battery = BatterySpec(capacity_kwh=b.capacity_kwh, power_kw=b.power_kw)
-    site = SiteCache(weather, solar_site)
+    site = SiteCache(weather, keep, solar_site)
     spec = HomeEnergySpec(
         weather=weather, ua_btuh_f=float(cal.ua_btuh_f),
         heating=heating_spec_today(plan, float(cal.design_load_btuh)),
@@ -339,7 +384,7 @@ def home_basis(plan: Plan, base_dir: Path | None = None,
                                   f"{spec.heating_balance_f:g} F)", estimated=False)
         notes = [f"heat loss fitted to your {heat_fit.fuel} bills; the house needs heat below "
                  f"about {spec.heating_balance_f:g} F outdoors"]
-    notes = [*notes, *fit_notes]
+    notes = [*notes, *fit_notes, *rating_notes(plan)]
     if bill_weather:
         wnote += f"; bills fitted under the billed year's weather ({bill_weather})"
     if not any(f.fuel == "electricity" for f in fits):

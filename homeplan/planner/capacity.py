@@ -97,7 +97,7 @@ def existing_loads(plan: Plan) -> list[Load]:
                         source="your nameplate" if a.nameplate_va else r["source"]))
         if a.kind == "heat_pump":  # existing heat pumps usually carry strips that can run with them
             out.append(Load(name=f"{a.key} strips 10 kW", va=10000.0, category="supplemental_heat",
-                            source="electrical reference notes: strip heat 10 kW = 41.7 A (assumed)"))
+                            source="assumed 10 kW strips (from memory: a common size; 41.7 A at 240 V)"))
     r = existing_load_row("dishwasher")
     out.append(Load(name="dishwasher (assumed)", va=float(r["va"]), category="appliance", volts=120,
                     source=r["source"]))

@@ -99,7 +99,8 @@ def _run(plan: Plan, base_dir: Path | None, cache: PlannerCache | None,
     ctx = ctx.with_details(capacity.details)
     incentives = IncentiveModel(ctx, plan_programs(ctx))
     outcome = schedule(ctx, capacity.model, incentives)
-    notes = (ctx.basis.weather_note, *ctx.basis.notes, *capacity.model.notes, *outcome.notes)
+    notes = (ctx.basis.weather_note, *ctx.basis.notes, *capacity.model.notes, *outcome.notes,
+             *incentives.notes)
     result = with_price_risk(ctx, build_result(ctx, capacity.model, incentives, outcome, notes))
     if reading is None:
         return result

@@ -90,12 +90,14 @@ class PlannerCache:
         with self._lock:
             hit = self._basis.get(key)
         if hit is None:
-            make_year = self.store.weather_year if self.store else None
+            store = self.store
+            make_year = store.weather_year if store else None
+            keep = store.keep_array if store else None
             place = None
             if self.shared is not None:
-                p = self.shared.place(plan, base_dir, make_year)
+                p = self.shared.place(plan, base_dir, make_year, keep)
                 place = (p.weather, p.note, p.solar)
-            hit = home_basis(plan, base_dir, make_year, place)
+            hit = home_basis(plan, base_dir, make_year, keep, place)
             with self._lock:
                 self._basis = {key: hit}  # one home per cache: drop other homes
                 self._states.clear()

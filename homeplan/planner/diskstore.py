@@ -1,9 +1,10 @@
-"""A content-keyed store on disk for what a home's plan computes before it plans: the weather year.
+"""A content-keyed store on disk for what a home's plan computes before it plans.
 
-The built-in typical year of a site (temperature fit, sky model and solar position) is the
-costliest step of a first plan and depends only on the site's climate numbers, so it is kept
+The built-in typical year of a site (temperature fit, sky model and solar position) and the
+solar output per kWdc of each array shape on that weather are the costliest steps of a first
+plan (with pvlib's import, about a second of CPU) and depend only on the site, so they are kept
 between runs in the user's cache folder (``platformdirs.user_cache_dir("homeplan")``, or
-``HOMEPLAN_CACHE_DIR``). A second run of the same or an edited plan of that home reads it back.
+``HOMEPLAN_CACHE_DIR``). A second run of the same or an edited plan of that home reads them back.
 
 Rules kept by the store:
 
@@ -27,21 +28,22 @@ exposed by Python's ``os.replace``.
 from __future__ import annotations
 
 import contextlib
+import functools
 import hashlib
 import json
 import os
 import tempfile
-from dataclasses import dataclass
+from collections.abc import Callable
+from dataclasses import asdict, dataclass
+from importlib import metadata
 from pathlib import Path
-from typing import TYPE_CHECKING
 
 import numpy as np
 
 from homeplan import __version__
+from homeplan.energy import solar
 from homeplan.energy import weather as wx
-
-if TYPE_CHECKING:
-    from homeplan.energy.weather import ClimateNormals, Weather
+from homeplan.energy.weather import ClimateNormals, Weather
 
 __all__ = ["DEFAULT_MAX_MB", "DiskStore", "default_store"]
 
@@ -51,10 +53,11 @@ _HOURS = 8760
 
 
 def _code_fingerprint() -> str:
-    """Hash of the code that makes a weather year: its module's source and pvlib's version."""
-    from importlib import metadata
-
-    h = hashlib.sha256(Path(wx.__file__).read_bytes())
+    """Hash of the code that makes the entries: the weather and solar modules' source and
+    pvlib's version."""
+    h = hashlib.sha256()
+    for module in (wx, solar):
+        h.update(Path(module.__file__).read_bytes())
     with contextlib.suppress(metadata.PackageNotFoundError):
         h.update(metadata.version("pvlib").encode())
     return h.hexdigest()
@@ -74,6 +77,11 @@ class DiskStore:
 
     folder: Path
     max_mb: float = DEFAULT_MAX_MB
+
+    @functools.cached_property
+    def code(self) -> str:
+        """Fingerprint of the code that makes the entries (read once per store)."""
+        return _code_fingerprint()
 
     def _path(self, kind: str, key: str) -> Path:
         return self.folder / f"{kind}-{key}{_SUFFIX}"
@@ -155,6 +163,32 @@ class DiskStore:
                 p.unlink()
                 total -= size
 
+    def keep_array(self, parts: tuple, make: Callable[[], np.ndarray]) -> np.ndarray:
+        """An hourly array (8760 values) stored under the content key ``parts``, or ``make()``'s,
+        stored. Used as the solar model's :data:`~homeplan.energy.solar.ArrayKeeper`.
+
+        Parameters
+        ----------
+        parts : tuple
+            What the array is made from (JSON-able values and digests).
+        make : callable
+            Makes the array when the store does not hold it.
+
+        Returns
+        -------
+        numpy.ndarray
+            The array (8760 values).
+        """
+        key = hashlib.sha256(json.dumps(
+            {"parts": parts, "version": __version__, "code": self.code},
+            sort_keys=True, default=str).encode()).hexdigest()
+        got = self.read("hourly", key, ("values",))
+        if got is not None and got["values"].shape == (_HOURS,) and np.isfinite(got["values"]).all():
+            return got["values"]
+        values = np.asarray(make(), dtype=float)
+        self.write("hourly", key, {"values": values})
+        return values
+
     def weather_year(self, normals: ClimateNormals) -> Weather:
         """The built-in typical year for ``normals``, from the store or made and stored.
 
@@ -168,10 +202,8 @@ class DiskStore:
         homeplan.energy.weather.Weather
             The same year :func:`homeplan.energy.weather.synthetic_weather` returns.
         """
-        from dataclasses import asdict
-
         key = hashlib.sha256(json.dumps(
-            {"normals": asdict(normals), "version": __version__, "code": _code_fingerprint()},
+            {"normals": asdict(normals), "version": __version__, "code": self.code},
             sort_keys=True, default=str).encode()).hexdigest()
         names = (*wx.SYNTHETIC_HOURLY_KEYS, *wx.SUN_KEYS)
         got = self.read("weather", key, names)

@@ -39,9 +39,21 @@ from homeplan.planner.projects import cost_in_year_usd
 from homeplan.result.figures import ProgramUse
 from homeplan.schedule.problem import IncentiveGroup
 
-__all__ = ["AwardLine", "IncentiveModel", "load_programs", "plan_programs"]
+__all__ = ["VEHICLE_CREDITS_NOTE", "AwardLine", "IncentiveModel", "load_programs", "plan_programs"]
 
 MONEY_KIND = {"close_gas": "gas_closure"}
+VEHICLE_CREDITS_NOTE = (
+    "Vehicle tax credits are not modelled: the clean vehicle credits for new (26 USC 30D) and "
+    "used (26 USC 25E) vehicles depend on the vehicle's price and the buyer's income, and ended "
+    "for vehicles acquired after 2025-09-30 (Pub. L. 119-21); an electric vehicle's cost here "
+    "is its premium over a gasoline car, before any credit or dealer discount.")
+"""Said in the result of every plan with an electric vehicle.
+
+References
+----------
+26 USC 30D and 25E as amended by Pub. L. 117-169; Pub. L. 119-21 (2025) ended both for vehicles
+acquired after 2025-09-30.
+"""
 INSTALL_MONTH_DAY = (3, 1)
 """Purchases are dated 1 March of their year: quotes in the winter, installation in spring."""
 
@@ -165,6 +177,13 @@ class IncentiveModel:
                                           arrives_after_years=lag, adds_to_budget=pos, name=prog.name,
                                           active_years=tuple(years)))
         return tuple(out)
+
+    @property
+    def notes(self) -> tuple[str, ...]:
+        """What the incentive estimate leaves out that the plan's projects would need."""
+        if any(d.kind == "ev" for d in self.ctx.details.values()):
+            return (VEHICLE_CREDITS_NOTE,)
+        return ()
 
     def purchase(self, pid: str, year: int, cost_usd: float) -> Purchase:
         d = self.ctx.details[pid]

@@ -25,7 +25,7 @@ from dataclasses import dataclass
 from pathlib import Path
 from typing import Any, TypeVar
 
-from homeplan.energy.solar import SolarSite
+from homeplan.energy.solar import ArrayKeeper, SolarSite
 from homeplan.energy.weather import ClimateNormals, Weather
 from homeplan.plan.model import Plan
 from homeplan.planner.basis import load_weather
@@ -76,14 +76,16 @@ class SharedCache:
         self._memo: dict[str, Any] = {}
 
     def place(self, plan: Plan, base_dir: Path | None,
-              make_year: Callable[[ClimateNormals], Weather] | None = None) -> Place:
+              make_year: Callable[[ClimateNormals], Weather] | None = None,
+              keep: ArrayKeeper | None = None) -> Place:
         """The plan's weather year and solar geometry (computed once per place; ``make_year``:
-        see :func:`~homeplan.planner.basis.load_weather`)."""
+        see :func:`~homeplan.planner.basis.load_weather`; ``keep``: see
+        :class:`~homeplan.energy.simulate.SiteCache`)."""
         key = place_key(plan, base_dir)
         hit = self._places.get(key)
         if hit is None:
             weather, note = load_weather(plan, base_dir, make_year)
-            hit = Place(weather, note, SolarSite(weather))
+            hit = Place(weather, note, SolarSite(weather, keep))
             self._places[key] = hit
             while len(self._places) > self.max_places:
                 self._places.popitem(last=False)

@@ -142,7 +142,8 @@ def heat_pump_selection(plan: Plan, basis: HomeBasis, variant: str | None) -> He
 def _with_quoted_ratings(hp: HeatPumpSpec, opt: ProjectOption | None) -> HeatPumpSpec:
     """Apply the ratings of the quoted equipment (plan options) to a catalog heat pump.
 
-    HSPF2 scales the COP curve (seasonal COP = HSPF / 3.412, energy reference notes); a COP or a
+    HSPF2 scales the COP curve (seasonal COP = HSPF2 / 3.412, HSPF2 being Btu per Wh under DOE
+    10 CFR 430 Subpart B Appendix M1); a COP or a
     capacity at 5 F from the equipment's data sheet replaces the 5 F rating point.
     """
     if opt is None:

@@ -671,10 +671,21 @@ class HomeplanApp(App[int]):
             if a.kind in ("furnace", "boiler"):
                 fields.append(FieldSpec((*base, "afue"), "AFUE", "float", a.afue, optional=True,
                                         help="0.3 to 1.0, e.g. 0.80"))
+            ratings = []
             if a.kind in ("central_ac", "room_ac", "heat_pump", "mini_split"):
-                fields.append(FieldSpec((*base, "seer2"), "SEER2", "float", a.seer2, optional=True))
+                ratings += [("seer", "SEER"), ("eer", "EER")]
             if a.kind in ("heat_pump", "mini_split"):
-                fields.append(FieldSpec((*base, "hspf2"), "HSPF2", "float", a.hspf2, optional=True))
+                ratings.insert(1, ("hspf", "HSPF"))
+            for old, label in ratings:
+                # the rating on the label: a pre-2023 one stays in its own field (converted by
+                # the planner) rather than being offered as a second, conflicting figure
+                if getattr(a, old) is not None and getattr(a, f"{old}2") is None:
+                    fields.append(FieldSpec((*base, old), f"{label} (pre-2023)", "float",
+                                            getattr(a, old), optional=True,
+                                            help=f"Converted to {label}2 by the planner."))
+                else:
+                    fields.append(FieldSpec((*base, f"{old}2"), f"{label}2", "float",
+                                            getattr(a, f"{old}2"), optional=True))
             if a.kind in ("furnace", "boiler", "central_ac", "heat_pump", "mini_split"):
                 fields.append(FieldSpec((*base, "capacity_btuh"), "Size", "float", a.capacity_btuh,
                                         optional=True, unit="Btu/h"))

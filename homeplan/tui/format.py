@@ -11,6 +11,7 @@ from collections.abc import Sequence
 __all__ = [
     "BLOCKS",
     "ESTIMATES",
+    "INVENTED",
     "bar",
     "fuel_label",
     "kusd",
@@ -90,8 +91,17 @@ def bar(value: float, top: float, width: int) -> str:
     return "█" * min(full, width) + (partial if full < width else "")
 
 
+INVENTED = " (invented)"
+"""The mark of invented demo names: kept when a name is cut to fit, so it always shows."""
+
+
 def trunc(text: str, width: int) -> str:
-    return text if len(text) <= width else text[: max(0, width - 1)] + "…"
+    if len(text) <= width:
+        return text
+    if text.endswith(INVENTED) and width > len(INVENTED) + 3:
+        head = text[: -len(INVENTED)]
+        return head[: width - len(INVENTED) - 1] + "…" + INVENTED
+    return text[: max(0, width - 1)] + "…"
 
 
 def fuel_label(key: str) -> str:

@@ -1,4 +1,4 @@
-"""NEC 220.82 / 220.83 / 220.87 calculations against Annex D and hand calculations.
+"""NEC 2023 220.82 / 220.83 / 220.87 calculations against Informative Annex D and hand calculations.
 
 Demo homes here are invented. Hand calculations are shown in the comments.
 """
@@ -47,13 +47,13 @@ def test_annex_d_example_d2a_heating_larger_than_ac(edition: int) -> None:
         _va("Electric heat, 5 rooms", 9000, "heating", heating_units=5),
     ]
     r = nec220_82(Dwelling(1500), loads, Service(100), edition=edition)
-    assert r.total_va == pytest.approx(21480)  # NEC Annex D, Example D2(a)
-    assert r.amps == pytest.approx(89.5)  # NEC Annex D, Example D2(a)
+    assert r.total_va == pytest.approx(21480)  # NEC 2023 Informative Annex D, Example D2(a)
+    assert r.amps == pytest.approx(89.5)  # NEC 2023 Informative Annex D, Example D2(a)
     assert r.fits
 
 
 def test_annex_d_example_d2a_smaller_ac_is_omitted() -> None:
-    # NEC Annex D, Example D2(a): A/C omitted because the heating (3,600 VA counted) is larger.
+    # NEC 2023 Informative Annex D, Example D2(a): A/C omitted because the heating (3,600 VA counted) is larger.
     # The 3,000 VA A/C is a hypothetical value smaller than the heating, not the Annex's figure.
     loads = [
         _va("Range", 12000, "range"),
@@ -64,7 +64,7 @@ def test_annex_d_example_d2a_smaller_ac_is_omitted() -> None:
         _va("Air conditioner", 3000, "cooling"),
     ]
     r = nec220_82(Dwelling(1500), loads, Service(100))
-    assert r.total_va == pytest.approx(21480)  # NEC Annex D, Example D2(a)
+    assert r.total_va == pytest.approx(21480)  # NEC 2023 Informative Annex D, Example D2(a)
     ac = next(row for row in r.rows if row.load_name == "Air conditioner")
     assert ac.counted_va == 0.0
 
@@ -81,8 +81,8 @@ def test_annex_d_example_d2b_ac_larger_than_heat(edition: int) -> None:
         _va("Room A/C x6 (7 A at 240 V)", 6 * 7 * 240, "cooling"),
     ]
     r = nec220_82(Dwelling(1500), loads, Service(125), edition=edition)
-    assert r.total_va == pytest.approx(29200)  # NEC Annex D, Example D2(b)
-    assert r.amps == pytest.approx(121.7, abs=0.05)  # NEC Annex D, Example D2(b)
+    assert r.total_va == pytest.approx(29200)  # NEC 2023 Informative Annex D, Example D2(b)
+    assert r.amps == pytest.approx(121.7, abs=0.05)  # NEC 2023 Informative Annex D, Example D2(b)
 
 
 @pytest.mark.parametrize("edition", EDITIONS_3VA)
@@ -95,8 +95,8 @@ def test_annex_d_example_d2c_heat_pump_with_backup(edition: int) -> None:
         *heat_pump_loads(compressor_va=24 * 240, strips_kw=15),
     ]
     r = nec220_82(Dwelling(2000), loads, Service(150), edition=edition)
-    assert r.total_va == pytest.approx(34790)  # NEC Annex D, Example D2(c)
-    assert round(r.amps) == 145  # NEC Annex D, Example D2(c) (144.96 A, rounded in the Annex)
+    assert r.total_va == pytest.approx(34790)  # NEC 2023 Informative Annex D, Example D2(c)
+    assert round(r.amps) == 145  # NEC 2023 Informative Annex D, Example D2(c) (144.96 A, rounded in the Annex)
 
 
 def test_220_82_interlocked_strips_omit_compressor() -> None:
@@ -115,7 +115,7 @@ def test_220_82_interlocked_strips_omit_compressor() -> None:
 
 def test_220_82_edition_2026_lighting_factor() -> None:
     # NEC 2026 lighting load of 2 VA/ft2: from memory, not checked against the adopted text
-    # (the project's electrical notes say 'reportedly'). NEC Annex D, Example D2(a) redone by hand:
+    # (reported for the 2026 edition). NEC 2023 Informative Annex D, Example D2(a) redone by hand:
     # 1500 x 2 = 3,000 + 4,500 + 12,000 + 2,500 + 1,200 + 5,000 = 28,200
     # 10,000 + 0.4 x 18,200 = 17,280; + 0.4 x 9,000 heat = 3,600 -> 20,880 VA
     loads = [
@@ -146,7 +146,7 @@ def _case_a_home() -> list[Load]:
 def test_220_83_a_no_new_hvac_by_hand() -> None:
     # Other load: 1,800 x 3 = 5,400 + 3 x 1,500 = 4,500 + 1,200 + 5,000 + 4,500 + 12,000
     #   + 48 A x 240 V = 11,520  -> 44,120 VA
-    # 8,000 + 0.4 x 36,120 = 8,000 + 14,448 = 22,448 VA ; / 240 = 93.53 A  (NEC 220.83(A) text)
+    # 8,000 + 0.4 x 36,120 = 8,000 + 14,448 = 22,448 VA ; / 240 = 93.53 A  (NEC 2023 220.83(A) text)
     r = nec220_83(Dwelling(1800), _case_a_home(), Service(100))
     assert r.case == "A"
     assert r.total_va == pytest.approx(22448)  # hand calculation above
@@ -156,7 +156,8 @@ def test_220_83_a_no_new_hvac_by_hand() -> None:
 
 
 def test_220_83_a_existing_ac_options() -> None:
-    # Existing 4,000 VA A/C (invented). Code silent (electrical.md), so both options:
+    # Existing 4,000 VA A/C (invented). NEC 2023 220.83(A) does not say whether existing A/C is
+    # an "other load" or counted at 100 % (from memory of the text), so both options:
     # other_load: other 48,120 -> 8,000 + 0.4 x 40,120 = 24,048 VA = 100.2 A (does not fit 100 A)
     # 100_percent: 22,448 + 4,000 = 26,448 VA = 110.2 A
     loads = [*_case_a_home(), _va("Central A/C", 4000, "cooling")]
@@ -179,7 +180,7 @@ def _case_b_base() -> list[Load]:
 
 def test_220_83_b_heat_pump_with_strips_by_hand() -> None:
     # Other: 4,500 + 3,000 + 1,500 + 1,200 + 5,000 + 4,500 = 19,700
-    #   -> 8,000 + 0.4 x 11,700 = 12,680 VA                       (NEC 220.83(B))
+    #   -> 8,000 + 0.4 x 11,700 = 12,680 VA                       (NEC 2023 220.83(B))
     # Heating: compressor 5,760 + strips 5,000 at 100 % = 10,760 (practice, from memory)
     #   > cooling 5,760 -> total 23,440 VA = 97.67 A
     loads = [*_case_b_base(), *heat_pump_loads(compressor_va=5760, strips_kw=5)]
@@ -199,8 +200,8 @@ def test_220_83_b_interlocked_strips_by_hand() -> None:
 
 
 def test_220_83_b_space_heat_units_by_hand() -> None:
-    # 3 separately controlled units (< 4) at 100 %: 12,680 + 8,000 = 20,680 VA   (NEC 220.83(B))
-    # 4 units go into the other load: 27,700 -> 8,000 + 0.4 x 19,700 = 15,880 VA (NEC 220.83(B))
+    # 3 separately controlled units (< 4) at 100 %: 12,680 + 8,000 = 20,680 VA   (NEC 2023 220.83(B))
+    # 4 units go into the other load: 27,700 -> 8,000 + 0.4 x 19,700 = 15,880 VA (NEC 2023 220.83(B))
     three = [*_case_b_base(), _va("Baseboard", 8000, "heating", heating_units=3, existing=False)]
     four = [*_case_b_base(), _va("Baseboard", 8000, "heating", heating_units=4, existing=False)]
     assert nec220_83(Dwelling(1500), three, Service(100)).total_va == pytest.approx(20680)  # above
@@ -233,8 +234,8 @@ def test_breakdown_sums_to_total_and_carries_caution() -> None:
 def test_edition_changes_section_labels() -> None:
     r20 = nec220_83(Dwelling(1800), _case_a_home(), Service(100), edition=2020)
     r23 = nec220_83(Dwelling(1800), _case_a_home(), Service(100), edition=2023)
-    assert r20.rows[0].section == "NEC 2020 220.14(J)"  # electrical.md (2020 numbering)
-    assert r23.rows[0].section == "NEC 2023 220.41"  # electrical.md (2023 numbering)
+    assert r20.rows[0].section == "NEC 2020 220.14(J)"  # NEC 2020 numbering (from memory)
+    assert r23.rows[0].section == "NEC 2023 220.41"  # NEC 2023 220.41, general lighting
 
 
 # ------------------------------------------------------------------ 220.87
@@ -243,8 +244,9 @@ def test_edition_changes_section_labels() -> None:
 def test_220_87_twelve_month_peak_with_and_without_125() -> None:
     # 9.6 kW peak (invented), 100 A service, new 48 A charger + 120 V HPWH (both continuous)
     # 125 % on new continuous: 9,600 x 1.25 = 12,000 + 11,520 x 1.25 = 14,400 + 400 x 1.25 = 500
-    #   = 26,900 VA = 112.08 A -> does not fit                     (NEC 220.87)
-    # 100 %: 12,000 + 11,520 + 400 = 23,920 VA = 99.67 A -> fits   (inspectors differ, electrical.md)
+    #   = 26,900 VA = 112.08 A -> does not fit                     (NEC 2023 220.87)
+    # 100 %: 12,000 + 11,520 + 400 = 23,920 VA = 99.67 A -> fits   (inspectors differ: common
+    # practice, no source)
     new = [ev_charger_load(48), nameplate_load("hpwh_120v_shared", existing=False)]
     m = MeasuredDemand(peak_kw=9.6)
     r125 = nec220_87(m, new, Service(100))
@@ -266,7 +268,7 @@ def test_220_87_thirty_day_recording_by_hand() -> None:
 
 def test_220_87_new_hvac_larger_of_heating_cooling() -> None:
     # 8 kW peak: 10,000 + heat pump compressor 5,760 + strips 5,000 (100 %, larger than cooling)
-    #   = 20,760 VA                                   (NEC 220.87 + 220.60, hand calculation)
+    #   = 20,760 VA                                   (NEC 2023 220.87 + 220.60, hand calculation)
     r = nec220_87(MeasuredDemand(8.0), heat_pump_loads(compressor_va=5760, strips_kw=5), Service(100))
     assert r.total_va == pytest.approx(20760)  # hand calculation above
 
@@ -293,12 +295,13 @@ def test_220_87_counts_a_new_dryer_at_5000_va_at_least() -> None:
 
 
 def test_220_87_refused_with_solar_unless_allowed() -> None:
-    # electrical.md: 2020 text excludes services with solar or peak shaving
+    # NEC 2020 220.87 Exception (from memory): the 30-day recording is not permitted where the
+    # service has a renewable energy system or peak-load shaving; refused unless allowed
     with pytest.raises(MethodNotApplicableError, match="220.87"):
         nec220_87(MeasuredDemand(5.0), [], Service(100), has_solar_or_battery=True)
     r = nec220_87(MeasuredDemand(5.0), [], Service(100), has_solar_or_battery=True,
                   allow_with_solar_or_battery=True)
-    assert r.total_va == pytest.approx(6250)  # 5,000 x 1.25, NEC 220.87
+    assert r.total_va == pytest.approx(6250)  # 5,000 x 1.25, NEC 2023 220.87
 
 
 def test_220_87_thirty_days_needs_seasonal_adjustment() -> None:
@@ -307,7 +310,8 @@ def test_220_87_thirty_days_needs_seasonal_adjustment() -> None:
 
 
 def test_hourly_bound() -> None:
-    # electrical.md: hourly kWh x 4 bounds the 15-minute kW (an inspector's call, not code)
+    # common practice, no source: hourly kWh x 4 bounds the 15-minute kW (an inspector's call,
+    # not code): the largest 15-minute average in an hour is at most 4 x the hour's kWh
     assert peak_kw_bound_from_hourly_kwh([1.2, 3.5, 2.0]) == pytest.approx(14.0)
 
 

@@ -31,13 +31,13 @@ def test_120_percent_rule_table(bus: int, main: int, amps: float, kw: float) -> 
 
 
 def test_100_percent_rule_by_hand() -> None:
-    # NEC 705.12(B) 100 % rule: (225 - 200) / 1.25 = 20 A ; 200/200 -> 0 A
+    # NEC 2023 705.12(B) 100 % rule: (225 - 200) / 1.25 = 20 A ; 200/200 -> 0 A
     assert max_inverter_amps(225, 200, rule="100") == pytest.approx(20)  # hand calculation
     assert max_inverter_amps(200, 200, rule="100") == pytest.approx(0)  # hand calculation
 
 
 def test_sum_of_breakers_by_hand() -> None:
-    # NEC 705.12(B) sum of breakers: 200 A bus, load breakers 160 A -> 40 A breaker (240.6(A))
+    # NEC 2023 705.12(B) sum of breakers: 200 A bus, load breakers 160 A -> 40 A breaker (240.6(A))
     # -> 40 / 1.25 = 32 A inverter
     assert max_inverter_amps(200, 200, rule="sum_of_breakers", load_breakers_amps=[50, 40, 30, 20, 20]) == (
         pytest.approx(32)  # hand calculation above
@@ -51,10 +51,11 @@ def test_sum_of_breakers_by_hand() -> None:
 
 
 def test_derated_main_by_hand() -> None:
-    # electrical.md: 200 A bus with a 175 A main -> (1.2 x 200 - 175) / 1.25 = 52 A (12.48 kW)
+    # NEC 2023 705.12(B), 120 % rule: 200 A bus with a 175 A main
+    #   -> (1.2 x 200 - 175) / 1.25 = 52 A (12.48 kW)
     opts = derated_main_options(Service(200), calculated_load_amps=160, inverter_output_amps=40)
     first = opts[0]
-    assert first.main_breaker_amps == 175  # next standard size below 200, NEC 240.6(A)
+    assert first.main_breaker_amps == 175  # next standard size below 200, NEC 2023 240.6(A)
     assert first.max_inverter_amps == pytest.approx(52)  # hand calculation above
     assert first.max_inverter_kw == pytest.approx(12.48)
     assert first.backfeed_fits and first.load_fits
@@ -62,7 +63,7 @@ def test_derated_main_by_hand() -> None:
     opt150 = next(o for o in opts if o.main_breaker_amps == 150)
     assert opt150.max_inverter_amps == pytest.approx(72)  # hand calculation
     assert not opt150.load_fits
-    # never below 100 A (NEC 230.79(C))
+    # never below 100 A (NEC 2023 230.79(C))
     assert min(o.main_breaker_amps for o in opts) == 100
 
 
@@ -71,7 +72,8 @@ def test_supply_side_and_battery_counts() -> None:
     svc = Service(100)
     r = backfeed_check(svc, [20.0, 24.0], rule="supply_side")
     assert r.fits and r.max_inverter_amps == 100
-    # battery inverters count with solar under the 120 % rule (electrical.md): 20 + 24 > 16
+    # NEC 2023 705.12(B) (120 % rule) sums every power source's output current (battery inverters too):
+    # 20 + 24 > 16
     assert not backfeed_check(svc, [20.0, 24.0], rule="120").fits
     # a power control system (705.13) limiting output to 16 A makes it fit
     assert backfeed_check(svc, [20.0, 24.0], rule="120", pcs_limit_amps=16).fits

@@ -61,5 +61,5 @@ def test_120_rule_more_bus_never_allows_less(bus: int, main_frac: float, extra_b
 
 @given(amps=st.floats(min_value=1, max_value=400))
 def test_evse_breaker_is_at_least_125_percent(amps: float) -> None:
-    # NEC 625.41: >= 125 % of the charger current, next standard size (240.6(A))
+    # NEC 2023 625.41: >= 125 % of the charger current, next standard size (240.6(A))
     assert evse_breaker_amps(amps) >= 1.25 * amps - 1e-9

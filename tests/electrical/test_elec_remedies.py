@@ -1,7 +1,7 @@
 """Remedy search: cheapest variants / EMS / solar connection / service upgrade.
 
 Demo homes and costs are invented. Which remedies electricians try first is common practice,
-no source (electrical.md, "Services and practice"). Expected loads are hand calculations.
+no source. Expected loads are hand calculations of NEC 2023 Article 220.
 """
 
 from __future__ import annotations
@@ -53,7 +53,7 @@ COSTS = RemedyCosts(ems_usd=1200, service_upgrades=(ServiceUpgrade(200, 9000),))
 def test_cold_climate_100a_does_not_fit_as_proposed() -> None:
     # 220.83(B) by hand: other 4,500 + 3,000 + 1,500 + 1,200 + 5,000 + 4,500 + 12,000 + 11,520
     #   = 43,220 -> 8,000 + 0.4 x 35,220 = 22,088 ; heating 5,760 + 10,000 = 15,760
-    #   -> 37,848 VA = 157.7 A > 100 A. electrical.md (common practice, no source): strips >= 10 kW
+    #   -> 37,848 VA = 157.7 A > 100 A. Common practice, no source: strips >= 10 kW
     #   + electric range + 48 A charger usually do not fit a 100 A service.
     r = find_remedy(Dwelling(1500), _existing_1500(), Service(100), _cold_climate_proposal(), COSTS)
     assert r.reasons[0].startswith("As proposed")
@@ -136,7 +136,8 @@ def test_nothing_fits() -> None:
 
 
 def test_solar_supply_side_on_100a_panel() -> None:
-    # 100/100 panel accepts 16 A under the 120 % rule (electrical.md); 32 A does not fit, and the
+    # 100/100 panel accepts 16 A under the 120 % rule (NEC 2023 705.12(B):
+    # (1.2 x 100 - 100) / 1.25 = 16 A); 32 A does not fit, and the
     # main cannot be derated below 100 A (230.79(C)) -> supply-side connection ($1,500) beats
     # a 200 A upgrade ($9,000).
     p = [ProposedLoad("EV charger", (Variant("16 A", (ev_charger_load(16),)),))]
@@ -148,7 +149,7 @@ def test_solar_supply_side_on_100a_panel() -> None:
 
 
 def test_solar_derated_main_on_200a_panel() -> None:
-    # 200/200 panel: 40 A inverter > 32 A (120 % rule, electrical.md); a 175 A main allows
+    # 200/200 panel: 40 A inverter > 32 A (120 % rule, NEC 2023 705.12(B)); a 175 A main allows
     # (240 - 175) / 1.25 = 52 A (hand calculation); the small load still fits under 175 A.
     p = [ProposedLoad("EV charger", (Variant("32 A", (ev_charger_load(32),)),))]
     costs = RemedyCosts(derate_main_usd=400, supply_side_usd=1500)
@@ -176,7 +177,12 @@ def test_remedy_to_dict_is_plain() -> None:
     import json
 
     r = find_remedy(Dwelling(1500), _existing_1500(), Service(100), _cold_climate_proposal(), COSTS)
-    json.dumps(r.to_dict())
+    d = r.to_dict()
+    assert json.loads(json.dumps(d, allow_nan=False)) == d  # plain JSON types only, no loss
+    assert d["fits"] is r.fits and d["cost_usd"] == r.cost_usd
+    assert d["choices"] == [list(c) for c in r.choices] and d["reasons"] == list(r.reasons)
+    assert d["calc"]["total_va"] == pytest.approx(r.calc.total_va)
+    assert d["service"]["service_amps"] == r.service.service_amps
 
 
 def test_margin_amps_moves_the_choice() -> None:

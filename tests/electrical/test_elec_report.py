@@ -25,12 +25,12 @@ def test_capacity_report_states() -> None:
     assert [e["state"] for e in rep] == ["today", "2028"]
     assert rep[0]["calc"]["case"] == "A" and rep[1]["calc"]["case"] == "B"
     # today by hand: other 4,500 + 3,000 + 1,500 + 1,200 + 5,000 = 15,200
-    #   -> 8,000 + 0.4 x 7,200 = 10,880 VA (NEC 220.83(A))
+    #   -> 8,000 + 0.4 x 7,200 = 10,880 VA (NEC 2023 220.83(A))
     assert abs(rep[0]["calc"]["total_va"] - 10880) < 1e-6  # hand calculation above
-    # 220.87 today: 6,000 x 1.25 = 7,500 VA (NEC 220.87); refused once solar is there
+    # 220.87 today: 6,000 x 1.25 = 7,500 VA (NEC 2023 220.87); refused once solar is there
     assert abs(rep[0]["measured"]["total_va"] - 7500) < 1e-6
     assert "refused" in rep[1]["measured"]
-    # 100/100 panel: 20 A inverter > 16 A (120 % rule, electrical.md)
+    # 100/100 panel: 20 A inverter > 16 A (120 % rule, NEC 2023 705.12(B))
     assert rep[1]["backfeed"]["fits"] is False
     assert "AHJ" in rep[1]["caution"]
 
@@ -46,10 +46,10 @@ def test_loads_for_upgrade_and_tables_have_sources() -> None:
     hp = loads_for_upgrade("heating", name="Heat pump", va_per_ton=2300, tons=3, strips_kw=10,
                            strips_interlocked=True)
     assert [ld.category for ld in hp] == ["heat_pump_compressor", "supplemental_heat"]
-    assert hp[0].va == pytest.approx(6900)  # 3 t x 2,300 VA/ton (electrical.md, ~2.3 kVA per ton)
+    assert hp[0].va == pytest.approx(6900)  # 3 t x 2,300 VA/ton (NEC 2023 Informative Annex D, Example D2(c): 2.5 t = 24 A)
     assert hp[1].interlocked
     (ev,) = loads_for_upgrade("vehicles", name="Charger", amps=40)
-    assert ev.va == pytest.approx(9600) and ev.continuous  # electrical.md: 40 A = 9.6 kW; 625.42
+    assert ev.va == pytest.approx(9600) and ev.continuous  # 40 A x 240 V = 9.6 kW; NEC 2023 625.42
     with pytest.raises(ElectricalInputError, match="va"):
         loads_for_upgrade("water", name="HPWH")
     with pytest.raises(ElectricalInputError, match="category"):

@@ -67,7 +67,7 @@ def test_bad_dwelling() -> None:
 
 
 def test_220_82_needs_100a_service() -> None:
-    # NEC 220.82(A) / 230.79(C): one-family service of 100 A or more
+    # NEC 2023 220.82(A) / 230.79(C): one-family service of 100 A or more
     with pytest.raises(ElectricalInputError, match="service_amps"):
         nec220_82(Dwelling(1000), [], Service(60))
 

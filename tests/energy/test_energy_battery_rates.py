@@ -125,7 +125,8 @@ def test_net_billing_exports_at_export_rate():
 
 
 def test_gas_fixed_charge_until_service_closed():
-    # reference/money.md: the gas fixed charge ends only when the gas service is closed
+    # common practice, no source: a utility's fixed monthly customer charge is billed while the
+    # account (the gas service) is open and ends when it is closed
     price = FuelPrice(1.40, 15.0)
     assert fuel_bill(price, np.zeros(12), service_open=True).sum() == pytest.approx(180.0)
     assert fuel_bill(price, np.zeros(12), service_open=False).sum() == 0.0

@@ -1,5 +1,5 @@
-"""Heat pump selection from design loads, checked against ACCA Manual S's sizing bands and the
-DOE rating-point capacity curve."""
+"""Heat pump selection from design loads, checked against ACCA Manual S (2nd ed., 2014)
+sizing bands and the DOE rating-point capacity curve."""
 
 from __future__ import annotations
 
@@ -9,9 +9,9 @@ import pytest
 from homeplan.energy._data import heat_pump_class
 from homeplan.energy.selection import design_cooling_load, select_heat_pump, with_size
 
-# ACCA Manual S (from memory): total cooling capacity 90-115 % of the total cooling load for
-# single-speed equipment, up to 130 % for variable-speed; up to 125 % for heat pumps in
-# heating-dominated climates (HDD65 at least twice CDD65).
+# ACCA Manual S (2nd ed., 2014; from memory): total cooling capacity 90-115 % of the total
+# cooling load for single-speed equipment, up to 130 % for variable-speed; up to 125 % for heat
+# pumps in heating-dominated climates (HDD65 at least twice CDD65).
 SINGLE_SPEED_BAND = (0.90, 1.15)
 VARIABLE_SPEED_BAND = (0.90, 1.30)
 HEATING_DOMINATED_TOP = 1.25
@@ -51,8 +51,9 @@ def test_heating_dominated_single_speed_may_go_to_125_percent_and_leaves_the_res
 
 
 def test_heating_dominated_variable_speed_is_sized_for_heat_with_its_low_speed_under_the_cooling_load():
-    # Manual S (from memory): variable-capacity heat pumps may be sized for the heating load in
-    # heating-dominated climates; the lowest speed must still fit the cooling load.
+    # ACCA Manual S (2nd ed., 2014; from memory): variable-capacity heat pumps may be sized for
+    # the heating load in heating-dominated climates; the lowest speed must still fit the
+    # cooling load.
     sel = select_heat_pump(36000, 20000, -5, "cold_climate", hdd65=7500, cdd65=700)
     r = heat_pump_class("cold_climate")
     assert sel.capacity_at_design_btuh >= 36000

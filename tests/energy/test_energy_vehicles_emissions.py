@@ -27,7 +27,8 @@ def test_mpge_epa():
 
 
 def test_charging_losses_counted_once():
-    # reference/energy.md: charging efficiency 0.85-0.90; EPA label kWh already wall energy
+    # from memory: Level 2 charging efficiency 0.85-0.90; the EPA fuel economy label's kWh per
+    # 100 miles is measured at the wall (40 CFR 600), so it must not be divided again
     ev = VehicleSpec("electricity", 12_000, kwh_per_mile=0.28, charging_efficiency=0.88)
     assert ev_wall_kwh_per_mile(ev) == pytest.approx(0.28 / 0.88)
     label = VehicleSpec("electricity", 12_000, kwh_per_mile=0.30, label_is_wall=True)

@@ -41,7 +41,7 @@ def test_household_size_default():
 
 def test_hpwh_uses_a_third_to_a_quarter_of_gas():
     # common practice, no source: a HPWH uses roughly 1/3-1/4 the energy of a gas one.
-    # UEFs: FEMP HPWH case 2.2 (DOE FEMP 2022); gas storage 0.64 (typical 0.60-0.70, energy.md)
+    # UEFs: FEMP HPWH case 2.2 (DOE FEMP 2022); gas storage 0.64 (typical 0.60-0.70, from memory)
     hp = water_heater_annual_input(WaterHeaterSpec("electricity", 2.2, "heat_pump"), 55, 67)
     gas = water_heater_annual_input(WaterHeaterSpec("natural_gas", 0.64), 55, 67)
     ratio = hp / therm_to_kwh(gas)
@@ -55,13 +55,16 @@ def test_mains_temperature_and_hourly_water(greensboro):
     assert int(np.argmin(mains)) < 90 or int(np.argmin(mains)) > 330
     spec = WaterHeaterSpec("natural_gas", 0.62)
     hourly = water_heating_hourly(spec, 55.0, mains)
-    expected = (55 * 8.34 * np.maximum(125 - mains, 0)).sum() / 0.62 / 1e5  # energy.md Q_hw / UEF
+    # by hand: Q = gal x 8.34 lb/gal x 1 Btu/(lb F) x rise (definition of the Btu), input = Q / UEF
+    expected = (55 * 8.34 * np.maximum(125 - mains, 0)).sum() / 0.62 / 1e5
     assert hourly.sum() == pytest.approx(expected)
     assert hourly.shape == (8760,)
 
 
 def test_induction_from_gas_reference_formula():
-    # reference/energy.md: kWh_induction = therms * 29.307 * 0.32 / 0.85 (ENERGY STAR ETA 2021)
+    # ENERGY STAR Emerging Technology Award 2021 (residential induction cooking tops): cooking
+    # transfer efficiency gas about 32 %, induction about 85 %; the same useful heat by hand:
+    # kWh_induction = therms x 29.307 kWh/therm x 0.32 / 0.85
     useful = useful_cooking_kwh_from_gas(30.0)
     fuel, kwh = cooking_annual_input(CookingSpec("induction", useful))
     assert fuel == "electricity"
@@ -86,7 +89,8 @@ def test_unit_conversions_against_pint():
                                               rel=2e-4)
     assert btu_per_unit("electricity") == pytest.approx(
         UREG.Quantity(1, "kWh").to("Btu").magnitude, rel=1e-4)
-    # energy.md: propane 91,452 Btu/gal = 26.80 kWh; heating oil 138,500 Btu/gal = 40.59 kWh
+    # EIA heat contents (from memory): propane 91,452 Btu/gal = 26.80 kWh; No. 2 heating oil
+    # 138,500 Btu/gal = 40.59 kWh
     assert UREG.Quantity(btu_per_unit("propane"), "Btu").to("kWh").magnitude == pytest.approx(
         26.80, abs=0.01)
     assert UREG.Quantity(btu_per_unit("heating_oil"), "Btu").to("kWh").magnitude == pytest.approx(
@@ -94,5 +98,6 @@ def test_unit_conversions_against_pint():
     # EPA: 33.7 kWh per gallon of gasoline equivalent
     assert UREG.Quantity(btu_per_unit("gasoline"), "Btu").to("kWh").magnitude == pytest.approx(
         33.7, abs=0.01)
-    # energy.md: 1 ccf ~ 1.037 therm
+    # EIA: average heat content of natural gas delivered to consumers about 1,037 Btu/ft3
+    # (from memory), so 1 ccf ~ 1.037 therm
     assert ccf_to_therm(100.0) == pytest.approx(103.7)

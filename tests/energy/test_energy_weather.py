@@ -31,7 +31,7 @@ def test_parse_epw_design_conditions_denver():
     heat_f, cool_f = parse_epw_design_conditions(DENVER_DESIGN)
     assert heat_f == pytest.approx(4.1, abs=0.05)  # ASHRAE 2009 via EPW: -15.5 C = 4.1 F
     assert cool_f == pytest.approx(89.6, abs=0.05)  # ASHRAE 2009 via EPW: 32.0 C = 89.6 F
-    # reference/energy.md (from memory): Denver 99 % design about 4 F
+    # from memory: Denver's 99 % heating design dry-bulb is about 4 F
     assert abs(heat_f - 4.0) < 1.0
 
 
@@ -85,7 +85,7 @@ def test_read_epw_matches_pvlib_tmy3_and_parses_design(tmp_path, greensboro, pvl
 
 
 def test_greensboro_tmy3_climate(greensboro):
-    # reference/energy.md (from memory): Greensboro ~3,800-4,000 HDD65, 99 % design near 20 F.
+    # from memory: Greensboro NC normals ~3,800-4,000 HDD65, 99 % heating design near 20 F.
     assert 3500 <= greensboro.hdd65 <= 4300
     assert 12.0 <= greensboro.heating_design_f <= 24.0
     assert greensboro.design_source == "hourly percentiles of this year"
@@ -95,7 +95,7 @@ def test_miami_tmy2(pvlib_data_dir):
     import os
 
     w = read_weather(os.path.join(pvlib_data_dir, "12839.tm2"))
-    # reference/energy.md (from memory): Miami ~150 HDD65
+    # from memory: Miami FL normals ~150 HDD65
     assert 50 <= w.hdd65 <= 300
     assert w.cdd65 > 3500  # from memory: Miami ~4,400 CDD65
     assert w.temp_f.max() < 100 and w.wind_ms.mean() < 10  # tenths were converted
@@ -114,11 +114,13 @@ NAMES = ["atlanta", "boston", "minneapolis", "phoenix"]
 def test_synthetic_hits_degree_days_and_design_temp(name, synthetic, climates):
     n = climates[name]
     w = synthetic[name]
-    # Issue 3 tolerances: HDD65/CDD65 within 3 %, 99 % hourly temperature within 2 F.
-    assert w.hdd65 == pytest.approx(n.hdd65, rel=0.03)
-    assert w.cdd65 == pytest.approx(n.cdd65, rel=0.03)
-    assert abs(w.temp_percentile_f(1.0) - n.heating_design_f) <= 2.0
-    assert abs(w.temp_percentile_f(99.0) - n.cooling_design_f) <= 3.0
+    # The generator is calibrated to the normals it is given (its inputs, not a published
+    # figure): measured worst cases over these four climates are 0.1 % on the degree days and
+    # 0.23 F on the 1 % / 99 % hourly temperatures; the bounds keep a small margin above them.
+    assert w.hdd65 == pytest.approx(n.hdd65, rel=0.005)
+    assert w.cdd65 == pytest.approx(n.cdd65, rel=0.005)
+    assert abs(w.temp_percentile_f(1.0) - n.heating_design_f) <= 0.5
+    assert abs(w.temp_percentile_f(99.0) - n.cooling_design_f) <= 0.5
 
 
 @pytest.mark.parametrize("name", NAMES)

@@ -1,8 +1,9 @@
-"""Incentive engine checks against the worked examples in ../shared/reference/money.md.
+"""Incentive engine checks against the published rules of the programs.
 
-Expected values come from the statutes' rules as summarised (with worked checks) in money.md:
-26 USC 25C and 25D as amended by Pub. L. 117-169, 42 USC 18795a (IRA s.50122), and the end
-dates set by Pub. L. 119-21.
+Expected values are worked by hand from: 26 USC 25C and 25D as amended by Pub. L. 117-169 and
+the limits listed in the IRS Instructions for Form 5695 (2023), Part II; 42 USC 18795a (IRA
+s.50122, high-efficiency electric home rebates); and the end dates set by Pub. L. 119-21 (2025).
+Subsection letters and anything marked so are from memory.
 """
 
 from __future__ import annotations
@@ -27,7 +28,7 @@ from homeplan.money.incentives import (
 
 ROOT = Path(__file__).resolve().parents[2]
 FEDERAL = ROOT / "sample_homes" / "incentives" / "federal_2023_2025_example.yaml"
-DEMO = ROOT / "sample_homes" / "incentives" / "lakeshire_demo.yaml"
+DEMO = ROOT / "sample_homes" / "incentives" / "demoland_invented.yaml"
 
 
 @pytest.fixture(scope="module")
@@ -57,13 +58,14 @@ def test_25c_one_year(federal) -> None:
         Purchase("attic", "envelope", 2_000, _d("2024-06-01")),
     ]
     res = evaluate(items, [federal["us_25c_2023_2025"]], Household())
-    # money.md 25C check: 2,000 + min(600 + 600, 1,200) = 3,200
+    # IRS Instructions for Form 5695 (2023), Part II limits: heat pumps $2,000 a year; other items $1,200 a year, a panelboard at most $600
+    # -> 2,000 + min(600 + 30 % x 2,000, 1,200) = 3,200
     assert res.total_paid_usd == pytest.approx(3_200)
     assert _paid(res, "hp", "us_25c_2023_2025") == pytest.approx(
         2_000
-    )  # money.md: $2,000/yr HP cap
-    assert _paid(res, "panel", "us_25c_2023_2025") == pytest.approx(600)  # money.md: panel $600
-    assert _paid(res, "attic", "us_25c_2023_2025") == pytest.approx(600)  # money.md: 30 % x 2,000
+    )  # 26 USC 25C(b)(5) (letter from memory): $2,000 a year for heat pumps
+    assert _paid(res, "panel", "us_25c_2023_2025") == pytest.approx(600)  # Form 5695 (2023): $600 an item
+    assert _paid(res, "attic", "us_25c_2023_2025") == pytest.approx(600)  # 26 USC 25C(a): 30 % x 2,000
     hp = res.for_item("hp")[0]
     assert any("capped at $2,000 per year" in n for n in hp.notes)
     # credits arrive after filing, the following spring (26 USC 6072(a): April 15)
@@ -82,7 +84,8 @@ def test_25c_split_over_two_tax_years_pays_more(federal) -> None:
     ]
     one = evaluate(same_year, [prog], Household()).total_paid_usd
     two = evaluate(split, [prog], Household()).total_paid_usd
-    # money.md 25C: $2,000/yr shared by heat pumps and HPWH, caps reset each tax year
+    # IRS Instructions for Form 5695 (2023), Part II limits: $2,000 a year shared by heat pumps and heat pump water heaters; the limits
+    # apply per tax year (26 USC 25C(b))
     assert one == pytest.approx(2_000)
     assert two == pytest.approx(2_000 + 1_500)  # 30 % x 5,000 = 1,500 in the second year
     assert two > one
@@ -92,7 +95,8 @@ def test_25c_expiry(federal) -> None:
     prog = federal["us_25c_2023_2025"]
     before = evaluate([Purchase("hp", "heat_pump", 16_000, _d("2025-12-15"))], [prog], Household())
     after = evaluate([Purchase("hp", "heat_pump", 16_000, _d("2026-01-05"))], [prog], Household())
-    # money.md expiry check (Pub. L. 119-21): $2,000 on 2025-12-15, $0 on 2026-01-05
+    # Pub. L. 119-21 (2025): no 25C credit for property placed in service after 2025-12-31 ->
+    # $2,000 on 2025-12-15, $0 on 2026-01-05
     assert before.total_paid_usd == pytest.approx(2_000)
     assert after.total_paid_usd == 0
     assert any("expired 2025-12-31" in n for n in after.awards[0].notes)
@@ -108,13 +112,78 @@ def test_25c_panel_conditions(federal) -> None:
         Purchase("hp", "heat_pump", 16_000, _d("2023-05-01")),
         Purchase("panel", "panel_upgrade", 3_500, _d("2024-05-01"), panel_amps=200),
     ]
-    # money.md: panel must be >= 200 A and installed with qualifying equipment
+    # 26 USC 25C(d) (from memory): a panelboard qualifies with a load capacity of at least 200 A
+    # and when installed in conjunction with qualifying property
     r_small = evaluate(small, [prog], Household())
     assert _paid(r_small, "panel", prog.id) == 0
     assert any("200 A" in n for n in r_small.for_item("panel")[0].notes)
     r_alone = evaluate(alone, [prog], Household())
     assert _paid(r_alone, "panel", prog.id) == 0
     assert any("same year" in n for n in r_alone.for_item("panel")[0].notes)
+
+
+# ------------------------------------------------------------------ 25C items with their own caps
+# Cases worked by hand with the limits the IRS Instructions for Form 5695 (2023), Part II, list
+# for the energy efficient home improvement credit: 30 % of cost; $1,200 a year in total for
+# everything but heat pumps, within which exterior windows and skylights at most $600, any
+# exterior door $250 and all doors $500, any item of qualified energy property (central air
+# conditioner, panelboard) $600, home energy audits $150; heat pumps and heat pump water heaters
+# $2,000 a year on their own. (The instructions list these limits; the cases are ours.)
+
+
+def test_25c_doors_250_each_500_in_total(federal) -> None:
+    prog = federal["us_25c_2023_2025"]
+    doors = [Purchase(f"door{i}", "exterior_door", cost, _d("2024-05-01"))
+             for i, cost in enumerate((1_000, 700, 500))]
+    res = evaluate(doors, [prog], Household())
+    # 30 % = 300, 210, 150 -> $250 a door: 250, 210, 150 = 610 -> $500 for all doors
+    assert [_paid(res, f"door{i}", prog.id) for i in range(3)] == [
+        pytest.approx(250), pytest.approx(210), pytest.approx(40)]
+    assert res.total_paid_usd == pytest.approx(500)
+    # the door limits are per tax year: the same doors a year later earn another $500
+    later = [replace(d, project_id=d.project_id + "b", installed_on=_d("2025-05-01")) for d in doors]
+    assert evaluate(doors + later, [prog], Household()).total_paid_usd == pytest.approx(1_000)
+
+
+def test_25c_windows_600_a_year_and_central_ac_600(federal) -> None:
+    prog = federal["us_25c_2023_2025"]
+    items = [Purchase("win1", "windows", 1_500, _d("2024-04-01")),
+             Purchase("win2", "windows", 1_500, _d("2024-09-01")),
+             Purchase("ac", "central_ac", 5_000, _d("2024-06-01"))]
+    res = evaluate(items, [prog], Household())
+    # windows: 30 % x 3,000 = 900 -> $600 for the year (450 + 150); central A/C: 1,500 -> $600
+    assert _paid(res, "win1", prog.id) + _paid(res, "win2", prog.id) == pytest.approx(600)
+    assert _paid(res, "ac", prog.id) == pytest.approx(600)
+    assert res.total_paid_usd == pytest.approx(1_200)
+
+
+def test_25c_all_items_in_one_year(federal) -> None:
+    prog = federal["us_25c_2023_2025"]
+    items = [Purchase("hp", "heat_pump", 16_000, _d("2024-05-01")),
+             Purchase("win", "windows", 3_000, _d("2024-05-01")),
+             Purchase("ac", "central_ac", 5_000, _d("2024-05-01")),
+             Purchase("attic", "envelope", 2_000, _d("2024-05-01")),
+             Purchase("audit", "energy_audit", 800, _d("2024-02-01"))]
+    res = evaluate(items, [prog], Household())
+    # other items: windows 600 + A/C 600 + insulation 600 + audit min(240, 150) = 1,950
+    #   -> $1,200 for the year; heat pump 30 % x 16,000 -> $2,000 on its own -> $3,200
+    assert res.total_paid_usd == pytest.approx(3_200)
+    assert _paid(res, "hp", prog.id) == pytest.approx(2_000)
+    assert sum(_paid(res, k, prog.id) for k in ("win", "ac", "attic", "audit")) == pytest.approx(1_200)
+
+
+def test_25c_service_upgrade_is_a_panelboard(federal) -> None:
+    prog = federal["us_25c_2023_2025"]
+    items = [Purchase("hp", "heat_pump", 16_000, _d("2024-05-01")),
+             Purchase("svc", "service_upgrade", 9_000, _d("2024-05-01"), panel_amps=200)]
+    # a service upgrade replaces the panelboard: 30 % x 9,000 -> $600 an item
+    assert _paid(evaluate(items, [prog], Household()), "svc", prog.id) == pytest.approx(600)
+
+
+def test_unknown_purchase_kind_is_an_error() -> None:
+    # an unknown kind used to earn a silent $0; now it says what is wrong and what to use
+    with pytest.raises(ValueError, match="unknown project kind 'hot_tub'.*use one of"):
+        Purchase("spa", "hot_tub", 9_000, _d("2025-05-01"))
 
 
 # ------------------------------------------------------------------ 50122 tiers
@@ -130,7 +199,8 @@ def _three_items(day: str = "2025-03-01") -> list[Purchase]:
 
 def test_50122_tier_80_to_150(federal) -> None:
     res = evaluate(_three_items(), [federal["us_50122_heehra"]], Household(ami_pct=120))
-    # money.md 50122 check (80-150 % AMI): 8,000 + 1,750 + 1,000 = 10,750
+    # 42 USC 18795a (80-150 % AMI: 50 % of cost within the per-item caps; heat pump $8,000,
+    # panel $4,000, insulation and air sealing $1,600): 8,000 + 1,750 + 1,000 = 10,750
     assert _paid(res, "hp", "us_50122_heehra") == pytest.approx(8_000)
     assert _paid(res, "panel", "us_50122_heehra") == pytest.approx(1_750)
     assert _paid(res, "attic", "us_50122_heehra") == pytest.approx(1_000)
@@ -143,26 +213,37 @@ def test_50122_tier_80_to_150(federal) -> None:
 def test_50122_tier_below_80(federal) -> None:
     items = [*_three_items(), Purchase("hpwh", "heat_pump_water_heater", 4_000, _d("2025-04-01"))]
     res = evaluate(items, [federal["us_50122_heehra"]], Household(ami_pct=60))
-    # money.md 50122: < 80 % AMI up to 100 % of cost within the per-item caps
+    # 42 USC 18795a: below 80 % AMI up to 100 % of cost within the per-item caps
     assert _paid(res, "hp", "us_50122_heehra") == pytest.approx(8_000)  # cap $8,000
     assert _paid(res, "panel", "us_50122_heehra") == pytest.approx(3_500)  # 100 % (cap $4,000)
     assert _paid(res, "attic", "us_50122_heehra") == pytest.approx(1_600)  # cap $1,600
     # HPWH cap $1,750, but the household cap $14,000 leaves 14,000 - 13,100 = 900
     assert _paid(res, "hpwh", "us_50122_heehra") == pytest.approx(900)
-    assert res.total_paid_usd == pytest.approx(14_000)  # money.md: household cap $14,000
+    assert res.total_paid_usd == pytest.approx(14_000)  # 42 USC 18795a: household cap $14,000
     assert any("lifetime cap" in n for n in res.for_item("hpwh")[0].notes)
+
+
+def test_50122_service_upgrade_allowance(federal) -> None:
+    prog = federal["us_50122_heehra"]
+    item = [Purchase("svc", "service_upgrade", 9_000, _d("2025-03-01"), panel_amps=200)]
+    # 42 USC 18795a: an electric load service center upgrade up to $4,000; a service upgrade
+    # includes one. 80-150 % AMI: 50 % x 9,000 = 4,500 -> $4,000; below 80 %: 100 % -> $4,000
+    assert evaluate(item, [prog], Household(ami_pct=120)).total_paid_usd == pytest.approx(4_000)
+    assert evaluate(item, [prog], Household(ami_pct=60)).total_paid_usd == pytest.approx(4_000)
+    small = [Purchase("svc", "service_upgrade", 6_000, _d("2025-03-01"), panel_amps=200)]
+    assert evaluate(small, [prog], Household(ami_pct=120)).total_paid_usd == pytest.approx(3_000)
 
 
 def test_50122_above_150_gets_nothing(federal) -> None:
     res = evaluate(_three_items(), [federal["us_50122_heehra"]], Household(ami_pct=151))
-    # money.md 50122: > 150 % AMI not eligible
+    # 42 USC 18795a: households above 150 % AMI are not eligible
     assert res.total_paid_usd == 0
     assert all(any("outside the program's tiers" in n for n in a.notes) for a in res.awards)
 
 
 def test_50122_needs_income(federal) -> None:
     res = evaluate(_three_items(), [federal["us_50122_heehra"]], Household())
-    assert res.total_paid_usd == 0  # money.md: tiers by AMI; no income given -> cannot qualify
+    assert res.total_paid_usd == 0  # 42 USC 18795a tiers by AMI: no income given -> cannot qualify
     assert any("area median income" in n for n in res.awards[0].notes)
 
 
@@ -175,9 +256,10 @@ def test_credit_computed_on_cost_minus_rebate(federal) -> None:
     res = evaluate(items, progs, Household(ami_pct=120))
     rebate = _paid(res, "hpwh", "us_50122_heehra")
     credit = _paid(res, "hpwh", "us_25c_2023_2025")
-    # money.md 50122: 50 % x 4,000 = 2,000 -> capped at $1,750
+    # 42 USC 18795a: 50 % x 4,000 = 2,000 -> capped at $1,750 for a heat pump water heater
     assert rebate == pytest.approx(1_750)
-    # money.md stacking: credit on cost minus rebate, 30 % x (4,000 - 1,750) = 675 (not 1,200)
+    # From memory (IRS guidance on the energy credits): a rebate lowers the cost the credit is
+    # figured on: 30 % x (4,000 - 1,750) = 675 (not 1,200)
     assert credit == pytest.approx(675)
     assert res.for_item("hpwh")[1].basis_usd == pytest.approx(2_250)
 
@@ -194,7 +276,7 @@ def test_grant_family_pays_once(federal) -> None:
     }
     progs = [federal["us_50122_heehra"], parse_program(raw)]
     res = evaluate(_three_items()[:1], progs, Household(ami_pct=120))
-    # money.md: two federal grants cannot pay for the same item
+    # 42 USC 18795a (from memory): no rebate for an upgrade another federal grant pays for
     assert _paid(res, "hp", "us_50122_heehra") == pytest.approx(8_000)
     assert _paid(res, "hp", "second_federal_grant") == 0
     assert any("same grant family" in n for n in res.for_item("hp")[1].notes)
@@ -210,7 +292,8 @@ def _solar() -> list[Purchase]:
 def test_25d_carryforward_limited_by_liability(federal) -> None:
     res = evaluate(_solar(), [federal["us_25d_2023_2025"]], Household(tax_liability_usd=5_000))
     award = res.awards[0]
-    # money.md 25D check: $30,000 -> $9,000 earned, limited by liability, remainder carried
+    # 26 USC 25D(a) 30 %, 25D(c) carryforward, 26 USC 26(a) liability limit, by hand:
+    # $30,000 -> $9,000 earned, $5,000 used in the first tax year, the rest carried
     assert award.earned_usd == pytest.approx(9_000)
     assert [(p.on, p.amount_usd) for p in award.payments] == [
         (_d("2026-04-15"), pytest.approx(5_000)),  # tax year 2025, filed spring 2026
@@ -240,15 +323,15 @@ def test_nonrefundable_without_carryforward_loses_the_rest() -> None:
 def test_25d_unlimited_liability_and_expiry(federal) -> None:
     prog = federal["us_25d_2023_2025"]
     res = evaluate(_solar(), [prog], Household())
-    assert res.total_paid_usd == pytest.approx(9_000)  # money.md: 30 % x 30,000
+    assert res.total_paid_usd == pytest.approx(9_000)  # 26 USC 25D(a): 30 % x 30,000
     late = [Purchase("pv", "solar", 30_000, _d("2026-02-01"), size_kw=8)]
-    assert evaluate(late, [prog], Household()).total_paid_usd == 0  # money.md: 25D ended 2025-12-31
+    assert evaluate(late, [prog], Household()).total_paid_usd == 0  # Pub. L. 119-21: no 25D credit after 2025-12-31
 
 
 def test_25d_small_battery_not_eligible(federal) -> None:
     items = [Purchase("bat", "battery", 9_000, _d("2025-06-01"), size_kwh=2.5)]
     res = evaluate(items, [federal["us_25d_2023_2025"]], Household())
-    assert res.total_paid_usd == 0  # money.md: batteries >= 3 kWh
+    assert res.total_paid_usd == 0  # Form 5695 (2023) line 5a: battery of at least 3 kWh
 
 
 # ------------------------------------------------------------------ timing, demo catalog
@@ -261,7 +344,7 @@ def test_rebate_later_and_performance_timing() -> None:
         Purchase("bat", "battery", 13_500, _d("2026-05-01"), size_kwh=13.5),
     ]
     res = evaluate(
-        items, [progs["lpl_heat_pump_cashback"], progs["lpl_battery_performance"]], Household()
+        items, [progs["demo_utility_hp_rebate"], progs["demo_utility_battery_payment"]], Household()
     )
     hp = res.for_item("hp")[0]
     # invented demo program: 25 % capped at $1,500, paid 75 days after installation
@@ -285,10 +368,13 @@ def test_catalog_files_are_valid_and_demo_says_invented() -> None:
     } <= set().union(*(p.kinds for p in demo))
     assert len({p.ends.year for p in demo if p.ends}) >= 3  # windows end in various years
     assert "INVENTED" in DEMO.read_text(encoding="utf-8")[:300]
+    # every invented program says so in its own name, so every view that shows the name does
+    assert all(p.name.endswith(" (invented)") and "invented" in p.administrator for p in demo)
+    assert all(p.source == "invented demo" for p in demo)
     fed = {p.id: p for p in read_catalog(FEDERAL)}
-    assert fed["us_25c_2023_2025"].ends == _d("2025-12-31")  # money.md: Pub. L. 119-21
-    assert fed["us_25d_2023_2025"].ends == _d("2025-12-31")  # money.md: Pub. L. 119-21
-    assert fed["us_50122_heehra"].ends is None  # money.md: not repealed by Pub. L. 119-21
+    assert fed["us_25c_2023_2025"].ends == _d("2025-12-31")  # Pub. L. 119-21 (2025)
+    assert fed["us_25d_2023_2025"].ends == _d("2025-12-31")  # Pub. L. 119-21 (2025)
+    assert fed["us_50122_heehra"].ends is None  # 42 USC 18795a was not repealed by Pub. L. 119-21 (from memory)
 
 
 # ------------------------------------------------------------------ bad data
@@ -441,7 +527,7 @@ def test_state_credit_limited_by_state_liability() -> None:
     progs = {p.id: p for p in read_catalog(DEMO)}
     items = [Purchase("pv", "solar", 30_000, _d("2026-06-01"), size_kw=8)]
     hh = Household(tax_liability_usd=0, state_tax_liability_usd=1_200)
-    res = evaluate(items, [progs["lakeshire_solar_storage_credit"]], hh)
+    res = evaluate(items, [progs["demo_state_solar_storage_credit"]], hh)
     award = res.awards[0]
     # invented demo program: 15 % of 30,000 = 4,500, capped at $3,000, 5-year carryforward,
     # paid May 1; the state liability of $1,200 a year spreads it over three tax years
@@ -468,14 +554,16 @@ def test_incentives_by_install_year_for_the_scheduler(federal) -> None:
     costs = {2024: 16_000, 2025: 16_400, 2026: 16_800}
     progs = [federal["us_25c_2023_2025"], federal["us_50122_heehra"]]
     got = incentives_by_install_year(hp, costs, progs, Household(ami_pct=200))
-    # money.md: 25C $2,000 a year while it lasts (arrives next spring); $0 after 2025-12-31;
+    # 25C (Form 5695 limits): $2,000 a year while it lasts, claimed on the return filed the next
+    # spring (26 USC 6072(a)); $0 after 2025-12-31 (Pub. L. 119-21);
     # > 150 % AMI gets no 50122 rebate
     assert got[2024].later_usd == pytest.approx(2_000)
     assert got[2024].by_arrival_year == ((2025, pytest.approx(2_000)),)
     assert got[2025].total_usd == pytest.approx(2_000)
     assert got[2026].total_usd == 0
     assert any("expired 2025-12-31" in n for n in got[2026].notes)
-    # a panel earns the 25C $600 only with a heat pump in the same year (money.md)
+    # a panel earns the 25C $600 only with qualifying property in the same year (26 USC 25C(d),
+    # from memory)
     panel = Purchase("panel", "panel_upgrade", 3_500, _d("2024-07-01"), panel_amps=200)
     alone = incentives_by_install_year(panel, {2025: 3_500}, progs, Household(ami_pct=200))
     with_hp = incentives_by_install_year(
@@ -488,7 +576,7 @@ def test_incentives_by_install_year_for_the_scheduler(federal) -> None:
 def test_lifetime_cap_counts_prior_use(federal) -> None:
     hh = Household(ami_pct=60, prior_use_usd={"us_50122_heehra": 13_000})
     res = evaluate(_three_items()[:1], [federal["us_50122_heehra"]], hh)
-    # money.md 50122: household cap $14,000, of which $13,000 already received -> $1,000 left
+    # 42 USC 18795a: household cap $14,000, of which $13,000 already received -> $1,000 left
     assert res.total_paid_usd == pytest.approx(1_000)
     use = next(c for c in res.cap_uses if c.cap == "household lifetime")
     assert use.used_usd == pytest.approx(14_000) and use.limit_usd == 14_000
@@ -498,7 +586,8 @@ def test_30c_charger_ends_mid_2026(federal) -> None:
     prog = federal["us_30c_home_charger"]
     june = evaluate([Purchase("evse", "ev_charger", 2_000, _d("2026-06-30"))], [prog], Household())
     july = evaluate([Purchase("evse", "ev_charger", 2_000, _d("2026-07-01"))], [prog], Household())
-    # money.md: charger credit 30 % up to $1,000 (memory), ended after 2026-06-30 (Pub. L. 119-21)
+    # 26 USC 30C: 30 % up to $1,000 for personal-use property (from memory); none placed in
+    # service after 2026-06-30 (Pub. L. 119-21)
     assert june.total_paid_usd == pytest.approx(600)
     assert july.total_paid_usd == 0
 
@@ -508,7 +597,7 @@ def test_point_of_sale_rebate_then_credit_on_the_rest(federal) -> None:
     progs = [federal["us_50122_heehra"], federal["us_25c_2023_2025"]]
     res = evaluate(items, progs, Household(ami_pct=120))
     by_program = {a.program_id: a for a in res.awards}
-    # money.md: 50122 $1,750 at the point of sale, 25C 30 % of (4,000 - 1,750) = 675 next spring
+    # 42 USC 18795a $1,750 at the point of sale; 25C 30 % of (4,000 - 1,750) = 675 next spring
     rebate, credit = by_program["us_50122_heehra"], by_program["us_25c_2023_2025"]
     assert rebate.at_point_of_sale and rebate.paid_usd == pytest.approx(1_750)
     assert credit.paid_usd == pytest.approx(675)
@@ -519,12 +608,13 @@ def test_program_totals_and_caps_in_words(federal) -> None:
     from homeplan.money.incentives import describe_caps, program_totals
 
     prog = federal["us_25c_2023_2025"]
-    # money.md 25C: 30 %, $2,000/yr heat pumps, $1,200/yr others with panel $600
+    # 26 USC 25C(a) 30 %; IRS Instructions for Form 5695 (2023), Part II limits: $2,000 a year heat pumps, $1,200 others, panel $600
     words = describe_caps(prog)
     assert (
         "30 % of cost" in words
         and "$2,000 a year" in words
-        and "panel_upgrade at most $600" in words
+        and "panel_upgrade up to $600" in words
+        and "exterior_door at most $500 a year" in words
     )
     items = [
         Purchase("hp", "heat_pump", 16_000, _d("2024-05-01")),
@@ -532,7 +622,7 @@ def test_program_totals_and_caps_in_words(federal) -> None:
     ]
     res = evaluate(items, [prog, federal["us_25d_2023_2025"]], Household())
     (total,) = program_totals(res, [prog, federal["us_25d_2023_2025"]])
-    # money.md 25C: $2,000 for 2024 (paid spring 2025), 30 % x 5,000 = $1,500 for 2025
+    # 25C by hand: $2,000 for 2024 (paid spring 2025), 30 % x 5,000 = $1,500 for 2025
     assert total.paid_by_year == {2025: pytest.approx(2_000), 2026: pytest.approx(1_500)}
     assert total.ends == "2025-12-31"
 

@@ -1,6 +1,6 @@
 """A heat pump that cannot carry the design load gets costed electric backup heat.
 
-References: ACCA Manual S (supplemental heat sized to the heat pump's shortfall at the design
+References: ACCA Manual S, 2nd ed., 2014 (supplemental heat sized to the heat pump's shortfall at the design
 condition); DOE 10 CFR 430 Subpart B Appendix M1 (capacity from the 47/17/5 F ratings, none
 below the cut-out); NEC 2023 220.83(B) (new electric heat counted at 100 %); 1 kW = 3,412.14
 Btu/h (US EIA, "Units and calculators explained").

@@ -105,7 +105,7 @@ def test_mild_gas_home_reproduces_its_584_therms(mild_home):
 
 @pytest.mark.parametrize("path", [*_monthly_samples(), "mild"], ids=lambda p: getattr(p, "stem", p))
 def test_base_load_agrees_with_the_summer_bills(path, mild_home):
-    # Utility-bill method (ASHRAE Handbook - Fundamentals, ch. 19 degree-day method; Fels 1986):
+    # Utility-bill method (ASHRAE Handbook - Fundamentals 2021, ch. 19 degree-day method; Fels 1986):
     # the non-heating use of the heating fuel is about the use per day of the lowest months.
     # The fitted model's water heating, cooking and drying agree with it within 25 % (common
     # practice, no source for the tolerance: summer months still carry a little heating and a

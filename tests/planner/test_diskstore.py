@@ -72,7 +72,7 @@ def test_code_change_makes_the_entry_stale(tmp_path, monkeypatch) -> None:
     store = DiskStore(tmp_path)
     store.weather_year(NORMALS)
     monkeypatch.setattr(diskstore, "_code_fingerprint", lambda: "another version of the code")
-    store.weather_year(NORMALS)
+    DiskStore(tmp_path).weather_year(NORMALS)  # the next run, with other code
     assert len(_entries(tmp_path)) == 2
 
 
@@ -151,3 +151,22 @@ def test_no_cache_keeps_nothing_and_the_default_keeps_the_year(tmp_path, monkeyp
     assert _entries(tmp_path) == []
     assert _plan(["plan", str(sample), "--json"]) == 0
     assert len(_entries(tmp_path)) == 1
+
+
+def test_solar_output_is_kept_and_read_back(tmp_path) -> None:
+    from homeplan.energy.solar import SolarArraySpec, SolarSite, default_losses_pct
+
+    w = wx.synthetic_weather(NORMALS)
+    spec = SolarArraySpec(dc_kw=6.0, tilt_deg=30.0, azimuth_deg=190.0)
+    plain = SolarSite(w).ac_kw_per_kwdc(spec)
+    store = DiskStore(tmp_path)
+    first = SolarSite(w, store.keep_array).ac_kw_per_kwdc(spec)
+    assert len(list(tmp_path.glob("hourly-*.npz"))) == 1
+
+    def not_again() -> np.ndarray:
+        raise AssertionError("made again instead of read")
+
+    parts = ("solar_ac_kw_per_kwdc", w.digest(), spec.shape_key(), default_losses_pct())
+    again = DiskStore(tmp_path).keep_array(parts, not_again)
+    np.testing.assert_array_equal(first, plain)
+    np.testing.assert_array_equal(again, plain)

@@ -78,7 +78,7 @@ def test_thirty_days_of_15_minute_readings_give_the_measured_peak(january) -> No
     assert m.total_kwh == pytest.approx(float(s.kwh.sum()), abs=1e-6)
     assert m.readings == s.kwh.size and m.interval_minutes == 15 and not m.gaps
     assert m.monthly_kwh is None     # one month: no fit of the electric use to it
-    # the measured peak is the planner's today figure and the NEC 220.87 method is used
+    # the measured peak is the planner's today figure and the NEC 2023 220.87 method is used
     first = january.roadmap.years[0]
     assert first.peak_demand_kw >= expected_kw - 1e-6
     assert january.roadmap.assumptions["peak_demand"].startswith("today's figure is your measured peak (30 days)")

@@ -1,5 +1,6 @@
-"""The heat pump is sized from the home's loads (ACCA Manual S), never from today's air
-conditioner; the peak demand shown is the meter's, moved by each new load's coincident demand."""
+"""The heat pump is sized from the home's loads (ACCA Manual S, 2nd ed., 2014), never from
+today's air conditioner; the peak demand shown is the meter's, moved by each new load's
+coincident demand."""
 
 from __future__ import annotations
 
@@ -35,8 +36,9 @@ budget: {usd_per_year: 30000, first_year: 2027}
 choices: {exclude: [solar, battery]}
 """
 
-# ACCA Manual S (from memory): cooling capacity at least 90 % of the total cooling load, at
-# most 125 % for a heat pump in a heating-dominated climate (HDD65 at least twice CDD65).
+# ACCA Manual S (2nd ed., 2014; from memory): cooling capacity at least 90 % of the total
+# cooling load, at most 125 % for a heat pump in a heating-dominated climate (HDD65 at least
+# twice CDD65).
 BAND = (0.90, 1.25)
 
 

@@ -56,7 +56,7 @@ SAFE = {
     "prepared_for": "The Example household (invented)",
     "notes": "Invented plan for tests.",
     "name": "Example house",
-    "place": "Larkspur Falls (invented)",
+    "place": "Fixtureville (invented)",
     "car": "2012 sedan",
     "contractor": "Invented Heating Co",
     "budget": 9000,

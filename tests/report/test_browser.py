@@ -1,7 +1,9 @@
 """The printable page in a real browser: headless Chromium renders it to PNG and to PDF.
 
-Needs Debian packages ``chromium`` and (for the text and page checks) ``poppler-utils``; skipped
-with a clear reason when Chromium is not installed. The expected page count (3) is what the layout
+Needs Debian packages ``chromium`` and (for the text and page checks) ``poppler-utils``; on a
+developer's machine without them the tests are skipped with a clear reason, but under continuous
+integration (``CI`` set, as ``.ci/run`` does) a missing tool is a failure: ``.ci/run`` installs
+them, so a skip there would hide a test that did not run. The expected page count (3) is what the layout
 gives the invented fixture plan: page 1 holds the home, timeline and steps; blocks are kept whole
 where they fit (CSS Fragmentation Module Level 3) without forced breaks, so no page before the
 last is half empty. It must hold on both US Letter (Chromium's default) and A4 (ISO 216).
@@ -35,11 +37,24 @@ FLAGS = ["--headless", "--no-sandbox", "--disable-gpu", "--disable-quic", "--no-
 TODAY = dt.date(2026, 12, 1)
 
 
+def in_ci() -> bool:
+    """True under continuous integration (``CI`` set to anything but empty, 0 or false)."""
+    return os.environ.get("CI", "").strip().lower() not in ("", "0", "false", "no")
+
+
+def missing(what: str) -> None:
+    """Skip on a developer's machine; fail under CI, where the tool must be there."""
+    if in_ci():
+        pytest.fail(f"{what} - under CI this is a failure, not a skip (.ci/run installs it)")
+    pytest.skip(what)
+
+
 def chromium() -> str:
     for cand in ("/usr/bin/chromium", shutil.which("chromium"), shutil.which("chromium-browser")):
         if cand and os.access(cand, os.X_OK):
             return cand
-    pytest.skip("Chromium is not installed (Debian: apt-get install chromium)")
+    missing("Chromium is not installed (Debian: apt-get install chromium)")
+    raise AssertionError("unreachable")
 
 
 def run_chromium(tmp: Path, *args: str) -> subprocess.CompletedProcess:
@@ -94,11 +109,12 @@ def test_pdf_pages_and_text(tmp_path: Path, paper, size_pts) -> None:
     to_pdf(tmp_path, page, pdf)
     assert pdf_pages(pdf) == 4  # glance, year by year, price risk, assumptions and safety
     size = pdf_size_pts(pdf)
-    if size is not None:
-        assert size == pytest.approx(size_pts, abs=1.5)
+    if size is None:
+        missing("pdfinfo (poppler-utils) is not installed: page size not checked")
+    assert size == pytest.approx(size_pts, abs=1.5)
     text = pdf_text(pdf)
     if text is None:
-        pytest.skip("pdftotext (poppler-utils) not installed: page count checked, text not")
+        missing("pdftotext (poppler-utils) not installed: page count checked, text not")
     pages = [p for p in text.split("\f") if p.strip()]
     assert len(pages) == 4
     # the first page is the one for the fridge: the home, the timeline and the steps
@@ -155,6 +171,19 @@ def test_hostile_plan_renders_safely(tmp_path: Path) -> None:
     to_pdf(tmp_path, page, pdf)
     assert 3 <= pdf_pages(pdf) <= 5  # the very long name wraps, nothing breaks the layout
     text = pdf_text(pdf)
-    if text is not None:
-        assert '<script>alert("by")</script>' in text
-        assert "=HYPERLINK" in text
+    if text is None:
+        missing("pdftotext (poppler-utils) not installed: the hostile text was not checked")
+    assert '<script>alert("by")</script>' in text
+    assert "=HYPERLINK" in text
+
+
+def test_missing_browser_is_a_failure_under_ci(monkeypatch) -> None:
+    """Under CI a missing Chromium fails the test; on a developer's machine it is skipped."""
+    monkeypatch.setattr(os, "access", lambda *_args: False)
+    monkeypatch.setattr(shutil, "which", lambda _name: None)
+    monkeypatch.setenv("CI", "true")
+    with pytest.raises(pytest.fail.Exception, match="failure, not a skip"):
+        chromium()
+    monkeypatch.setenv("CI", "")
+    with pytest.raises(pytest.skip.Exception, match="Chromium is not installed"):
+        chromium()

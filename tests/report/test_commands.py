@@ -1,7 +1,7 @@
 """The print/export/diff commands through the real CLI entry point (exit codes 0 and 2).
 
 The planner is replaced by the invented fixture result, so these tests check the views and the
-command wiring only. Exit codes follow docs/developing.md (0 ok, 2 bad input or usage).
+command wiring only. Exit codes are the project's own convention (0 ok, 2 bad input or usage).
 """
 
 from __future__ import annotations
@@ -97,3 +97,26 @@ def test_diff_of_bad_file_is_bad_input(run, tmp_path) -> None:
     bad = tmp_path / "bad.yaml"
     bad.write_text("home: [\n")
     assert run(["diff", str(bad), str(bad), "--inputs-only"]) == 2
+
+
+def test_costs_shows_the_cautions_of_the_projects_it_lists(monkeypatch, capsys) -> None:
+    """Every project the cost table lists brings its safety cautions (the project's own safety
+    table, homeplan/data/cautions.yaml - the texts are ours, not an outside source)."""
+    from homeplan import catalog
+    from homeplan.cli import planning
+
+    monkeypatch.setattr(planning, "load_and_plan", lambda _path, **_kw: (None, make_result()))
+    texts = catalog.cautions(2023)
+    assert cli.main(["costs", "x.yaml"]) == 0
+    out = capsys.readouterr().out
+    lines = [ln for ln in out.splitlines() if ln.startswith("caution: ")]
+    flat = " ".join(texts["electrical"].split())
+    assert f"caution: Licensed electrician and permit (New 200 A panel): {flat}" in lines
+    assert any(ln.startswith("caution: Certified refrigerant technician (Heat pump):") for ln in lines)
+    assert any("NEC 2023" in ln for ln in lines)  # the code edition follows the electrical one
+    assert lines[-1] == f"caution: {' '.join(texts['planning'].split())}"
+    assert cli.main(["costs", "--json", "x.yaml"]) == 0
+    data = json.loads(capsys.readouterr().out)
+    by_id = {p["id"]: p for p in data["projects"]}
+    assert texts["electrical"] in by_id["panel_upgrade"]["cautions"]
+    assert texts["refrigerant"] in by_id["heat_pump"]["cautions"]

@@ -1,7 +1,7 @@
 """Plan and roadmap differences in plain words, with a "because" for a single input change.
 
-The expected wording is our own (issue 8 gives the example "heat pump moved 2028 -> 2027 because
-the budget rose to $9,000"); the plans and roadmaps are invented.
+The expected wording is our own (for example "heat pump moved 2028 -> 2027 because the budget
+rose to $9,000"); the plans and roadmaps are invented.
 """
 
 from __future__ import annotations

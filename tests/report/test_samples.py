@@ -53,3 +53,15 @@ def test_every_output_of_a_sample(path) -> None:
     assert data["plan"]["content_hash"] == report.footer.content_hash
     # the schedule is proven best within the plan solver's relative gap (1e-5)
     assert data["solver"]["status"] == "optimal" and 0.0 <= data["solver"]["mip_gap"] <= 1e-5
+
+
+@pytest.mark.parametrize("path", SAMPLES, ids=[p.name for p in SAMPLES])
+def test_sample_homes_say_they_are_invented(path) -> None:
+    """Demo homes, people and places are invented and say so where they are named."""
+    plan = load_plan(path).plan
+    place = plan.home.location.place if plan.home.location else None
+    assert place is None or place.endswith(" (invented)"), place
+    who = plan.provenance.prepared_for if plan.provenance else None
+    assert who is None or who.endswith(" (invented)"), who
+    header = [line for line in path.read_text(encoding="utf-8").splitlines()[:3] if line.startswith("#")]
+    assert any("invented" in line.lower() for line in header)

@@ -1,8 +1,8 @@
 """The MILP's optimum equals exhaustive enumeration's on random small instances.
 
 The reference is brute force over every placement (``bruteforce.py``), which shares no model
-code with the MILP; issue 6 asks for >= 200 instances of <= 6 projects x <= 8 years with a
-relative difference < 1e-6 and agreement on feasibility.
+code with the MILP. The project requires >= 200 instances of <= 6 projects x <= 8 years with a
+relative difference < 1e-6 and agreement on feasibility (a requirement, not an outside source).
 """
 
 from __future__ import annotations

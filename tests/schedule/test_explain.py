@@ -3,8 +3,6 @@
 from __future__ import annotations
 
 import pytest
-from hypothesis import given, settings
-from hypothesis import strategies as st
 
 from homeplan.schedule.explain import diagnose, diagnose_infeasible, explain, minimum_extra_budget
 from homeplan.schedule.milp import MilpSolver
@@ -181,31 +179,54 @@ def test_waiting_for_service_capacity() -> None:
     assert "waiting for service capacity" in why[later[0]]
 
 
-@settings(max_examples=40, deadline=None)
-@given(seed=st.integers(0, 10**6))
-def test_explanations_cover_every_project(seed: int) -> None:
-    pr = random_problem(seed)
+def test_explanations_cover_every_project() -> None:
+    explained = 0
+    for seed in range(40):
+        pr = random_problem(seed)
+        sol = MILP.solve(pr)
+        if not sol.feasible:
+            continue  # nothing to explain; bounded below
+        explained += 1
+        why = explain(pr, sol)
+        assert set(why) == set(pr.ids), seed
+        for pid, reasons in why.items():
+            assert reasons, (seed, pid)  # every project gets at least one reason
+            assert all(isinstance(r, str) and r for r in reasons)
+    assert explained >= 20  # not vacuous: measured 29 of the 40 instances have a plan
+
+
+def test_explanation_of_a_project_delayed_to_avoid_a_follow_up() -> None:
+    # Found by the earlier random search (instance 625): p2 (mandatory, after p1) is placed in
+    # the last year, which keeps the follow-up "p0 within a year of p1 and p2" outside the plan;
+    # its reason names that follow-up.
+    pr = random_problem(625)
+    assert [(f.project, set(f.after), f.within_years) for f in pr.followups] == [("p0", {"p1", "p2"}, 1)]
     sol = MILP.solve(pr)
-    if not sol.feasible:
-        return
-    why = explain(pr, sol)
-    assert set(why) == set(pr.ids)
-    for pid, reasons in why.items():
-        assert reasons, pid  # every project gets at least one reason
-        assert all(isinstance(r, str) and r for r in reasons)
+    assert sol.feasible
+    (reason,) = explain(pr, sol)["p2"]
+    assert "would have to follow within 1 year" in reason
 
 
-@settings(max_examples=15, deadline=None)
-@given(seed=st.integers(0, 10**6))
-def test_extra_budget_found_by_diagnosis_really_works(seed: int) -> None:
-    pr = random_problem(seed, max_projects=4, max_years=5)
-    if MILP.solve(pr).feasible:
-        return
-    d = diagnose(pr)
-    assert not d.feasible and d.message
-    if d.extra_budget_usd_per_year is not None:
-        e = d.extra_budget_usd_per_year
-        assert MILP.solve(pr.replace(budget_usd=tuple(b + e for b in pr.budget_usd))).feasible
-        if e >= 10:
-            less = pr.replace(budget_usd=tuple(b + e - 10 for b in pr.budget_usd))
-            assert not MILP.solve(less).feasible
+def test_extra_budget_found_by_diagnosis_really_works() -> None:
+    """Infeasible random instances (of at most 200 drawn) until five diagnoses have named an
+    extra budget: each names the problem in words, and the extra budget makes the instance
+    feasible while $10 less does not. (Measured: the fifth comes at seed 44, after 17
+    infeasible instances; the others cannot be fixed by money alone.)"""
+    infeasible = with_budget = 0
+    for seed in range(200):
+        pr = random_problem(seed, max_projects=4, max_years=5)
+        if MILP.solve(pr).feasible:
+            continue  # this test is about infeasible instances; their count is bounded below
+        infeasible += 1
+        d = diagnose(pr)
+        assert not d.feasible and d.message, seed
+        if d.extra_budget_usd_per_year is not None:  # None: no budget fixes it (told in words)
+            with_budget += 1
+            e = d.extra_budget_usd_per_year
+            assert MILP.solve(pr.replace(budget_usd=tuple(b + e for b in pr.budget_usd))).feasible
+            if e >= 10:
+                less = pr.replace(budget_usd=tuple(b + e - 10 for b in pr.budget_usd))
+                assert not MILP.solve(less).feasible, seed
+        if with_budget == 5:
+            break
+    assert with_budget == 5, f"only {with_budget} of {infeasible} diagnoses named an extra budget"

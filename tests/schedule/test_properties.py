@@ -1,6 +1,6 @@
 """Property tests: over random instances the MILP's plan never breaks a hard constraint.
 
-The checks below are written directly from the constraint definitions in the issue (budget with
+The checks below are written directly from the constraint definitions of the problem (budget with
 carryover, prerequisites, any-of, capacity, pins, exclusions, windows, per-year limit, targets,
 capped incentives, loan limit); they do not use ``problem.evaluate`` or the MILP model. Loans and
 incentive amounts are taken from the solution and checked for consistency themselves.
@@ -8,8 +8,8 @@ incentive amounts are taken from the solution and checked for consistency themse
 
 from __future__ import annotations
 
-from hypothesis import HealthCheck, given, settings
-from hypothesis import strategies as st
+import numpy as np
+import pytest
 
 from homeplan.schedule.milp import MilpSolver, Solution
 from homeplan.schedule.problem import Problem
@@ -113,24 +113,35 @@ def check_hard_constraints(pr: Problem, sol: Solution) -> list[str]:
     return bad
 
 
-@settings(max_examples=150, deadline=None, suppress_health_check=[HealthCheck.too_slow])
-@given(
-    seed=st.integers(0, 10**6),
-    budget_factor=st.sampled_from([0.3, 0.7, 1.0, 1.5, 3.0]),
-    carryover=st.booleans(),
-    objective=st.sampled_from(OBJECTIVES),
-)
-def test_milp_plan_never_violates_hard_constraints(
-    seed: int, budget_factor: float, carryover: bool, objective: str
-) -> None:
-    pr = random_problem(seed, objective=objective)
-    pr = pr.replace(
+N_CASES = 150
+CHUNKS = 5
+
+
+def _case(seed: int) -> Problem:
+    """Instance ``seed`` with its budget scaled and carryover and objective drawn, from a
+    generator of its own (a case never depends on the cases run before it)."""
+    rng = np.random.default_rng([7, seed])
+    budget_factor = float(rng.choice([0.3, 0.7, 1.0, 1.5, 3.0]))
+    carryover = bool(rng.integers(2))
+    pr = random_problem(seed, objective=str(rng.choice(OBJECTIVES)))
+    return pr.replace(
         budget_usd=tuple(round(b * budget_factor) for b in pr.budget_usd), carryover=carryover
     )
-    sol = MILP.solve(pr)
-    if not sol.feasible:
-        return
-    assert check_hard_constraints(pr, sol) == []
+
+
+@pytest.mark.parametrize("chunk", range(CHUNKS))
+def test_milp_plan_never_violates_hard_constraints(chunk: int) -> None:
+    per = N_CASES // CHUNKS
+    feasible = 0
+    for seed in range(chunk * per, (chunk + 1) * per):
+        pr = _case(seed)
+        sol = MILP.solve(pr)
+        if not sol.feasible:
+            continue  # nothing to check; bounded below
+        feasible += 1
+        assert check_hard_constraints(pr, sol) == [], seed
+    # the check must not be vacuous: most instances have a plan (measured: 94 of 150)
+    assert feasible >= per // 3, f"only {feasible} of {per} instances were feasible"
 
 
 def test_checker_catches_violations() -> None:

@@ -11,7 +11,7 @@ import pytest
 from homeplan.errors import InputError
 from homeplan.plan.load import load_plan, load_plan_text
 from homeplan.tui import newplan
-from homeplan.tui.format import kusd, usd
+from homeplan.tui.format import kusd, trunc, usd
 from homeplan.tui.screens.forms import FieldSpec, parse_value
 from homeplan.tui.session import DELETE, PlanSession
 
@@ -105,7 +105,7 @@ def test_form_values_parse_as_people_type_them():
 
 
 def test_money_is_rounded_to_what_matters():
-    # TUI.md: "$12,400, not $12,391.87"
+    # the project's display rule (not an outside source): "$12,400, not $12,391.87"
     assert usd(12391.87) == "$12,400" and usd(-1234) == "-$1,230" and usd(0) == "$0"
     assert kusd(6240) == "6.2k" and kusd(23456) == "23k" and kusd(20) == "0" and kusd(-950) == "-950"
 
@@ -136,3 +136,11 @@ def test_open_command_reports_a_bad_file_without_starting_the_app(tmp_path: Path
                           cwd=ROOT, timeout=60)
     assert proc.returncode == 2
     assert f"{bad}:2:" in proc.stderr and "Traceback" not in proc.stderr
+
+
+def test_cut_names_keep_their_invented_mark():
+    # project rule (not an outside source): a demo name cut to fit still says it is invented
+    name = "Demo state heat pump rebate (invented)"
+    assert trunc(name, 60) == name
+    assert trunc(name, 24) == "Demo state h… (invented)" and len(trunc(name, 24)) == 24
+    assert trunc("A long ordinary program name", 10) == "A long or…"

@@ -63,8 +63,10 @@ class IncentivesView(View):
         table.clear(columns=True)
         self.programs = data.result.programs if data.result is not None else ()
         years = sorted({y for p in self.programs for y, v in p.paid_by_year.items() if v})
-        wide = self.app.size.width >= 100
-        name_w = 30 if wide else 18
+        # the name takes what the money columns leave (Total, one per year, Ends, cell padding),
+        # so that names - and their "(invented)" mark - show whole where the screen allows
+        room = self.app.size.width - (9 + 8 * len(years) + 13 + 6)
+        name_w = max(18, min(40, room))
         table.add_column("Program", width=name_w, key="name")
         table.add_column(Text("Total", justify="right"), key="total")
         for y in years:
