@@ -31,7 +31,7 @@ from pathlib import Path
 ROOT = Path(__file__).resolve().parent.parent
 sys.path.insert(0, str(ROOT))
 
-PROGRAMS = ROOT / "sample_homes" / "incentives" / "lakeshire_demo.yaml"
+PROGRAMS = ROOT / "sample_homes" / "incentives" / "demoland_invented.yaml"
 
 
 def load() -> str:

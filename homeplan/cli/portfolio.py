@@ -96,7 +96,7 @@ def _budgets(items: list[str] | None) -> dict[str, float]:
             value = -1.0
         if not pid or value < 0:
             raise InputError(Problem("--program-budget", 0, 0, f"{item!r} is not PROGRAM=USD",
-                                     "e.g. --program-budget lakeshire_hp_rebate=2000000"))
+                                     "e.g. --program-budget demo_state_hp_rebate=2000000"))
         out[pid.strip()] = value
     return out
 

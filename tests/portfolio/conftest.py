@@ -14,7 +14,7 @@ from homeplan.portfolio.runner import InProcessExecutor, run
 from homeplan.portfolio.store import Store, store_path
 
 ROOT = Path(__file__).resolve().parents[2]
-PROGRAMS = ROOT / "sample_homes" / "incentives" / "lakeshire_demo.yaml"
+PROGRAMS = ROOT / "sample_homes" / "incentives" / "demoland_invented.yaml"
 HOMES = 8
 SEED = 4  # homes that plan quickly (about 0.2 s each), to keep the tests short
 

@@ -127,7 +127,7 @@ def test_a_folder_of_plans(tmp_path):
     for name in ("minimal.yaml", "cold_gas_100a.yaml"):
         shutil.copy(ROOT / "sample_homes" / name, tmp_path / name)
     (tmp_path / "incentives").mkdir()
-    shutil.copy(ROOT / "sample_homes" / "incentives" / "lakeshire_demo.yaml", tmp_path / "incentives")
+    shutil.copy(ROOT / "sample_homes" / "incentives" / "demoland_invented.yaml", tmp_path / "incentives")
     (tmp_path / "broken.yaml").write_text("home: [\n")
     source = open_source(tmp_path)
     assert [i.home_id for i in iter_inputs(source)] == ["broken", "cold_gas_100a", "minimal"]

@@ -30,7 +30,7 @@ from .conftest import HOMES
 @pytest.fixture(scope="module")
 def summed(straight_run):
     with Store.open(straight_run, readonly=True) as store:
-        yield rollup(store, Coincidence(0.6, 0.4, "test"), {"lakeshire_hp_rebate": 5000.0})
+        yield rollup(store, Coincidence(0.6, 0.4, "test"), {"demo_state_hp_rebate": 5000.0})
 
 
 def _home_years(path):
@@ -77,7 +77,7 @@ def test_yearly_sums_are_the_sums_of_the_homes(straight_run, summed):
 def test_a_program_budget_runs_out_in_the_year_the_draws_pass_it(straight_run, summed):
     conn = sqlite3.connect(straight_run)
     by_year = dict(conn.execute("SELECT year, SUM(amount_usd) FROM home_programs "
-                                "WHERE program_id = 'lakeshire_hp_rebate' GROUP BY year ORDER BY year"))
+                                "WHERE program_id = 'demo_state_hp_rebate' GROUP BY year ORDER BY year"))
     conn.close()
     total, expected = 0.0, None
     for year, amount in sorted(by_year.items()):
@@ -85,7 +85,7 @@ def test_a_program_budget_runs_out_in_the_year_the_draws_pass_it(straight_run, s
         if total > 5000.0 and expected is None:
             expected = year
     assert expected is not None  # the test budget is small enough to run out
-    t = next(p for p in summed.program_totals if p.program_id == "lakeshire_hp_rebate")
+    t = next(p for p in summed.program_totals if p.program_id == "demo_state_hp_rebate")
     assert t.budget_usd == 5000.0 and t.exhausted_year == expected
     assert t.over_budget_usd == pytest.approx(max(0.0, total - 5000.0), abs=0.01)
 
