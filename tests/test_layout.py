@@ -43,6 +43,7 @@ DEFERRED = {
     ("homeplan.cli.app", "homeplan.tui.portfolio"),
     ("homeplan.tui.app", "homeplan.planner.chain"),         # numpy, scipy, pvlib, networkx
     ("homeplan.tui.app", "homeplan.planner.context"),
+    ("homeplan.tui.app", "homeplan.planner.diskstore"),       # numpy
     ("homeplan.tui.widgets.base", "homeplan.planner.lifecycle"),  # numpy
     ("homeplan.tui.app", "homeplan.planner.diskstore"),     # with the planner, after the first paint
 }

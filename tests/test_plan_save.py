@@ -7,7 +7,7 @@ import os
 import pytest
 
 from homeplan.plan import save
-from homeplan.plan.load import load_plan
+from homeplan.plan.load import load_for_editing, load_plan
 
 from .conftest import SAMPLES
 
@@ -16,7 +16,7 @@ def test_round_trip_keeps_comments_and_order(tmp_path):
     src = SAMPLES[0].read_text()
     f = tmp_path / "plan.yaml"
     f.write_text(src)
-    loaded = load_plan(f)
+    loaded = load_for_editing(f)
     save.save_document(f, loaded.document)
     assert f.read_text() == src  # byte-for-byte when nothing changed
     assert (tmp_path / "plan.yaml.bak").read_text() == src
@@ -25,7 +25,7 @@ def test_round_trip_keeps_comments_and_order(tmp_path):
 def test_edit_keeps_comments(tmp_path):
     f = tmp_path / "plan.yaml"
     f.write_text(SAMPLES[0].read_text())
-    loaded = load_plan(f)
+    loaded = load_for_editing(f)
     save.set_in(loaded.document, ("budget", "usd_per_year"), 12000)
     save.save_document(f, loaded.document)
     text = f.read_text()

@@ -11,7 +11,6 @@ from __future__ import annotations
 
 import importlib
 import os
-import sys
 from collections.abc import Sequence
 
 from homeplan.cli.parser import (
@@ -22,9 +21,29 @@ from homeplan.cli.parser import (
     EXIT_OK,
     build_parser,
 )
+from homeplan.cli.say import say
 from homeplan.errors import InputError
+from homeplan.plan.preflight import preflight
 
-__all__ = ["build_parser", "main"]
+__all__ = ["build_parser", "debugging", "main"]
+
+
+def debugging() -> bool:
+    """True when ``HOMEPLAN_DEBUG`` asks for tracebacks (1, true, yes or on; 0 or empty: no)."""
+    return os.environ.get("HOMEPLAN_DEBUG", "").strip().lower() in ("1", "true", "yes", "on")
+
+
+_READ_NAMED = {"check", "plan", "capacity", "costs", "print", "export", "diff", "open"}
+
+
+def _preflight(args) -> None:
+    """The plan files of the command, and what they name, checked before the heavy imports."""
+    paths = [args.a, args.b] if args.command == "diff" else [getattr(args, "file", None)]
+    allow = getattr(args, "allow_outside", None) or []
+    for path in paths:
+        if path is None or (args.command == "open" and not os.path.lexists(path)):
+            continue  # open without a file, or a new plan: nothing to read
+        preflight(path, allow, named=args.command in _READ_NAMED)
 
 
 def main(argv: Sequence[str] | None = None) -> int:
@@ -36,23 +55,30 @@ def main(argv: Sequence[str] | None = None) -> int:
         return EXIT_BAD_INPUT
     module, function = COMMANDS[args.command]
     try:
+        _preflight(args)
         # the command's group is imported only now: it loads the planner and its libraries
         run = getattr(importlib.import_module(f"homeplan.cli.{module}"), function)
         return int(run(args) or 0)
     except InputError as exc:
         for problem in exc.problems:
-            print(str(problem) if problem.path else f"homeplan: {problem.message}", file=sys.stderr)
+            say(str(problem) if problem.path else f"homeplan: {problem.message}", err=True)
         n = len(exc.problems)
         if n > 1:
-            print(f"{n} problems found", file=sys.stderr)
+            say(f"{n} problems found", err=True)
         return EXIT_BAD_INPUT
     except KeyboardInterrupt:
         return EXIT_INTERRUPTED
     except BrokenPipeError:
         return EXIT_OK
-    except Exception as exc:  # a bug or an environment failure: say so briefly
-        if os.environ.get("HOMEPLAN_DEBUG"):
+    except OSError as exc:  # the system refused (disk full, I/O error): not a bug, say what failed
+        if debugging():
             raise
-        print(f"homeplan: internal error: {type(exc).__name__}: {exc}\n"
-              "(set HOMEPLAN_DEBUG=1 to see the traceback, and please report it)", file=sys.stderr)
+        where = f" ({exc.filename})" if exc.filename else ""
+        say(f"homeplan: could not finish: {exc.strerror or exc}{where}", err=True)
+        return EXIT_FAILURE
+    except Exception as exc:  # a bug or an environment failure: say so briefly
+        if debugging():
+            raise
+        say(f"homeplan: internal error: {type(exc).__name__}: {exc}\n"
+            "(set HOMEPLAN_DEBUG=1 to see the traceback, and please report it)", err=True)
         return EXIT_FAILURE

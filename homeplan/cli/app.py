@@ -8,10 +8,10 @@ not exist yet starts the guided new-plan form, which writes it.
 
 from __future__ import annotations
 
-import sys
 from pathlib import Path
 
 from homeplan.cli.parser import EXIT_BAD_INPUT
+from homeplan.cli.say import say
 from homeplan.errors import InputError
 from homeplan.portfolio.store import Store, store_path
 from homeplan.tui.session import PlanSession
@@ -35,7 +35,7 @@ def run_portfolio(store: Path, light: bool | None = None) -> int:
         Store.open(store, readonly=True).close()
     except InputError as err:
         for problem in err.problems:
-            print(problem, file=sys.stderr)
+            say(problem, err=True)
         return EXIT_BAD_INPUT
     # textual (~0.3 s) is imported only once the results are known to be readable
     from homeplan.tui.portfolio import PortfolioApp
@@ -45,8 +45,10 @@ def run_portfolio(store: Path, light: bool | None = None) -> int:
     return int(result or 0) if app.return_code in (None, 0) else int(app.return_code)
 
 
-def run(path: str | None, light: bool | None = None, use_store: bool = True) -> int:
+def run(path: str | None, light: bool | None = None, allow: tuple[str, ...] = (),
+        use_store: bool = True) -> int:
     """Open ``path`` (or the new-plan form when it does not exist); returns an exit code.
+    ``allow``: files outside the plan's folder the user lets it name (``--allow-outside``).
     ``use_store`` False (``--no-cache``) keeps nothing in the user's cache folder. A portfolio's
     results folder (or its ``.sqlite`` file) opens read-only."""
     store = _portfolio(path)
@@ -57,11 +59,13 @@ def run(path: str | None, light: bool | None = None, use_store: bool = True) -> 
     if path is not None and Path(path).exists():
         try:
             session = PlanSession.open(path)
+            for outside in allow:
+                session.allow_outside(outside)
         except InputError as err:
             for problem in err.problems:
-                print(problem, file=sys.stderr)
-            print(f"{len(err.problems)} problem(s) found; fix the file and open it again "
-                  "(`homeplan check FILE` lists them too).", file=sys.stderr)
+                say(problem, err=True)
+            say(f"{len(err.problems)} problem(s) found; fix the file and open it again "
+                "(`homeplan check FILE` lists them too).", err=True)
             return EXIT_BAD_INPUT
     else:
         new_path = path
@@ -77,4 +81,5 @@ def run(path: str | None, light: bool | None = None, use_store: bool = True) -> 
 def cmd_open(args) -> int:
     """CLI entry: ``args.file`` (may not exist yet) and optional ``args.light``."""
     return run(getattr(args, "file", None), light=getattr(args, "light", None) or None,
+               allow=tuple(getattr(args, "allow_outside", None) or ()),
                use_store=not getattr(args, "no_cache", False))

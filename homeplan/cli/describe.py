@@ -4,11 +4,10 @@
 from __future__ import annotations
 
 import json
-import sys
 from dataclasses import asdict
-from pathlib import Path
 from typing import TYPE_CHECKING
 
+from homeplan.cli.say import say
 from homeplan.errors import PlanRuleError
 from homeplan.plan.alternatives import options
 from homeplan.plan.load import LoadedPlan, load_plan
@@ -16,6 +15,7 @@ from homeplan.plan.model import Plan
 from homeplan.plan.save import write_atomic
 from homeplan.plan.schema import plan_json_schema
 from homeplan.planner import candidates, lifecycle
+from homeplan.planner.basis import BILL_YEAR_WEATHER_KEY, read_weather_file
 from homeplan.planner.incentives import load_programs
 from homeplan.planner.meter import read_meter
 from homeplan.report.table import text_table, usd
@@ -35,17 +35,16 @@ def _graph_checked(loaded: LoadedPlan) -> nx.DiGraph:
 
 
 def _check_files(loaded: LoadedPlan) -> tuple[str, ...]:
-    """The files a plan refers to must exist and hold valid data (incentives, weather, meter);
-    returns what the meter file tells, in words."""
+    """The files a plan names must be readable and hold valid data (incentives, weather, meter),
+    read the way the planner reads them; returns what the meter file tells, in words."""
     plan = loaded.plan
-    base = loaded.base_dir
     try:
-        load_programs(plan, base)
-        _, reading = read_meter(plan, base)
-        wf = plan.home.climate.weather_file
-        if wf and not (Path(wf) if Path(wf).is_absolute() else base / wf).exists():
-            raise PlanRuleError(("home", "climate", "weather_file"), f"weather file not found: {wf}",
-                                "give a path relative to the plan file, or remove the key")
+        load_programs(plan, loaded.folder)
+        _, reading = read_meter(plan, loaded.folder)
+        if plan.home.climate.weather_file:
+            read_weather_file(loaded.folder, plan.home.climate.weather_file)
+        if plan.usage is not None and plan.usage.weather_file:
+            read_weather_file(loaded.folder, plan.usage.weather_file, BILL_YEAR_WEATHER_KEY)
     except PlanRuleError as err:
         raise loaded.locate(err) from None
     if reading is None:
@@ -95,29 +94,29 @@ def plan_summary(plan: Plan, g: nx.DiGraph | None = None) -> str:
 
 
 def cmd_check(args) -> int:
-    loaded = load_plan(args.file)
+    loaded = load_plan(args.file, allow=args.allow_outside)
     g = _graph_checked(loaded)
     meter = _check_files(loaded)
     named = options(loaded)[1:]  # each option validated, its problems located in the file
     for _, opt in named:
         _graph_checked(opt)
-    print(f"{args.file}: ok")
-    print(plan_summary(loaded.plan, g))
+    say(f"{args.file}: ok")
+    say(plan_summary(loaded.plan, g))
     if named:
-        print(f"options: {', '.join(name for name, _ in named)} (compare them: homeplan compare {args.file})")
+        say(f"options: {', '.join(name for name, _ in named)} (compare them: homeplan compare {args.file})")
     for line in meter:
-        print(f"  meter:      {line}")
+        say(f"  meter:      {line}")
     if loaded.migrated_from:
-        print(f"note: migrated from plan format {loaded.migrated_from}; saving writes the new format")
+        say(f"note: migrated from plan format {loaded.migrated_from}; saving writes the new format")
     return 0
 
 
 def cmd_schema(args) -> int:
     text = json.dumps(plan_json_schema(), indent=2) + "\n"
     if args.output:
-        write_atomic(args.output, text, backup=False)
+        write_atomic(args.output, text, backup=False, replace_readonly=args.force)
     else:
-        sys.stdout.write(text)
+        say(text, end="")
     return 0
 
 
@@ -125,7 +124,7 @@ def cmd_graph(args) -> int:
     loaded = load_plan(args.file)
     g = _graph_checked(loaded)
     if args.dot:
-        sys.stdout.write(candidates.to_dot(g))
+        say(candidates.to_dot(g), end="")
         return 0
     if args.json:
         data = {
@@ -137,21 +136,21 @@ def cmd_graph(args) -> int:
             "layers": candidates.layers(g),
             "any_of": candidates.any_of_groups(g),
         }
-        print(json.dumps(data, indent=2))
+        say(json.dumps(data, indent=2))
         return 0
-    print(f"Upgrades that apply to {loaded.plan.home.name or args.file}, in order of what can come first:")
+    say(f"Upgrades that apply to {loaded.plan.home.name or args.file}, in order of what can come first:")
     for i, layer in enumerate(candidates.layers(g), 1):
-        print(f"\n  {i}. " + ", ".join(layer))
+        say(f"\n  {i}. " + ", ".join(layer))
         for n in layer:
             for u, _, d in g.in_edges(n, data=True):
                 if d["kind"] == "any_of":
                     continue
                 word = "after" if d["kind"] == "requires" else "better after"
-                print(f"       {n}: {word} {u} ({d.get('why', '')})")
+                say(f"       {n}: {word} {u} ({d.get('why', '')})")
     for grp in candidates.any_of_groups(g).values():
-        print(f"\n  Any one of: {' | '.join(grp['alternatives'])}")
-        print(f"    gives {grp['label']} for: {', '.join(grp['needed_by'])}")
-        print("    (the capacity check decides which, if any, is needed)")
+        say(f"\n  Any one of: {' | '.join(grp['alternatives'])}")
+        say(f"    gives {grp['label']} for: {', '.join(grp['needed_by'])}")
+        say("    (the capacity check decides which, if any, is needed)")
     return 0
 
 
@@ -161,9 +160,9 @@ def cmd_lifecycle(args) -> int:
     outs = lifecycle.plan_outlooks(plan, years)
     first = plan.first_year
     if args.json:
-        print(json.dumps([asdict(o) for o in outs], indent=2))
+        say(json.dumps([asdict(o) for o in outs], indent=2))
         return 0
-    print(f"End-of-life outlook from {first} (Weibull model from catalog service lives; "
+    say(f"End-of-life outlook from {first} (Weibull model from catalog service lives; "
           "planning estimates)\n")
     rows = []
     for o in outs:
@@ -172,8 +171,8 @@ def cmd_lifecycle(args) -> int:
                      o.replace_by_year, *(f"{p:.0f}%" for p in o.yearly_failure_pct[:years])])
     headers = ["id", "what", "age", "median life", "likely end", f"replace by ({plan.choices.replace_at_risk_pct:.0f}% risk)",
                *(str(first + i) for i in range(years))]
-    print(text_table(headers, rows, "llrrrr" + "r" * years))
-    print("\nThe year columns give the chance it fails in that year, given it works today.")
+    say(text_table(headers, rows, "llrrrr" + "r" * years))
+    say("\nThe year columns give the chance it fails in that year, given it works today.")
     if any(o.install_year_assumed for o in outs):
-        print("? install year unknown: assumed half-way through its median life.")
+        say("? install year unknown: assumed half-way through its median life.")
     return 0

@@ -8,11 +8,11 @@ from __future__ import annotations
 
 import datetime as dt
 import json
-import sys
 from pathlib import Path
 
 from homeplan import __version__
-from homeplan.cli.common import load_and_plan, now_utc, with_sensitivity
+from homeplan.cli.common import load_and_plan, now_utc, refuse_outputs_over_inputs, with_sensitivity
+from homeplan.cli.say import say
 from homeplan.errors import InputError, Problem
 from homeplan.plan.alternatives import BASE_NAME, options
 from homeplan.plan.hashing import content_hash
@@ -21,7 +21,7 @@ from homeplan.plan.save import write_atomic
 from homeplan.planner.chain import plan_roadmap
 from homeplan.planner.context import PlannerCache
 from homeplan.report.compare import Comparison, build_comparison, comparison_json
-from homeplan.report.csvout import write_csv_dir
+from homeplan.report.csvout import CSV_NAMES, write_csv_dir
 from homeplan.report.diff import diff_inputs, diff_roadmaps, render_diff
 from homeplan.report.html import comparison_page, render_html
 from homeplan.report.ics import render_ics
@@ -58,61 +58,74 @@ def render_summary(result: PlanResult, fmt: str, today: dt.date | None = None,
 
 def cmd_print(args) -> int:
     fmt = _format_for(args.output, args.format)
-    loaded, result = load_and_plan(args.file, use_store=not args.no_cache)
+    outputs = [args.output] if args.output else []
+    loaded, result = load_and_plan(args.file, allow=args.allow_outside, outputs=outputs, force=args.force,
+                                   use_store=not args.no_cache)
     if not getattr(args, "quick", False):
         result = with_sensitivity(loaded, result)
     comparison = None
     if result.plan.alternatives:
-        comparison = build_comparison([(name, r) for name, _, r in planned_options([args.file])])
+        comparison = build_comparison([(name, r) for name, _, r in
+                                       planned_options([args.file], args.allow_outside)])
     text = render_summary(result, fmt, today=now_utc().date(), comparison=comparison)
     if args.output and args.output != "-":
-        write_atomic(args.output, text, backup=False)
-        print(f"wrote {args.output}", file=sys.stderr)
+        write_atomic(args.output, text, backup=False, replace_readonly=args.force)
+        say(f"wrote {args.output}", err=True)
     else:
-        sys.stdout.write(text)
+        say(text, end="")
     return 0
 
 
 def cmd_export(args) -> int:
     if not (args.csv or args.ics or args.json):
         raise InputError("nothing to export: give --csv DIR, --ics FILE and/or --json FILE")
-    _, result = load_and_plan(args.file, use_store=not args.no_cache)
+    outputs = [o for o in (args.ics, args.json) if o]
+    if args.csv:
+        outputs += [str(Path(args.csv) / name) for name in CSV_NAMES]
+    _, result = load_and_plan(args.file, allow=args.allow_outside, outputs=outputs, force=args.force,
+                              use_store=not args.no_cache)
     written: list[str] = []
     if args.csv:
-        written += [str(p) for p in write_csv_dir(result, args.csv, hourly=args.hourly)]
+        written += [str(p) for p in write_csv_dir(result, args.csv, hourly=args.hourly,
+                                                   replace_readonly=args.force)]
     if args.ics:
-        written.append(str(write_atomic(args.ics, render_ics(result, now=now_utc()), backup=False)))
+        written.append(str(write_atomic(args.ics, render_ics(result, now=now_utc()), backup=False,
+                                        replace_readonly=args.force)))
     if args.json:
         text = render_json(result)
         if args.json == "-":
-            sys.stdout.write(text)
+            say(text, end="")
         else:
-            written.append(str(write_atomic(args.json, text, backup=False)))
+            written.append(str(write_atomic(args.json, text, backup=False, replace_readonly=args.force)))
     for w in written:
-        print(f"wrote {w}", file=sys.stderr)
+        say(f"wrote {w}", err=True)
     return 0
 
 
 def cmd_diff(args) -> int:
     if args.inputs_only:
-        la, lb = load_plan(args.a), load_plan(args.b)
+        la, lb = load_plan(args.a, allow=args.allow_outside), load_plan(args.b, allow=args.allow_outside)
         road = None
     else:
-        la, ra = load_and_plan(args.a, use_store=not args.no_cache)
-        lb, rb = load_and_plan(args.b, use_store=not args.no_cache)
+        la, ra = load_and_plan(args.a, allow=args.allow_outside, use_store=not args.no_cache)
+        lb, rb = load_and_plan(args.b, allow=args.allow_outside, use_store=not args.no_cache)
         road = diff_roadmaps(ra.roadmap, rb.roadmap)
     inputs = diff_inputs(la.plan, lb.plan)
-    sys.stdout.write(render_diff(args.a, args.b, inputs, road, content_hash(la.plan), content_hash(lb.plan)))
+    say(render_diff(args.a, args.b, inputs, road, content_hash(la.plan), content_hash(lb.plan)), end="")
     return 0
 
 
-def planned_options(files: list[str]) -> list[tuple[str, str, PlanResult]]:
+def planned_options(files: list[str], allow: list[str] | None = None, outputs: list[str] | None = None,
+                    force: bool = False) -> list[tuple[str, str, PlanResult]]:
     """Every option of the plan files - each file as planned, then its named options - planned,
     as ``(name, file, result)``. Names are the option's own with one file, else prefixed by the
-    file's name."""
+    file's name. ``allow``: files outside a plan's folder the user lets it name; ``outputs``:
+    files the command writes, refused when one is a file it reads (unless ``force``)."""
     out = []
     for f in files:
-        loaded = load_plan(f)
+        loaded = load_plan(f, allow=allow or ())
+        if not force:
+            refuse_outputs_over_inputs(loaded, outputs or [])
         cache = PlannerCache()
         for name, opt in options(loaded):
             label = name if len(files) == 1 else (Path(f).stem if name == BASE_NAME else f"{Path(f).stem}: {name}")
@@ -122,13 +135,14 @@ def planned_options(files: list[str]) -> list[tuple[str, str, PlanResult]]:
 
 def cmd_compare(args) -> int:
     fmt = _format_for(args.output, args.format) if (args.output or args.format) else "txt"
-    planned = planned_options(list(args.files))
+    outputs = [args.output] if args.output else []
+    planned = planned_options(list(args.files), args.allow_outside, outputs, args.force)
     if len(planned) < 2:
         raise InputError(Problem(args.files[0], 0, 0, "nothing to compare: one plan without options",
                                  "give two or more plan files, or add alternatives: to the plan "
                                  "(see docs/plan-format.md)"))
     if args.json:
-        sys.stdout.write(json.dumps(comparison_json(planned), indent=2, allow_nan=False) + "\n")
+        say(json.dumps(comparison_json(planned), indent=2, allow_nan=False))
         return 0
     c = build_comparison([(n, r) for n, _, r in planned])
     if fmt == "html":
@@ -139,8 +153,8 @@ def cmd_compare(args) -> int:
     else:
         text = ("Options side by side. Planning estimates.\n\n" + comparison_text(c).split("\n", 2)[2])
     if args.output and args.output != "-":
-        write_atomic(args.output, text, backup=False)
-        print(f"wrote {args.output}", file=sys.stderr)
+        write_atomic(args.output, text, backup=False, replace_readonly=args.force)
+        say(f"wrote {args.output}", err=True)
     else:
-        sys.stdout.write(text)
+        say(text, end="")
     return 0

@@ -115,12 +115,24 @@ def build_parser() -> argparse.ArgumentParser:
             sp.add_argument("--no-cache", action="store_true", default=argparse.SUPPRESS, help=no_cache)
         return sp
 
+    def allow_outside(sp: argparse.ArgumentParser) -> argparse.ArgumentParser:
+        sp.add_argument("--allow-outside", metavar="PATH", action="append", default=[],
+                        help="let the plan name this file outside its own folder (an incentive or "
+                        "weather file); repeat for more. Without it such files are refused")
+        return sp
+
+    def force(sp: argparse.ArgumentParser) -> None:
+        sp.add_argument("--force", action="store_true",
+                        help="write even over a file this command reads (the plan itself, its "
+                        "incentive or weather files) or a read-only file")
+
     def json_flag(sp: argparse.ArgumentParser) -> None:
         sp.add_argument("--json", action="store_true", help="print JSON")
 
-    command("check", "validate a plan file and print a short summary")
+    allow_outside(command("check", "validate a plan file and print a short summary"))
     sp = command("schema", "print the JSON Schema of the plan file format", file=False)
     sp.add_argument("-o", "--output", help="write to this file instead of stdout")
+    force(sp)
     sp = command("graph", "show which upgrades apply and what must come before what")
     sp.add_argument("--dot", action="store_true", help="print Graphviz DOT")
     json_flag(sp)
@@ -128,15 +140,17 @@ def build_parser() -> argparse.ArgumentParser:
     sp.add_argument("--years", type=_years, default=8, help="years of risk to show (1-30, default 8)")
     json_flag(sp)
 
-    sp = command("plan", "compute the year-by-year roadmap and print it")
+    sp = allow_outside(command("plan", "compute the year-by-year roadmap and print it"))
     sp.add_argument("--json", action="store_true", help="print the roadmap as JSON (docs/roadmap-json.md)")
     sp.add_argument("--budget", type=_money, help="override the yearly budget (USD)")
     sp.add_argument("--horizon", type=_years, help="override the number of years (1-30)")
     sp.add_argument("--objective", choices=OBJECTIVES, help="override the objective")
-    json_flag(command("capacity", "electrical load calculation today and after each roadmap step"))
-    json_flag(command("costs", "costs, incentives and net cost of each project by year"))
-    json_flag(command("sensitivity", "which assumptions move the net present value most (each at a "
-                      "low and a high setting, the home re-planned; takes a few seconds)"))
+    json_flag(allow_outside(command("capacity", "electrical load calculation today and after each "
+                                    "roadmap step")))
+    json_flag(allow_outside(command("costs", "costs, incentives and net cost of each project by year")))
+    json_flag(allow_outside(command("sensitivity", "which assumptions move the net present value most "
+                                    "(each at a low and a high setting, the home re-planned; takes a "
+                                    "few seconds)")))
 
     sp = command("open", "open the plan in the terminal app (explore, edit, re-plan); "
                  "a FILE that does not exist yet starts the guided new-plan form; a portfolio's "
@@ -144,6 +158,7 @@ def build_parser() -> argparse.ArgumentParser:
     sp.add_argument("file", nargs="?", help="plan file (YAML), or a portfolio's RESULTS folder; "
                     "omit it to start a new plan")
     sp.add_argument("--light", action="store_true", help="light colours for a light terminal background")
+    allow_outside(sp)
 
     sp = command("print", "print a summary of the roadmap (text, Markdown or a printable HTML page)")
     sp.add_argument("-o", "--output", help="write to this file (.html, .md or .txt) instead of stdout")
@@ -151,16 +166,19 @@ def build_parser() -> argparse.ArgumentParser:
                     "file extension, else txt)")
     sp.add_argument("--quick", action="store_true", help="leave out the sensitivity ranking (it re-plans "
                     "the home about twenty times)")
+    force(allow_outside(sp))
     sp = command("export", "export the roadmap as CSV files, an iCalendar file or JSON")
     sp.add_argument("--csv", metavar="DIR", help="write steps.csv, years.csv and monthly_energy.csv here")
     sp.add_argument("--hourly", action="store_true", help="with --csv: also hourly_energy.csv when available")
     sp.add_argument("--ics", metavar="FILE", help="write reminders (quotes, incentive deadlines, "
                     "replace-by dates) as an iCalendar file")
     sp.add_argument("--json", metavar="FILE", help="write the roadmap result as JSON ('-' for stdout)")
+    force(allow_outside(sp))
     sp = command("diff", "show what changed between two plan files and their roadmaps", file=False)
     sp.add_argument("a", help="the earlier plan file (YAML)")
     sp.add_argument("b", help="the later plan file (YAML)")
     sp.add_argument("--inputs-only", action="store_true", help="compare the inputs only (no planning)")
+    allow_outside(sp)
 
     sp = command("portfolio", "plan many homes (a folder of plan files, or a CSV of homes with a "
                  "template plan) and add them up year by year", file=False)
@@ -203,6 +221,7 @@ def build_parser() -> argparse.ArgumentParser:
     sp.add_argument("-o", "--output", help="write a printable comparison (.html, .md or .txt)")
     sp.add_argument("--format", choices=("txt", "md", "html"), help="output format (default: from the "
                     "file extension, else txt)")
+    force(allow_outside(sp))
     missing = set(sub.choices) ^ set(COMMANDS)
     assert not missing, f"commands without a module or a parser: {sorted(missing)}"
     return p

@@ -3,7 +3,6 @@
 from __future__ import annotations
 
 import json
-import sys
 import textwrap
 from dataclasses import asdict
 from typing import Any
@@ -11,6 +10,7 @@ from typing import Any
 from homeplan import catalog
 from homeplan.cli.common import load_and_plan, with_sensitivity
 from homeplan.cli.parser import EXIT_BAD_INPUT
+from homeplan.cli.say import say
 from homeplan.report.fmt import service_verdict
 from homeplan.report.risk import risk_lines, sensitivity_view
 from homeplan.report.table import text_table, usd
@@ -32,90 +32,91 @@ def _overrides(args) -> dict[tuple, Any]:
 
 
 def cmd_plan(args) -> int:
-    loaded, result = load_and_plan(args.file, _overrides(args), use_store=not args.no_cache)
+    loaded, result = load_and_plan(args.file, _overrides(args), allow=args.allow_outside,
+                                   use_store=not args.no_cache)
     rm = result.roadmap
     if args.json:
         data = rm.to_dict()
         data["warnings"] = list(result.warnings)
         if result.solver is not None:
             data["solver"] = result.solver.to_dict()
-        print(json.dumps(data, indent=2))
+        say(json.dumps(data, indent=2))
         return 0
-    print(f"Roadmap for {rm.plan_name}, {rm.first_year}-{rm.last_year} "
+    say(f"Roadmap for {rm.plan_name}, {rm.first_year}-{rm.last_year} "
           f"(objective: {rm.objective.replace('_', ' ')}). Planning estimates.\n")
     for text in emergency_lines(rm):
-        print(f"EMERGENCY: {text}\n")
+        say(f"EMERGENCY: {text}\n")
     if rm.status != "ok":
-        print(rm.infeasibility or "No plan meets every requirement.", file=sys.stderr)
+        say(rm.infeasibility or "No plan meets every requirement.", err=True)
         return EXIT_BAD_INPUT  # the request cannot be met as asked: change the plan file
     rows = []
     for s in rm.steps:
         what = s.label + (f" ({s.variant})" if s.variant else "") + (f", {s.size}" if s.size else "")
         rows.append([s.year, what, usd(s.cost_usd, 10), usd(s.incentives_usd, 10), usd(s.net_cost_usd, 10),
                      "; ".join(s.reasons)])
-    print(text_table(["year", "step", "cost", "incentives", "net", "why this year"], rows, "llrrrl"))
-    print()
+    say(text_table(["year", "step", "cost", "incentives", "net", "why this year"], rows, "llrrrl"))
+    say()
     rows = []
     for y in rm.years:
         rows.append([y.year, usd(y.spend_usd, 10), usd(y.incentives_usd, 10), usd(y.loan_payments_usd, 10),
                      usd(y.total_bills_usd, 10), usd(y.bill_savings_usd, 10), f"{y.emissions_kg / 1000:.1f} t",
                      f"{y.service_headroom_amps:.0f} A"
                      + (f" ({y.service_load_pct:.0f} %, near its limit)" if y.service_near_limit else "")])
-    print(text_table(["year", "spend", "incentives in", "loan payments", "energy bills", "bill savings",
+    say(text_table(["year", "spend", "incentives in", "loan payments", "energy bills", "bill savings",
                       "CO2", "service headroom"], rows, "lrrrrrrr"))
-    print()
+    say()
     for m in rm.milestones:
-        print(f"  {m.year}: {m.label}")
+        say(f"  {m.year}: {m.label}")
     rate = loaded.plan.budget.discount_rate_pct
     fin = result.finance.plan if result.finance else None
     irr = "" if fin is None or fin.irr_pct is None else f", a return of {fin.irr_pct:.1f} % a year"
-    print(f"\nNet present value against doing nothing: {usd(rm.npv_usd, 10)} at {rate:g} %{irr}")
-    print("  (bill savings, minus spending net of incentives, plus the breakdown repairs avoided and "
+    say(f"\nNet present value against doing nothing: {usd(rm.npv_usd, 10)} at {rate:g} %{irr}")
+    say("  (bill savings, minus spending net of incentives, plus the breakdown repairs avoided and "
           "the equipment's remaining value at the end)")
     for b in rm.baselines[1:]:
-        print(f"  {b.name}: {usd(b.npv_usd, 10)}")
+        say(f"  {b.name}: {usd(b.npv_usd, 10)}")
     fits = bill_fit_lines(rm)
     if fits:
-        print("\nModel of today's home against your bills (planning estimate):")
+        say("\nModel of today's home against your bills (planning estimate):")
         for line in fits:
-            print(f"  {line}")
+            say(f"  {line}")
     lines = risk_lines(rm)
     if lines:
-        print("\nPrice risk:")
+        say("\nPrice risk:")
         for line in lines:
-            print(textwrap.fill(line, 100, initial_indent="  ", subsequent_indent="  "))
+            say(textwrap.fill(line, 100, initial_indent="  ", subsequent_indent="  "))
     for w in result.warnings:
-        print(f"note: {w}")
-    print()
+        say(f"note: {w}")
+    say()
     for c in rm.cautions:
-        print(f"caution: {c}")
+        say(f"caution: {c}")
     return 0
 
 
 def cmd_capacity(args) -> int:
-    _, result = load_and_plan(args.file, use_store=not args.no_cache)
+    _, result = load_and_plan(args.file, allow=args.allow_outside, use_store=not args.no_cache)
     if args.json:
-        print(json.dumps([asdict(s) for s in result.capacity], indent=2, allow_nan=False))
+        say(json.dumps([asdict(s) for s in result.capacity], indent=2, allow_nan=False))
         return 0
     for s in result.capacity:
-        print(f"== {s.label}: {s.method}")
+        say(f"== {s.label}: {s.method}")
         if not s.applies:  # a method that does not apply: say why
             for n in s.notes:
-                print(f"   {n}")
-            print()
+                say(f"   {n}")
+            say()
             continue
         rows = [[r.name, f"{r.va:,.0f}", "" if r.factor is None else f"{r.factor:.0%}",
                  "" if r.counted_va is None else f"{r.counted_va:,.0f}", r.section] for r in s.rows]
-        print(text_table(["load", "VA", "factor", "counted VA", "section"], rows, "lrrrl"))
+        say(text_table(["load", "VA", "factor", "counted VA", "section"], rows, "lrrrl"))
         verdict = service_verdict(s.fits, s.near_limit, s.load_pct)
-        print(f"total {s.total_va:,.0f} VA = {s.amps:.1f} A on a {s.service_amps:.0f} A service: "
-              f"{verdict}, headroom {s.headroom_amps:.1f} A" + (f" ({s.remedy})" if s.remedy else ""))
+        say(f"total {s.total_va:,.0f} VA = {s.amps:.1f} A on a {s.service_amps:.0f} A service: "
+            f"{verdict}, headroom {s.headroom_amps:.1f} A" + (f" ({s.remedy})" if s.remedy else ""))
         for n in s.notes:
-            print(f"note: {n}")
-        print()
+            say(f"note: {n}")
+        say()
     texts = catalog.cautions(result.plan.home.electrical.code_edition)
     for cid in ("electrical", "code_edition", "planning"):
-        print(f"caution: {texts[cid]}")
+        say(f"caution: {texts[cid]}")
     return 0
 
 
@@ -153,7 +154,7 @@ def _caution_lines(result, planned) -> list[str]:
 
 
 def cmd_costs(args) -> int:
-    _, result = load_and_plan(args.file, use_store=not args.no_cache)
+    _, result = load_and_plan(args.file, allow=args.allow_outside, use_store=not args.no_cache)
     rm = result.roadmap
     planned = {s.project_id: s for s in rm.steps}
     if args.json:
@@ -173,7 +174,7 @@ def cmd_costs(args) -> int:
                           "paid_by_year": {str(k): v for k, v in u.paid_by_year.items()},
                           "caps": u.caps_note, "ends": u.ends} for u in result.programs],
         }
-        print(json.dumps(data, indent=2, allow_nan=False))
+        say(json.dumps(data, indent=2, allow_nan=False))
         return 0
     rows = []
     for p in result.projects:
@@ -182,19 +183,19 @@ def cmd_costs(args) -> int:
                      usd(s.incentives_usd, 10) if s else "", usd(s.net_cost_usd, 10) if s else "",
                      p.cost_source[:60]])
     for text in emergency_lines(rm):
-        print(f"EMERGENCY: {text}\n")
-    print("Costs today and in the planned year (before and after incentives). Planning estimates.\n")
-    print(text_table(["project", "cost today", "year", "cost then", "incentives", "net", "cost from"],
+        say(f"EMERGENCY: {text}\n")
+    say("Costs today and in the planned year (before and after incentives). Planning estimates.\n")
+    say(text_table(["project", "cost today", "year", "cost then", "incentives", "net", "cost from"],
                      rows, "lrrrrrl"))
-    print()
+    say()
     rows = [[y.year, usd(y.spend_usd, 10), usd(y.incentives_usd, 10), usd(y.net_usd, 10),
              usd(y.loan_payments_usd, 10), usd(y.bill_savings_usd, 10), usd(y.cumulative_usd, 10)] for y in rm.years]
-    print(text_table(["year", "spend", "incentives in", "net", "loan payments", "bill savings", "cumulative"],
+    say(text_table(["year", "spend", "incentives in", "net", "loan payments", "bill savings", "cumulative"],
                      rows, "lrrrrrr"))
     fin = result.finance
     returns = fin.projects if fin else {}
     if returns:
-        print("\nReturns per step (net cost up front, then the bill savings over its life):")
+        say("\nReturns per step (net cost up front, then the bill savings over its life):")
         rows = []
         for s in rm.steps:
             r = returns.get(s.project_id)
@@ -203,54 +204,54 @@ def cmd_costs(args) -> int:
             rows.append([s.year, s.label, usd(r.first_year_savings_usd, 10), usd(r.npv_over_life_usd, 10),
                          "-" if r.irr_pct is None else f"{r.irr_pct:.1f} %",
                          "never" if r.simple_payback_years is None else f"{r.simple_payback_years:.1f} yr"])
-        print(text_table(["year", "step", "saves in year 1", "NPV over life", "IRR", "payback"], rows, "llrrrr"))
+        say(text_table(["year", "step", "saves in year 1", "NPV over life", "IRR", "payback"], rows, "llrrrr"))
     plan_r = fin.plan if fin else None
     if plan_r:
         irr = "-" if plan_r.irr_pct is None else f"{plan_r.irr_pct:.1f} %"
         pb = ("not within the horizon" if plan_r.simple_payback_years is None
               else f"{plan_r.simple_payback_years:.1f} years")
-        print(f"\nThe whole plan against doing nothing: IRR {irr}, simple payback {pb} (expected "
+        say(f"\nThe whole plan against doing nothing: IRR {irr}, simple payback {pb} (expected "
               "breakdown costs avoided and the equipment's remaining value included).")
     hedge = fin.solar_hedge if fin else None
     if hedge:
         what = "solar and battery" if hedge.includes_battery else "solar"
         verb = "lock" if hedge.includes_battery else "locks"
-        print(f"Your {what} {verb} in electricity at {hedge.lcoe_usd_per_kwh * 100:.1f} c/kWh over "
+        say(f"Your {what} {verb} in electricity at {hedge.lcoe_usd_per_kwh * 100:.1f} c/kWh over "
               f"{hedge.life_years} years; the utility's price, rising with inflation, averages "
               f"{hedge.utility_levelised_usd_per_kwh * 100:.1f} c/kWh over the same years "
               f"({hedge.utility_first_year_usd_per_kwh * 100:.1f} c when the panels go up, "
               f"{hedge.utility_last_year_usd_per_kwh * 100:.1f} c in their last year).")
     if result.programs:
-        print("\nIncentive programs used:")
+        say("\nIncentive programs used:")
         for u in result.programs:
             paid = ", ".join(f"{y}: {usd(v, 10)}" for y, v in u.paid_by_year.items())
-            print(f"  {u.name} ({u.kind.replace('_', ' ')}): {paid}" + (f"; ends {u.ends}" if u.ends else ""))
-    print()
+            say(f"  {u.name} ({u.kind.replace('_', ' ')}): {paid}" + (f"; ends {u.ends}" if u.ends else ""))
+    say()
     for line in _caution_lines(result, planned):
-        print(line)
+        say(line)
     return 0
 
 
 def cmd_sensitivity(args) -> int:
-    loaded, result = load_and_plan(args.file)
+    loaded, result = load_and_plan(args.file, allow=args.allow_outside)
     if result.roadmap.status != "ok":
-        print(result.roadmap.infeasibility or "No plan meets every requirement.", file=sys.stderr)
+        say(result.roadmap.infeasibility or "No plan meets every requirement.", err=True)
         return EXIT_BAD_INPUT
     result = with_sensitivity(loaded, result)
     if args.json:
-        print(json.dumps(result.sensitivity.to_dict(), indent=2, allow_nan=False))
+        say(json.dumps(result.sensitivity.to_dict(), indent=2, allow_nan=False))
         return 0
     view = sensitivity_view(result)
-    print("What moves the net present value most: each assumption at a low and a high setting, the "
+    say("What moves the net present value most: each assumption at a low and a high setting, the "
           "home re-planned. Planning estimates.\n")
     if view is None:
-        print("No assumption could be varied for this plan.")
+        say("No assumption could be varied for this plan.")
         return 0
     for line in view.lines:
-        print(textwrap.fill(line, 100))
-    print()
-    print(tornado_text(view.base_usd, view.bars))
-    print()
-    print(text_table(list(view.table.headers), [list(r) for r in view.table.rows], view.table.align.replace("n", "l")))
-    print(textwrap.fill(view.table.note, 100))
+        say(textwrap.fill(line, 100))
+    say()
+    say(tornado_text(view.base_usd, view.bars))
+    say()
+    say(text_table(list(view.table.headers), [list(r) for r in view.table.rows], view.table.align.replace("n", "l")))
+    say(textwrap.fill(view.table.note, 100))
     return 0

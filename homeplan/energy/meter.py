@@ -46,6 +46,7 @@ __all__ = [
     "daily_kwh",
     "hourly_kwh",
     "monthly_kwh",
+    "parse_green_button",
     "parse_green_button_csv",
     "parse_espi_xml",
     "peak_demand",
@@ -629,9 +630,34 @@ def read_green_button(path: str | Path, us_daylight_saving: bool = True) -> Inte
         text = data.decode("utf-8-sig")
     except UnicodeDecodeError:
         raise MeterFileError(str(p), 0, "not UTF-8 text", "download the file again") from None
+    return parse_green_button(text, str(p), us_daylight_saving)
+
+
+def parse_green_button(text: str, name: str = "meter", us_daylight_saving: bool = True) -> IntervalSeries:
+    """A Green Button file's text, XML or CSV by its content.
+
+    Parameters
+    ----------
+    text : str
+        The file's text.
+    name : str
+        The file's name, for messages.
+    us_daylight_saving : bool
+        For CSV: the printed times follow US daylight saving time.
+
+    Returns
+    -------
+    IntervalSeries
+        Delivered energy by interval, kWh.
+
+    Raises
+    ------
+    MeterFileError
+        If the text is not a readable Green Button file.
+    """
     if text.lstrip().startswith("<"):
-        return parse_espi_xml(text, str(p))
-    return parse_green_button_csv(text, str(p), us_daylight_saving)
+        return parse_espi_xml(text, name)
+    return parse_green_button_csv(text, name, us_daylight_saving)
 
 
 # ----------------------------------------------------------------------------- figures

@@ -7,9 +7,12 @@ W/m2, wind in m/s.
 from __future__ import annotations
 
 import hashlib
+import io
 import math
+import os
+import tempfile
 from collections.abc import Mapping
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 from pathlib import Path
 
 import numpy as np
@@ -20,11 +23,13 @@ from homeplan.energy.units import c_to_f
 __all__ = [
     "ClimateNormals",
     "Weather",
+    "WeatherFileError",
     "parse_epw_design_conditions",
     "read_epw",
     "read_tmy2",
     "read_tmy3",
     "read_weather",
+    "read_weather_text",
     "SUN_KEYS",
     "SYNTHETIC_HOURLY_KEYS",
     "synthetic_weather",
@@ -32,12 +37,16 @@ __all__ = [
 ]
 
 
+class WeatherFileError(ValueError):
+    """A weather file that was read but does not hold one usable typical year."""
+
+
 def _as_year(name: str, values: object) -> np.ndarray:
     arr = np.array(values, dtype=float)
     if arr.shape != (timegrid.HOURS_PER_YEAR,):
-        raise ValueError(f"{name} must have {timegrid.HOURS_PER_YEAR} hourly values, got {arr.shape}")
+        raise WeatherFileError(f"{name} must have {timegrid.HOURS_PER_YEAR} hourly values, got {arr.shape}")
     if not np.all(np.isfinite(arr)):
-        raise ValueError(f"{name} has missing values")
+        raise WeatherFileError(f"{name} has missing values")
     arr.setflags(write=False)
     return arr
 
@@ -282,21 +291,30 @@ def read_epw(path: str | Path) -> Weather:
     ----------
     pvlib.iotools.read_epw (pvlib 0.16); EnergyPlus Auxiliary Programs, EPW data dictionary.
     """
+    return _epw(Path(path).read_text(encoding="latin-1"), Path(path).name)
+
+
+def _epw(text: str, name: str) -> Weather:
+    """An EPW file's text (pvlib reads it from memory: no path, so never a URL)."""
     from pvlib.iotools import read_epw as _read
 
-    data, meta = _read(str(path))
+    data, meta = _read(io.StringIO(text))
     data = _drop_feb29(data)
-    with open(path, encoding="latin-1") as fh:
-        fh.readline()
-        design = parse_epw_design_conditions(fh.readline())
+    lines = text.split("\n", 2)
+    design = parse_epw_design_conditions(lines[1]) if len(lines) > 1 else None
     heat_f, cool_f = design if design else (None, None)
     return _from_pvlib(data["temp_air"], data["ghi"], data["dni"], data["dhi"], data["wind_speed"], meta,
-                       f"EPW {Path(path).name}", heating_design_f=heat_f, cooling_design_f=cool_f,
+                       f"EPW {name}", heating_design_f=heat_f, cooling_design_f=cool_f,
                        design_source="EPW DESIGN CONDITIONS (ASHRAE 99 % / 1 %)" if design else "")
 
 
 def _from_pvlib(temp_c, ghi, dni, dhi, wind, meta, source: str, **extra) -> Weather:
     """A Weather from the columns and metadata one of pvlib's readers returned."""
+    site = {"latitude": (-90.0, 90.0), "longitude": (-180.0, 180.0), "TZ": (-14.0, 14.0)}
+    for key, (low, high) in site.items():
+        value = float(meta[key])
+        if not low <= value <= high:  # also refuses NaN
+            raise WeatherFileError(f"the file's {key} is {value}, outside {low:g} to {high:g}")
     return Weather(
         temp_f=c_to_f(temp_c.to_numpy(float)),
         ghi_wm2=ghi.to_numpy(float),
@@ -337,9 +355,9 @@ def read_tmy3(path: str | Path) -> Weather:
     """
     from pvlib.iotools import read_tmy3 as _read
 
-    data, meta = _read(str(path), map_variables=True)
+    data, meta = _read(path if hasattr(path, "read") else str(path), map_variables=True)
     return _from_pvlib(data["temp_air"], data["ghi"], data["dni"], data["dhi"], data["wind_speed"], meta,
-                       f"TMY3 {Path(path).name}")
+                       f"TMY3 {Path(getattr(path, 'name', None) or str(path)).name}")
 
 
 def read_tmy2(path: str | Path) -> Weather:
@@ -397,6 +415,50 @@ def read_weather(path: str | Path) -> Weather:
     if suffix == ".tm2":
         return read_tmy2(path)
     raise ValueError(f"unsupported weather file type: {path} (use .epw, TMY3 .csv or .tm2)")
+
+
+def read_weather_text(text: str, name: str) -> Weather:
+    """Read the text of a weather file that the caller has already read safely.
+
+    Parameters
+    ----------
+    text : str
+        The file's text.
+    name : str
+        Its name; the extension tells the format: ``.epw``, TMY3 ``.csv`` or TMY2 ``.tm2``.
+
+    Returns
+    -------
+    Weather
+        The typical year (F, W/m2, m/s).
+
+    Raises
+    ------
+    WeatherFileError
+        If the extension is not one of these or the file does not give 8760 finite hourly
+        values; pvlib's and pandas' own errors for a file that is not of its format.
+
+    References
+    ----------
+    pvlib.iotools.read_epw, read_tmy3, read_tmy2 (pvlib 0.16).
+    """
+    suffix = Path(name).suffix.lower()
+    if suffix == ".epw":
+        return _epw(text, Path(name).name)
+    if suffix == ".csv":
+        buffer = io.StringIO(text)
+        buffer.name = name
+        return read_tmy3(buffer)
+    if suffix == ".tm2":  # pvlib reads TMY2 by path only: a private copy of the text
+        fd, tmp = tempfile.mkstemp(suffix=".tm2")
+        try:
+            with os.fdopen(fd, "w", encoding="utf-8") as fh:
+                fh.write(text)
+            w = read_tmy2(tmp)
+        finally:
+            os.unlink(tmp)
+        return replace(w, source=f"TMY2 {Path(name).name}")
+    raise WeatherFileError(f"the extension '{suffix or '(none)'}' is not a weather file type homeplan reads")
 
 
 # ---------------------------------------------------------------------- synthetic weather

@@ -741,7 +741,8 @@ class _Reader:
         return value.strip()
 
     def number(
-        self, raw: Mapping[str, Any], key: str, path: str, *, allow_none: bool = True
+        self, raw: Mapping[str, Any], key: str, path: str, *, allow_none: bool = True,
+        most: float = 1e12,
     ) -> float | None:
         value = raw.get(key)
         if value is None:
@@ -751,8 +752,12 @@ class _Reader:
         if isinstance(value, bool) or not isinstance(value, int | float):
             raise self.fail(path, f"expected a number, got {value!r}", "write a plain number")
         number = float(value)
+        if not math.isfinite(number):
+            raise self.fail(path, f"is {number:g}", "write an ordinary number")
         if number < 0:
             raise self.fail(path, f"is below zero ({number:g})", "use a value of 0 or more")
+        if number > most:
+            raise self.fail(path, f"is {number:,.0f}, more than {most:,.0f}", "check the value and its unit")
         return number
 
     def flag(self, raw: Mapping[str, Any], key: str, path: str, default: bool) -> bool:
@@ -914,7 +919,7 @@ def parse_program(raw: Mapping[str, Any]) -> Program:
 
     conditions = _parse_conditions(raw.get("conditions"), r)
 
-    paid_after = r.number(raw, "paid_after_days", "paid_after_days")
+    paid_after = r.number(raw, "paid_after_days", "paid_after_days", most=3660)  # ten years
     if kind == "rebate_later" and paid_after is None:
         raise r.fail(
             "paid_after_days",

@@ -13,6 +13,7 @@ from typing import Any
 
 from homeplan.errors import InputError, Problem
 from homeplan.plan.load import LoadedPlan, validate_document
+from homeplan.plan.yamlread import MarkedMap, Positions
 
 __all__ = ["BASE_NAME", "merged_document", "option", "options"]
 
@@ -22,16 +23,31 @@ BASE_NAME = "As planned"
 
 def _copy_position(dst: Any, src: Any, key: Any) -> None:
     lc_src, lc_dst = getattr(src, "lc", None), getattr(dst, "lc", None)
-    if lc_src is not None and lc_dst is not None and key in (getattr(lc_src, "data", None) or {}):
-        lc_dst.add_kv_line_col(key, lc_src.data[key])
+    if isinstance(lc_src, Positions) and isinstance(lc_dst, Positions):  # a file as read
+        if key in lc_src.keys:
+            lc_dst.keys[key] = lc_src.keys[key]
+        if key in lc_src.values:
+            lc_dst.values[key] = lc_src.values[key]
+    elif lc_src is not None and lc_dst is not None and key in (getattr(lc_src, "data", None) or {}):
+        lc_dst.add_kv_line_col(key, lc_src.data[key])  # a document being edited (round trip)
+
+
+def _new_map(like: Any) -> Any:
+    """An empty section of the same kind as ``like`` (positions start where it starts)."""
+    if isinstance(like, MarkedMap):
+        out = MarkedMap()
+        out.lc = Positions(like.lc.start)
+        return out
+    # ruamel.yaml only for a document being edited in the app, which already loaded it
+    from ruamel.yaml.comments import CommentedMap
+
+    return CommentedMap()
 
 
 def _merge(base: Any, over: Any) -> Any:
     if not (isinstance(base, dict) and isinstance(over, dict)):
         return over
-    from ruamel.yaml.comments import CommentedMap
-
-    out = CommentedMap()
+    out = _new_map(base)
     for key, value in base.items():
         out[key] = value
         _copy_position(out, base, key)
@@ -43,9 +59,7 @@ def _merge(base: Any, over: Any) -> Any:
 
 def _base_document(doc: Any) -> Any:
     """The document without its options (positions kept)."""
-    from ruamel.yaml.comments import CommentedMap
-
-    top = CommentedMap()
+    top = _new_map(doc)
     for key, value in doc.items():
         if key != "alternatives":
             top[key] = value
@@ -69,13 +83,13 @@ def option(loaded: LoadedPlan, index: int) -> LoadedPlan:
     except InputError as exc:
         raise InputError([Problem(p.path, p.line, p.col, f"option '{alt.name}': {p.message}", p.hint)
                           for p in exc.problems]) from None
-    return LoadedPlan(plan=plan, document=doc, path=loaded.path, migrated_from=migrated)
+    return LoadedPlan(plan=plan, document=doc, path=loaded.path, migrated_from=migrated, allow=loaded.allow)
 
 
 def options(loaded: LoadedPlan) -> list[tuple[str, LoadedPlan]]:
     """The plan as planned, then each of its options, by name."""
     out = [(BASE_NAME, loaded)] if not loaded.plan.alternatives else [(BASE_NAME, LoadedPlan(
         plan=loaded.plan.model_copy(update={"alternatives": []}), document=_base_document(loaded.document),
-        path=loaded.path, migrated_from=loaded.migrated_from))]
+        path=loaded.path, migrated_from=loaded.migrated_from, allow=loaded.allow))]
     out += [(a.name, option(loaded, i)) for i, a in enumerate(loaded.plan.alternatives)]
     return out

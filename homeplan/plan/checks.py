@@ -8,7 +8,7 @@ from __future__ import annotations
 
 from homeplan.plan.model import Plan
 
-__all__ = ["rule_problems"]
+__all__ = ["FUELS_BY_KIND", "UNMODELLED_FUELS", "rule_problems"]
 
 FUELS_BY_KIND = {
     "furnace": {"gas", "propane", "oil", "electric", "wood"},
@@ -26,6 +26,10 @@ FUELS_BY_KIND = {
 }
 
 
+UNMODELLED_FUELS = frozenset({"wood"})
+"""Fuels the file format knows but the energy model does not (no price, no bills)."""
+
+
 def rule_problems(plan: Plan) -> list[tuple[tuple, str, str]]:
     """(location, what is wrong, how to fix) for every broken rule."""
     out: list[tuple[tuple, str, str]] = []
@@ -34,6 +38,10 @@ def rule_problems(plan: Plan) -> list[tuple[tuple, str, str]]:
         if a.fuel and a.fuel not in FUELS_BY_KIND[a.kind]:
             out.append((("appliances", i, "fuel"), f"a {a.kind.replace('_', ' ')} does not burn {a.fuel}",
                         f"use one of {', '.join(sorted(FUELS_BY_KIND[a.kind]))}"))
+        elif a.fuel in UNMODELLED_FUELS:
+            out.append((("appliances", i, "fuel"), f"homeplan cannot model {a.fuel} heating yet (it has no "
+                        f"prices or bills for {a.fuel})", "leave a wood stove or furnace out of the plan; "
+                        "list the heating that the household pays for"))
         for old, new in (("seer", "seer2"), ("hspf", "hspf2"), ("eer", "eer2")):
             if getattr(a, old) is not None and getattr(a, new) is not None:
                 out.append((("appliances", i, old), f"both {old} (a pre-2023 rating) and {new} are given",

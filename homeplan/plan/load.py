@@ -1,9 +1,13 @@
 """Load a plan file safely and report every problem at once with its line and column.
 
-Plan files travel between installers and homeowners, so they are treated as untrusted:
-a size limit, strict UTF-8, only the plain YAML tags (no object construction), a limit on
-alias expansion (the "billion laughs" bomb), duplicate keys refused, and a format version
-that is migrated when older and refused when newer.
+Plan files travel between installers and homeowners, so they are treated as untrusted. The file
+is read by :mod:`homeplan.plan.files` (a regular file only, a size cap, UTF-8 only) and its YAML
+by :mod:`homeplan.plan.yamlread` (PyYAML's C parser: the event stream is checked for depth,
+aliases, tags and sizes before anything is built; duplicate keys refused; positions kept for
+every key). The app's editor, which must keep the user's comments, builds its round-trip document
+with ruamel.yaml only after the same checks passed (:func:`parse_roundtrip`). A format version
+older than this homeplan's is migrated, a newer one refused. Every string from the file passes
+the one sanitiser (:func:`homeplan.plan.text.clean`) on its way into the model.
 """
 
 from __future__ import annotations
@@ -11,7 +15,7 @@ from __future__ import annotations
 import copy
 import difflib
 import os
-from collections.abc import Mapping
+from collections.abc import Iterable, Mapping
 from dataclasses import dataclass
 from pathlib import Path
 from typing import Any
@@ -19,42 +23,52 @@ from typing import Any
 from homeplan.errors import InputError, PlanRuleError, Problem
 from homeplan.plan import migrate
 from homeplan.plan.checks import rule_problems
+from homeplan.plan.files import PLAN, PlanFolder
+from homeplan.plan.files import read_text as read_file_text
 from homeplan.plan.model import FORMAT_VERSION, Plan
 from homeplan.plan.save import set_in
+from homeplan.plan.text import clean
+from homeplan.plan.yamlread import PLAN_LIMITS, read_yaml
 from homeplan.units import SI_KEYS
 
 __all__ = [
     "MAX_FILE_BYTES",
     "LoadedPlan",
+    "load_for_editing",
     "load_plan",
     "load_plan_text",
     "parse_document",
+    "parse_roundtrip",
     "read_text",
-    "scan_safety",
     "validate_document",
 ]
 
-MAX_FILE_BYTES = 2 * 1024 * 1024
-MAX_EXPANDED_NODES = 200_000
-_PLAIN_TAGS = {
-    f"tag:yaml.org,2002:{t}"
-    for t in ("str", "int", "float", "bool", "null", "map", "seq", "timestamp", "binary")
-}
+MAX_FILE_BYTES = PLAN.max_bytes
 
 
 @dataclass(frozen=True)
 class LoadedPlan:
-    """A validated plan together with the document it came from (for round-trip saving)."""
+    """A validated plan together with the document it came from.
+
+    ``document`` holds the file's values with the position of every key (for messages);
+    ``allow`` are the paths outside the plan's folder the user allowed it to name.
+    """
 
     plan: Plan
-    document: Any  # ruamel CommentedMap, comments and order kept
+    document: Any
     path: Path
     migrated_from: int | None = None
+    allow: tuple[Path, ...] = ()
 
     @property
     def base_dir(self) -> Path:
         """The folder that paths in the plan (weather and incentive files) are relative to."""
         return self.path.parent
+
+    @property
+    def folder(self) -> PlanFolder:
+        """The plan's folder and the outside paths allowed (how named files are read)."""
+        return PlanFolder.of(self.base_dir, self.allow)
 
     def locate(self, err: PlanRuleError) -> InputError:
         """A rule the plan breaks, as a problem at the line and column of its key in the file."""
@@ -70,144 +84,50 @@ class LoadedPlan:
         for loc, value in values.items():
             set_in(doc, loc, value)
         plan, migrated_from = validate_document(doc, str(self.path))
-        return LoadedPlan(plan=plan, document=doc, path=self.path, migrated_from=migrated_from)
+        return LoadedPlan(plan=plan, document=doc, path=self.path, migrated_from=migrated_from,
+                          allow=self.allow)
 
 
-def read_text(path: Path) -> str:
-    """Read a user file as UTF-8 within the size limit, or raise InputError saying why not."""
+def read_text(path: str | os.PathLike) -> str:
+    """Read a plan file (a regular file, within the size cap, UTF-8), or raise InputError."""
     name = str(path)
-    try:
-        size = path.stat().st_size
-    except FileNotFoundError:
-        raise InputError(Problem(name, 0, 0, "file not found", "check the path")) from None
-    except OSError as exc:
-        raise InputError(Problem(name, 0, 0, f"cannot read: {exc.strerror}")) from None
-    if path.is_dir():
-        raise InputError(Problem(name, 0, 0, "is a directory, not a plan file"))
-    if size > MAX_FILE_BYTES:
-        raise InputError(
-            Problem(name, 0, 0, f"file is {size:,} bytes; plan files are limited to "
-                    f"{MAX_FILE_BYTES:,}", "is this the right file?")
-        )
-    data = path.read_bytes()
-    try:
-        text = data.decode("utf-8")
-    except UnicodeDecodeError as exc:
-        before = data[: exc.start]
-        line = before.count(b"\n") + 1
-        col = exc.start - (before.rfind(b"\n") + 1) + 1
-        raise InputError(
-            Problem(name, line, col, f"not UTF-8 text (byte 0x{data[exc.start]:02x})",
-                    "save the file as UTF-8")
-        ) from None
-    if text.startswith("\ufeff"):
-        text = text[1:]
+    text = read_file_text(path, PLAN, name)
     if not text.strip():
         raise InputError(Problem(name, 1, 1, "the file is empty", "start from a sample in sample_homes/"))
     return text
 
 
-def _yaml():
+def parse_document(text: str, name: str) -> Any:
+    """The plan's YAML as plain values with positions, after the safety checks."""
+    return read_yaml(text, name, PLAN_LIMITS)
+
+
+def parse_roundtrip(text: str, name: str) -> Any:
+    """The plan's YAML as a round-trip document (comments and key order kept, for editing).
+
+    The text passes the same checks and is read once by :func:`parse_document`'s reader first,
+    so every problem is reported the same way; only then does ruamel.yaml build its document.
+    """
+    from ruamel.yaml.error import YAMLError
+
+    read_yaml(text, name, PLAN_LIMITS)
+    try:
+        return _roundtrip_yaml().load(text)
+    except YAMLError as exc:  # the checks above accept only what both readers read
+        mark = getattr(exc, "problem_mark", None)
+        line, col = (mark.line + 1, mark.column + 1) if mark is not None else (0, 0)
+        raise InputError(Problem(name, line, col, "the round-trip reader cannot read this YAML: "
+                                 f"{clean(getattr(exc, 'problem', '') or type(exc).__name__)[:80]}",
+                                 "simplify the YAML at this place")) from None
+
+
+def _roundtrip_yaml():
     from ruamel.yaml import YAML
 
     y = YAML(typ="rt")
     y.allow_duplicate_keys = False
     y.preserve_quotes = True
     return y
-
-
-def _mark_problem(name: str, exc: Exception, what: str) -> Problem:
-    mark = getattr(exc, "problem_mark", None) or getattr(exc, "context_mark", None)
-    problem = getattr(exc, "problem", None) or str(exc).splitlines()[0]
-    line, col = (mark.line + 1, mark.column + 1) if mark is not None else (0, 0)
-    return Problem(name, line, col, f"{what}: {problem}", "fix the YAML syntax at this place")
-
-
-def scan_safety(text: str, name: str) -> None:
-    """Refuse non-plain tags and alias bombs before anything is constructed."""
-    from ruamel.yaml import YAML
-    from ruamel.yaml import events as ev
-    from ruamel.yaml.error import MarkedYAMLError
-
-    sizes: dict[str, int] = {}
-    stack: list[list[Any]] = []  # [anchor, count]
-    total = 0
-    try:
-        for event in YAML(typ="rt").parse(text):
-            if isinstance(event, ev.AliasEvent):
-                n = sizes.get(event.anchor, 1)
-                total += n
-                if stack:
-                    stack[-1][1] += n
-            elif isinstance(event, ev.ScalarEvent | ev.MappingStartEvent | ev.SequenceStartEvent):
-                tag = getattr(event, "tag", None)
-                tag = getattr(tag, "value", tag)
-                if tag and tag.startswith("!!"):
-                    tag = f"tag:yaml.org,2002:{tag[2:]}"
-                if tag and tag not in _PLAIN_TAGS:
-                    m = event.start_mark
-                    raise InputError(
-                        Problem(name, m.line + 1, m.column + 1, f"the tag {tag} is not allowed",
-                                "plan files hold plain values only; remove the tag")
-                    )
-                total += 1
-                if isinstance(event, ev.ScalarEvent):
-                    if event.anchor:
-                        sizes[event.anchor] = 1
-                    if stack:
-                        stack[-1][1] += 1
-                else:
-                    stack.append([event.anchor, 1])
-            elif isinstance(event, ev.MappingEndEvent | ev.SequenceEndEvent):
-                anchor, count = stack.pop()
-                if anchor:
-                    sizes[anchor] = count
-                if stack:
-                    stack[-1][1] += count
-            if total > MAX_EXPANDED_NODES:
-                m = event.start_mark
-                raise InputError(
-                    Problem(name, m.line + 1, m.column + 1,
-                            f"aliases expand to more than {MAX_EXPANDED_NODES:,} values",
-                            "remove the repeated aliases (*name); plan files are small")
-                )
-    except MarkedYAMLError as exc:
-        raise InputError(_mark_problem(name, exc, "YAML syntax error")) from None
-
-
-def parse_document(text: str, name: str) -> Any:
-    """Parse YAML text into a round-trip document after the safety scan."""
-    from ruamel.yaml.constructor import DuplicateKeyError
-    from ruamel.yaml.error import MarkedYAMLError
-
-    scan_safety(text, name)
-    try:
-        doc = _yaml().load(text)
-    except DuplicateKeyError as exc:
-        raise InputError(
-            Problem(name, exc.problem_mark.line + 1, exc.problem_mark.column + 1,
-                    f"duplicate key: {exc.problem.strip()}", "keep one of the two")
-        ) from None
-    except MarkedYAMLError as exc:
-        raise InputError(_mark_problem(name, exc, "YAML error")) from None
-    except ValueError as exc:  # a value YAML reads as a date but that is no date (2027-02-30)
-        line, col = _bad_date_position(text)
-        raise InputError(Problem(name, line, col, f"not a valid date: {exc}", "write YYYY-MM-DD")) from None
-    return doc
-
-
-def _bad_date_position(text: str) -> tuple[int, int]:
-    """Line and column of the first YYYY-MM-DD that is not a calendar date (0, 0 if none)."""
-    import datetime as dt
-    import re
-
-    for n, line in enumerate(text.splitlines(), 1):
-        for m in re.finditer(r"\b(\d{4})-(\d{1,2})-(\d{1,2})\b", line):
-            try:
-                dt.date(int(m.group(1)), int(m.group(2)), int(m.group(3)))
-            except ValueError:
-                return n, m.start() + 1
-    return 0, 0
 
 
 # ------------------------------------------------------------------------- positions
@@ -263,7 +183,7 @@ def to_plain(node: Any, path: tuple, renamed: dict[tuple, str], problems: list[s
     if isinstance(node, dict):
         out: dict[Any, Any] = {}
         for key, value in node.items():
-            skey = key
+            skey = clean(key, one_line=False) if isinstance(key, str) else key
             if isinstance(key, str) and key in SI_KEYS:
                 target, convert = SI_KEYS[key]
                 if target in node:
@@ -280,7 +200,7 @@ def to_plain(node: Any, path: tuple, renamed: dict[tuple, str], problems: list[s
     if isinstance(node, list):
         return [to_plain(v, (*path, i), renamed, problems) for i, v in enumerate(node)]
     if isinstance(node, str):
-        return str(node)
+        return clean(node, one_line=False)
     return node
 
 
@@ -357,8 +277,14 @@ def _describe(err: dict, allowed: list[str]) -> tuple[str, str]:
         return f"{field} must be a section of keys, not {type(value).__name__}", "indent its keys under it"
     if kind == "list_type":
         return f"{field} must be a list, not {type(value).__name__}", "write one '- item' per line"
-    if kind in ("too_short", "too_long"):
+    if kind in ("too_short", "too_long") and field.startswith("monthly_"):
         return f"{field}: {err['msg'].lower()}", "monthly lists have 12 values, January to December"
+    if kind == "too_long":
+        most = ctx.get("max_length", "")
+        return f"{field} lists {ctx.get('actual_length', 'too many')} items; at most {most}", \
+            "a plan describes one home: keep the ones that matter for the plan"
+    if kind == "too_short":
+        return f"{field}: {err['msg'].lower()}", "add the missing items"
     if kind in ("date_from_datetime_parsing", "date_parsing", "date_type"):
         return f"{field} must be a date, not {value!r}", "write YYYY-MM-DD"
     if kind == "string_pattern_mismatch":
@@ -443,13 +369,28 @@ def validate_document(doc: Any, name: str) -> tuple[Plan, int | None]:
     return plan, migrated_from
 
 
-def load_plan(path: str | os.PathLike) -> LoadedPlan:
-    """Read, check and validate a plan file. Raises InputError listing every problem."""
+def load_plan(path: str | os.PathLike, allow: Iterable[str | os.PathLike] = ()) -> LoadedPlan:
+    """Read, check and validate a plan file. Raises InputError listing every problem.
+
+    ``allow`` names files outside the plan's folder that the plan may name (the user's say-so).
+    """
     p = Path(path)
     text = read_text(p)
     doc = parse_document(text, str(p))
     plan, migrated_from = validate_document(doc, str(p))
-    return LoadedPlan(plan=plan, document=doc, path=p, migrated_from=migrated_from)
+    return LoadedPlan(plan=plan, document=doc, path=p, migrated_from=migrated_from,
+                      allow=tuple(Path(a) for a in allow))
+
+
+def load_for_editing(path: str | os.PathLike, allow: Iterable[str | os.PathLike] = ()) -> LoadedPlan:
+    """Like :func:`load_plan`, with a round-trip document (comments and key order kept) that
+    :func:`homeplan.plan.save.save_document` writes back."""
+    p = Path(path)
+    text = read_text(p)
+    doc = parse_roundtrip(text, str(p))
+    plan, migrated_from = validate_document(doc, str(p))
+    return LoadedPlan(plan=plan, document=doc, path=p, migrated_from=migrated_from,
+                      allow=tuple(Path(a) for a in allow))
 
 
 def load_plan_text(text: str, name: str = "<plan>") -> LoadedPlan:

@@ -56,7 +56,8 @@ FORMAT_VERSION = 1
 
 Year = Annotated[int, Field(ge=1900, le=2100)]
 Pct = Annotated[float, Field(ge=0, le=100)]
-Money = Annotated[float, Field(ge=0)]
+Money = Annotated[float, Field(ge=0, le=1e9)]
+"""USD, zero or more; a billion dollars is past any one home (and keeps sums finite)."""
 
 
 class Section(BaseModel):
@@ -314,7 +315,7 @@ class Vehicle(Section):
 
 class ElectricUsage(Section):
     annual_kwh: float | None = Field(None, ge=0, le=500000)
-    monthly_kwh: list[Annotated[float, Field(ge=0)]] | None = Field(
+    monthly_kwh: list[Annotated[float, Field(ge=0, le=500000)]] | None = Field(
         None, min_length=12, max_length=12, description="January to December."
     )
     bills_show: Literal["used", "net", "bought"] | None = Field(
@@ -328,14 +329,14 @@ class ElectricUsage(Section):
 
 class GasUsage(Section):
     annual_therms: float | None = Field(None, ge=0, le=50000)
-    monthly_therms: list[Annotated[float, Field(ge=0)]] | None = Field(
+    monthly_therms: list[Annotated[float, Field(ge=0, le=50000)]] | None = Field(
         None, min_length=12, max_length=12, description="January to December."
     )
 
 
 class GallonUsage(Section):
     annual_gal: float | None = Field(None, ge=0, le=20000)
-    monthly_gal: list[Annotated[float, Field(ge=0)]] | None = Field(
+    monthly_gal: list[Annotated[float, Field(ge=0, le=20000)]] | None = Field(
         None, min_length=12, max_length=12, description="January to December (deliveries averaged)."
     )
 
@@ -484,7 +485,8 @@ class ProjectOption(Section):
     quote_date: dt.date | None = None
     contractor: str | None = None
     variant: str | None = Field(None, description="One of the upgrade's variants in the catalog.")
-    size: float | None = Field(None, gt=0, description="In the upgrade's size unit (tons, kW, kWh...).")
+    size: float | None = Field(None, gt=0, le=1000,
+                               description="In the upgrade's size unit (tons, kW, kWh...).")
     hspf2: float | None = Field(None, gt=3, le=15)
     seer2: float | None = Field(None, gt=5, le=40)
     uef: float | None = Field(None, gt=0.3, le=5)
@@ -552,17 +554,17 @@ class Plan(Section):
     provenance: Provenance = Provenance()
     display: Display = Display()
     home: Home
-    appliances: list[Appliance] = []
-    vehicles: list[Vehicle] = []
+    appliances: list[Appliance] = Field([], max_length=40, description="At most 40 (one home).")
+    vehicles: list[Vehicle] = Field([], max_length=12, description="At most 12.")
     usage: Usage | None = None
     household: Household = Household()
     prices: Prices = Prices()
     budget: Budget
     incentives: list[dict[str, Any]] = Field(
-        [], description="Incentive programs as data (see docs/plan-format.md#incentives)."
+        [], max_length=200, description="Incentive programs as data (see docs/plan-format.md#incentives)."
     )
     incentive_files: list[str] = Field(
-        [], description="Paths (relative to the plan file) of incentive catalogs to include."
+        [], max_length=20, description="Paths (relative to the plan file) of incentive catalogs to include."
     )
     options: dict[str, ProjectOption] = Field({}, description="Project id -> overrides.")
     choices: Choices = Choices()

@@ -41,9 +41,11 @@ from homeplan.energy.solar import ArrayKeeper, SolarArraySpec, SolarSite
 from homeplan.energy.vehicles import VehicleSpec
 from homeplan.energy.water import WaterHeaterSpec
 from homeplan.energy.weather import Weather
-from homeplan.errors import PlanRuleError
+from homeplan.errors import InputError, PlanRuleError
+from homeplan.plan.files import WEATHER, PlanFolder, as_folder, decode_utf8
 from homeplan.plan.fuels import TANK_FUELS, appliance_fuel, engine_fuel
 from homeplan.plan.model import Appliance, Plan
+from homeplan.plan.text import clean
 from homeplan.planner.calibration import (
     appliance_efficiency,
     first_heat_loss,
@@ -55,19 +57,23 @@ from homeplan.planner.peaks import PeakBasis, peak_basis
 from homeplan.result.roadmap import BillFit
 
 __all__ = [
+    "BILL_YEAR_WEATHER_KEY",
+    "CLIMATE_WEATHER_KEY",
     "HomeBasis",
+    "appliance_efficiency",
     "electric_rate",
     "emission_factors",
     "fuel_prices",
     "home_basis",
     "load_weather",
     "nearest_reference_climate",
-    "appliance_efficiency",
     "rated_eer2",
     "rated_hspf2",
     "rated_seer2",
     "rating_notes",
+    "read_weather_file",
 ]
+
 
 def nearest_reference_climate(lat: float, lon: float) -> tuple[ReferenceClimate, float]:
     """The reference climate nearest by great-circle distance (km)."""
@@ -85,22 +91,7 @@ def nearest_reference_climate(lat: float, lon: float) -> tuple[ReferenceClimate,
 # ------------------------------------------------------------------------------ weather
 
 
-def _read_weather_file(key: tuple[str, ...], name: str, base_dir: Path | None) -> Weather:
-    """A weather file (EPW or TMY3) named in the plan at ``key``, relative to the plan's folder."""
-    path = Path(name)
-    if not path.is_absolute() and base_dir is not None:
-        path = base_dir / path
-    if not path.exists():
-        raise PlanRuleError(key, f"weather file not found: {path}",
-                            "give a path relative to the plan file, or remove the key")
-    try:
-        return wx.read_weather(path)
-    except (ValueError, KeyError, IndexError) as exc:
-        raise PlanRuleError(key, f"cannot read weather file: {exc}",
-                            "use an EPW (.epw) or TMY3 (.csv) file") from None
-
-
-def load_weather(plan: Plan, base_dir: Path | None,
+def load_weather(plan: Plan, base_dir: PlanFolder | Path | None,
                  make_year: Callable[[wx.ClimateNormals], Weather] | None = None) -> tuple[Weather, str]:
     """The weather year for the plan and a note on where it came from.
 
@@ -112,7 +103,7 @@ def load_weather(plan: Plan, base_dir: Path | None,
     c = h.climate
     notes: list[str] = []
     if c.weather_file:
-        w = _read_weather_file(("home", "climate", "weather_file"), c.weather_file, base_dir)
+        w = read_weather_file(as_folder(base_dir), c.weather_file)
         if c.heating_design_f is not None or c.cooling_design_f is not None:
             w = replace(w, heating_design_f=c.heating_design_f or w.heating_design_f,
                         cooling_design_f=c.cooling_design_f or w.cooling_design_f)
@@ -327,17 +318,40 @@ class HomeBasis:
         return float(self.calibration.design_load_btuh)
 
 
-def _bill_year_site(plan: Plan, base_dir: Path | None, typical: Weather) -> tuple[SiteCache | None, str | None]:
+CLIMATE_WEATHER_KEY = ("home", "climate", "weather_file")
+BILL_YEAR_WEATHER_KEY = ("usage", "weather_file")
+
+
+def read_weather_file(folder: PlanFolder, name: str, loc: tuple[str, ...] = CLIMATE_WEATHER_KEY) -> Weather:
+    """The year of the weather file a plan names at ``loc``, read the one safe way."""
+    path, data = folder.read(name, loc, WEATHER)
+    hint = (WEATHER.hint if loc != BILL_YEAR_WEATHER_KEY else
+            WEATHER.hint.replace("of one typical year", "of the weather during the billed year"))
+    try:
+        text = decode_utf8(data, name, WEATHER)
+    except InputError as err:
+        raise PlanRuleError(loc, f"weather file {name}: {err.problems[0].message}", "save it as UTF-8") from None
+    try:
+        return wx.read_weather_text(text, path.name)
+    except wx.WeatherFileError as exc:
+        raise PlanRuleError(loc, f"cannot use the weather file {name}: {clean(exc)[:160]}",
+                            hint) from None
+    except Exception:  # pvlib's and pandas' errors quote the file: say only what it is not
+        raise PlanRuleError(loc, f"{name} is not a weather file homeplan can read", hint) from None
+
+
+def _bill_year_site(plan: Plan, base_dir: PlanFolder | Path | None,
+                    typical: Weather) -> tuple[SiteCache | None, str | None]:
     """The cache of the billed year's weather (``usage.weather_file``), when the plan gives one."""
     u = plan.usage
     if u is None or not u.weather_file:
         return None, None
-    w = _read_weather_file(("usage", "weather_file"), u.weather_file, base_dir)
+    w = read_weather_file(as_folder(base_dir), u.weather_file, BILL_YEAR_WEATHER_KEY)
     w = replace(w, heating_design_f=typical.heating_design_f, cooling_design_f=typical.cooling_design_f)
     return SiteCache(w), Path(u.weather_file).name
 
 
-def home_basis(plan: Plan, base_dir: Path | None = None,
+def home_basis(plan: Plan, base_dir: PlanFolder | Path | None = None,
                make_year: Callable[[wx.ClimateNormals], Weather] | None = None,
                keep: ArrayKeeper | None = None,
                place: tuple[Weather, str, SolarSite] | None = None) -> HomeBasis:

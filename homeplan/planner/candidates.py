@@ -19,10 +19,12 @@ common practice, no source: air sealing before heat pump sizing, roof before sol
 from __future__ import annotations
 
 import difflib
+import inspect
 from collections.abc import Mapping
 from dataclasses import dataclass, field
 
 from homeplan import catalog
+from homeplan.electrical.remedies import find_remedy
 from homeplan.errors import PlanRuleError
 from homeplan.plan.fuels import HOME_FUELS, appliance_fuel
 from homeplan.plan.model import Appliance, Plan
@@ -108,16 +110,21 @@ def candidates(plan: Plan) -> list[Candidate]:
     heating = [a for a in apps if a.kind in (*HEATING_KINDS, "heat_pump", "mini_split") and a is not kept]
     add("heat_pump", "heat_pump", replaces=tuple(a.key for a in heating),
         variant=heat_pump_variant(plan, plan.home.climate.heating_design_f))
+
+    def add_for(a, kind: str, variant: str) -> None:  # one per appliance; a second one is named
+        cid = _unique(out, kind, a.key)
+        extra = {} if cid == kind else {"label": f"{kinds[kind].label} (replaces {a.key})"}
+        add(cid, kind, replaces=(a.key,), variant=variant, **extra)
+
     for a in apps:
         fuel = appliance_fuel(a)
         if a.kind == "water_heater" and lifecycle.appliance_type(a) != "heat_pump":
-            add(_unique(out, "heat_pump_water_heater", a.key), "heat_pump_water_heater",
-                replaces=(a.key,), variant="v240")
+            add_for(a, "heat_pump_water_heater", "v240")
         elif a.kind in ("range", "cooktop") and fuel in HOME_FUELS:
-            add(_unique(out, "induction_range", a.key), "induction_range", replaces=(a.key,), variant="full")
+            add_for(a, "induction_range", "full")
         elif a.kind == "dryer" and (fuel in HOME_FUELS or (fuel == "electric" and a.type != "heat_pump")):
             # a resistance dryer swapped for a heat pump one also frees room on the service
-            add(_unique(out, "heat_pump_dryer", a.key), "heat_pump_dryer", replaces=(a.key,), variant="v120")
+            add_for(a, "heat_pump_dryer", "v120")
     ev_ids = []
     for i, v in enumerate(plan.vehicles):
         if v.fuel != "electric":
@@ -239,6 +246,8 @@ def build_graph(plan: Plan):
                        why="needs room on the service if the load calculation says so")
     _apply_user_order(g, plan, ids)
     _check_choice_ids(plan, ids)
+    _check_option_variants(plan, {c.id: c.kind for c in cands})
+    _check_capacity_choices(plan, cands)
     hard = nx.DiGraph((u, v) for u, v, d in g.edges(data=True) if d["kind"] != "any_of")
     hard.add_nodes_from(ids)
     try:
@@ -267,6 +276,38 @@ def _apply_user_order(g, plan: Plan, ids: set[str]) -> None:
                 raise PlanRuleError(("choices", "require_before", after, i),
                                     f"unknown project '{before}'", _suggest(before, ids))
             g.add_edge(before, after, kind="requires", why="your choice")
+
+
+def _check_capacity_choices(plan: Plan, cands: list[Candidate]) -> None:
+    """The capacity stage weighs every mix of the new loads' variants with every remedy; refuse
+    a plan with more mixes than it checks (a dozen water heaters), saying how to cut them."""
+    kinds = catalog.upgrade_kinds()
+    mixes = 1
+    for c in cands:
+        k = kinds[c.kind]
+        if k.capacity_load and c.id not in plan.choices.exclude:
+            opt = plan.options.get(c.id)
+            mixes *= 1 if (opt is not None and opt.variant) else max(1, len(k.variants))
+    most = inspect.signature(find_remedy).parameters["max_combinations"].default
+    remedies_per_mix = 12  # service as is or upgraded, x 3 solar connections, x with/without EMS
+    if mixes * remedies_per_mix > most:
+        raise PlanRuleError(("appliances",), f"the new electric loads can be chosen in {mixes:,} ways, "
+                            f"more than the capacity check weighs ({most // remedies_per_mix:,})",
+                            "choose the variant of some projects under options (e.g. options: "
+                            "{heat_pump_water_heater: {variant: v240}}), exclude some, or list fewer appliances")
+
+
+def _check_option_variants(plan: Plan, kind_of: dict[str, str]) -> None:
+    """A variant named in the plan's options must be one the project's kind has."""
+    kinds = catalog.upgrade_kinds()
+    for pid, opt in plan.options.items():
+        if opt.variant is None or pid not in kind_of:
+            continue
+        known = {v.id for v in kinds[kind_of[pid]].variants}
+        if opt.variant not in known:
+            raise PlanRuleError(("options", pid, "variant"), f"'{opt.variant}' is not a variant of {pid}",
+                                _suggest(opt.variant, known, f"variants of {pid}") if known
+                                else f"{pid} has no variants; remove the key")
 
 
 def _check_choice_ids(plan: Plan, ids: set[str]) -> None:

@@ -25,6 +25,7 @@ import numpy as np
 from homeplan import catalog
 from homeplan.energy.solar import SolarArraySpec
 from homeplan.errors import PlanRuleError
+from homeplan.plan.files import PlanFolder, as_folder
 from homeplan.plan.hashing import content_hash
 from homeplan.plan.load import LoadedPlan
 from homeplan.plan.model import Plan
@@ -46,7 +47,7 @@ STAGES = ("meter", "home", "projects", "capacity", "incentives", "schedule", "re
 """The planner's stages, in order (see the module docstring)."""
 
 
-def plan_roadmap(plan: Plan | LoadedPlan, base_dir: Path | str | None = None,
+def plan_roadmap(plan: Plan | LoadedPlan, base_dir: PlanFolder | Path | str | None = None,
                  cache: PlannerCache | None = None, adjust: Adjustments | None = None) -> PlanResult:
     """The roadmap for a plan, with everything the views show.
 
@@ -56,8 +57,10 @@ def plan_roadmap(plan: Plan | LoadedPlan, base_dir: Path | str | None = None,
         The plan; a :class:`~homeplan.plan.load.LoadedPlan` (from :func:`homeplan.load_plan`)
         brings its folder (for the weather and incentive files it names) and its document, so
         that a rule it breaks is reported at the line and column of the key.
-    base_dir : path, optional
-        The folder the plan's file paths are relative to (default: the loaded file's folder).
+    base_dir : path or PlanFolder, optional
+        The folder the plan's file paths are relative to (default: the loaded file's folder);
+        a :class:`~homeplan.plan.files.PlanFolder` also names the files outside it the user
+        allowed. A file the plan names outside its folder is refused otherwise.
     cache : PlannerCache, optional
         Keeps the home's weather, heat loss and simulated states between calls (a re-plan
         after a budget or pin change reuses them).
@@ -82,13 +85,13 @@ def plan_roadmap(plan: Plan | LoadedPlan, base_dir: Path | str | None = None,
     if isinstance(plan, LoadedPlan):
         loaded = plan
         try:
-            return _run(loaded.plan, Path(base_dir) if base_dir else loaded.base_dir, cache, adjust)
+            return _run(loaded.plan, as_folder(base_dir) if base_dir else loaded.folder, cache, adjust)
         except PlanRuleError as err:
             raise loaded.locate(err) from None
-    return _run(plan, Path(base_dir) if base_dir else None, cache, adjust)
+    return _run(plan, as_folder(base_dir), cache, adjust)
 
 
-def _run(plan: Plan, base_dir: Path | None, cache: PlannerCache | None,
+def _run(plan: Plan, base_dir: PlanFolder, cache: PlannerCache | None,
          adjust: Adjustments | None = None) -> PlanResult:
     adjust = adjust or Adjustments()
     cache = cache or PlannerCache()
@@ -112,7 +115,7 @@ def _run(plan: Plan, base_dir: Path | None, cache: PlannerCache | None,
                    warnings=tuple(dict.fromkeys((*result.warnings, *summary.notes))))
 
 
-def prepare_home(plan: Plan, base_dir: Path | None, cache: PlannerCache) -> Context:
+def prepare_home(plan: Plan, base_dir: PlanFolder | Path | None, cache: PlannerCache) -> Context:
     """Stage "home": the upgrade graph, the home's basis (weather, heat loss) and the outlooks."""
     g = candidates.build_graph(plan)
     basis_key, basis = cache.basis(plan, base_dir)

@@ -19,6 +19,7 @@ from types import MappingProxyType
 from typing import TYPE_CHECKING, Any, TypeVar
 
 from homeplan.energy.simulate import EnergyResult, HomeEnergySpec
+from homeplan.plan.files import PlanFolder
 from homeplan.plan.model import Plan
 from homeplan.planner.basis import HomeBasis, home_basis
 from homeplan.planner.peaks import meter_peak
@@ -80,7 +81,7 @@ class PlannerCache:
         self.max_states = max_states
         self.shared = shared
 
-    def basis(self, plan: Plan, base_dir: Path | None) -> tuple[str, HomeBasis]:
+    def basis(self, plan: Plan, base_dir: PlanFolder | Path | None) -> tuple[str, HomeBasis]:
         """The home's basis (weather, heat loss, today's spec) and its content key."""
         key = content_key(plan.home.model_dump(mode="json"),
                           [a.model_dump(mode="json") for a in plan.appliances],
@@ -141,7 +142,7 @@ class Context:
     """One plan with its home basis, upgrade graph, end-of-life outlooks and sized projects."""
 
     plan: Plan
-    base_dir: Path | None
+    base_dir: PlanFolder | Path | None
     cache: PlannerCache
     basis_key: str
     basis: HomeBasis

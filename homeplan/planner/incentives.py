@@ -17,7 +17,7 @@ from dataclasses import dataclass, replace
 from pathlib import Path
 
 from homeplan import catalog
-from homeplan.errors import PlanRuleError
+from homeplan.errors import InputError, PlanRuleError, Problem
 from homeplan.money.incentives import (
     PROJECT_KINDS,
     Household,
@@ -30,16 +30,20 @@ from homeplan.money.incentives import (
     incentives_by_install_year,
     parse_catalog,
     program_totals,
-    read_catalog,
 )
+from homeplan.plan.files import INCENTIVES, PlanFolder, as_folder, decode_utf8
 from homeplan.plan.fuels import HOME_FUELS, appliance_fuel
 from homeplan.plan.model import Plan
+from homeplan.plan.preflight import incentive_records, not_incentive_file
+from homeplan.plan.text import clean
+from homeplan.plan.yamlread import INCENTIVE_LIMITS, position, read_yaml
 from homeplan.planner.context import Context
 from homeplan.planner.projects import cost_in_year_usd
 from homeplan.result.figures import ProgramUse
 from homeplan.schedule.problem import IncentiveGroup
 
-__all__ = ["VEHICLE_CREDITS_NOTE", "AwardLine", "IncentiveModel", "load_programs", "plan_programs"]
+__all__ = ["VEHICLE_CREDITS_NOTE", "AwardLine", "IncentiveModel", "load_programs", "plan_programs",
+           "read_incentive_file"]
 
 MONEY_KIND = {"close_gas": "gas_closure"}
 VEHICLE_CREDITS_NOTE = (
@@ -74,8 +78,13 @@ def _install_date(year: int) -> dt.date:
     return dt.date(year, *INSTALL_MONTH_DAY)
 
 
-def load_programs(plan: Plan, base_dir: Path | None) -> tuple[Program, ...]:
-    """Parse the plan's programs and its incentive files; errors point at the plan key."""
+def load_programs(plan: Plan, base_dir: PlanFolder | Path | None) -> tuple[Program, ...]:
+    """Parse the plan's programs and its incentive files.
+
+    A problem in the plan points at the plan's key (PlanRuleError); a problem inside an incentive
+    file is reported at its own line and column in that file (InputError). Files are read the one
+    safe way (:class:`homeplan.plan.files.PlanFolder`): inside the plan's folder unless allowed.
+    """
     programs: list[Program] = []
     if plan.incentives:
         try:
@@ -84,23 +93,11 @@ def load_programs(plan: Plan, base_dir: Path | None) -> tuple[Program, ...]:
             loc = ("incentives", *(exc.keys or ()))
             raise PlanRuleError(loc, str(exc), "see docs/plan-format.md#incentives") from None
         except (ValueError, TypeError) as exc:  # e.g. a date like 2027-02-30
-            raise PlanRuleError(("incentives",), f"an incentive program has a bad value: {exc}",
+            raise PlanRuleError(("incentives",), f"an incentive program has a bad value: {clean(exc)[:120]}",
                                 "check the dates (YYYY-MM-DD) and numbers of the programs") from None
+    folder = as_folder(base_dir)
     for i, name in enumerate(plan.incentive_files):
-        path = Path(name)
-        if not path.is_absolute() and base_dir is not None:
-            path = base_dir / path
-        if not path.exists():
-            raise PlanRuleError(("incentive_files", i), f"incentive file not found: {path}",
-                                "give a path relative to the plan file")
-        try:
-            programs.extend(read_catalog(path))
-        except IncentiveDataError as exc:
-            raise PlanRuleError(("incentive_files", i), f"{path.name}: {exc}",
-                                "fix the program record named in the message") from None
-        except (ValueError, TypeError, OSError) as exc:
-            raise PlanRuleError(("incentive_files", i), f"{path.name}: cannot read the programs: {exc}",
-                                "check the file's dates (YYYY-MM-DD), numbers and YAML syntax") from None
+        programs.extend(read_incentive_file(folder, name, ("incentive_files", i)))
     seen: set[str] = set()
     for p in programs:
         if p.id in seen:
@@ -110,16 +107,37 @@ def load_programs(plan: Plan, base_dir: Path | None) -> tuple[Program, ...]:
     return tuple(programs)
 
 
+def read_incentive_file(folder: PlanFolder, name: str, loc: tuple) -> tuple[Program, ...]:
+    """The programs of one incentive file the plan names at ``loc``."""
+    path, data = folder.read(name, loc, INCENTIVES)
+    text = decode_utf8(data, name, INCENTIVES)
+    doc = read_yaml(text, name, INCENTIVE_LIMITS)
+    if incentive_records(doc) is None:
+        raise not_incentive_file(loc, name)
+    try:
+        return parse_catalog(doc)
+    except IncentiveDataError as exc:
+        top = ("programs",) if isinstance(doc, dict) else ()
+        line, col = position(doc, (*top, *exc.keys))
+        raise InputError(Problem(name, line, col, clean(exc.problem),
+                                 f"{clean(exc.fix)}; in program '{clean(exc.program_id)}' of the "
+                                 f"incentive file {path.name}")) from None
+    except (ValueError, TypeError) as exc:
+        raise PlanRuleError(loc, f"{name}: a program has a value that cannot be used: {clean(exc)[:120]}",
+                            "check the file's dates (YYYY-MM-DD) and numbers") from None
+
+
 def plan_programs(ctx: Context) -> tuple[Program, ...]:
     """Programs of the plan, re-read only when the list or a file (by size and time) changes."""
+    folder = as_folder(ctx.base_dir)
     stamps = []
-    for name in ctx.plan.incentive_files:
-        path = Path(name) if Path(name).is_absolute() or ctx.base_dir is None else ctx.base_dir / name
+    for i, name in enumerate(ctx.plan.incentive_files):
         try:
+            path = folder.resolve(name, ("incentive_files", i), INCENTIVES)
             st = path.stat()
             stamps.append((str(path), st.st_size, st.st_mtime_ns))
-        except OSError:
-            stamps.append((str(path), None, None))
+        except (OSError, PlanRuleError):  # reported when the file is read
+            stamps.append((name, None, None))
     key = "programs:" + json.dumps([ctx.plan.incentives, stamps], sort_keys=True, default=str)
     return ctx.cache.shared_memo(key, lambda: load_programs(ctx.plan, ctx.base_dir))
 

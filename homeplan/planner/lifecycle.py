@@ -28,6 +28,7 @@ from homeplan.result.outlook import LifeOutlook
 __all__ = [
     "appliance_outlook",
     "appliance_type",
+    "conditional_survival",
     "cumulative_failure_probability",
     "hazard_by_year",
     "mean_remaining_life",
@@ -52,29 +53,40 @@ def survival(age_years: np.ndarray | float, scale: float, shape: float) -> np.nd
     return np.exp(-((t / scale) ** shape))
 
 
+def conditional_survival(age_years: np.ndarray | float, from_age_years: np.ndarray | float,
+                         scale: float, shape: float) -> np.ndarray:
+    """S(t) / S(a): the chance of still working at age t given it works at age a (t >= a).
+
+    Computed as exp((a/eta)^beta - (t/eta)^beta), so an age far past the median life (a roof
+    laid in 1900) gives a small number, not 0/0: each S underflows to zero long before the
+    ratio does.
+    """
+    t = np.maximum(np.asarray(age_years, dtype=float), 0.0)
+    a = np.maximum(np.asarray(from_age_years, dtype=float), 0.0)
+    with np.errstate(over="ignore"):
+        return np.exp(np.minimum((a / scale) ** shape - (t / scale) ** shape, 0.0))
+
+
 def yearly_failure_probability(age_years: float, years: int, scale: float, shape: float) -> np.ndarray:
     """P(fails during future year k | works today), k = 1..years (unconditional on years between).
 
     Element k-1 is (S(a+k-1) - S(a+k)) / S(a); the elements sum to the cumulative risk.
     """
     t = age_years + np.arange(years + 1, dtype=float)
-    s = survival(t, scale, shape) / survival(age_years, scale, shape)
+    s = conditional_survival(t, age_years, scale, shape)
     return s[:-1] - s[1:]
 
 
 def hazard_by_year(age_years: float, years: int, scale: float, shape: float) -> np.ndarray:
     """P(fails during future year k | still works at the start of that year)."""
     t = age_years + np.arange(years + 1, dtype=float)
-    s = survival(t, scale, shape)
-    with np.errstate(invalid="ignore", divide="ignore"):
-        h = 1.0 - s[1:] / s[:-1]
-    return np.nan_to_num(h, nan=1.0)
+    return 1.0 - conditional_survival(t[1:], t[:-1], scale, shape)
 
 
 def cumulative_failure_probability(age_years: float, years: int, scale: float, shape: float) -> np.ndarray:
     """P(has failed by the end of future year k | works today), k = 1..years."""
     t = age_years + np.arange(1, years + 1, dtype=float)
-    return 1.0 - survival(t, scale, shape) / survival(age_years, scale, shape)
+    return 1.0 - conditional_survival(t, age_years, scale, shape)
 
 
 def remaining_life_at_risk(age_years: float, risk: float, scale: float, shape: float) -> float:
@@ -92,7 +104,7 @@ def remaining_life_at_risk(age_years: float, risk: float, scale: float, shape: f
 def mean_remaining_life(age_years: float, scale: float, shape: float) -> float:
     """E[T - a | T > a] = integral of S(a + t) / S(a) dt, by the trapezoid rule on a fine grid."""
     t = np.linspace(0.0, 6.0 * scale + 1.0, 20001)
-    s = survival(age_years + t, scale, shape) / survival(age_years, scale, shape)
+    s = conditional_survival(age_years + t, age_years, scale, shape)
     return float(np.sum((s[1:] + s[:-1]) * 0.5 * np.diff(t)))
 
 

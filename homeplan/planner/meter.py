@@ -21,6 +21,7 @@ criteria NMBE within +/-10 %, CV(RMSE) at most 30 %, from memory); NAESB REQ.21 
 from __future__ import annotations
 
 import datetime as dt
+import hashlib
 from dataclasses import dataclass
 from pathlib import Path
 
@@ -34,12 +35,14 @@ from homeplan.energy.meter import (
     daily_kwh,
     hourly_kwh,
     monthly_kwh,
+    parse_green_button,
     peak_demand,
-    read_green_button,
 )
 from homeplan.energy.weather import Weather
 from homeplan.errors import InputError, PlanRuleError, Problem
+from homeplan.plan.files import METER, PlanFolder, as_folder, decode_utf8
 from homeplan.plan.model import ElectricUsage, Plan
+from homeplan.plan.text import clean
 from homeplan.planner.context import PlannerCache, content_key
 from homeplan.result.meter import MeterGap, MeterSummary
 
@@ -81,32 +84,37 @@ def _last_twelve(months: dict[tuple[int, int], float]) -> tuple[float, ...] | No
     return None
 
 
-def read_meter(plan: Plan, base_dir: Path | None, cache: PlannerCache | None = None
+def read_meter(plan: Plan, base_dir: PlanFolder | Path | None, cache: PlannerCache | None = None
                ) -> tuple[Plan, MeterReading | None]:
     """The plan with what its meter file tells (monthly electric use, the measured peak), and
-    the reading; the plan unchanged and None when it names no meter file. The file is read once
-    per cache while it does not change (its size and time stamp).
+    the reading; the plan unchanged and None when it names no meter file. The file is read the
+    one safe way (a regular file under its size cap, inside the plan's folder unless allowed,
+    UTF-8) and parsed once per cache while its content does not change.
 
     Raises
     ------
     InputError
-        For a meter file that is missing or cannot be read, at the line of the problem.
+        For a meter file that cannot be read as a Green Button file, at the line of the problem.
+    PlanRuleError
+        For a meter file that is missing, not a regular file, too large, not UTF-8 or outside
+        the plan's folder (located at ``usage.meter_file`` by the caller).
     """
     u = plan.usage
     if u is None or not u.meter_file:
         return plan, None
-    path = Path(u.meter_file)
-    if not path.is_absolute() and base_dir is not None:
-        path = base_dir / path
+    loc = ("usage", "meter_file")
+    path, data = as_folder(base_dir).read(u.meter_file, loc, METER)
     try:
-        stat = path.stat()
-        key = content_key("meter", str(path.resolve()), stat.st_mtime_ns, stat.st_size)
-        series = cache.memo(key, lambda: read_green_button(path)) if cache else read_green_button(path)
-    except FileNotFoundError:
-        raise PlanRuleError(("usage", "meter_file"), f"meter file not found: {path}",
-                            "give a path relative to the plan file, or remove the key") from None
+        text = decode_utf8(data, u.meter_file, METER)
+    except InputError as err:
+        raise PlanRuleError(loc, f"meter file {u.meter_file}: {err.problems[0].message}",
+                            "download the file again, or save it as UTF-8") from None
+    key = content_key("meter", hashlib.sha256(data).hexdigest())
+    try:
+        series = (cache.memo(key, lambda: parse_green_button(text, str(path))) if cache
+                  else parse_green_button(text, str(path)))
     except MeterFileError as exc:
-        raise InputError(Problem(exc.name, exc.line, exc.col, exc.message, exc.hint)) from None
+        raise InputError(Problem(exc.name, exc.line, exc.col, clean(exc.message), exc.hint)) from None
     notes: list[str] = []
     gaps = series.gaps
     if gaps:

@@ -17,8 +17,9 @@ from dataclasses import dataclass
 from html import escape
 from typing import Any
 
+from homeplan.plan.text import clean
 from homeplan.report.charts import INK, MUTED, SERIES_COLOURS, nice_ticks
-from homeplan.report.fmt import Table, clean, money, money_signed, short, tonnes
+from homeplan.report.fmt import Table, money, money_signed, short, tonnes
 from homeplan.report.table import usd
 
 __all__ = [

@@ -23,9 +23,10 @@ from typing import Any
 
 from homeplan.errors import InputError, Problem
 from homeplan.plan.save import write_atomic
-from homeplan.report.fmt import clean
+from homeplan.plan.text import clean
 
 __all__ = [
+    "CSV_NAMES",
     "csv_text",
     "hourly_energy_csv",
     "monthly_energy_csv",
@@ -127,7 +128,12 @@ def hourly_energy_csv(result: Any) -> str | None:
     return csv_text(headers, rows)
 
 
-def write_csv_dir(result: Any, directory: str | Path, hourly: bool = False) -> list[Path]:
+CSV_NAMES = ("steps.csv", "years.csv", "monthly_energy.csv", "hourly_energy.csv")
+"""The files ``write_csv_dir`` may write (the last with ``hourly`` only)."""
+
+
+def write_csv_dir(result: Any, directory: str | Path, hourly: bool = False,
+                  replace_readonly: bool = False) -> list[Path]:
     """Write the CSV files into ``directory`` (created if its parent exists); return the paths."""
     d = Path(directory)
     if d.exists() and not d.is_dir():
@@ -135,11 +141,16 @@ def write_csv_dir(result: Any, directory: str | Path, hourly: bool = False) -> l
     if not d.exists():
         if not d.parent.is_dir():
             raise InputError(Problem(str(d), 0, 0, "the parent folder does not exist", "create it first"))
-        d.mkdir()
+        try:
+            d.mkdir()
+        except OSError as exc:
+            raise InputError(Problem(str(d), 0, 0, f"cannot create the folder: {exc.strerror or exc}",
+                                     "choose a folder you can write to")) from None
     files = {"steps.csv": steps_csv(result), "years.csv": years_csv(result),
              "monthly_energy.csv": monthly_energy_csv(result)}
     if hourly:
         text = hourly_energy_csv(result)
         if text is not None:
             files["hourly_energy.csv"] = text
-    return [write_atomic(d / name, text, backup=False) for name, text in files.items()]
+    return [write_atomic(d / name, text, backup=False, replace_readonly=replace_readonly)
+            for name, text in files.items()]

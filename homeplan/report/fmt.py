@@ -1,22 +1,17 @@
-"""Small formatting helpers shared by every printed view: money, numbers, safe text.
+"""Small formatting helpers shared by every printed view: money and numbers.
 
-References
-----------
-Unicode Standard Annex #44 (general category Cc, control characters): stripped from user text
-so that a plan file cannot move the terminal cursor, clear the screen or break a calendar line.
+Text from a file is made safe by the one sanitiser, :func:`homeplan.plan.text.clean`.
 """
 
 from __future__ import annotations
 
 import math
-import re
 from dataclasses import dataclass
 
 from homeplan.report.table import usd
 
 __all__ = [
     "Table",
-    "clean",
     "energy_key_words",
     "finite",
     "money",
@@ -38,18 +33,6 @@ class Table:
     align: str            # per column: 'l' left, 'r' right (numbers), 'n' left and never wrapped
     total: tuple[str, ...] | None = None        # a closing row, shown emphasised
     note: str = ""
-
-
-_CONTROL = re.compile(r"[\x00-\x08\x0b-\x1f\x7f-\x9f\u2028\u2029]")
-
-
-def clean(text: object, one_line: bool = True) -> str:
-    """User text made safe to show: control characters removed; newlines/tabs become spaces."""
-    s = "" if text is None else str(text)
-    s = _CONTROL.sub("", s)
-    if one_line:
-        s = re.sub(r"[\t\r\n]+", " ", s)
-    return s.strip()
 
 
 def short(text: str, limit: int) -> str:

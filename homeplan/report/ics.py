@@ -28,7 +28,8 @@ from dataclasses import dataclass
 from typing import Any
 
 from homeplan.plan.hashing import content_hash
-from homeplan.report.fmt import clean, money
+from homeplan.plan.text import clean
+from homeplan.report.fmt import money
 
 __all__ = ["Reminder", "escape_text", "fold", "reminders", "render_ics"]
 

@@ -14,7 +14,8 @@ from __future__ import annotations
 from dataclasses import dataclass
 from typing import Any
 
-from homeplan.report.fmt import Table, clean, money, money_signed
+from homeplan.plan.text import clean
+from homeplan.report.fmt import Table, money, money_signed
 
 __all__ = [
     "BandSeries",

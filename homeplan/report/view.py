@@ -20,10 +20,10 @@ from typing import Any
 from homeplan import __version__, catalog
 from homeplan.plan.fuels import BILL_FUELS, GASOLINE_VEHICLES, TANK_FUELS
 from homeplan.plan.hashing import content_hash
+from homeplan.plan.text import clean
 from homeplan.report.compare import Comparison
 from homeplan.report.fmt import (
     Table,
-    clean,
     energy_key_words,
     finite,
     money,

@@ -25,9 +25,11 @@ from textual.worker import Worker, WorkerState
 
 from homeplan.errors import InputError, PlanRuleError
 from homeplan.plan.alternatives import BASE_NAME, option
+from homeplan.plan.files import OutsideFolderError, PlanFolder
 from homeplan.plan.load import LoadedPlan
 from homeplan.plan.model import Fuel, Plan, VehicleFuel
-from homeplan.plan.save import write_atomic
+from homeplan.plan.save import ChangedOnDiskError, ReadOnlyFileError, write_atomic
+from homeplan.plan.text import clean
 from homeplan.tui import newplan
 from homeplan.tui.actions import VIEW_TABS, bindings, help_rows, palette_entries
 from homeplan.tui.format import usd
@@ -58,7 +60,7 @@ __all__ = [
     "problem_words",
 ]
 
-Planner = Callable[[Plan, Path], "PlanResult"]
+Planner = Callable[[Plan, PlanFolder], "PlanResult"]
 
 _VIEW_CLASSES: dict[str, type[View]] = {
     "next": OverviewView, "home": HomeView, "roadmap": RoadmapView, "money": MoneyView,
@@ -108,7 +110,7 @@ class EnginePlanner:
         self._cache: Any = None
         self._use_store = use_store
 
-    def __call__(self, plan: Plan, base_dir: Path) -> PlanResult:
+    def __call__(self, plan: Plan, base_dir: PlanFolder) -> PlanResult:
         if self._run is None:
             try:
                 # the planner loads numpy, scipy, pvlib and networkx: after the first paint
@@ -139,7 +141,7 @@ def problem_words(err: InputError) -> str:
     parts = []
     for p in err.problems:
         parts.append(p.message + (f" ({p.hint})" if p.hint else ""))
-    return "; ".join(parts)
+    return clean("; ".join(parts))
 
 
 class PlanCommands(Provider):
@@ -191,6 +193,7 @@ class HomeplanApp(App[int]):
         self._plan_busy = False   # a planner worker is busy
         self._plan_pending = False   # edits arrived while it was busy
         self._stale: set[str] = set()
+        self._asked_outside: set[Path] = set()  # outside files the user was asked about
         self.option_index = 0     # 0: the plan as planned; i: its i-th named option
         self.animation_level = "none"  # calm: nothing slides or fades
         for theme in THEMES:
@@ -292,9 +295,9 @@ class HomeplanApp(App[int]):
         s = self.session
         plan = self.shown_plan() or s.plan
         text = Text(" ")
-        text.append(s.name, style="bold")
+        text.append(clean(s.name), style="bold")
         if s.plan.alternatives:  # which named option is on screen (o switches)
-            text.append(f" · {self.option_name()} ({self.option_index + 1}/{len(s.plan.alternatives) + 1})",
+            text.append(clean(f" · {self.option_name()} ({self.option_index + 1}/{len(s.plan.alternatives) + 1})"),
                         style="bold reverse")
         text.append("  ")
         if self.planning:
@@ -312,7 +315,7 @@ class HomeplanApp(App[int]):
         objective = dict((v, k) for k, v in OBJECTIVES).get(plan.choices.objective, "")
         text.append(f"  │ {usd(plan.budget.usd_per_year)}/yr from {plan.first_year}, "
                     f"{plan.budget.horizon_years} yrs, {objective.lower()}")
-        text.append(f"  │ {s.path.name}")
+        text.append(f"  │ {clean(s.path.name)}")
         status.update(text)
 
     # ---------------------------------------------------------------------- planning
@@ -334,7 +337,7 @@ class HomeplanApp(App[int]):
             self.refresh_views()
             return
         self._plan_busy = True
-        self.run_planner(self.planner, plan, self.session.base_dir, self.generation)
+        self.run_planner(self.planner, plan, self.session.folder, self.generation)
 
     def shown_plan(self) -> Plan | None:
         """The plan on screen: the plan itself, or its named option with the option's changes
@@ -351,7 +354,8 @@ class HomeplanApp(App[int]):
         self.option_index = min(self.option_index, len(self.session.plan.alternatives))
         if self.option_index == 0:
             return self.session.plan, None
-        loaded = LoadedPlan(self.session.plan, self.session.document, self.session.path)
+        loaded = LoadedPlan(self.session.plan, self.session.document, self.session.path,
+                            allow=tuple(self.session.folder.allowed))
         try:
             return option(loaded, self.option_index - 1).plan, None
         except InputError as err:
@@ -388,10 +392,10 @@ class HomeplanApp(App[int]):
                 self.refresh_views()
                 return
             self._plan_busy = True
-            self.run_planner(self.planner, plan, self.session.base_dir, self.generation)
+            self.run_planner(self.planner, plan, self.session.folder, self.generation)
 
     @work(thread=True, exclusive=True, group="plan", exit_on_error=False)
-    def run_planner(self, planner: Planner, plan: Plan, base_dir: Path,
+    def run_planner(self, planner: Planner, plan: Plan, base_dir: PlanFolder,
                     generation: int) -> tuple[int, PlanResult]:
         return generation, planner(plan, base_dir)
 
@@ -422,16 +426,43 @@ class HomeplanApp(App[int]):
                 self.unavailable = str(err)
             elif isinstance(err, InputError):
                 self.plan_error = "The plan was not updated: " + problem_words(err)
+            elif isinstance(err, OutsideFolderError):
+                self.plan_error = clean(f"The plan was not updated: {err.message}.")
+                self._ask_outside(err)
             elif isinstance(err, PlanRuleError):
-                self.plan_error = f"The plan was not updated: {err.message}" + (
-                    f" ({err.hint})" if err.hint else "") + ". Undo with ctrl+z."
+                self.plan_error = clean(f"The plan was not updated: {err.message}" + (
+                    f" ({err.hint})" if err.hint else "") + ". Undo with ctrl+z.")
             else:
-                self.plan_error = (f"The planner stopped ({type(err).__name__}: {err}). "
-                                   "The last good plan is shown; undo with ctrl+z.")
+                self.plan_error = clean(f"The planner stopped ({type(err).__name__}: {err}). "
+                                        "The last good plan is shown; undo with ctrl+z.")
             self.shown_generation = self.generation
             self.refresh_views()
         elif event.state == WorkerState.CANCELLED:
             pass
+
+    def _ask_outside(self, err: OutsideFolderError) -> None:
+        """The plan names a file outside its folder: read it only if the user says so."""
+        if self.session is None or err.real in self._asked_outside:
+            return
+        self._asked_outside.add(err.real)
+
+        def answer(choice: str | None) -> None:
+            if choice == "r" and self.session is not None:
+                self.session.allow_outside(err.real)
+                self.start_plan()
+
+        self.push_screen(ChoiceScreen(
+            "A file outside the plan's folder",
+            clean(f"The plan names {err.real}, which is outside its folder "
+                  f"({self.session.base_dir.resolve()}). A plan from someone else should not read "
+                  "other files on this computer. Read this file for this session?"),
+            [("r", "Read it"), ("escape", "Do not read it")]), answer)
+
+    def notify(self, message: str, *, title: str = "", severity: str = "information",
+               timeout: float | None = None, markup: bool = False) -> None:
+        """Every notice is sanitised (it may quote a file) and never read as markup."""
+        super().notify(clean(message, one_line=False), title=clean(title), severity=severity,
+                       timeout=timeout, markup=markup)
 
     def _painted(self, generation: int) -> None:
         """Called once the screen showing a new result has been drawn (for the benchmark)."""
@@ -823,23 +854,67 @@ class HomeplanApp(App[int]):
         self.notify(f"Redone: {what}", timeout=3)
         self._after_change()
 
-    def save(self, path: Path | None = None) -> str | None:
+    def save(self, path: Path | None = None, *, overwrite_changed: bool = False,
+             replace_readonly: bool = False) -> str | None:
+        """Save; None when saved, else what went wrong (questions raise, see save_asking)."""
         try:
-            target = self.session.save(path)
+            target = self.session.save(path, overwrite_changed=overwrite_changed,
+                                       replace_readonly=replace_readonly)
+        except (ChangedOnDiskError, ReadOnlyFileError):
+            raise
         except InputError as err:
             return problem_words(err)
         except OSError as err:
-            return f"could not save: {err.strerror or err}"
+            return clean(f"could not save: {err.strerror or err}")
         self._update_status()
         self.notify(f"Saved {target} (previous version kept as {target.name}.bak)", timeout=4)
         return None
 
+    def save_asking(self, path: Path | None = None, then: Callable[[bool], None] | None = None,
+                    *, overwrite_changed: bool = False, replace_readonly: bool = False) -> None:
+        """Save, asking first when the file changed on disk or is read-only; ``then(saved)``."""
+        done = then or (lambda _saved: None)
+        try:
+            problem = self.save(path, overwrite_changed=overwrite_changed,
+                                replace_readonly=replace_readonly)
+        except ChangedOnDiskError:
+            name = clean((path or self.session.path).name)
+
+            def changed(choice: str | None) -> None:
+                if choice == "o":
+                    self.save_asking(path, then, overwrite_changed=True, replace_readonly=replace_readonly)
+                else:
+                    self.notify("Not saved: use save as (ctrl+shift+s) to keep both versions.",
+                                title="Not saved", timeout=6)
+                    done(False)
+
+            self.push_screen(ChoiceScreen(
+                "Changed on disk",
+                f"{name} changed on disk since it was opened or last saved (another program "
+                f"edited it). Overwrite it with this version? The version on disk is kept as "
+                f"{name}.bak.", [("o", "Overwrite"), ("escape", "Cancel")]), changed)
+            return
+        except ReadOnlyFileError:
+            name = clean((path or self.session.path).name)
+
+            def readonly(choice: str | None) -> None:
+                if choice == "w":
+                    self.save_asking(path, then, overwrite_changed=overwrite_changed, replace_readonly=True)
+                else:
+                    done(False)
+
+            self.push_screen(ChoiceScreen(
+                "Read-only file", f"{name} is read-only. Write it anyway?",
+                [("w", "Write it"), ("escape", "Cancel")]), readonly)
+            return
+        if problem:
+            self.notify(problem, title="Not saved", severity="error", timeout=8)
+        done(problem is None)
+
     def action_save(self) -> None:
         if self.session is None:
             return
-        problem = self.save()
-        if problem:
-            self.notify(problem, title="Not saved", severity="error", timeout=8)
+        self.save_asking()
 
     def action_save_as(self) -> None:
         if self.session is None:
@@ -849,7 +924,10 @@ class HomeplanApp(App[int]):
             path = Path(values["path"]).expanduser()
             if path.is_dir():
                 return f"{path} is a folder; give a file name"
-            return self.save(path)
+            try:
+                return self.save(path)
+            except (ChangedOnDiskError, ReadOnlyFileError) as err:
+                return problem_words(err)
 
         self.push_screen(FormScreen("Save as", [
             FieldSpec("path", "File", "text", str(self.session.path)),
@@ -862,16 +940,12 @@ class HomeplanApp(App[int]):
 
         def answer(choice: str | None) -> None:
             if choice == "s":
-                problem = self.save()
-                if problem:
-                    self.notify(problem, title="Not saved", severity="error", timeout=8)
-                    return
-                self.exit(0)
+                self.save_asking(then=lambda saved: self.exit(0) if saved else None)
             elif choice == "d":
                 self.exit(0)
 
         self.push_screen(ChoiceScreen("Unsaved changes",
-                                      f"{self.session.path.name} has changes that are not saved.",
+                                      f"{clean(self.session.path.name)} has changes that are not saved.",
                                       [("s", "Save and quit"), ("d", "Quit without saving"),
                                        ("escape", "Stay")]), answer)
 

@@ -17,10 +17,19 @@ from dataclasses import dataclass
 from pathlib import Path
 from typing import Any
 
-from homeplan.errors import InputError
-from homeplan.plan.load import load_plan, parse_document, validate_document
+from homeplan.errors import InputError, Problem
+from homeplan.plan.files import PlanFolder
+from homeplan.plan.load import load_for_editing, parse_document, parse_roundtrip, validate_document
 from homeplan.plan.model import Plan
-from homeplan.plan.save import delete_in, dump_text, save_document, set_in
+from homeplan.plan.save import (
+    ChangedOnDiskError,
+    DiskStamp,
+    delete_in,
+    disk_stamp,
+    dump_text,
+    save_document,
+    set_in,
+)
 
 __all__ = ["DELETE", "PlanSession", "State", "check_new_plan"]
 
@@ -49,17 +58,19 @@ class PlanSession:
         self._states: list[State] = [State(copy.deepcopy(document), plan, "opened")]
         self._pos = 0
         self._saved_pos: int | None = 0 if saved else None
+        self._disk: DiskStamp | None = disk_stamp(self.path) if saved else None
+        self.folder = PlanFolder.of(self.path.parent)
 
     # ------------------------------------------------------------------ opening
 
     @classmethod
     def open(cls, path: str | os.PathLike) -> PlanSession:
-        loaded = load_plan(path)
+        loaded = load_for_editing(path)
         return cls(loaded.path, loaded.document, loaded.plan, loaded.migrated_from)
 
     @classmethod
     def from_text(cls, text: str, path: str | os.PathLike, saved: bool = False) -> PlanSession:
-        doc = parse_document(text, str(path))
+        doc = parse_roundtrip(text, str(path))
         plan, migrated = validate_document(doc, str(path))
         return cls(Path(path), doc, plan, migrated, saved=saved)
 
@@ -76,6 +87,10 @@ class PlanSession:
     @property
     def base_dir(self) -> Path:
         return self.path.parent if str(self.path.parent) else Path(".")
+
+    def allow_outside(self, path: str | os.PathLike) -> None:
+        """Let the plan name this file outside its folder (the user said so in the app)."""
+        self.folder = self.folder.allowing(path)
 
     @property
     def text(self) -> str:
@@ -144,12 +159,38 @@ class PlanSession:
 
     # ------------------------------------------------------------------ saving
 
-    def save(self, path: str | os.PathLike | None = None) -> Path:
-        """Write atomically (previous file kept as .bak); ``path`` saves as a new file."""
+    def changed_on_disk(self) -> bool:
+        """True when the file is not what this session read or last wrote: another program
+        changed or removed it. Its time, size and content hash are kept; a file only touched
+        (same content) has not changed."""
+        now = disk_stamp(self.path)
+        if self._disk is None:
+            return now is not None
+        if now is None:
+            return True
+        return now != self._disk and now.sha256 != self._disk.sha256
+
+    def save(self, path: str | os.PathLike | None = None, *, overwrite_changed: bool = False,
+             replace_readonly: bool = False) -> Path:
+        """Write atomically (previous file kept as .bak); ``path`` saves as a new file.
+
+        Raises ChangedOnDiskError when the file changed on disk since it was read or written
+        (unless ``overwrite_changed``), ReadOnlyFileError for a read-only file (unless
+        ``replace_readonly``): the app asks the user, then calls again.
+        """
         target = Path(path) if path is not None else self.path
-        save_document(target, self.document)
+        same = target == self.path
+        if same and not overwrite_changed and self.changed_on_disk():
+            raise ChangedOnDiskError(Problem(str(target), 0, 0, "the file changed on disk since it was "
+                                             "opened or last saved (another program edited it)",
+                                             "overwrite it (the version on disk is kept as .bak), "
+                                             "or save under another name"))
+        save_document(target, self.document, replace_readonly=replace_readonly)
+        if not same:
+            self.folder = PlanFolder(target.parent, self.folder.allowed)
         self.path = target
         self._saved_pos = self._pos
+        self._disk = disk_stamp(target)
         return target
 
 
@@ -166,7 +207,7 @@ def _prune_empty(doc: Any, locs: Sequence[tuple]) -> None:
             except (KeyError, IndexError, TypeError):
                 continue  # removed by the edit itself: look at the section holding it
             if isinstance(node, dict | list) and len(node) == 0 and not isinstance(parent, list):
-                del parent[key]
+                delete_in(doc, (*parent_loc, key))  # keeps the comment above the next key
             else:
                 break
 

@@ -151,7 +151,7 @@ def test_a_bad_meter_file_is_exit_2_with_its_line(tmp_path, capsys) -> None:
     err = capsys.readouterr().err
     assert f"bad.xml:{line}" in err and "not a number" in err
     assert main(["plan", str(_plan(tmp_path, "missing.xml"))]) == 2
-    assert "meter file not found" in capsys.readouterr().err
+    assert "meter file missing.xml: file not found" in capsys.readouterr().err
 
 
 def test_with_solar_the_meters_months_count_what_was_bought(tmp_path) -> None:

@@ -32,7 +32,8 @@ def _wired() -> bool:
 @pytest.fixture
 def run(monkeypatch):
     assert _wired(), "the CLI must register print, export and diff"
-    monkeypatch.setattr(outputs, "load_and_plan", lambda _path, **_kw: (None, make_result()))
+    monkeypatch.setattr(outputs, "load_and_plan", lambda _path, **_options: (None, make_result()))
+    monkeypatch.setattr(cli, "preflight", lambda *_args, **_options: None)  # no file: a fixture result
     monkeypatch.setattr(outputs, "with_sensitivity", lambda _loaded, result: result)  # no re-planning
     monkeypatch.setenv("SOURCE_DATE_EPOCH", "1796083200")  # 2026-12-01T00:00:00Z
     return cli.main
@@ -106,6 +107,7 @@ def test_costs_shows_the_cautions_of_the_projects_it_lists(monkeypatch, capsys) 
     from homeplan.cli import planning
 
     monkeypatch.setattr(planning, "load_and_plan", lambda _path, **_kw: (None, make_result()))
+    monkeypatch.setattr(cli, "preflight", lambda *_args, **_options: None)  # no file: a fixture result
     texts = catalog.cautions(2023)
     assert cli.main(["costs", "x.yaml"]) == 0
     out = capsys.readouterr().out

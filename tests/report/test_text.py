@@ -10,7 +10,8 @@ from __future__ import annotations
 import datetime as dt
 import re
 
-from homeplan.report.fmt import clean, money, money_signed
+from homeplan.plan.text import clean
+from homeplan.report.fmt import money, money_signed
 from homeplan.report.text import md, render_markdown, render_text
 from homeplan.report.view import build_report
 from tests.report.fixtures import make_plan, make_result
@@ -21,7 +22,8 @@ def test_control_characters_never_reach_the_terminal() -> None:
     plan = make_plan(name='"Home\\e[2J\\e]0;pwned\\x07 \\x9b31m"')
     text = render_text(build_report(make_result(plan), today=dt.date(2026, 12, 1)))
     assert "\x1b" not in text and "\x07" not in text and "\x9b" not in text
-    assert "Home[2J]0;pwned 31m" in text
+    # shown visibly: ESC and BEL as their control pictures U+241B and U+2407 (Unicode chapter 22)
+    assert "Home\u241b[2J\u241b]0;pwned\u2407 \ufffd31m" in text
 
 
 def test_text_summary_has_every_section() -> None:
@@ -58,6 +60,7 @@ def test_money_rounded_for_households() -> None:
     assert money_signed(-40.0) == "-$40"
 
 
-def test_clean_removes_controls_and_newlines() -> None:
-    assert clean("a\nb\tc\x00d\u2028e") == "a b cde"
+def test_clean_shows_controls_and_joins_lines() -> None:
+    # NUL shown as its Unicode control picture U+2400 (Unicode chapter 22, Control Pictures)
+    assert clean("a\nb\tc\x00d\u2028e") == "a b c\u2400d e"
     assert clean("  x  ") == "x"
