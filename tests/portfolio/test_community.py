@@ -38,7 +38,7 @@ def test_the_same_seed_gives_the_same_homes():
 def test_the_sample_is_what_the_stated_seed_makes():
     assert (SAMPLE / "homes.csv").read_text(encoding="utf-8") == community_csv(DEMO_HOMES, DEMO_SEED)
     assert (SAMPLE / "template.yaml").read_text(encoding="utf-8") == template_text(
-        "../incentives/demoland_invented.yaml")
+        "demoland_invented.yaml")
 
 
 def test_every_home_of_the_sample_is_a_valid_plan():
