@@ -17,6 +17,7 @@ from typing import Any
 
 __all__ = [
     "CostRange",
+    "GlossaryTerm",
     "LikeForLike",
     "ReferenceClimate",
     "ServiceLife",
@@ -27,6 +28,7 @@ __all__ = [
     "cautions",
     "condition_factors",
     "existing_load_row",
+    "glossary",
     "like_for_like_cost",
     "like_for_like_table",
     "performance",
@@ -138,6 +140,7 @@ class UpgradeKind:
     milestone: bool = False
     fuel: str | None = None
     provides_amps: int | None = None
+    short: str = ""       # a short name for narrow screens ("" = the label is short enough)
     extra: dict[str, Any] = field(default_factory=dict)
 
     def variant(self, variant_id: str | None) -> Variant | None:
@@ -151,7 +154,7 @@ class UpgradeKind:
         raise KeyError(variant_id)
 
 
-_KNOWN = {"label", "category", "size_unit", "life_years", "life_source", "cost", "cost_change",
+_KNOWN = {"label", "short", "category", "size_unit", "life_years", "life_source", "cost", "cost_change",
           "replaces", "variants", "requires", "better_before", "cautions", "capacity_load",
           "capacity_remedy", "backfeed", "milestone", "fuel", "provides_amps"}
 
@@ -181,6 +184,7 @@ def upgrade_kinds() -> dict[str, UpgradeKind]:
             milestone=bool(raw.get("milestone", False)),
             fuel=raw.get("fuel"),
             provides_amps=raw.get("provides_amps"),
+            short=str(raw.get("short") or ""),
             extra={k: v for k, v in raw.items() if k not in _KNOWN},
         )
     return out
@@ -285,3 +289,20 @@ def reference_climates() -> tuple[ReferenceClimate, ...]:
                          float(r["cloudiness"]), r["source"])
         for r in rows
     )
+
+
+@dataclass(frozen=True)
+class GlossaryTerm:
+    """A term of the trade: the plain words screens use instead, and its explanation."""
+
+    term: str
+    plain: str
+    text: str
+    source: str
+
+
+@cache
+def glossary() -> tuple[GlossaryTerm, ...]:
+    """The glossary (data/glossary.yaml), in its order."""
+    return tuple(GlossaryTerm(r["term"], r["plain"], " ".join(r["text"].split()), r["source"])
+                 for r in _yaml_data("glossary.yaml"))

@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+from collections.abc import Sequence
 from dataclasses import dataclass
 
 __all__ = ["InputError", "PlanRuleError", "Problem"]
@@ -38,11 +39,31 @@ class PlanRuleError(ValueError):
     """A rule broken by a valid-looking plan (unknown project id, cycle in the order...).
 
     Carries the path of keys in the plan file (``loc``) so the edge that read the file can
-    point at the line and column.
+    point at the line and column. A check that finds several broken rules raises one error
+    carrying the others in ``more`` (see :meth:`gather`), so every one is reported at once.
     """
 
-    def __init__(self, loc: tuple, message: str, hint: str = ""):
+    def __init__(self, loc: tuple, message: str, hint: str = "",
+                 more: Sequence[PlanRuleError] = ()):
         self.loc = loc
         self.message = message
         self.hint = hint
-        super().__init__(f"{'.'.join(map(str, loc))}: {message}" + (f" ({hint})" if hint else ""))
+        self.more = tuple(more)
+        text = f"{'.'.join(map(str, loc))}: {message}" + (f" ({hint})" if hint else "")
+        if self.more:
+            text += f" (and {len(self.more)} more: " + "; ".join(
+                f"{'.'.join(map(str, e.loc))}: {e.message}" for e in self.more) + ")"
+        super().__init__(text)
+
+    @property
+    def every(self) -> tuple[PlanRuleError, ...]:
+        """This error and the ones found with it."""
+        return (self, *(e for m in self.more for e in m.every))
+
+    @classmethod
+    def gather(cls, errors: Sequence[PlanRuleError]) -> None:
+        """Raise the first error carrying the others (nothing when the list is empty)."""
+        found = [e for err in errors for e in err.every]
+        if found:
+            first = found[0]
+            raise cls(first.loc, first.message, first.hint, found[1:])

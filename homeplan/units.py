@@ -14,6 +14,7 @@ from __future__ import annotations
 from collections.abc import Callable
 
 __all__ = [
+    "BTUH_PER_TON",
     "BTU_PER_KWH",
     "FT2_PER_M2",
     "KWH_PER_THERM",
@@ -24,8 +25,10 @@ __all__ = [
     "delta_c_from_f",
     "display_area",
     "display_heat",
+    "display_size",
     "display_temp",
     "f_from_c",
+    "heat_output_words",
 ]
 
 FT_PER_M = 1 / 0.3048
@@ -34,6 +37,7 @@ M_PER_MILE = 1609.344
 L_PER_GAL = 3.785411784
 BTU_PER_KWH = 3412.14
 BTU_PER_THERM = 100_000.0
+BTUH_PER_TON = 12_000.0  # NIST SP 811 (2008) Appendix B: 1 ton of refrigeration = 12,000 Btu(IT)/h
 KWH_PER_THERM = BTU_PER_THERM / BTU_PER_KWH
 
 
@@ -77,3 +81,20 @@ def display_area(area_ft2: float, units: str) -> str:
 
 def display_heat(btuh: float, units: str) -> str:
     return f"{btuh / BTU_PER_KWH:,.1f} kW" if units == "si" else f"{btuh:,.0f} Btu/h"
+
+
+def heat_output_words(btuh: float) -> str:
+    """Heating or cooling output in plain units first: "12.3 kW (42,000 Btu/h)"."""
+    return f"{btuh / BTU_PER_KWH:,.1f} kW ({btuh:,.0f} Btu/h)"
+
+
+def display_size(size: float, unit: str) -> str:
+    """A project's size as people read it: a heat pump's tons as kW and Btu/h (never tons),
+    kW and kWh as they are, an area in ft2; "" for things counted one each."""
+    if unit == "ton":
+        return heat_output_words(size * BTUH_PER_TON)
+    if unit in ("kw", "kwh"):
+        return f"{size:g} {'kW' if unit == 'kw' else 'kWh'}"
+    if unit == "ft2":
+        return f"{size:,.0f} ft2"
+    return ""

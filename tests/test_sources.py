@@ -127,6 +127,12 @@ def _upgrade_problems(path: Path) -> list[str]:
     return out
 
 
+def _glossary_problems(path: Path) -> list[str]:
+    """Each term of the glossary names where its definition is published."""
+    terms = YAML(typ="safe").load(path.read_text(encoding="utf-8"))
+    return [f"{path.name} {t.get('term')}: {why}" for t in terms if (why := problem(t.get("source")))]
+
+
 def _program_problems(path: Path) -> list[str]:
     doc = YAML(typ="safe").load(path.read_text(encoding="utf-8"))
     out = [f"{path.name} {p.get('id')}: {why}" for p in doc["programs"] if (why := problem(p.get("source")))]
@@ -147,6 +153,8 @@ def test_every_catalog_row_names_a_source(path: Path) -> None:
         bad = _csv_problems(path)
     elif path.name == "upgrades.yaml":
         bad = _upgrade_problems(path)
+    elif path.name == "glossary.yaml":
+        bad = _glossary_problems(path)
     else:
         pytest.fail(f"{path.name}: a data file the source check does not know how to read")
     assert not bad, "\n".join(bad)

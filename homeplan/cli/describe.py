@@ -34,25 +34,38 @@ def _graph_checked(loaded: LoadedPlan) -> nx.DiGraph:
         raise loaded.locate(err) from None
 
 
-def _check_files(loaded: LoadedPlan) -> tuple[str, ...]:
+def _check_files(loaded: LoadedPlan) -> tuple[list[PlanRuleError], tuple[str, ...]]:
     """The files a plan names must be readable and hold valid data (incentives, weather, meter),
-    read the way the planner reads them; returns what the meter file tells, in words."""
+    read the way the planner reads them: every problem found, and what the meter file tells,
+    in words."""
     plan = loaded.plan
+    folder = loaded.folder
+    errors: list[PlanRuleError] = []
+    reading = None
     try:
-        load_programs(plan, loaded.folder)
-        _, reading = read_meter(plan, loaded.folder)
-        if plan.home.climate.weather_file:
-            read_weather_file(loaded.folder, plan.home.climate.weather_file)
-        if plan.usage is not None and plan.usage.weather_file:
-            read_weather_file(loaded.folder, plan.usage.weather_file, BILL_YEAR_WEATHER_KEY)
+        load_programs(plan, folder)
     except PlanRuleError as err:
-        raise loaded.locate(err) from None
+        errors.append(err)
+    try:
+        _, reading = read_meter(plan, folder)
+    except PlanRuleError as err:
+        errors.append(err)
+    try:
+        if plan.home.climate.weather_file:
+            read_weather_file(folder, plan.home.climate.weather_file)
+    except PlanRuleError as err:
+        errors.append(err)
+    try:
+        if plan.usage is not None and plan.usage.weather_file:
+            read_weather_file(folder, plan.usage.weather_file, BILL_YEAR_WEATHER_KEY)
+    except PlanRuleError as err:
+        errors.append(err)
     if reading is None:
-        return ()
+        return errors, ()
     m = reading.series
-    return (f"{reading.path.name}: {m.kwh.size:,} readings of {m.interval_s // 60} minutes over "
-            f"{m.span_days:.0f} days, {m.total_kwh:,.0f} kWh, highest {reading.peak_kw:.1f} kW",
-            *reading.notes)
+    return errors, (f"{reading.path.name}: {m.kwh.size:,} readings of {m.interval_s // 60} minutes over "
+                    f"{m.span_days:.0f} days, {m.total_kwh:,.0f} kWh, highest {reading.peak_kw:.1f} kW",
+                    *reading.notes)
 
 
 def plan_summary(plan: Plan, g: nx.DiGraph | None = None) -> str:
@@ -94,9 +107,20 @@ def plan_summary(plan: Plan, g: nx.DiGraph | None = None) -> str:
 
 
 def cmd_check(args) -> int:
+    """Every problem of the file at once: its shape and rules (the loader), the project ids its
+    choices name and the files it names."""
     loaded = load_plan(args.file, allow=args.allow_outside)
-    g = _graph_checked(loaded)
-    meter = _check_files(loaded)
+    errors, meter = _check_files(loaded)
+    g = None
+    try:
+        g = candidates.build_graph(loaded.plan)
+    except PlanRuleError as err:
+        errors.insert(0, err)
+    if errors:
+        try:
+            PlanRuleError.gather(errors)
+        except PlanRuleError as err:
+            raise loaded.locate(err) from None
     named = options(loaded)[1:]  # each option validated, its problems located in the file
     for _, opt in named:
         _graph_checked(opt)

@@ -15,6 +15,8 @@ import sys
 from typing import NoReturn
 
 from homeplan import __version__
+from homeplan.plan.objectives import ALIASES
+from homeplan.plan.objectives import OBJECTIVES as OBJECTIVE_INFO
 
 __all__ = [
     "COMMANDS",
@@ -29,7 +31,8 @@ __all__ = [
 EXIT_OK, EXIT_FAILURE, EXIT_BAD_INPUT = 0, 1, 2
 EXIT_INTERRUPTED = 130  # 128 + SIGINT, as shells report Ctrl-C
 
-OBJECTIVES = ("npv", "emissions", "gas_off_early", "out_of_pocket", "risk_aware")
+OBJECTIVES = tuple(OBJECTIVE_INFO)
+"""The objectives' names (homeplan.plan.objectives); older spellings are accepted too."""
 
 COMMANDS: dict[str, tuple[str, str]] = {
     "check": ("describe", "cmd_check"),
@@ -98,6 +101,14 @@ def _money(text: str) -> float:
     return v
 
 
+def _objective(text: str) -> str:
+    name = ALIASES.get(text, text)
+    if name not in OBJECTIVE_INFO:
+        raise argparse.ArgumentTypeError(f"{text!r} is not an objective; choose from "
+                                         f"{', '.join(OBJECTIVE_INFO)}")
+    return name
+
+
 def build_parser() -> argparse.ArgumentParser:
     """The parser of every command (``args.command`` names the one given)."""
     p = _Parser(prog="homeplan", description="Plan a whole-home electrification, year by year.")
@@ -144,7 +155,9 @@ def build_parser() -> argparse.ArgumentParser:
     sp.add_argument("--json", action="store_true", help="print the roadmap as JSON (docs/roadmap-json.md)")
     sp.add_argument("--budget", type=_money, help="override the yearly budget (USD)")
     sp.add_argument("--horizon", type=_years, help="override the number of years (1-30)")
-    sp.add_argument("--objective", choices=OBJECTIVES, help="override the objective")
+    sp.add_argument("--objective", type=_objective, metavar="{" + ",".join(OBJECTIVES) + "}",
+                    help="override the objective: " + "; ".join(
+                        f"{k}: {o.meaning}" for k, o in OBJECTIVE_INFO.items()))
     json_flag(allow_outside(command("capacity", "electrical load calculation today and after each "
                                     "roadmap step")))
     json_flag(allow_outside(command("costs", "costs, incentives and net cost of each project by year")))

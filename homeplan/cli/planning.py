@@ -11,11 +11,13 @@ from homeplan import catalog
 from homeplan.cli.common import load_and_plan, with_sensitivity
 from homeplan.cli.parser import EXIT_BAD_INPUT
 from homeplan.cli.say import say
-from homeplan.report.fmt import service_verdict
+from homeplan.plan.objectives import objective_words
+from homeplan.report.fmt import money, service_verdict
 from homeplan.report.risk import risk_lines, sensitivity_view
-from homeplan.report.table import text_table, usd
+from homeplan.report.table import text_table
 from homeplan.report.text import tornado_text
-from homeplan.report.view import bill_fit_lines, emergency_lines
+from homeplan.report.view import bill_fit_lines, comparison_lines, emergency_lines, payback_words
+from homeplan.report.words import load_words
 
 __all__ = ["cmd_capacity", "cmd_costs", "cmd_plan", "cmd_sensitivity"]
 
@@ -43,7 +45,7 @@ def cmd_plan(args) -> int:
         say(json.dumps(data, indent=2))
         return 0
     say(f"Roadmap for {rm.plan_name}, {rm.first_year}-{rm.last_year} "
-          f"(objective: {rm.objective.replace('_', ' ')}). Planning estimates.\n")
+          f"(aim: {objective_words(rm.objective).lower()}). Planning estimates.\n")
     for text in emergency_lines(rm):
         say(f"EMERGENCY: {text}\n")
     if rm.status != "ok":
@@ -52,29 +54,31 @@ def cmd_plan(args) -> int:
     rows = []
     for s in rm.steps:
         what = s.label + (f" ({s.variant})" if s.variant else "") + (f", {s.size}" if s.size else "")
-        rows.append([s.year, what, usd(s.cost_usd, 10), usd(s.incentives_usd, 10), usd(s.net_cost_usd, 10),
-                     "; ".join(s.reasons)])
-    say(text_table(["year", "step", "cost", "incentives", "net", "why this year"], rows, "llrrrl"))
+        rows.append([s.year, what, money(s.cost_usd), money(s.incentives_usd), money(s.net_cost_usd),
+                     payback_words(result, s.project_id), "; ".join(s.reasons)])
+    say(text_table(["year", "step", "cost", "incentives", "you pay", "pays back in", "why this year"],
+                     rows, "llrrrrl"))
     say()
     rows = []
     for y in rm.years:
-        rows.append([y.year, usd(y.spend_usd, 10), usd(y.incentives_usd, 10), usd(y.loan_payments_usd, 10),
-                     usd(y.total_bills_usd, 10), usd(y.bill_savings_usd, 10), f"{y.emissions_kg / 1000:.1f} t",
+        rows.append([y.year, money(y.spend_usd), money(y.incentives_usd), money(y.net_usd),
+                     money(y.loan_payments_usd), money(y.total_bills_usd), money(y.bill_savings_usd),
+                     f"{y.emissions_kg / 1000:.1f} t",
                      f"{y.service_headroom_amps:.0f} A"
                      + (f" ({y.service_load_pct:.0f} %, near its limit)" if y.service_near_limit else "")])
-    say(text_table(["year", "spend", "incentives in", "loan payments", "energy bills", "bill savings",
-                      "CO2", "service headroom"], rows, "lrrrrrrr"))
+    say(text_table(["year", "projects", "incentives in", "out of pocket", "loan payments",
+                      "energy bills", "bill savings", "CO2e", "service headroom"], rows, "lrrrrrrrr"))
     say()
     for m in rm.milestones:
         say(f"  {m.year}: {m.label}")
     rate = loaded.plan.budget.discount_rate_pct
     fin = result.finance.plan if result.finance else None
-    irr = "" if fin is None or fin.irr_pct is None else f", a return of {fin.irr_pct:.1f} % a year"
-    say(f"\nNet present value against doing nothing: {usd(rm.npv_usd, 10)} at {rate:g} %{irr}")
-    say("  (bill savings, minus spending net of incentives, plus the breakdown repairs avoided and "
-          "the equipment's remaining value at the end)")
-    for b in rm.baselines[1:]:
-        say(f"  {b.name}: {usd(b.npv_usd, 10)}")
+    irr = "" if fin is None or fin.irr_pct is None else f"; against doing nothing, a return of {fin.irr_pct:.1f} % a year"
+    say()
+    for what, value, means in comparison_lines(result):
+        say(f"{what}: {value} ({means})")
+    say(f"  (net present value at {rate:g} %: bill savings, minus spending net of incentives, plus the "
+          f"breakdown repairs avoided and the equipment's remaining value at the end{irr})")
     fits = bill_fit_lines(rm)
     if fits:
         say("\nModel of today's home against your bills (planning estimate):")
@@ -105,7 +109,7 @@ def cmd_capacity(args) -> int:
                 say(f"   {n}")
             say()
             continue
-        rows = [[r.name, f"{r.va:,.0f}", "" if r.factor is None else f"{r.factor:.0%}",
+        rows = [[load_words(r.name), f"{r.va:,.0f}", "" if r.factor is None else f"{r.factor:.0%}",
                  "" if r.counted_va is None else f"{r.counted_va:,.0f}", r.section] for r in s.rows]
         say(text_table(["load", "VA", "factor", "counted VA", "section"], rows, "lrrrl"))
         verdict = service_verdict(s.fits, s.near_limit, s.load_pct)
@@ -179,8 +183,8 @@ def cmd_costs(args) -> int:
     rows = []
     for p in result.projects:
         s = planned.get(p.id)
-        rows.append([p.label, usd(p.cost_usd, 10), s.year if s else "-", usd(s.cost_usd, 10) if s else "",
-                     usd(s.incentives_usd, 10) if s else "", usd(s.net_cost_usd, 10) if s else "",
+        rows.append([p.label, money(p.cost_usd), s.year if s else "-", money(s.cost_usd) if s else "",
+                     money(s.incentives_usd) if s else "", money(s.net_cost_usd) if s else "",
                      p.cost_source[:60]])
     for text in emergency_lines(rm):
         say(f"EMERGENCY: {text}\n")
@@ -188,8 +192,8 @@ def cmd_costs(args) -> int:
     say(text_table(["project", "cost today", "year", "cost then", "incentives", "net", "cost from"],
                      rows, "lrrrrrl"))
     say()
-    rows = [[y.year, usd(y.spend_usd, 10), usd(y.incentives_usd, 10), usd(y.net_usd, 10),
-             usd(y.loan_payments_usd, 10), usd(y.bill_savings_usd, 10), usd(y.cumulative_usd, 10)] for y in rm.years]
+    rows = [[y.year, money(y.spend_usd), money(y.incentives_usd), money(y.net_usd),
+             money(y.loan_payments_usd), money(y.bill_savings_usd), money(y.cumulative_usd)] for y in rm.years]
     say(text_table(["year", "spend", "incentives in", "net", "loan payments", "bill savings", "cumulative"],
                      rows, "lrrrrrr"))
     fin = result.finance
@@ -201,7 +205,7 @@ def cmd_costs(args) -> int:
             r = returns.get(s.project_id)
             if r is None:
                 continue
-            rows.append([s.year, s.label, usd(r.first_year_savings_usd, 10), usd(r.npv_over_life_usd, 10),
+            rows.append([s.year, s.label, money(r.first_year_savings_usd), money(r.npv_over_life_usd),
                          "-" if r.irr_pct is None else f"{r.irr_pct:.1f} %",
                          "never" if r.simple_payback_years is None else f"{r.simple_payback_years:.1f} yr"])
         say(text_table(["year", "step", "saves in year 1", "NPV over life", "IRR", "payback"], rows, "llrrrr"))
@@ -224,7 +228,7 @@ def cmd_costs(args) -> int:
     if result.programs:
         say("\nIncentive programs used:")
         for u in result.programs:
-            paid = ", ".join(f"{y}: {usd(v, 10)}" for y, v in u.paid_by_year.items())
+            paid = ", ".join(f"{y}: {money(v)}" for y, v in u.paid_by_year.items())
             say(f"  {u.name} ({u.kind.replace('_', ' ')}): {paid}" + (f"; ends {u.ends}" if u.ends else ""))
     say()
     for line in _caution_lines(result, planned):

@@ -581,11 +581,14 @@ def nec220_83(
                 hvac_rows.append(BreakdownRow(ld.name, ld.va, 0.0, 0.0, sec, note))
         hvac_rows += _hvac_rows(label, [], omitted, sec, omit_sec)
         if hvac:
-            notes.append("Existing HVAC counted in the other load under 220.83(A) (code silent; practice option).")
+            notes.append("The existing heating and cooling are counted with the other loads under "
+                         "220.83(A); the section does not say where they go, so this follows common "
+                         "practice - the electrician confirms it.")
     else:
         hvac_rows = _hvac_rows(label, chosen, omitted, sec, omit_sec)
         if hvac:
-            notes.append("Existing HVAC counted at 100 % under 220.83(A) (conservative option).")
+            notes.append("The existing heating and cooling are counted in full under 220.83(A) "
+                         "(the cautious reading).")
 
     rows = _other_group_rows(
         other,

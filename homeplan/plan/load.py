@@ -71,9 +71,12 @@ class LoadedPlan:
         return PlanFolder.of(self.base_dir, self.allow)
 
     def locate(self, err: PlanRuleError) -> InputError:
-        """A rule the plan breaks, as a problem at the line and column of its key in the file."""
-        line, col = _Positions(self.document, {}).locate(err.loc, on_key=True)
-        return InputError(Problem(str(self.path), line, col, err.message, err.hint))
+        """The rules the plan breaks (the error and those found with it), as problems at the
+        line and column of their keys in the file."""
+        pos = _Positions(self.document, {})
+        found = [Problem(str(self.path), *pos.locate(e.loc, on_key=True), e.message, e.hint)
+                 for e in err.every]
+        return InputError(sorted(dict.fromkeys(found), key=lambda p: (p.line, p.col)))
 
     def with_values(self, values: Mapping[tuple, Any]) -> LoadedPlan:
         """This plan with values set at paths of keys (e.g. command-line overrides), validated
@@ -363,7 +366,7 @@ def validate_document(doc: Any, name: str) -> tuple[Plan, int | None]:
             line, col = pos.locate(loc)
             problems.append(Problem(name, line, col, message, hint))
     if problems:
-        problems.sort(key=lambda p: (p.line, p.col))
+        problems = sorted(dict.fromkeys(problems), key=lambda p: (p.line, p.col))  # each once
         raise InputError(problems)
     assert plan is not None
     return plan, migrated_from

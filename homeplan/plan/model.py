@@ -14,10 +14,13 @@ from __future__ import annotations
 import datetime as dt
 from typing import Annotated, Any, Literal
 
-from pydantic import BaseModel, ConfigDict, Field, model_validator
+from pydantic import BaseModel, ConfigDict, Field, field_validator, model_validator
+
+from homeplan.plan.objectives import canonical
 
 __all__ = [
     "FORMAT_VERSION",
+    "Advisor",
     "Alternative",
     "Appliance",
     "Budget",
@@ -51,8 +54,9 @@ __all__ = [
     "Vehicle",
 ]
 
-FORMAT_VERSION = 1
-"""The plan file format this homeplan writes. Older files are migrated on load."""
+FORMAT_VERSION = 2
+"""The plan file format this homeplan writes. Older files are migrated on load
+(:mod:`homeplan.plan.migrate`); format 2 renamed the objectives."""
 
 Year = Annotated[int, Field(ge=1900, le=2100)]
 Pct = Annotated[float, Field(ge=0, le=100)]
@@ -77,6 +81,42 @@ class Provenance(Section):
     date: dt.date | None = Field(None, description="Date the plan was prepared (YYYY-MM-DD).")
     tool_version: str | None = Field(None, description="homeplan version that wrote the file.")
     notes: str | None = Field(None, description="Free text for the other party.")
+
+
+class Advisor(Section):
+    """The advisor or contractor who prepared the plan: printed as a block on the summary, with
+    the quote's date and how long it holds."""
+
+    company: str | None = Field(None, description="Company name.")
+    name: str | None = Field(None, description="The person to contact.")
+    license_number: str | None = Field(None, description="Contractor or trade license number.")
+    phone: str | None = None
+    email: str | None = None
+    website: str | None = None
+    address: str | None = None
+    quote_date: dt.date | None = Field(None, description="Date of the quote (YYYY-MM-DD).")
+    quote_valid_days: int | None = Field(None, ge=1, le=730, description="Days the quote holds.")
+    quote_valid_until: dt.date | None = Field(None, description="Last day the quote holds.")
+
+    @model_validator(mode="after")
+    def _one_validity(self) -> Advisor:
+        if self.quote_valid_days is not None and self.quote_valid_until is not None:
+            raise ValueError("give quote_valid_days or quote_valid_until, not both: keep one")
+        if self.quote_valid_days is not None and self.quote_date is None:
+            raise ValueError("quote_valid_days counts from quote_date: add quote_date")
+        if (self.quote_valid_until is not None and self.quote_date is not None
+                and self.quote_valid_until < self.quote_date):
+            raise ValueError("quote_valid_until is before quote_date: check the dates")
+        return self
+
+    @property
+    def valid_until(self) -> dt.date | None:
+        """The last day the quote holds (from the date and the days, or as given)."""
+        if self.quote_valid_until is not None:
+            return self.quote_valid_until
+        if self.quote_date is not None and self.quote_valid_days is not None:
+            return self.quote_date + dt.timedelta(days=self.quote_valid_days)
+        return None
 
 
 class Display(Section):
@@ -498,11 +538,14 @@ class ProjectOption(Section):
         "existing (keep the fuel-burning furnace or boiler as a dual-fuel backup).")
 
 
-Objective = Literal["npv", "emissions", "gas_off_early", "out_of_pocket", "risk_aware"]
+Objective = Literal["best_value", "lowest_emissions", "home_fuel_off_soonest", "least_out_of_pocket",
+                    "risk_aware"]
+"""The keys of :data:`homeplan.plan.objectives.OBJECTIVES`."""
 
 
 class Choices(Section):
-    objective: Objective = "npv"
+    objective: Objective = Field("best_value", description="What the roadmap aims for (see "
+                                 "homeplan.plan.objectives); older spellings such as npv are read.")
     pins: dict[str, Year] = Field({}, description="Project id -> the year it must happen.")
     exclude: list[str] = Field([], description="Project ids to leave out.")
     require_before: dict[str, list[str]] = Field(
@@ -528,6 +571,11 @@ class Choices(Section):
     risk_scenarios: int = Field(
         100, ge=10, le=1000, description="risk_aware objective: price scenarios optimised over.")
 
+    @field_validator("objective", mode="before")
+    @classmethod
+    def _older_objective_names(cls, value: Any) -> Any:
+        return canonical(value) if isinstance(value, str) else value
+
 
 # ---------------------------------------------------------------- named options
 
@@ -552,6 +600,7 @@ class Plan(Section):
 
     format_version: int = Field(FORMAT_VERSION, description="Plan file format version.")
     provenance: Provenance = Provenance()
+    advisor: Advisor | None = Field(None, description="Who prepared the plan (printed as a block).")
     display: Display = Display()
     home: Home
     appliances: list[Appliance] = Field([], max_length=40, description="At most 40 (one home).")

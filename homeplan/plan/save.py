@@ -146,8 +146,9 @@ def _write_all(fd: int, data: bytes) -> None:
         view = view[n:]
 
 
-def _replace_with(real: Path, data: bytes, like: os.stat_result | None) -> None:
-    """Write ``data`` to a temporary file beside ``real`` and rename it over ``real``."""
+def _replace_with(real: Path, data: bytes, like: os.stat_result | None, mode: int | None = None) -> None:
+    """Write ``data`` to a temporary file beside ``real`` and rename it over ``real``: with the
+    permissions (and owner, when allowed) of ``like``, else ``mode``, else the umask's."""
     tmp, fd = _temp_for(real)
     try:
         try:
@@ -155,6 +156,8 @@ def _replace_with(real: Path, data: bytes, like: os.stat_result | None) -> None:
                 os.fchmod(fd, stat.S_IMODE(like.st_mode))
                 with contextlib.suppress(OSError):  # keep the owner when allowed (root)
                     os.fchown(fd, like.st_uid, like.st_gid)
+            elif mode is not None:
+                os.fchmod(fd, stat.S_IMODE(mode))
             _write_all(fd, data)
             os.fsync(fd)
         finally:
@@ -167,7 +170,7 @@ def _replace_with(real: Path, data: bytes, like: os.stat_result | None) -> None:
 
 
 def write_atomic(path: str | os.PathLike, text: str, backup: bool = True, *,
-                 replace_readonly: bool = False) -> Path:
+                 replace_readonly: bool = False, mode: int | None = None) -> Path:
     """Write ``text`` to ``path`` atomically; keep the previous file as ``path.bak``.
 
     Parameters
@@ -181,6 +184,9 @@ def write_atomic(path: str | os.PathLike, text: str, backup: bool = True, *,
         Keep the previous version as ``NAME.bak`` (beside the real file).
     replace_readonly : bool
         Write even if the file is read-only (the user said so).
+    mode : int or None
+        Permissions of a new file (e.g. those of the plan it was saved from); None gives the
+        umask's. An existing file keeps its own.
 
     Returns
     -------
@@ -231,7 +237,7 @@ def write_atomic(path: str | os.PathLike, text: str, backup: bool = True, *,
         if st is not None and st.st_nlink > 1:  # hard links: the same file under every name
             _rewrite_in_place(real, data)
         else:
-            _replace_with(real, data, st)
+            _replace_with(real, data, st, mode)
         _fsync_dir(real.parent)
     except OSError as exc:
         raise _refused(target, exc) from None
@@ -278,9 +284,10 @@ def _fsync_dir(directory: Path) -> None:
 
 
 def save_document(path: str | os.PathLike, document: Any, backup: bool = True, *,
-                  replace_readonly: bool = False) -> Path:
+                  replace_readonly: bool = False, mode: int | None = None) -> Path:
     """Write a round-trip document (see :func:`write_atomic`)."""
-    return write_atomic(path, dump_text(document), backup=backup, replace_readonly=replace_readonly)
+    return write_atomic(path, dump_text(document), backup=backup, replace_readonly=replace_readonly,
+                        mode=mode)
 
 
 def set_in(document: Any, loc: tuple, value: Any) -> None:

@@ -47,7 +47,13 @@ from homeplan.planner.context import Context
 from homeplan.planner.finance import plan_returns, project_returns, solar_hedge
 from homeplan.planner.incentives import AwardLine, IncentiveModel
 from homeplan.planner.projects import cost_in_year_usd
-from homeplan.planner.scheduling import COVER_PREFIX, ORDER_PREFIX, ScheduleOutcome, work_order
+from homeplan.planner.scheduling import (
+    COVER_PREFIX,
+    OBJECTIVE,
+    ORDER_PREFIX,
+    ScheduleOutcome,
+    work_order,
+)
 from homeplan.planner.states import peak_fields
 from homeplan.result.figures import (
     CapacityState,
@@ -59,6 +65,7 @@ from homeplan.result.figures import (
 from homeplan.result.plan_result import PlanResult
 from homeplan.result.roadmap import Emergency, IncentiveLine, Milestone, Roadmap, Step, YearTotals
 from homeplan.schedule.problem import evaluate
+from homeplan.units import BTUH_PER_TON, heat_output_words
 
 __all__ = ["assumptions", "build_result", "hourly_profiles", "milestones_of", "project_infos", "rounded"]
 
@@ -72,6 +79,11 @@ class LoanFlows:
 
     borrowed: dict[int, float]
     payments: dict[int, float]
+
+
+def _objective_key(engine_name: str) -> str:
+    """The plan's name for the objective the scheduler used (one name everywhere)."""
+    return next((k for k, v in OBJECTIVE.items() if v == engine_name), engine_name)
 
 
 def project_infos(ctx: Context) -> tuple[ProjectInfo, ...]:
@@ -118,7 +130,7 @@ def build_result(ctx: Context, capacity: CapacityModel, incentives: IncentiveMod
     if not sol.feasible:
         roadmap = Roadmap(
             plan_name=plan.home.name or "home", first_year=ctx.first_year, horizon_years=T,
-            objective=outcome.problem.objective, status="infeasible",
+            objective=_objective_key(outcome.problem.objective), status="infeasible",
             infeasibility=outcome.infeasibility, cautions=(cautions_all["planning"],),
             assumptions=assumptions(ctx), calibration=ctx.basis.bill_fits,
         )
@@ -193,7 +205,7 @@ def build_result(ctx: Context, capacity: CapacityModel, incentives: IncentiveMod
         cautions.append(cautions_all["code_edition"])
     roadmap = Roadmap(
         plan_name=plan.home.name or "home", first_year=ctx.first_year, horizon_years=T,
-        objective=outcome.problem.objective, steps=tuple(steps), years=tuple(years),
+        objective=_objective_key(outcome.problem.objective), steps=tuple(steps), years=tuple(years),
         milestones=milestones_of(ctx, done), baselines=baselines, npv_usd=round(npv, 2), status="ok",
         assumptions=assumptions(ctx), cautions=tuple(cautions), emergencies=emergencies,
         calibration=ctx.basis.bill_fits,
@@ -422,15 +434,14 @@ def loan_flows(ctx: Context, outcome: ScheduleOutcome,
 def sizing_words(sel: HeatPumpSelection) -> str:
     """How a heat pump was sized, in words: its size, the loads, its heat at the design
     temperature and its cooling against the cooling load."""
-    kw = sel.nominal_btuh / 3412.14
-    text = (f"sized {sel.nominal_tons:g} tons ({sel.nominal_btuh:,.0f} Btu/h, {kw:.1f} kW) for the "
-            f"home's loads: heating {sel.heating_load_btuh:,.0f} Btu/h at "
-            f"{sel.heating_design_f:.0f} F, cooling {sel.cooling_load_btuh:,.0f} Btu/h")
+    text = (f"sized at {heat_output_words(sel.nominal_btuh)} for the home's heat loss of "
+            f"{heat_output_words(sel.heating_load_btuh)} on a {sel.heating_design_f:.0f} F design day "
+            f"and heat gain of {heat_output_words(sel.cooling_load_btuh)} in summer")
     if sel.heating_ratio is not None:
-        text += (f"; at {sel.heating_design_f:.0f} F it gives {sel.capacity_at_design_btuh:,.0f} "
-                 f"Btu/h ({sel.heating_ratio * 100:.0f} % of the heating load)")
+        text += (f"; at {sel.heating_design_f:.0f} F it gives {heat_output_words(sel.capacity_at_design_btuh)} "
+                 f"({sel.heating_ratio * 100:.0f} % of the heat loss)")
     if sel.cooling_ratio is not None:
-        text += f", its cooling {sel.cooling_ratio * 100:.0f} % of the cooling load"
+        text += f", its cooling {sel.cooling_ratio * 100:.0f} % of the heat gain"
     return text + f" ({sel.rule})"
 
 
@@ -439,7 +450,7 @@ def _heat_pump_sizing(ctx: Context, done: dict[str, int], pid: str) -> str:
     d = ctx.details[pid]
     state = ctx.energy(frozenset(p for p, y in done.items() if y <= done[pid]))
     hours = state.summary.backup_heat_hours
-    text = sizing_words(d.sizing) if d.sizing is not None else f"sized {d.size:g} t"
+    text = sizing_words(d.sizing) if d.sizing is not None else f"sized at {heat_output_words(d.size * BTUH_PER_TON)}"
     kept = dual_fuel_backup(ctx.plan) if d.backup_kind == "existing" else None
     if kept is not None:
         fuel = appliance_fuel(kept)
@@ -451,8 +462,8 @@ def _heat_pump_sizing(ctx: Context, done: dict[str, int], pid: str) -> str:
     if hours and not d.backup_kw:
         text += f"; about {hours} hours a year colder than it can carry alone (keep a backup plan)"
     elif hours:
-        what = "electric heaters" if d.backup_kind == "heaters" else "backup strips"
-        text += f"; its {d.backup_kw:g} kW {what} run about {hours} hours a year"
+        what = "electric heaters" if d.backup_kind == "heaters" else "backup electric heat"
+        text += f"; its {what} ({d.backup_kw:g} kW) would run about {hours} hours a year"
     return text
 
 

@@ -244,8 +244,7 @@ def build_graph(plan: Plan):
         for load in loads:
             g.add_edge(CAPACITY_GROUP, load, kind="any_of",
                        why="needs room on the service if the load calculation says so")
-    _apply_user_order(g, plan, ids)
-    _check_choice_ids(plan, ids)
+    PlanRuleError.gather(_apply_user_order(g, plan, ids) + _check_choice_ids(plan, ids))
     _check_option_variants(plan, {c.id: c.kind for c in cands})
     _check_capacity_choices(plan, cands)
     hard = nx.DiGraph((u, v) for u, v, d in g.edges(data=True) if d["kind"] != "any_of")
@@ -266,16 +265,21 @@ def _suggest(name: str, ids: set[str], what: str = "projects for this home") -> 
     return f"did you mean '{close[0]}'?" if close else f"{what}: {', '.join(sorted(ids))}"
 
 
-def _apply_user_order(g, plan: Plan, ids: set[str]) -> None:
+def _apply_user_order(g, plan: Plan, ids: set[str]) -> list[PlanRuleError]:
+    """Add the user's order to the graph; the unknown ids it names, as errors (all of them)."""
+    errors = []
     for after, befores in plan.choices.require_before.items():
         if after not in ids:
-            raise PlanRuleError(("choices", "require_before", after),
-                                f"unknown project '{after}'", _suggest(after, ids))
+            errors.append(PlanRuleError(("choices", "require_before", after),
+                                        f"unknown project '{after}'", _suggest(after, ids)))
+            continue
         for i, before in enumerate(befores):
             if before not in ids:
-                raise PlanRuleError(("choices", "require_before", after, i),
-                                    f"unknown project '{before}'", _suggest(before, ids))
+                errors.append(PlanRuleError(("choices", "require_before", after, i),
+                                            f"unknown project '{before}'", _suggest(before, ids)))
+                continue
             g.add_edge(before, after, kind="requires", why="your choice")
+    return errors
 
 
 def _check_capacity_choices(plan: Plan, cands: list[Candidate]) -> None:
@@ -310,27 +314,33 @@ def _check_option_variants(plan: Plan, kind_of: dict[str, str]) -> None:
                                 else f"{pid} has no variants; remove the key")
 
 
-def _check_choice_ids(plan: Plan, ids: set[str]) -> None:
+def _check_choice_ids(plan: Plan, ids: set[str]) -> list[PlanRuleError]:
+    """Every pin, exclusion, option and failed appliance that names nothing in the home, and
+    every pin outside the plan's years."""
+    errors = []
     for pid in plan.choices.pins:
         if pid not in ids:
-            raise PlanRuleError(("choices", "pins", pid), f"unknown project '{pid}'", _suggest(pid, ids))
+            errors.append(PlanRuleError(("choices", "pins", pid), f"unknown project '{pid}'",
+                                        _suggest(pid, ids)))
     for i, pid in enumerate(plan.choices.exclude):
         if pid not in ids:
-            raise PlanRuleError(("choices", "exclude", i), f"unknown project '{pid}'", _suggest(pid, ids))
+            errors.append(PlanRuleError(("choices", "exclude", i), f"unknown project '{pid}'",
+                                        _suggest(pid, ids)))
     for pid in plan.options:
         if pid not in ids:
-            raise PlanRuleError(("options", pid), f"unknown project '{pid}'", _suggest(pid, ids))
+            errors.append(PlanRuleError(("options", pid), f"unknown project '{pid}'", _suggest(pid, ids)))
     keys = {a.key for a in plan.appliances}
     for i, key in enumerate(plan.choices.failed_now):
         if key not in keys:
-            raise PlanRuleError(("choices", "failed_now", i), f"unknown appliance '{key}'",
-                                _suggest(key, keys, "appliances in the plan"))
+            errors.append(PlanRuleError(("choices", "failed_now", i), f"unknown appliance '{key}'",
+                                        _suggest(key, keys, "appliances in the plan")))
     last = plan.first_year + plan.budget.horizon_years - 1
     for pid, year in plan.choices.pins.items():
-        if not plan.first_year <= year <= last:
-            raise PlanRuleError(("choices", "pins", pid),
-                                f"{pid} is pinned to {year}, outside the plan's years "
-                                f"{plan.first_year}-{last}", "pick a year inside the horizon")
+        if pid in ids and not plan.first_year <= year <= last:
+            errors.append(PlanRuleError(("choices", "pins", pid),
+                                        f"{pid} is pinned to {year}, outside the plan's years "
+                                        f"{plan.first_year}-{last}", "pick a year inside the horizon"))
+    return errors
 
 
 def prerequisites_closure(g, pid: str) -> set[str]:

@@ -153,9 +153,15 @@ def appliance_type(appliance: Appliance) -> str:
     return "storage" if appliance.kind == "water_heater" else ""
 
 
+# Electric-only kinds named without a fuel, in words rather than the trade's abbreviations.
+_KIND_WORDS = {"heat_pump": "heat pump", "central_ac": "central air conditioner",
+               "room_ac": "room air conditioner", "mini_split": "mini-split heat pump"}
+
+
 def appliance_outlook(a: Appliance, today_year: int, years: int = 15, risk_pct: float = 50,
                       failed_now: bool = False) -> LifeOutlook:
-    label = f"{appliance_fuel(a)} {a.kind.replace('_', ' ')}" if a.kind != "heat_pump" else "heat pump"
+    words = _KIND_WORDS.get(a.kind, a.kind.replace("_", " "))
+    label = words if a.kind in _KIND_WORDS else f"{appliance_fuel(a)} {words}"
     return outlook(a.key, label, a.kind, appliance_fuel(a), appliance_type(a), a.year_installed,
                    "failed" if failed_now else a.condition, today_year, years, risk_pct)
 

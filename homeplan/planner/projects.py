@@ -27,6 +27,7 @@ from homeplan.plan.model import Plan
 from homeplan.planner.basis import HomeBasis
 from homeplan.planner.candidates import Candidate, dual_fuel_backup
 from homeplan.planner.states import heat_pump_backup, heat_pump_selection
+from homeplan.units import display_size
 
 __all__ = [
     "ProjectDetail",
@@ -70,10 +71,8 @@ class ProjectDetail:
         return self.candidate.label
 
     def size_text(self) -> str:
-        unit = {"ton": "t", "kw": "kW", "kwh": "kWh", "ft2": "ft2"}.get(self.size_unit, "")
-        if not unit:
-            return ""
-        return f"{self.size:g} {unit}" if self.size_unit != "ft2" else f"{self.size:,.0f} ft2"
+        """The size in plain units (a heat pump in kW and Btu/h, not tons)."""
+        return display_size(self.size, self.size_unit)
 
 
 def roof_area_ft2(plan: Plan) -> float:
@@ -158,9 +157,9 @@ def detail(plan: Plan, c: Candidate, basis: HomeBasis, electrified_kwh: float,
         per_kw = p["hp_backup_heaters_usd_per_kw" if backup_kind == "heaters" else "hp_backup_strips_usd_per_kw"]
         if not quoted:
             cost += (backup_kw - own_kw) * per_kw
-        what = "electric heaters" if backup_kind == "heaters" else "backup strips"
+        what = "electric heaters" if backup_kind == "heaters" else "backup electric heat"
         label += (f" ({backup_kw:g} kW)" if own_kw else
-                  f", with {backup_kw:g} kW {what} for the coldest hours")
+                  f", with {backup_kw:g} kW of {what} for the coldest hours")
     return ProjectDetail(
         candidate=c, variant=v.id if v else None, variant_label=label,
         size=float(size), size_unit=k.size_unit, cost_today_usd=float(round(cost, 2)),

@@ -74,9 +74,10 @@ __all__ = [
     "work_order",
 ]
 
-OBJECTIVE = {"npv": "max_npv", "emissions": "min_emissions", "gas_off_early": "earliest_gas_closure",
-             "out_of_pocket": "min_out_of_pocket", "risk_aware": "min_cost_cvar"}
-"""Plan-file objective -> scheduler objective."""
+OBJECTIVE = {"best_value": "max_npv", "lowest_emissions": "min_emissions",
+             "home_fuel_off_soonest": "earliest_gas_closure", "least_out_of_pocket": "min_out_of_pocket",
+             "risk_aware": "min_cost_cvar"}
+"""Plan-file objective -> the scheduler's own name for it (the result names it as the plan does)."""
 
 ORDER_PREFIX = "order:"
 COVER_PREFIX = "covered:"
@@ -207,8 +208,8 @@ def build_problem(ctx: Context, co: dict[str, Coefficients], capacity: CapacityM
             undone_penalty_usd=penalty, excluded=pid in plan.choices.exclude or pid in capacity.excluded,
             earliest_year=earliest, latest_year=latest,
             pinned_year=None if pid in urgent else plan.choices.pins.get(pid),
-            window_reason=(f"{item or 'the old one'} reaches {plan.choices.replace_at_risk_pct:.0f} % "
-                           "failure risk") if latest else "",
+            window_reason=_window_reason(item, latest, delay, plan.choices.replace_at_risk_pct,
+                                         cumulative, ctx.first_year),
             capacity_use=max(capacity.use.get(pid, 0.0), 0.0),
             capacity_provided=capacity.provided.get(pid, 0.0) + max(-capacity.use.get(pid, 0.0), 0.0),
             spaces_use=float(max(breaker_spaces(ctx, d, capacity), 0)),
@@ -267,6 +268,21 @@ def build_problem(ctx: Context, co: dict[str, Coefficients], capacity: CapacityM
     )
 
 
+def _window_reason(item: str, latest: int | None, delay: int | None, risk_pct: float,
+                   cumulative: list[float], first_year: int) -> str:
+    """Why a replacement comes no later than ``latest``: the old one reaches the plan's failure
+    risk; when the budget forced a later year than that (``delay``), the risk it has reached by
+    then, so the reason never quotes a year the roadmap has already passed."""
+    if not latest:
+        return ""
+    name = item or "the old one"
+    t = latest - first_year
+    if delay and 0 <= t < len(cumulative) and cumulative[t] > 0:
+        return (f"{name} reaches {cumulative[t] * 100:.0f} % failure risk in {latest} (the budget "
+                f"could not replace it sooner, at {risk_pct:.0f} %)")
+    return f"{name} reaches {risk_pct:.0f} % failure risk"
+
+
 def _objective(ctx: Context) -> tuple[str, str | None]:
     """The scheduler's objective and, for the earliest fuel closure, the milestone it moves.
 
@@ -300,8 +316,8 @@ def _target_notes(ctx: Context, implicit_target: bool) -> list[str]:
             notes.append(f"cars you plan to keep past {by} are not part of the fully-electric goal: "
                          + ", ".join(k.lower() for k in kept))
     if OBJECTIVE[ctx.plan.choices.objective] == "earliest_gas_closure" and _objective(ctx)[1] is None:
-        notes.append("objective 'gas_off_early': this home burns no gas, oil or propane; "
-                     "using best net present value instead")
+        notes.append("objective 'home fuel off soonest': this home burns no gas, oil or propane; "
+                     "aiming for the best value instead")
     return notes
 
 

@@ -17,6 +17,7 @@ import math
 from dataclasses import dataclass
 from typing import Any
 
+from homeplan.plan.objectives import objective_words
 from homeplan.report.table import usd
 
 __all__ = [
@@ -67,7 +68,7 @@ LABELS: dict[Path, str] = {
     ("home", "name"): "home name",
 }
 # Sections that cannot change a roadmap: listed, but never offered as a "because".
-NO_EFFECT = ("provenance", "display", "format_version")
+NO_EFFECT = ("provenance", "advisor", "display", "format_version")
 _UNIT_SUFFIXES = ("_usd", "_pct", "_ft2", "_btuh", "_kwh", "_kw", "_amps", "_gal", "_kg", "_deg",
                   "_f", "_v", "_va")
 _IDENTITY = ("id", "name", "kind")
@@ -131,6 +132,8 @@ def label_for(path: Path, context: list[str]) -> str:
         return LABELS[plain]
     last = str(path[-1]) if path else "plan"
     words = [c for c in context if c]
+    if words and words[-1] == _field_words(last):  # a list of values names its own section
+        words.pop()
     return " ".join([*words, _field_words(last)]).strip() or last
 
 
@@ -138,6 +141,8 @@ def fmt_value(v: Any, path: Path = ()) -> str:
     key = str(path[-1]) if path else ""
     if v is None:
         return "not set"
+    if key == "objective" and isinstance(v, str):
+        return objective_words(v).lower()
     if isinstance(v, bool):
         return "yes" if v else "no"
     if _is_number(v):

@@ -15,6 +15,7 @@ __all__ = [
     "energy_key_words",
     "finite",
     "money",
+    "money_short",
     "money_signed",
     "number",
     "pct",
@@ -30,7 +31,8 @@ class Table:
 
     headers: tuple[str, ...]
     rows: tuple[tuple[str, ...], ...]
-    align: str            # per column: 'l' left, 'r' right (numbers), 'n' left and never wrapped
+    align: str            # per column: 'l' left, 'r' right (numbers), 'n' left and never wrapped,
+                          # 'w' left and given the room (the reasons)
     total: tuple[str, ...] | None = None        # a closing row, shown emphasised
     note: str = ""
 
@@ -65,6 +67,28 @@ def money(value: float | None) -> str:
     step = 10 if abs(value) < 1000 else 100
     out = usd(value, step)
     return "$0" if out == "-$0" else out
+
+
+def money_short(value: float | None) -> str:
+    """The same amount as :func:`money`, compact for narrow cells: 550, 1.6k, 24k, 0.
+
+    Rounded as :func:`money` rounds (nearest $10 under $1,000, else $100), then shortened, so a
+    cell and a sentence about the same figure agree; a non-zero amount never shows as 0.
+    """
+    if not finite(value):
+        return "-"
+    assert value is not None
+    step = 10 if abs(value) < 1000 else 100
+    v = round(value / step) * step
+    if v == 0:
+        return "0"
+    if abs(v) < 1000:
+        s = f"{abs(v):,.0f}"
+    elif abs(value) < 9950:
+        s = f"{abs(value) / 1000:.1f}k"
+    else:
+        s = f"{abs(value) / 1000:,.0f}k"
+    return ("-" if v < 0 else "") + s
 
 
 def money_signed(value: float | None) -> str:

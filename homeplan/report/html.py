@@ -32,7 +32,7 @@ from homeplan.report.charts import (
 )
 from homeplan.report.compare import Comparison, range_chart_svg
 from homeplan.report.fmt import short
-from homeplan.report.svg import legend_items, timeline_svg
+from homeplan.report.svg import PATH_COLOURS, chart_svg, legend_items, timeline_svg
 from homeplan.report.view import Report, Table
 
 __all__ = ["CSP", "CSS", "comparison_html", "comparison_page", "e", "render_html", "table_html"]
@@ -76,13 +76,26 @@ th { font-weight: 600; color: var(--muted); border-bottom: 1.5px solid var(--ink
   word-break: normal; vertical-align: bottom; }
 td.r, th.r { text-align: right; }
 td.r, td.n { white-space: nowrap; overflow-wrap: normal; word-break: normal; }
-table.steps td:nth-child(2) { width: 30%; }
-table.steps td:nth-child(6) { width: 34%; }
+table.steps td:nth-child(2) { width: 27%; }
+td.w, th.w { width: 34%; }
 tr { break-inside: avoid; page-break-inside: avoid; }
 tbody tr:nth-child(even) td { background: var(--band); }
 tbody tr.total td { font-weight: 600; border-top: 1.5px solid var(--ink); border-bottom: 0; background: none; }
 thead { display: table-header-group; }
 svg.timeline, svg.chart { width: 100%; height: auto; display: block; margin: 1mm 0; }
+.compare { display: grid; grid-template-columns: 1fr 1fr; gap: 3mm; margin: 2mm 0 0; }
+.compare div { border: 1px solid var(--rule); border-radius: 1.5mm; padding: 1.5mm 3mm; }
+.compare div.first { border: 1.5px solid var(--ink); }
+.compare .v { font-size: 14pt; font-weight: 600; display: block; }
+.compare .k { font-weight: 600; display: block; }
+.compare .m { font-size: 8.5pt; color: var(--muted); display: block; }
+.advisor { border: 1px solid var(--rule); border-radius: 1.5mm; padding: 1.5mm 3mm; margin: 0 0 3mm;
+  break-inside: avoid; }
+.advisor dl.facts { grid-template-columns: 27mm minmax(0, 1fr) 27mm minmax(0, 1fr); }  /* two pairs a row */
+.advisor h2 { font-size: 10.5pt; margin: 0 0 1mm; border: 0; padding: 0; }
+dl.glossary dt { font-weight: 600; }
+dl.glossary { margin: 0; }
+dl.glossary dd { margin: 0 0 .8mm 0; }
 .legend { display: flex; flex-wrap: wrap; gap: 1mm 5mm; font-size: 8.5pt; color: var(--muted); margin: 0 0 2mm;
   padding: 0; list-style: none; }
 .legend .sw { display: inline-block; width: 4mm; height: 2.6mm; border-radius: .6mm; margin-right: 1.5mm;
@@ -105,7 +118,7 @@ footer code { font-size: 9pt; color: var(--ink); }
   @bottom-right { content: "page " counter(page) " of " counter(pages); font: 7.5pt sans-serif; color: #5d6770; } }
 @media print {
   body { max-width: none; padding: 0; font-size: 9.5pt; }
-  h2:first-child { margin-top: 0; }
+  h2:first-child { margin-top: 3mm; }  /* room after the block before; a page top shows it little */
   a { color: inherit; text-decoration: none; }
 }
 """
@@ -113,13 +126,13 @@ footer code { font-size: 9pt; color: var(--ink); }
 
 def table_html(t: Table, cls: str = "") -> str:
     """A table of the page (numbers right-aligned, a closing total row, a note below)."""
-    head = "".join(f'<th class="{"r" if a == "r" else "l"}" scope="col">{e(h)}</th>'
+    head = "".join(f'<th class="{a if a in ("r", "w") else "l"}" scope="col">{e(h)}</th>'
                    for h, a in zip(t.headers, t.align, strict=False))
     body = []
     for row in t.rows:
         cells = []
         for v, a in zip(row, t.align, strict=False):
-            klass = "r" if a == "r" else ("n" if a == "n" else "l")
+            klass = a if a in ("r", "n", "w") else "l"
             inner = f'<span class="no">{e(v)}</span>' if v == "NO" else e(v)
             cells.append(f'<td class="{klass}">{inner}</td>')
         body.append("<tr>" + "".join(cells) + "</tr>")
@@ -223,13 +236,21 @@ def render_html(r: Report) -> str:
     if r.subtitle:
         parts.append(f'<p class="sub">{e(r.subtitle)}</p>')
     parts.append("</header>")
+    if r.advisor:
+        parts.append('<section class="advisor"><h2>Prepared by</h2>' + _facts(r.advisor) + "</section>")
     # ---- page 1: at a glance
     parts.append('<section class="glance keep"><h2>At a glance</h2><div class="glance-grid">')
     parts.append(_facts(r.home))
     parts.append('<ul class="figures">' + "".join(
         f'<li><span class="v">{_arrow(e(v))}</span><span class="k">{_arrow(e(k))}</span></li>'
         for k, v in r.headline) + "</ul>")
-    parts.append("</div></section>")
+    parts.append("</div>")
+    if r.against:
+        parts.append('<div class="compare">' + "".join(
+            f'<div class="{"first" if i == 0 else "second"}"><span class="k">{e(what)}</span>'
+            f'<span class="v">{e(value)}</span><span class="m">{e(means)}</span></div>'
+            for i, (what, value, means) in enumerate(r.against)) + "</div>")
+    parts.append("</section>")
     for text in r.emergencies:
         parts.append(f'<div class="attention"><b>Emergency.</b> {e(text)}</div>')
     if r.status != "ok":
@@ -249,6 +270,17 @@ def render_html(r: Report) -> str:
                      + "".join(f"<li>{e(w)}</li>" for w in r.warnings) + "</ul></div>")
     parts.append("</section>")
     # ---- page 2: year by year
+    if r.chart is not None:
+        names = {sr.kind: sr.name for sr in r.chart.bills}
+        parts.append('<section class="chart keep"><h2>Bills and money out, year by year</h2>'
+                     + chart_svg(r.chart) + '<ul class="legend">' + "".join(
+                         f'<li><span class="sw" style="background:{PATH_COLOURS[k]}"></span>{e(n)}</li>'
+                         for k, n in names.items())
+                     + "<li>Like for like: replacing each thing with the same kind on the same fuel "
+                     "when it wears out.</li></ul></section>")
+    if r.fossil is not None:
+        parts.append('<section class="fossil keep"><h2>Fuel still bought, and when it stops</h2>'
+                     + table_html(r.fossil, "fossil") + "</section>")
     parts.append('<section class="years"><h2>Year by year</h2>' + table_html(r.years, "years") + "</section>")
     parts += _risk_sections(r)
     if r.comparison is not None:
@@ -266,6 +298,10 @@ def render_html(r: Report) -> str:
     parts.append("</section>")
     parts.append('<section class="cautions"><h2>Safety</h2><ul class="cautions">' + "".join(
         f"<li><b>{e(t)}.</b> {e(text)}</li>" for t, text in r.cautions) + "</ul></section>")
+    if r.glossary:
+        parts.append('<section class="glossary"><h2>Words used in this summary</h2><dl class="glossary">'
+                     + "".join(f"<dt>{e(term)} ({e(plain)})</dt><dd>{e(text)}</dd>"
+                               for term, plain, text in r.glossary) + "</dl></section>")
     # ---- footer
     who = []
     if f.prepared_by:

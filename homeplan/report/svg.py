@@ -16,10 +16,10 @@ from __future__ import annotations
 import math
 from html import escape
 
-from homeplan.report.fmt import short
-from homeplan.report.view import GROUP_LABELS, Timeline
+from homeplan.report.fmt import money_short, short
+from homeplan.report.view import GROUP_LABELS, Series, Timeline, YearChart
 
-__all__ = ["legend_items", "timeline_svg"]
+__all__ = ["PATH_COLOURS", "chart_svg", "legend_items", "timeline_svg"]
 
 # One colour per group of work; a dark ink for milestones; greys for the grid. Our own palette.
 COLOURS: dict[str, str] = {
@@ -116,3 +116,78 @@ def legend_items(t: Timeline) -> list[tuple[str, str]]:
     if t.marks:
         items.append((MILESTONE_INK, "Milestone"))
     return items
+
+
+PATH_COLOURS: dict[str, str] = {"plan": "#2f7d79", "like_for_like": "#b8621b"}
+"""The plan in the timeline's teal; like for like in the attention ochre (with a dashed line)."""
+
+
+def _nice_top(value: float) -> float:
+    """A round axis top at or above ``value``: 1, 2, 2.5 or 5 times a power of ten."""
+    if value <= 0:
+        return 1.0
+    power = 10 ** math.floor(math.log10(value))
+    return next(m * power for m in (1, 2, 2.5, 5, 10) if m * power >= value)
+
+
+def _panel(series: tuple[Series, ...], years: tuple[int, ...], title: str, top_y: float,
+           bars: bool) -> list[str]:
+    """One panel: a title, a value axis with three grid lines, bars or lines per series."""
+    left, right, height = 64, WIDTH - PAD, 150
+    base = top_y + 22 + height
+    top = _nice_top(max((v for sr in series for v in sr.values), default=0.0))
+    n = max(len(years), 1)
+    col = (right - left) / n
+    out = [f'<text x="{left}" y="{top_y + 12:.0f}" font-weight="600" fill="{TEXT}">{_e(title)}</text>']
+    for k in range(3):
+        v = top * k / 2
+        y = base - height * k / 2
+        out.append(f'<line x1="{left}" y1="{y:.1f}" x2="{right}" y2="{y:.1f}" stroke="{GRID}"/>')
+        out.append(f'<text x="{left - 6}" y="{y + 4:.1f}" text-anchor="end" fill="{MUTED}">'
+                   f"${_e(money_short(v))}</text>")
+    every = max(1, math.ceil(40 / col))
+    for i, year in enumerate(years):
+        if i % every == 0:
+            out.append(f'<text x="{left + col * (i + 0.5):.1f}" y="{base + 16:.1f}" '
+                       f'text-anchor="middle" fill="{MUTED}">{year}</text>')
+
+    def y_of(v: float) -> float:
+        return base - height * max(v, 0.0) / top
+
+    if bars:
+        width = col * 0.8 / max(len(series), 1)
+        for j, sr in enumerate(series):
+            colour = PATH_COLOURS.get(sr.kind, COLOURS["other"])
+            for i, v in enumerate(sr.values):
+                x = left + col * (i + 0.1) + j * width
+                y = y_of(v)
+                out.append(f'<rect x="{x:.1f}" y="{y:.1f}" width="{max(width - 1, 1):.1f}" '
+                           f'height="{base - y:.1f}" fill="{colour}">\n'
+                           f"<title>{_e(f'{sr.name}, {years[i]}: ${money_short(v)}')}</title>\n</rect>")
+    else:
+        for sr in series:
+            colour = PATH_COLOURS.get(sr.kind, COLOURS["other"])
+            dash = ' stroke-dasharray="6 4"' if sr.kind != "plan" else ""
+            points = " ".join(f"{left + col * (i + 0.5):.1f},{y_of(v):.1f}"
+                              for i, v in enumerate(sr.values))
+            out.append(f'<polyline points="{points}" fill="none" stroke="{colour}" stroke-width="2.5"'
+                       f"{dash}>\n<title>{_e(sr.name)}</title>\n</polyline>")
+            for i, v in enumerate(sr.values):
+                out.append(f'<circle cx="{left + col * (i + 0.5):.1f}" cy="{y_of(v):.1f}" r="2.5" '
+                           f'fill="{colour}">\n<title>{_e(f"{sr.name}, {years[i]}: ${money_short(v)}")}'
+                           "</title>\n</circle>")
+    return out
+
+
+def chart_svg(chart: YearChart, title: str = "Energy bills and money out, year by year") -> str:
+    """Two panels, one above the other: energy bills a year (lines) and all the money out a year
+    (projects after incentives, loan payments and bills; bars), for the plan and like for like."""
+    height = 2 * (22 + 150 + 30) + 8
+    out = [f'<svg xmlns="http://www.w3.org/2000/svg" class="chart" viewBox="0 0 {WIDTH} {height}" '
+           f'role="img" aria-labelledby="ch-title" font-family="inherit" font-size="12">',
+           f'<title id="ch-title">{_e(title)}</title>']
+    out += _panel(chart.bills, chart.years, "Energy bills a year", 0, bars=False)
+    out += _panel(chart.cash_out, chart.years,
+                  "Money out a year: projects after incentives, loan payments and bills", 202, bars=True)
+    out.append("</svg>")
+    return "\n".join(out)

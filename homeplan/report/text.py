@@ -15,12 +15,12 @@ from __future__ import annotations
 import re
 
 from homeplan.report.compare import Comparison
-from homeplan.report.fmt import money_signed, short
+from homeplan.report.fmt import money, money_signed, short
 from homeplan.report.table import text_table
 from homeplan.report.view import GROUP_LABELS, Report, Table, Timeline, footer_line
 
-__all__ = ["comparison_markdown", "comparison_text", "md", "render_markdown", "render_text", "timeline_text",
-           "tornado_text"]
+__all__ = ["chart_table", "comparison_markdown", "comparison_text", "md", "render_markdown", "render_text",
+           "timeline_text", "tornado_text"]
 
 _GROUP_CHAR = {"appliances": "#", "electrical": "E", "solar": "S", "vehicles": "V", "building": "B",
                "other": "*"}
@@ -57,11 +57,24 @@ def _text_table(t: Table, reason_w: int = 48) -> str:
     rows = [tuple(short(c, reason_w) for c in r) for r in t.rows]
     if t.total:
         rows.append(t.total)
-    align = t.align.replace("n", "l")
+    align = t.align.replace("n", "l").replace("w", "l")
     out = text_table(t.headers, rows, align)
     if t.note:
         out += "\n" + _wrap(t.note, 100)
     return out
+
+
+def chart_table(r: Report) -> Table:
+    """The printout's chart as numbers: bills and money out a year, plan and like for like."""
+    c = r.chart
+    assert c is not None
+    headers = ("Year", *(f"Bills: {sr.name.lower()}" for sr in c.bills),
+               *(f"Money out: {sr.name.lower()}" for sr in c.cash_out))
+    rows = tuple((str(y), *(money(sr.values[i]) for sr in (*c.bills, *c.cash_out)))
+                 for i, y in enumerate(c.years))
+    return Table(headers, rows, "n" + "r" * (len(headers) - 1), None,
+                 "Money out: projects after incentives, loan payments and energy bills. Like for "
+                 "like: replacing each thing with the same kind on the same fuel when it wears out.")
 
 
 def tornado_text(base_usd: float, bars: tuple, width: int = 24) -> str:
@@ -107,11 +120,17 @@ def render_text(r: Report) -> str:
     if r.subtitle:
         out.append(short(r.subtitle, 200))
     out.append("")
+    if r.advisor:
+        out.append("Prepared by")
+        out += [_wrap(f"  {k + ':':<18} {v}", w, hang=21) for k, v in r.advisor]
+        out.append("")
     for k, v in r.home:
         out.append(_wrap(f"{k + ':':<12} {v}", w, hang=13))
     out.append("")
     for k, v in r.headline:
         out.append(f"{v:>10}  {k}")
+    for what, value, means in r.against:
+        out.append(_wrap(f"{what}: {value} ({means})", w, hang=2))
     for text in r.emergencies:
         out += ["", "EMERGENCY", _wrap(text, w)]
     if r.status != "ok":
@@ -121,6 +140,8 @@ def render_text(r: Report) -> str:
     sections: list[tuple[str, str]] = [
         ("The roadmap", timeline_text(r.timeline)),
         ("Steps", _text_table(r.steps) + "\n" + r.money_note),
+        *((("Bills and money out, year by year", _text_table(chart_table(r))),) if r.chart else ()),
+        *((("Fuel still bought, and when it stops", _text_table(r.fossil)),) if r.fossil else ()),
         ("Year by year", _text_table(r.years)),
         *_risk_text(r, w),
         *((("Options side by side", comparison_text(r.comparison).split("\n", 2)[2]),) if r.comparison else ()),
@@ -129,6 +150,9 @@ def render_text(r: Report) -> str:
         ("Key assumptions", "\n".join(_wrap(f"{k + ':':<28} {v}", w, hang=29) for k, v in r.assumptions)
          + ("\n\n" + _text_table(r.programs) if r.programs.rows else "")),
         ("Safety", "\n".join(_wrap(f"{t}: {text}", w, hang=2) for t, text in r.cautions)),
+        *((("Words used in this summary", "\n".join(
+            _wrap(f"{term} ({plain}): {text}", w, hang=2) for term, plain, text in r.glossary)),)
+          if r.glossary else ()),
     ]
     for title, body in sections:
         out += ["", title, "-" * len(title), body]
@@ -166,14 +190,22 @@ def render_markdown(r: Report) -> str:
     out: list[str] = [f"# {md(r.title)}", ""]
     if r.subtitle:
         out += [md(r.subtitle), ""]
+    if r.advisor:
+        out += ["**Prepared by**", ""] + [f"- {md(k)}: {md(v)}" for k, v in r.advisor] + [""]
     out += [f"- **{md(k)}:** {md(v)}" for k, v in r.home]
     out += ["", " | ".join(f"**{md(v)}** {md(k)}" for k, v in r.headline), ""]
+    out += [f"- **{md(what)}: {md(value)}** ({md(means)})" for what, value, means in r.against]
+    out += [""] if r.against else []
     out += [f"> **Emergency.** {md(text)}" + "\n" for text in r.emergencies]
     if r.status != "ok":
         out += [f"> **No roadmap fits these inputs.** {md(r.infeasibility)}", ""]
     out += [f"> {md(w)}" for w in r.warnings]
     out += ["", "## The roadmap", "", "```text", timeline_text(r.timeline).replace("```", "'''"), "```", ""]
     out += ["## Steps", "", _md_table(r.steps), "", f"_{md(r.money_note)}_", ""]
+    if r.chart is not None:
+        out += ["## Bills and money out, year by year", "", _md_table(chart_table(r)), ""]
+    if r.fossil is not None:
+        out += ["## Fuel still bought, and when it stops", "", _md_table(r.fossil), ""]
     out += ["## Year by year", "", _md_table(r.years), ""]
     if r.risk is not None:
         out += ["## Price risk", ""] + [md(line) + "\n" for line in r.risk.lines]
@@ -191,6 +223,9 @@ def render_markdown(r: Report) -> str:
     if r.programs.rows:
         out += ["", _md_table(r.programs)]
     out += ["", "## Safety", ""] + [f"- **{md(t)}.** {md(text)}" for t, text in r.cautions]
+    if r.glossary:
+        out += ["", "## Words used in this summary", ""] + [
+            f"- **{md(term)}** ({md(plain)}): {md(text)}" for term, plain, text in r.glossary]
     out += ["", "---", "", md(footer_line(r.footer))]
     if r.footer.prepared_for:
         out += ["", md(f"Prepared for {r.footer.prepared_for}")]

@@ -14,12 +14,14 @@ None: presentation only. The figures' sources are cited by the engines that made
 from __future__ import annotations
 
 import datetime as dt
+import re
 from dataclasses import dataclass
 from typing import Any
 
 from homeplan import __version__, catalog
 from homeplan.plan.fuels import BILL_FUELS, GASOLINE_VEHICLES, TANK_FUELS
 from homeplan.plan.hashing import content_hash
+from homeplan.plan.objectives import OBJECTIVES, objective_words
 from homeplan.plan.text import clean
 from homeplan.report.compare import Comparison
 from homeplan.report.fmt import (
@@ -27,6 +29,7 @@ from homeplan.report.fmt import (
     energy_key_words,
     finite,
     money,
+    money_short,
     money_signed,
     number,
     pct,
@@ -34,8 +37,10 @@ from homeplan.report.fmt import (
     service_verdict,
     tonnes,
 )
+from homeplan.report.fossil import fossil_lines
 from homeplan.report.risk import RiskView, SensitivityView, risk_view, sensitivity_view
-from homeplan.units import display_area, display_temp
+from homeplan.report.words import caps_words
+from homeplan.units import display_area, display_temp, heat_output_words
 
 __all__ = [
     "GROUP_LABELS",
@@ -43,15 +48,23 @@ __all__ = [
     "Footer",
     "Mark",
     "Report",
+    "Series",
     "Table",
     "Timeline",
+    "YearChart",
+    "assumption_lines",
     "build_report",
     "collect_cautions",
     "bill_fit_lines",
+    "comparison_lines",
     "emergency_lines",
+    "export_words",
     "footer_line",
     "group_of",
+    "npv_vs_like_for_like",
+    "payback_words",
     "step_safety",
+    "without_empty_columns",
 ]
 
 # Groups of upgrade categories (homeplan/data/upgrades.yaml): one colour each on the timeline.
@@ -111,6 +124,25 @@ class Footer:
 
 
 @dataclass(frozen=True)
+class Series:
+    """One line or set of bars of the yearly chart: a name and one value per year (USD)."""
+
+    name: str
+    values: tuple[float, ...]
+    kind: str            # "plan" or "like_for_like"
+
+
+@dataclass(frozen=True)
+class YearChart:
+    """Yearly energy bills and money out (projects after incentives, loans, bills), for the
+    plan and for replacing like for like."""
+
+    years: tuple[int, ...]
+    bills: tuple[Series, ...]
+    cash_out: tuple[Series, ...]
+
+
+@dataclass(frozen=True)
 class Report:
     title: str
     subtitle: str
@@ -131,6 +163,11 @@ class Report:
     warnings: tuple[str, ...]
     footer: Footer
     money_note: str = "Money is rounded: to the nearest $10 under $1,000, else to the nearest $100."
+    against: tuple[tuple[str, str, str], ...] = ()      # (against what, money, what it means)
+    chart: YearChart | None = None
+    fossil: Table | None = None
+    advisor: tuple[tuple[str, str], ...] = ()
+    glossary: tuple[tuple[str, str, str], ...] = ()     # (term, plain words, explanation)
     risk: RiskView | None = None                # price risk (None: not computed)
     sensitivity: SensitivityView | None = None  # what moves the NPV (None: not computed)
     comparison: Comparison | None = None        # the plan's named options side by side
@@ -231,6 +268,42 @@ def _home_lines(plan: Any, result: Any) -> list[tuple[str, str]]:
     return lines
 
 
+def npv_vs_like_for_like(road: Any) -> float | None:
+    """The plan against replacing each thing like for like when it wears out: money ahead (+) or
+    behind (-) over the years planned, in today's dollars. The roadmap's own figure when it
+    carries one; else its net present value against doing nothing less the like-for-like path's
+    (both against doing nothing, discounted alike, so the difference compares the two paths)."""
+    own = getattr(road, "npv_vs_like_for_like_usd", None)
+    if own is not None and finite(own):
+        return own
+    lfl = road.baseline("like_for_like")
+    if lfl is None or not (finite(road.npv_usd) and finite(lfl.npv_usd)):
+        return None
+    return road.npv_usd - lfl.npv_usd
+
+
+def _ahead_words(value: float) -> str:
+    return f"{money(abs(value))} {'ahead' if value >= 0 else 'behind'}"
+
+
+def comparison_lines(result: Any) -> list[tuple[str, str, str]]:
+    """The plan against replacing like for like first (what the household would do anyway),
+    then against doing nothing."""
+    road = result.roadmap
+    years = f"{road.first_year}-{road.last_year}"
+    out = []
+    lfl = npv_vs_like_for_like(road)
+    if lfl is not None:
+        out.append(("Against replacing like for like", _ahead_words(lfl),
+                    f"compared with replacing each appliance and car with the same kind on the same "
+                    f"fuel when it wears out, {years}, in today's dollars"))
+    if finite(road.npv_usd):
+        out.append(("Against doing nothing", _ahead_words(road.npv_usd),
+                    f"compared with keeping today's equipment and paying for breakdowns as they "
+                    f"come, {years}, in today's dollars"))
+    return out
+
+
 def _headline(result: Any) -> list[tuple[str, str]]:
     road = result.roadmap
     steps = road.steps
@@ -244,8 +317,6 @@ def _headline(result: Any) -> list[tuple[str, str]]:
     out.append(("installed cost", money(cost)))
     out.append(("incentives", money(inc)))
     out.append(("you pay", money(net)))
-    if finite(road.npv_usd):
-        out.append(("net present value vs doing nothing", money_signed(road.npv_usd)))
     before, after = result.energy_before, result.energy_after
     if finite(before.emissions_kg) and finite(after.emissions_kg) and before.emissions_kg > 0:
         change = (after.emissions_kg - before.emissions_kg) / before.emissions_kg * 100
@@ -330,6 +401,19 @@ def step_safety(step: Any, edition: int) -> str:
                      for i in dict.fromkeys(ids))
 
 
+def payback_words(result: Any, project_id: str) -> str:
+    """A step's simple payback: its cost after incentives against its bill savings over its
+    life (the result's finance figures)."""
+    fin = result.finance.projects.get(project_id) if result.finance is not None else None
+    if fin is None:
+        return ""
+    if fin.first_year_savings_usd <= 0.5:
+        return "no bill savings"
+    if fin.simple_payback_years is None:
+        return "not within its life"
+    return f"{fin.simple_payback_years:.0f} yr" if fin.simple_payback_years >= 1 else "under 1 yr"
+
+
 def _steps_table(result: Any) -> Table:
     rows = []
     road = result.roadmap
@@ -342,16 +426,18 @@ def _steps_table(result: Any) -> Table:
         if safety:
             reason += (". " if reason else "") + f"Safety: {safety}."
         rows.append((str(s.year), what, money(s.cost_usd), money(s.incentives_usd),
-                     money(s.net_cost_usd), reason))
+                     money(s.net_cost_usd), payback_words(result, s.project_id), reason))
     total = None
     if road.steps:
         total = ("", "Total", money(sum(s.cost_usd for s in road.steps)),
                  money(sum(s.incentives_usd for s in road.steps)),
-                 money(sum(s.net_cost_usd for s in road.steps)), "")
-    return Table(("Year", "What", "Cost", "Incentives", "You pay", "Why this year"),
-                 tuple(rows), "nlrrrl", total,
+                 money(sum(s.net_cost_usd for s in road.steps)), "", "")
+    return Table(("Year", "What", "Cost", "Incentives", "You pay", "Pays back in", "Why this year"),
+                 tuple(rows), "nlrrrrw", total,
                  "Cost is the installed price before incentives; incentives may arrive later "
-                 "(rebates after the work, tax credits with the next tax return).")
+                 "(rebates after the work, tax credits with the next tax return). Pays back in: "
+                 "years of bill savings to repay what you pay (simple payback, over the step's "
+                 "life).")
 
 
 def _years_table(result: Any) -> Table:
@@ -359,10 +445,11 @@ def _years_table(result: Any) -> Table:
     base = road.baseline("do_nothing")
     base_cum = {y.year: y.cumulative_usd for y in base.years} if base is not None else {}
     rows = []
+    loans = any(y.loan_payments_usd for y in road.years)  # no loans: no column of $0
     for y in road.years:
         ahead = (base_cum[y.year] - y.cumulative_usd) if y.year in base_cum else None
         rows.append((str(y.year), money(y.spend_usd), money(y.incentives_usd),
-                     money(y.loan_payments_usd), money(y.total_bills_usd),
+                     money(y.loan_payments_usd) if loans else "", money(y.total_bills_usd),
                      money_signed(y.bill_savings_usd), money(y.cumulative_usd),
                      money_signed(ahead) if ahead is not None else "n/a", tonnes(y.emissions_kg)))
     return Table(("Year", "Projects", "Incentives in", "Loan payments", "Energy bills",
@@ -434,7 +521,7 @@ def _programs_table(result: Any) -> Table:
         paid = sum(p.paid_by_year.values())
         years = ", ".join(str(y) for y, v in sorted(p.paid_by_year.items()) if v)
         rows.append((clean(p.name) or clean(p.program_id), clean(p.kind).replace("_", " "),
-                     money(paid), years or "-", clean(p.ends) or "open-ended", clean(p.caps_note)))
+                     money(paid), years or "-", clean(p.ends) or "open-ended", caps_words(clean(p.caps_note))))
     return Table(("Program", "Kind", "Pays in this plan", "Money arrives", "Window closes", "Limits"),
                  tuple(rows), "llrlll", None,
                  "Incentive rules change: check each program's current terms before you buy.")
@@ -452,13 +539,33 @@ def _assumption_value(value: Any) -> str:
     return clean(value)
 
 
-def _assumptions(plan: Any, result: Any) -> list[tuple[str, str]]:
+def export_words(plan: Any, road: Any) -> str:
+    """How exported solar power is paid, with its rate: the roadmap's own assumption when it
+    records one, else the plan's setting."""
+    e = plan.prices.electricity
+    rate = road.assumptions.get("export_usd_per_kwh") if road is not None else None
+    if rate is None:
+        rate = e.export_usd_per_kwh
+    if e.export == "net_metering":
+        return "net metering: each kWh sent to the grid offsets a kWh bought, at the retail price"
+    if e.export == "none":
+        return "no credit for power sent to the grid"
+    if rate is None:
+        return "net billing: power sent to the grid is credited at the utility's export rate"
+    return f"net billing: power sent to the grid is credited at ${rate:.3f}/kWh"
+
+
+def assumption_lines(plan: Any, result: Any) -> list[tuple[str, str]]:
+    """The assumptions behind a result as (what, value) lines in words: prices, how they change,
+    the discount rate, the goal, costs, incentive data, weather. The printout and the app's
+    sources panel show these same lines."""
     p = plan.prices
     out: list[tuple[str, str]] = []
     e = p.electricity
     tou = f"; time-of-use periods: {len(e.time_of_use)}" if e.time_of_use else ""
     out.append(("Electricity price", f"${e.usd_per_kwh:.3f}/kWh + ${e.fixed_usd_per_month:.2f}/month"
-                f" ({e.export.replace('_', ' ')}{tou})"))
+                f"{tou}"))
+    out.append(("Solar export", export_words(plan, result.roadmap)))
     fuels = {a.fuel for a in plan.appliances if a.fuel}
     fuels |= {k.partition("_")[0] for k, v in result.energy_before.annual.items() if v}
     if plan.usage is not None and plan.usage.gas is not None:
@@ -485,13 +592,13 @@ def _assumptions(plan: Any, result: Any) -> list[tuple[str, str]]:
     for loan in b.loans:
         out.append(("Loan", f"{clean(loan.name)}: {money(loan.amount_usd)} at {pct(loan.rate_pct)} "
                     f"over {loan.term_years} years"))
-    out.append(("Goal", {"npv": "best value over the horizon", "emissions": "lowest emissions",
-                         "gas_off_early": "close the gas service early",
-                         "out_of_pocket": "lowest out-of-pocket cost",
-                         "risk_aware": "lowest expected cost with the worst price paths weighed "
-                                       f"(x{plan.choices.risk_weight:g}, worst {plan.choices.risk_tail_pct:g} %)"}.get(plan.choices.objective,
-                                                                           plan.choices.objective)))
-    out.append(("Costs without a quote", f"catalog {p.cost_level} installed prices"))
+    goal = OBJECTIVES.get(plan.choices.objective)
+    detail = (f" (the worst {plan.choices.risk_tail_pct:g} % of price paths weighed x{plan.choices.risk_weight:g})"
+              if plan.choices.objective == "risk_aware" else "")
+    out.append(("Goal", f"{objective_words(plan.choices.objective)}" + (f": {goal.meaning}" if goal else "")
+                + detail))
+    out.append(("Costs without a quote", f"homeplan's {p.cost_level} installed prices (planning "
+                "estimates; each price's reference is in homeplan's catalog)"))
     if p.grid_kg_co2_per_kwh is not None:
         out.append(("Grid emissions", f"{p.grid_kg_co2_per_kwh:g} kg CO2e/kWh"))
     quotes = [f"{clean(pid)}: {money(o.cost_usd)}" + (f" ({clean(o.contractor)}" if o.contractor else "")
@@ -519,17 +626,91 @@ def _assumptions(plan: Any, result: Any) -> list[tuple[str, str]]:
     if isinstance(esc, dict) and esc:
         out.append(("Price rise used", ", ".join(f"{clean(k)} {pct(v)}" for k, v in esc.items()
                                                  if isinstance(v, int | float)) + " a year"))
-    for key, label in (("weather", "Weather"), ("heat_loss_method", "Heat loss from"),
-                       ("design_heating_load_btuh", "Design heating load"),
+    for key, label in (("weather", "Weather"), ("heat_loss_method", "Heat loss worked out from"),
+                       ("design_heating_load_btuh", "Heat the home loses on the design day"),
                        ("conventions", "Conventions")):
         value = planner.get(key)
         if value is None or value == "":
             continue
-        text = number(value, 0, "Btu/h") if key.endswith("_btuh") and finite(value) else _assumption_value(value)
+        text = heat_output_words(value) if key.endswith("_btuh") and finite(value) else _assumption_value(value)
         out.append((label, text))
     for line in bill_fit_lines(result.roadmap):
         out.append(("Model against your bills", line))
     return out
+
+
+def without_empty_columns(t: Table, blank: tuple[str, ...] = ("",)) -> Table:
+    """The table without the columns that are empty in every row (their header goes too);
+    ``blank`` lists what counts as empty (the years table drops a column of $0 loan payments)."""
+    keep = [i for i in range(len(t.headers))
+            if any(str(row[i]).strip() not in blank for row in t.rows if i < len(row))]
+    if len(keep) == len(t.headers) or not t.rows:
+        return t
+    return Table(tuple(t.headers[i] for i in keep), tuple(tuple(r[i] for i in keep) for r in t.rows),
+                 "".join(t.align[i] for i in keep),
+                 tuple(t.total[i] for i in keep) if t.total else None, t.note)
+
+
+def _chart(result: Any) -> YearChart | None:
+    road = result.roadmap
+    if not road.years:
+        return None
+    years = tuple(t.year for t in road.years)
+    bills = [Series("This plan", tuple(t.total_bills_usd for t in road.years), "plan")]
+    cash = [Series("This plan", tuple(t.net_usd + t.loan_payments_usd + t.total_bills_usd
+                                      for t in road.years), "plan")]
+    lfl = road.baseline("like_for_like")
+    if lfl is not None and len(lfl.years) == len(years):
+        bills.append(Series("Like for like", tuple(t.total_bills_usd for t in lfl.years), "like_for_like"))
+        cash.append(Series("Like for like", tuple(t.net_usd + t.loan_payments_usd + t.total_bills_usd
+                                                  for t in lfl.years), "like_for_like"))
+    return YearChart(years, tuple(bills), tuple(cash))
+
+
+def _fossil_table(result: Any) -> Table | None:
+    lines = fossil_lines(result)
+    if not lines:
+        return None
+    years = lines[0].years
+    last = max((ln.last_year or years[0]) for ln in lines)
+    shown = [y for y in years if y <= min(last + 1, years[-1])]
+    rows = []
+    for ln in lines:
+        rows.append((ln.label, *(money_short(ln.costs_usd[years.index(y)])
+                                 if ln.costs_usd[years.index(y)] > 0.5 else "-" for y in shown),
+                     ln.ending(True)))
+    return Table(("Fuel", *(str(y) for y in shown), "When it stops"), tuple(rows),
+                 "l" + "r" * len(shown) + "l", None,
+                 "What each fuel costs a year while it is still bought (US dollars, k = thousand; "
+                 "fixed charges included), and when its gas service, tank or last car goes.")
+
+
+def _advisor(plan: Any) -> list[tuple[str, str]]:
+    a = plan.advisor
+    if a is None:
+        return []
+    out = []
+    for label, value in (("Company", a.company), ("Contact", a.name),
+                         ("License number", a.license_number), ("Phone", a.phone),
+                         ("Email", a.email), ("Website", a.website), ("Address", a.address)):
+        if value:
+            out.append((label, clean(value)))
+    if a.quote_date is not None:
+        out.append(("Quote date", a.quote_date.isoformat()))
+    if a.valid_until is not None:
+        out.append(("Valid until", a.valid_until.isoformat()))
+    return out
+
+
+def _glossary(texts: list[str]) -> tuple[tuple[str, str, str], ...]:
+    """The glossary's terms that appear in the printout's text."""
+    blob = " ".join(texts)
+    out = []
+    for g in catalog.glossary():
+        words = [w.strip() for w in g.term.replace(" and ", ",").split(",") if w.strip()]
+        if any(re.search(rf"(?<![A-Za-z]){re.escape(w)}(?![A-Za-z])", blob) for w in words):
+            out.append((g.term, g.plain, g.text))
+    return tuple(out)
 
 
 # ----------------------------------------------------------------------------- entry point
@@ -551,6 +732,7 @@ def build_report(result: Any, today: dt.date | None = None, tool_version: str | 
     timeline = Timeline(road.first_year, road.last_year, tuple(bars),
                         tuple(Mark(m.year, clean(m.label)) for m in road.milestones))
     capacity, cap_notes = _capacity_table(result)
+    capacity = without_empty_columns(capacity)
     footer = Footer(
         content_hash=result.content_hash or content_hash(plan),
         printed=today.isoformat(),
@@ -561,6 +743,18 @@ def build_report(result: Any, today: dt.date | None = None, tool_version: str | 
         notes=clean(prov.notes),
     )
     subtitle = f"Prepared for {footer.prepared_for}" if footer.prepared_for else ""
+    steps = without_empty_columns(_steps_table(result))
+    years = without_empty_columns(_years_table(result))
+    energy = without_empty_columns(_energy_table(result))
+    programs = without_empty_columns(_programs_table(result))
+    fossil = _fossil_table(result)
+    assumptions = tuple(assumption_lines(plan, result))
+    against = tuple(comparison_lines(result))
+    cautions = collect_cautions(result)
+    texts = [" ".join(" ".join(r) for r in t.rows) + " ".join(t.headers)
+             for t in (steps, years, energy, capacity, programs)]
+    texts += [f"{k} {v}" for k, v in assumptions] + [n for n in cap_notes]
+    texts += [f"{a} {b} {c}" for a, b, c in against]
     return Report(
         title=f"Electrification roadmap: {name}",
         subtitle=subtitle,
@@ -570,16 +764,21 @@ def build_report(result: Any, today: dt.date | None = None, tool_version: str | 
         home=tuple(_home_lines(plan, result)),
         headline=tuple(_headline(result)),
         timeline=timeline,
-        steps=_steps_table(result),
-        years=_years_table(result),
-        energy=_energy_table(result),
+        steps=steps,
+        years=years,
+        energy=energy,
         capacity=capacity,
         capacity_notes=cap_notes,
-        programs=_programs_table(result),
-        assumptions=tuple(_assumptions(plan, result)),
-        cautions=collect_cautions(result),
+        programs=programs,
+        assumptions=assumptions,
+        cautions=cautions,
         warnings=tuple(clean(w) for w in result.warnings if clean(w)),
         footer=footer,
+        against=against,
+        chart=_chart(result),
+        fossil=fossil,
+        advisor=tuple(_advisor(plan)),
+        glossary=_glossary(texts),
         risk=risk_view(road),
         sensitivity=sensitivity_view(result),
         comparison=comparison,

@@ -24,6 +24,7 @@ from collections.abc import Iterable, Mapping
 from dataclasses import dataclass, field
 from typing import Any, Literal
 
+from homeplan.plan.objectives import canonical
 from homeplan.result.meter import MeterSummary
 from homeplan.result.risk import PriceRisk
 
@@ -44,7 +45,7 @@ __all__ = [
     "YearTotals",
 ]
 
-SCHEMA_VERSION = "1.5"
+SCHEMA_VERSION = "1.6"
 """Version of the JSON produced by :meth:`Roadmap.to_dict`. Bump the minor part for added
 fields, the major part for renamed/removed fields or changed meaning."""
 
@@ -60,7 +61,10 @@ MilestoneKind = Literal[
 ]
 BaselineKind = Literal["do_nothing", "like_for_like"]
 Status = Literal["ok", "infeasible"]
-Objective = Literal["max_npv", "min_emissions", "earliest_gas_closure", "min_out_of_pocket", "min_cost_cvar"]
+Objective = Literal["best_value", "lowest_emissions", "home_fuel_off_soonest", "least_out_of_pocket", "risk_aware"]
+"""As the plan file names it (homeplan.plan.objectives); schema 1.4 and older used max_npv,
+min_emissions, earliest_gas_closure and min_out_of_pocket, and 1.5 min_cost_cvar, which
+:meth:`Roadmap.from_dict` reads."""
 
 
 def _tuple(items: Iterable[Any] | None) -> tuple[Any, ...]:
@@ -506,7 +510,7 @@ class Roadmap:
     plan_name: str
     first_year: int
     horizon_years: int
-    objective: Objective = "max_npv"
+    objective: Objective = "best_value"
     steps: tuple[Step, ...] = ()
     years: tuple[YearTotals, ...] = ()
     milestones: tuple[Milestone, ...] = ()
@@ -579,7 +583,7 @@ class Roadmap:
             plan_name=data["plan_name"],
             first_year=int(data["first_year"]),
             horizon_years=int(data["horizon_years"]),
-            objective=data.get("objective", "max_npv"),
+            objective=canonical(data.get("objective", "best_value")),
             steps=tuple(Step.from_dict(s) for s in data.get("steps", ())),
             years=tuple(YearTotals.from_dict(y) for y in data.get("years", ())),
             milestones=tuple(Milestone.from_dict(m) for m in data.get("milestones", ())),

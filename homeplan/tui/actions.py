@@ -82,7 +82,7 @@ ACTIONS: tuple[Action, ...] = (
              description=f"Open the {label.lower()} view", help_key=f"1-{len(VIEW_TABS)}",
              help=_VIEWS_HELP)
       for i, (vid, label) in enumerate(VIEW_TABS)),
-    Action("b", "edit_budget", "Budget", title="Change budget",
+    Action("b", "edit_budget", "Budget", show=False, title="Change budget",
            description="Set what you can spend each year", help_key="b", help=_BUDGET_HELP),
     Action("plus,equals_sign", "budget_step(1)", "+$1k", show=False,
            title="Raise budget by $1,000", description="Add $1,000 a year",
@@ -100,7 +100,7 @@ ACTIONS: tuple[Action, ...] = (
            title="Household and incentive programs", description="Income, taxes, program files",
            help_key="e", help="household income, taxes and the incentive program files"),
     # Roadmap view (the year grid)
-    Action("p", "app.pin", "Pin to year", scope="roadmap", title="Pin step to a year",
+    Action("p", "app.pin", "Pin", scope="roadmap", title="Pin step to a year",
            description="Roadmap: keep the selected project in a year", help_key="p",
            help="pin the project to the year under the cursor (or ask for a year)"),
     Action("x", "app.exclude", "Leave out", scope="roadmap", title="Leave step out",
@@ -145,6 +145,9 @@ ACTIONS: tuple[Action, ...] = (
     Action("t", "toggle_theme", "Light/dark", show=False, title="Switch light/dark",
            description="Toggle the light and dark colours", help_key="t",
            help="switch light and dark colours (NO_COLOR is respected)"),
+    Action("g", "glossary", "Words", show=False, title="Glossary",
+           description="The trade's terms in plain words (AFUE, HSPF2, VA...)", help_key="g",
+           help="the glossary: the trade's terms (AFUE, HSPF2, tons, VA...) in plain words"),
     # the Keys screen does not list the key that opens it
     Action("question_mark", "help", "Keys", title="Keys", description="List every key"),
     Action("ctrl+p", "command_palette", "palette", show=False, builtin=True, help_key="ctrl+p",

@@ -16,23 +16,27 @@ from pathlib import Path
 from typing import TYPE_CHECKING, Any, get_args
 
 from rich.text import Text
-from textual import on, work
+from textual import events, on, work
 from textual.app import App, ComposeResult
 from textual.command import DiscoveryHit, Hit, Hits, Provider
 from textual.theme import Theme
 from textual.widgets import Footer, Static, TabbedContent, TabPane
 from textual.worker import Worker, WorkerState
 
+from homeplan import catalog
 from homeplan.errors import InputError, PlanRuleError
 from homeplan.plan.alternatives import BASE_NAME, option
 from homeplan.plan.files import OutsideFolderError, PlanFolder
 from homeplan.plan.load import LoadedPlan
 from homeplan.plan.model import Fuel, Plan, VehicleFuel
+from homeplan.plan.objectives import OBJECTIVES as OBJECTIVE_INFO
+from homeplan.plan.objectives import objective_words
 from homeplan.plan.save import ChangedOnDiskError, ReadOnlyFileError, write_atomic
 from homeplan.plan.text import clean
+from homeplan.report.changes import change_list
 from homeplan.tui import newplan
 from homeplan.tui.actions import VIEW_TABS, bindings, help_rows, palette_entries
-from homeplan.tui.format import usd
+from homeplan.tui.format import trunc, usd
 from homeplan.tui.screens.forms import ChoiceScreen, FieldSpec, FormScreen, TextScreen
 from homeplan.tui.session import DELETE, PlanSession, check_new_plan
 from homeplan.tui.widgets.base import View, ViewData
@@ -54,10 +58,13 @@ __all__ = [
     "HomeplanApp",
     "PlanCommands",
     "PlannerUnavailable",
+    "glossary_text",
     "help_text",
     "moved_steps",
     "new_plan_fields",
     "problem_words",
+    "saved_words",
+    "status_line",
 ]
 
 Planner = Callable[[Plan, PlanFolder], "PlanResult"]
@@ -70,13 +77,8 @@ VIEWS: tuple[tuple[str, str, type[View]], ...] = tuple(
     (vid, label, _VIEW_CLASSES[vid]) for vid, label in VIEW_TABS)
 """The views in tab order: id, label (from the key table) and widget class."""
 
-OBJECTIVES = (
-    ("Lowest lifetime cost", "npv"),
-    ("Lowest emissions", "emissions"),
-    ("Off gas soonest", "gas_off_early"),
-    ("Least out of pocket", "out_of_pocket"),
-    ("Least price risk", "risk_aware"),
-)
+OBJECTIVES = tuple((o.label, key) for key, o in OBJECTIVE_INFO.items())
+"""(label, key) of each objective, for the settings form."""
 APPLIANCE_KINDS = ("furnace", "boiler", "central_ac", "room_ac", "heat_pump", "mini_split",
                    "baseboard", "water_heater", "range", "cooktop", "wall_oven", "dryer")
 FUELS: tuple[str, ...] = get_args(Fuel)
@@ -136,6 +138,45 @@ def moved_steps(old: Roadmap | None, new: Roadmap) -> dict[str, int | None]:
     return out
 
 
+def status_line(name: str, state: tuple[str, str], dirty: bool, budgets: tuple[str, ...],
+                file_name: str, width: int) -> Text:
+    """The top line: the home, the planner's state, unsaved changes, the budget and the file.
+
+    What does not fit goes in this order: the budget's details, the budget, then the home's name
+    is shortened; the file name and the state always show.
+    """
+    def line(name_text: str, budget: str) -> Text:
+        text = Text(" ")
+        text.append(name_text, style="bold")
+        if state[0]:
+            text.append("  ")
+            text.append(state[0], style=state[1])
+        if dirty:
+            text.append("  ● unsaved", style="bold")
+        if budget:
+            text.append(f"  │ {budget}")
+        text.append(f"  │ {file_name}")
+        return text
+
+    for budget in budgets:
+        text = line(name, budget)
+        if text.cell_len <= width:
+            return text
+    room = width - line("", "").cell_len
+    return line(trunc(name, max(room, 8)), "")
+
+
+def saved_words(target: Path, backup: Path | None, rebased: list) -> str:
+    """What a save did, in words: the file, the backup only when one was written, the paths
+    rewritten for a new folder."""
+    text = f"Saved {target}"
+    text += f" (the previous version kept as {backup.name})." if backup is not None else "."
+    if rebased:
+        text += " File paths rewritten for the new folder: " + "; ".join(
+            f"{r.before} -> {r.after}" for r in rebased) + "."
+    return text
+
+
 def problem_words(err: InputError) -> str:
     """InputError problems without file positions (for edits made in the app)."""
     parts = []
@@ -184,6 +225,9 @@ class HomeplanApp(App[int]):
         self.new_path = Path(new_path) if new_path is not None else None
         self.result: PlanResult | None = None
         self.moved: dict[str, int | None] = {}
+        self.changes: tuple[str, ...] = ()   # what the last re-plan changed, in words
+        self._edited = False                 # the next result answers an edit (not an open)
+        self._subject: str | None = None     # the item the last edit was about
         self.planning = False
         self.plan_error: str | None = None
         self.unavailable: str | None = None
@@ -194,6 +238,9 @@ class HomeplanApp(App[int]):
         self._plan_pending = False   # edits arrived while it was busy
         self._stale: set[str] = set()
         self._asked_outside: set[Path] = set()  # outside files the user was asked about
+        self._opening: Any = None          # a screen being opened (keys wait for it)
+        self._early_keys: list[tuple[str, str | None]] = []
+        self._key_screens: dict[int, Any] = {}  # key event -> the screen it was typed for
         self.option_index = 0     # 0: the plan as planned; i: its i-th named option
         self.animation_level = "none"  # calm: nothing slides or fades
         for theme in THEMES:
@@ -204,6 +251,51 @@ class HomeplanApp(App[int]):
 
     # ---------------------------------------------------------------------- layout
 
+    # A key typed while a form or question is still opening (a fast "b7000") would reach the
+    # screen below and be lost: keys that come back unhandled from a screen that is no longer
+    # on top, or that arrive while a new screen opens, are kept and given to the new screen's
+    # focused field once it is up.
+
+    def push_screen(self, screen, *args, **kwargs):
+        if not isinstance(screen, str):
+            self._opening = screen
+            self.set_timer(0.02, partial(self._replay_early_keys, screen, 0))
+        return super().push_screen(screen, *args, **kwargs)
+
+    async def on_event(self, event: events.Event) -> None:
+        if isinstance(event, events.Key):
+            if self._opening is not None and self._screen_ready(self._opening):
+                self._replay_early_keys(self._opening, 50)
+            if not event.is_forwarded:
+                self._key_screens[id(event)] = self.screen
+                while len(self._key_screens) > 64:
+                    self._key_screens.pop(next(iter(self._key_screens)))
+                if self._opening is not None:
+                    self._early_keys.append((event.key, event.character))
+                    return
+            else:
+                typed_for = self._key_screens.pop(id(event), None)
+                if typed_for is not None and typed_for is not self.screen:
+                    self._early_keys.append((event.key, event.character))
+                    if self._opening is None:
+                        self._replay_early_keys(self.screen, 50)
+                    return
+        await super().on_event(event)
+
+    def _screen_ready(self, screen) -> bool:
+        focused = self.focused
+        return self.screen is screen and focused is not None and focused.screen is screen
+
+    def _replay_early_keys(self, screen, tries: int) -> None:
+        if not self._screen_ready(screen) and tries < 50:
+            self.set_timer(0.02, partial(self._replay_early_keys, screen, tries + 1))
+            return
+        if self._opening is screen:
+            self._opening = None
+        keys, self._early_keys = self._early_keys, []
+        for key, character in keys:
+            (self.focused or self.screen)._forward_event(events.Key(key, character))
+
     def compose(self) -> ComposeResult:
         yield Static("", id="status")
         with TabbedContent(initial="next", id="views"):
@@ -211,7 +303,7 @@ class HomeplanApp(App[int]):
                 with TabPane(f"{i + 1} {label}", id=vid):
                     if vid == "next":  # the others are built when first opened
                         yield cls(id=f"view-{vid}")
-        yield Footer(compact=True)
+        yield Footer(compact=True, show_command_palette=False)
 
     def on_mount(self) -> None:
         if self.session is not None:
@@ -225,6 +317,7 @@ class HomeplanApp(App[int]):
         self.option_index = 0
         self.planner = self._planner_given or EnginePlanner()
         self.result, self.moved, self.plan_error, self.unavailable = None, {}, None, None
+        self.changes, self._edited, self._subject = (), False, None
         self._plan_pending = False
         if session.migrated_from:
             self.notify(f"This file used plan format {session.migrated_from}; saving writes the "
@@ -245,7 +338,8 @@ class HomeplanApp(App[int]):
     def view_data(self) -> ViewData:
         assert self.session is not None
         return ViewData(plan=self.shown_plan() or self.session.plan, result=self.result, path=self.session.path,
-                        moved=self.moved, planning=self.planning, error=self.plan_error,
+                        moved=self.moved, changes=self.changes, planning=self.planning,
+                        error=self.plan_error,
                         unavailable=self.unavailable)
 
     def maybe_view(self, vid: str) -> View | None:
@@ -283,6 +377,7 @@ class HomeplanApp(App[int]):
         view.focus_main()
 
     def on_resize(self) -> None:
+        self._update_status()
         if self.session is not None:
             self._stale = {vid for vid, _, _ in VIEWS}
             self.call_after_refresh(self._refresh_view, self.active_view_id)
@@ -294,29 +389,26 @@ class HomeplanApp(App[int]):
             return
         s = self.session
         plan = self.shown_plan() or s.plan
-        text = Text(" ")
-        text.append(clean(s.name), style="bold")
+        name = clean(s.name)  # text from the plan file is shown through the sanitiser
         if s.plan.alternatives:  # which named option is on screen (o switches)
-            text.append(clean(f" · {self.option_name()} ({self.option_index + 1}/{len(s.plan.alternatives) + 1})"),
-                        style="bold reverse")
-        text.append("  ")
+            name += clean(f" · {self.option_name()} ({self.option_index + 1}/{len(s.plan.alternatives) + 1})")
         if self.planning:
-            text.append("planning…", style="italic")
+            state = ("planning…", "italic")
         elif self.unavailable:
-            text.append("no planner", style="bold")
+            state = ("no planner", "bold")
         elif self.plan_error:
-            text.append("plan not updated", style="bold reverse")
+            state = ("plan not updated", "bold reverse")
         elif self.result is not None and self.result.roadmap.status != "ok":
-            text.append("no roadmap fits", style="bold reverse")
+            state = ("no roadmap fits", "bold reverse")
         elif self.result is not None:
-            text.append("plan up to date")
-        if s.dirty:
-            text.append("  ● unsaved", style="bold")
-        objective = dict((v, k) for k, v in OBJECTIVES).get(plan.choices.objective, "")
-        text.append(f"  │ {usd(plan.budget.usd_per_year)}/yr from {plan.first_year}, "
-                    f"{plan.budget.horizon_years} yrs, {objective.lower()}")
-        text.append(f"  │ {clean(s.path.name)}")
-        status.update(text)
+            state = ("plan up to date", "")
+        else:
+            state = ("", "")
+        aim = objective_words(plan.choices.objective).lower()
+        b = plan.budget
+        budgets = (f"{usd(b.usd_per_year)}/yr from {plan.first_year}, {b.horizon_years} yrs, {aim}",
+                   f"{usd(b.usd_per_year)}/yr, {aim}", f"{usd(b.usd_per_year)}/yr", "")
+        status.update(status_line(name, state, s.dirty, budgets, clean(s.path.name), self.size.width))
 
     # ---------------------------------------------------------------------- planning
 
@@ -411,6 +503,12 @@ class HomeplanApp(App[int]):
                 return  # an older edit's result: a newer plan is on its way
             old = self.result.roadmap if self.result is not None else None
             self.moved = moved_steps(old, result.roadmap) if result.roadmap.status == "ok" else {}
+            self.changes = change_list(self.result, result, self._subject) if self._edited else ()
+            self._edited, self._subject = False, None
+            if self.changes:
+                self.notify("\n".join(self.changes[:4]) + (
+                    f"\n(and {len(self.changes) - 4} more on the Next view)"
+                    if len(self.changes) > 4 else ""), title="What the change did", timeout=10)
             self.result = result
             self.planning = False
             self.plan_error = None
@@ -470,25 +568,31 @@ class HomeplanApp(App[int]):
 
     # ---------------------------------------------------------------------- edits
 
-    def try_edit(self, changes: list[tuple[tuple, Any]], what: str) -> str | None:
-        """Apply an edit; on success re-plan and return None, else return the problem."""
+    def try_edit(self, changes: list[tuple[tuple, Any]], what: str,
+                 subject: str | None = None) -> str | None:
+        """Apply an edit; on success re-plan and return None, else return the problem.
+        ``subject``: the key of the item the edit is about (named when nothing moves)."""
         if self.session is None:
             return "No plan is open."
         try:
             self.session.edit(changes, what)
         except InputError as err:
             return problem_words(err)
-        self._after_change()
+        self._after_change(subject)
         return None
 
-    def _after_change(self) -> None:
-        """Start re-planning at once; redraw now only what shows the plan itself (Home)."""
+    def _after_change(self, subject: str | None = None) -> None:
+        """Start re-planning at once; redraw now only what shows the plan itself (Home).
+
+        The result that comes back is compared with the one on screen (what moved, and why).
+        """
         self.plan_error = None
+        self._edited, self._subject = True, subject
         self.start_plan()
         self.refresh_views(now=self.active_view_id == "home")
 
-    def edit(self, changes: list[tuple[tuple, Any]], what: str) -> bool:
-        problem = self.try_edit(changes, what)
+    def edit(self, changes: list[tuple[tuple, Any]], what: str, subject: str | None = None) -> bool:
+        problem = self.try_edit(changes, what, subject)
         if problem:
             self.notify(problem, title="Not changed", severity="error", timeout=8)
             return False
@@ -496,13 +600,13 @@ class HomeplanApp(App[int]):
 
     def _form(self, title: str, fields: list[FieldSpec], what: str,
               to_changes: Callable[[dict], list[tuple[tuple, Any]]] | None = None,
-              note: str = "") -> None:
+              note: str = "", subject: str | None = None) -> None:
         """A form whose values are document paths; applied (and checked) on Enter."""
 
         def check(values: dict) -> str | None:
             changes = to_changes(values) if to_changes else [
                 (loc, DELETE if v is None else v) for loc, v in values.items()]
-            problem = self.try_edit(changes, what)
+            problem = self.try_edit(changes, what, subject)
             if problem:  # name the fields as the form does, not as the file does
                 for spec in fields:
                     if isinstance(spec.key, tuple) and isinstance(spec.key[-1], str):
@@ -589,6 +693,10 @@ class HomeplanApp(App[int]):
             return
         plan = self.session.plan
         hh = plan.household
+        folder = self.session.base_dir
+        found = sorted(str(p.relative_to(folder)) for p in folder.glob("**/*.yaml")
+                       if p.resolve() != self.session.path.resolve() and not p.name.endswith(".bak")
+                       and len(p.relative_to(folder).parts) <= 3)[:8]
 
         def to_changes(values: dict) -> list:
             files = [f.strip() for f in (values.pop("files") or "").split(",") if f.strip()]
@@ -596,20 +704,32 @@ class HomeplanApp(App[int]):
             changes.append((("incentive_files",), _flow_list(files) if files else DELETE))
             return changes
 
-        self._form("Household and incentive programs", [
+        def check(values: dict) -> str | None:
+            files = [f.strip() for f in (values.get("files") or "").split(",") if f.strip()]
+            missing = [f for f in files if f not in plan.incentive_files  # new ones must exist
+                       and not (Path(f) if Path(f).is_absolute() else folder / f).is_file()]
+            if missing:
+                return (f"no such file: {', '.join(missing)} (paths are relative to the plan's "
+                        f"folder, {folder})")
+            return self.try_edit(to_changes(dict(values)), "change household and programs")
+
+        help_files = ("Incentive program files, relative to the plan's folder, separated by "
+                      "commas. Blank: none.")
+        if found:
+            help_files += " Files there: " + ", ".join(found) + "."
+        self.push_screen(FormScreen("Household and incentive programs", [
             FieldSpec(("household", "ami_pct"), "Income, % of area median", "float", hh.ami_pct,
-                      optional=True, help="Many programs pay more below 80 % or 150 % of AMI."),
+                      optional=True, help="Many programs pay more below 80 % or 150 % of the "
+                      "area's median income (AMI)."),
             FieldSpec(("household", "federal_tax_liability_usd"), "Federal tax per year", "float",
                       hh.federal_tax_liability_usd, optional=True, unit="USD",
                       help="A tax credit cannot exceed the tax you owe."),
             FieldSpec(("household", "state_tax_liability_usd"), "State tax per year", "float",
                       hh.state_tax_liability_usd, optional=True, unit="USD"),
             FieldSpec("files", "Program files", "text", ", ".join(plan.incentive_files),
-                      optional=True, help="Incentive catalogs, relative to the plan file, "
-                      "separated by commas. Blank: none."),
-        ], "change household and programs", to_changes,
-            note=f"{len(plan.incentives)} program(s) are written in the plan file itself; edit "
-            "those in the file.")
+                      optional=True, help=help_files),
+        ], check, note=f"{len(plan.incentives)} program(s) are written in the plan file itself; "
+            "edit those in the file."))
 
     # roadmap steps --------------------------------------------------------
 
@@ -693,35 +813,40 @@ class HomeplanApp(App[int]):
             base = ("appliances", item.index)
             fields = [
                 FieldSpec((*base, "year_installed"), "Year installed", "int", a.year_installed,
-                          optional=True, help="Blank: unknown (assumed mid-life)."),
+                          optional=True, help="Blank: unknown (assumed half-way through a "
+                          "typical life)."),
                 FieldSpec((*base, "fuel"), "Fuel", "choice", a.fuel or "",
-                          choices=(("(default for the kind)", ""), *((f, f) for f in FUELS))),
+                          choices=(("(usual for the kind)", ""), *((f, f) for f in FUELS))),
                 FieldSpec((*base, "condition"), "Condition", "choice", a.condition,
                           choices=tuple((c, c) for c in CONDITIONS)),
             ]
             if a.kind in ("furnace", "boiler"):
-                fields.append(FieldSpec((*base, "afue"), "AFUE", "float", a.afue, optional=True,
-                                        help="0.3 to 1.0, e.g. 0.80"))
+                fields.append(FieldSpec((*base, "afue"), "Efficiency (AFUE)", "float", a.afue,
+                                        optional=True, help="The share of the fuel that heats the "
+                                        "home, on the label: 0.80 for 80 %."))
             ratings = []
             if a.kind in ("central_ac", "room_ac", "heat_pump", "mini_split"):
-                ratings += [("seer", "SEER"), ("eer", "EER")]
+                ratings += [("seer", "SEER", "Cooling efficiency"), ("eer", "EER", "Cooling efficiency on a hot day")]
             if a.kind in ("heat_pump", "mini_split"):
-                ratings.insert(1, ("hspf", "HSPF"))
-            for old, label in ratings:
+                ratings.insert(1, ("hspf", "HSPF", "Heating efficiency"))
+            for old, label, words in ratings:
                 # the rating on the label: a pre-2023 one stays in its own field (converted by
                 # the planner) rather than being offered as a second, conflicting figure
                 if getattr(a, old) is not None and getattr(a, f"{old}2") is None:
-                    fields.append(FieldSpec((*base, old), f"{label} (pre-2023)", "float",
+                    fields.append(FieldSpec((*base, old), f"{words} ({label}, pre-2023)", "float",
                                             getattr(a, old), optional=True,
-                                            help=f"Converted to {label}2 by the planner."))
+                                            help=f"On the yellow label; converted to {label}2 by the planner."))
                 else:
-                    fields.append(FieldSpec((*base, f"{old}2"), f"{label}2", "float",
-                                            getattr(a, f"{old}2"), optional=True))
+                    fields.append(FieldSpec((*base, f"{old}2"), f"{words} ({label}2)", "float",
+                                            getattr(a, f"{old}2"), optional=True,
+                                            help="On the yellow label; higher is better."))
             if a.kind in ("furnace", "boiler", "central_ac", "heat_pump", "mini_split"):
-                fields.append(FieldSpec((*base, "capacity_btuh"), "Size", "float", a.capacity_btuh,
-                                        optional=True, unit="Btu/h"))
+                fields.append(FieldSpec((*base, "capacity_btuh"), "Output", "float", a.capacity_btuh,
+                                        optional=True, unit="Btu/h", help="On the nameplate; "
+                                        "12,000 Btu/h is 3.5 kW (a \"ton\")."))
             if a.kind == "water_heater":
-                fields.append(FieldSpec((*base, "uef"), "UEF", "float", a.uef, optional=True))
+                fields.append(FieldSpec((*base, "uef"), "Efficiency (UEF)", "float", a.uef,
+                                        optional=True, help="On the yellow label, e.g. 0.62."))
                 fields.append(FieldSpec((*base, "tank_gal"), "Tank", "float", a.tank_gal,
                                         optional=True, unit="gal"))
             fields.append(FieldSpec((*base, "problems"), "Known problems", "text", a.problems,
@@ -730,12 +855,12 @@ class HomeplanApp(App[int]):
             def to_changes(values: dict) -> list:
                 return [(loc, DELETE if v in (None, "") else v) for loc, v in values.items()]
 
-            self._form(f"Edit {item.key} ({a.kind.replace('_', ' ')})", fields,
-                       f"edit {item.key}", to_changes)
+            self._form(f"Edit: {item.label.lower()}", fields, f"edit {item.label.lower()}",
+                       to_changes, subject=item.key)
         elif item.group == "vehicle":
             v = plan.vehicles[item.index]
             base = ("vehicles", item.index)
-            self._form(f"Edit {item.key}", [
+            self._form(f"Edit: {item.label}", [
                 FieldSpec((*base, "name"), "Name", "text", v.name, optional=True),
                 FieldSpec((*base, "fuel"), "Fuel", "choice", v.fuel, choices=tuple(
                     (f.replace("_", " "), f) for f in VEHICLE_FUELS)),
@@ -744,16 +869,12 @@ class HomeplanApp(App[int]):
                 FieldSpec((*base, "model_year"), "Model year", "int", v.model_year, optional=True),
                 FieldSpec((*base, "replace_year"), "You plan to replace it in", "int",
                           v.replace_year, optional=True),
-            ], f"edit {item.key}")
+            ], f"edit {item.label}", subject=item.key)
         else:
-            r = plan.home.roof
-            base = ("home", "roof")
-            self._form("Edit roof", [
-                FieldSpec((*base, "year_installed"), "Year installed", "int",
-                          r.year_installed if r else None, optional=True),
-                FieldSpec((*base, "usable_area_ft2"), "Area usable for panels", "float",
-                          r.usable_area_ft2 if r else None, optional=True, unit="ft2"),
-            ], "edit roof")
+            self._form("The roof" if plan.home.roof else "Describe the roof", roof_fields(plan),
+                       "edit the roof", note="Panels need a sound roof facing roughly south, "
+                       "east or west. Roof work means ladders and heights: leave it to insured "
+                       "professionals.", subject="roof")
 
     def action_add_item(self) -> None:
         if self.session is None:
@@ -809,10 +930,10 @@ class HomeplanApp(App[int]):
             if item.key in plan.choices.failed_now:
                 changes.append((("choices", "failed_now"),
                                 [k for k in plan.choices.failed_now if k != item.key]))
-            self.edit(changes, f"remove {item.key}")
+            self.edit(changes, f"remove {item.label.lower()}")
 
         self.push_screen(ChoiceScreen("Remove from the home",
-                                      f"Remove {item.key} ({item.label})? ctrl+z undoes it.",
+                                      f"Remove the {item.label.lower()}? ctrl+z undoes it.",
                                       [("y", "Remove"), ("escape", "Keep")]), answer)
 
     def action_fail_now(self) -> None:
@@ -825,11 +946,11 @@ class HomeplanApp(App[int]):
         failed = list(self.session.plan.choices.failed_now)
         if item.key in failed:
             failed.remove(item.key)
-            what = f"{item.key} works again"
+            what = f"the {item.label.lower()} works again"
         else:
             failed.append(item.key)
-            what = f"what if {item.key} fails now"
-        if self.edit([(("choices", "failed_now"), failed)], what):
+            what = f"what if the {item.label.lower()} fails now"
+        if self.edit([(("choices", "failed_now"), failed)], what, subject=item.key):
             self.notify(f"{what[0].upper()}{what[1:]}: re-planning.", timeout=3)
 
     # history and files ----------------------------------------------------
@@ -867,7 +988,9 @@ class HomeplanApp(App[int]):
         except OSError as err:
             return clean(f"could not save: {err.strerror or err}")
         self._update_status()
-        self.notify(f"Saved {target} (previous version kept as {target.name}.bak)", timeout=4)
+        self.notify(saved_words(target, self.session.last_backup, self.session.last_rebased),
+                    timeout=6)
+        self.refresh_views(now=False)
         return None
 
     def save_asking(self, path: Path | None = None, then: Callable[[bool], None] | None = None,
@@ -962,6 +1085,10 @@ class HomeplanApp(App[int]):
                 return f"{path} already exists; choose another file name"
             if not path.parent.is_dir() and str(path.parent):
                 return f"the folder {path.parent} does not exist"
+            lat, lon = newplan.resolve_location(values)
+            where = newplan.location_problem(lat, lon, values.get("timezone"))
+            if where:
+                return where[:1].upper() + where[1:] + ("" if where.endswith(("?", ".")) else ".")
             text = newplan.new_plan_text(values)
             err = check_new_plan(text, str(path))
             if err is not None:
@@ -1010,6 +1137,9 @@ class HomeplanApp(App[int]):
     def action_help(self) -> None:
         self.push_screen(TextScreen("Keys", help_text()))
 
+    def action_glossary(self) -> None:
+        self.push_screen(TextScreen("Words of the trade", glossary_text()))
+
 
 def _mapping(items: dict) -> Any:
     from ruamel.yaml.comments import CommentedMap
@@ -1047,22 +1177,79 @@ def _append_changes(session: PlanSession, changes: list[tuple[tuple, Any]]) -> l
     return out
 
 
+ROOF_MATERIALS = (("asphalt shingle", "asphalt_shingle"), ("metal", "metal"), ("tile", "tile"),
+                  ("slate", "slate"), ("wood shake", "wood_shake"), ("flat membrane", "membrane"))
+ROOF_FACING = (("south", 180.0), ("south-west", 225.0), ("south-east", 135.0), ("west", 270.0),
+               ("east", 90.0), ("north-west", 315.0), ("north-east", 45.0), ("north", 0.0))
+# Pitch in inches of rise per 12 of run, as the slope's angle: atan(rise / 12) (trigonometry)
+ROOF_SLOPES = (("flat", 0.0), ("gentle, 4 in 12 (18°)", 18.4), ("medium, 6 in 12 (27°)", 26.6),
+               ("steep, 9 in 12 (37°)", 36.9), ("very steep, 12 in 12 (45°)", 45.0))
+
+
+def _with_current(choices: tuple, value: Any, words: str) -> tuple:
+    """The choices, plus the file's own value when it is not one of them."""
+    if value is None or any(v == value for _, v in choices):
+        return choices
+    return ((words.format(value), value), *choices)
+
+
+def roof_fields(plan: Plan) -> list[FieldSpec]:
+    """The roof form: age, material, area for panels, which way it faces, slope, shade."""
+    r = plan.home.roof
+    base = ("home", "roof")
+    return [
+        FieldSpec((*base, "year_installed"), "Year the roof was put on", "int",
+                  r.year_installed if r else None, optional=True),
+        FieldSpec((*base, "material"), "Material", "choice", r.material if r else "asphalt_shingle",
+                  choices=ROOF_MATERIALS),
+        FieldSpec((*base, "usable_area_ft2"), "Area usable for panels", "float",
+                  r.usable_area_ft2 if r else None, optional=True, unit="ft2",
+                  help="The open part of the sunniest side; blank: worked out from the floor area."),
+        FieldSpec((*base, "azimuth_deg"), "Its best side faces", "choice", r.azimuth_deg if r else 180.0,
+                  choices=_with_current(ROOF_FACING, r.azimuth_deg if r else None, "{:.0f}° (as in the file)")),
+        FieldSpec((*base, "tilt_deg"), "Slope", "choice", r.tilt_deg if r else 26.6,
+                  choices=_with_current(ROOF_SLOPES, r.tilt_deg if r else None, "{:.1f}° (as in the file)")),
+        FieldSpec((*base, "shading_pct"), "Shaded", "float", r.shading_pct if r else 0.0,
+                  unit="%", help="Trees or buildings that shade it during the day; 0 for none."),
+    ]
+
+
+def _local_zone() -> str:
+    """The computer's time zone when it is one the form offers (else the first of them)."""
+    import contextlib
+
+    zones = [key for _, key in newplan.TIME_ZONES]
+    name = os.environ.get("TZ", "")
+    with contextlib.suppress(OSError):
+        name = name or os.path.realpath("/etc/localtime").split("zoneinfo/")[-1]
+    return name if name in zones else zones[0]
+
+
 def new_plan_fields(path: Path, first_year: int | None) -> list[FieldSpec]:
     heating = tuple((label, key) for key, (_, _, label) in newplan.HEATING.items())
     fuels = tuple((label, key) for key, label in newplan.FUEL_CHOICES.items() if key != "oil")
     return [
         FieldSpec("path", "Save as file", "text", str(path)),
         FieldSpec("name", "Name of the home", "text", None, optional=True),
-        FieldSpec("place", "Town", "text", None, optional=True),
-        FieldSpec("latitude", "Latitude", "float", None,
-                  help="Decimal degrees (a map app shows them), e.g. 44.95"),
-        FieldSpec("longitude", "Longitude", "float", None, help="Decimal degrees, west negative"),
+        FieldSpec("place", "Town", "text", None, optional=True, help="For the printout only."),
+        FieldSpec("near", "Nearest city in this list", "choice", "", choices=newplan.place_choices(),
+                  help="Its coordinates are used when you leave them blank below."),
+        FieldSpec("latitude", "Latitude", "float", None, optional=True,
+                  placeholder="(blank: the city's)",
+                  help="Decimal degrees from a map app, north positive, e.g. 44.95."),
+        FieldSpec("longitude", "Longitude", "float", None, optional=True,
+                  placeholder="(blank: the city's)",
+                  help="Decimal degrees, west negative: every US home is negative, e.g. -93.25."),
+        FieldSpec("timezone", "Time zone", "choice", _local_zone(), choices=newplan.TIME_ZONES),
         FieldSpec("floor_area_ft2", "Heated floor area", "float", None, unit="ft2"),
         FieldSpec("year_built", "Year built", "int", None, optional=True),
         FieldSpec("occupants", "People living there", "int", 3),
         FieldSpec("service_amps", "Electrical service", "choice", 100,
                   choices=tuple((f"{a} A", a) for a in newplan.SERVICE_AMPS),
                   help="The number on the main breaker."),
+        FieldSpec("free_spaces", "Empty breaker spaces", "int", None, optional=True,
+                  help="Count the free slots in the panel from outside its cover; do not open it. "
+                  "Blank: not known."),
         FieldSpec("heating", "Heating", "choice", "gas_furnace", choices=heating),
         FieldSpec("heating_year", "Heating installed in", "int", None, optional=True),
         FieldSpec("central_ac", "Central air conditioning", "bool", False),
@@ -1071,13 +1258,38 @@ def new_plan_fields(path: Path, first_year: int | None) -> list[FieldSpec]:
         FieldSpec("range_fuel", "Stove", "choice", "gas", choices=fuels),
         FieldSpec("dryer_fuel", "Clothes dryer", "choice", "electric",
                   choices=(*fuels, ("No dryer", "none"))),
-        FieldSpec("cars", "Gasoline cars", "int", 1),
+        FieldSpec("cars", "Gasoline cars, by name", "text", "Family car", optional=True,
+                  help="Separate them with commas, e.g. Blue sedan, Work truck. Blank: none."),
         FieldSpec("miles_per_year", "Miles per car per year", "float", 11000),
+        FieldSpec("annual_kwh", "Electricity used a year", "float", None, optional=True,
+                  unit="kWh", help="From a year of bills. Blank: typical use for the home."),
+        FieldSpec("annual_therms", "Gas used a year", "float", None, optional=True, unit="therms",
+                  help="From a year of gas bills. Blank: typical use."),
+        FieldSpec("annual_gal", "Propane or oil used a year", "float", None, optional=True,
+                  unit="gal", help="For propane or oil heating: a year of deliveries."),
+        FieldSpec("roof_facing", "Roof side for solar panels", "choice", "",
+                  choices=newplan.ROOF_FACING, help="The sunniest large side of the roof."),
+        FieldSpec("roof_year", "Roof put on in", "int", None, optional=True),
+        FieldSpec("roof_area_ft2", "Roof area for panels", "float", None, optional=True, unit="ft2",
+                  help="Blank: worked out from the floor area."),
+        FieldSpec("ami_pct", "Household income", "choice", "", choices=newplan.INCOME_BANDS,
+                  help="Against the median income of your county: many incentives depend on it."),
         FieldSpec("usd_per_year", "Budget per year", "float", 5000, unit="USD"),
         FieldSpec("first_year", "First year", "int", first_year, optional=True,
                   help="Blank: next calendar year."),
         FieldSpec("horizon_years", "Years to plan", "int", 10),
     ]
+
+
+def glossary_text() -> Text:
+    """Each term of the trade, the plain words the screens use for it, and what it means."""
+    out = Text()
+    for g in catalog.glossary():
+        out.append(g.term, style="bold")
+        out.append(f" - {g.plain}\n", style="italic")
+        out.append(f"{g.text}\n")
+        out.append(f"Source: {g.source}\n\n", style="dim")
+    return out
 
 
 def help_text():

@@ -6,7 +6,10 @@ money rules.
 
 from __future__ import annotations
 
+import textwrap
 from collections.abc import Sequence
+
+from homeplan.report.fmt import money, money_short
 
 __all__ = [
     "BLOCKS",
@@ -19,7 +22,9 @@ __all__ = [
     "num",
     "spark",
     "trunc",
+    "wrap_cell",
     "usd",
+    "when",
 ]
 
 BLOCKS = " ▁▂▃▄▅▆▇█"
@@ -27,28 +32,16 @@ ESTIMATES = "Planning estimates - confirm with licensed professionals who see th
 
 
 def usd(value: float | None) -> str:
-    """$12,400 (rounded to $100 from $10,000, to $10 below); negative as -$1,200."""
+    """Money as every view shows it (:func:`homeplan.report.fmt.money`): $12,400, -$1,200;
+    "-" when not computed."""
     if value is None or value != value:
         return "-"
-    step = 100 if abs(value) >= 10_000 else 10
-    v = round(value / step) * step
-    return f"-${abs(v):,.0f}" if v < 0 else f"${v:,.0f}"
+    return money(value)
 
 
 def kusd(value: float | None) -> str:
-    """Compact money for narrow cells: 6.2k, 12k, -900, 0."""
-    if value is None or value != value:
-        return "-"
-    a = abs(value)
-    if a < 50:
-        return "0"
-    if a < 1000:
-        s = f"{a:,.0f}"
-    elif a < 9950:
-        s = f"{a / 1000:.1f}k"
-    else:
-        s = f"{a / 1000:,.0f}k"
-    return ("-" if value < 0 else "") + s
+    """The same figure compact for narrow cells (:func:`homeplan.report.fmt.money_short`)."""
+    return money_short(value)
 
 
 def kusd_fit(value: float | None, width: int) -> str:
@@ -104,6 +97,15 @@ def trunc(text: str, width: int) -> str:
     return text[: max(0, width - 1)] + "…"
 
 
+def wrap_cell(text: str, width: int, max_lines: int = 2) -> str:
+    """Text for a table cell ``width`` wide: on up to ``max_lines`` lines broken at spaces
+    (the row is made that tall), cut only beyond them."""
+    lines = textwrap.wrap(text, width) or [""]
+    if len(lines) > max_lines:
+        lines = [*lines[: max_lines - 1], trunc(" ".join(lines[max_lines - 1:]), width)]
+    return "\n".join(lines)
+
+
 def fuel_label(key: str) -> str:
     """'electricity_kwh' -> 'Electricity (kWh)'."""
     if "_" not in key:
@@ -111,3 +113,10 @@ def fuel_label(key: str) -> str:
     name, unit = key.rsplit("_", 1)
     unit = {"kwh": "kWh", "therm": "therm", "gallon": "gal", "gal": "gal"}.get(unit, unit)
     return f"{name.replace('_', ' ').capitalize()} ({unit})"
+
+
+def when(arrives) -> str:
+    """A date as 'May 2027'; a year as itself."""
+    if hasattr(arrives, "strftime"):
+        return arrives.strftime("%b %Y")
+    return str(arrives)

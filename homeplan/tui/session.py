@@ -12,6 +12,7 @@ from __future__ import annotations
 import contextlib
 import copy
 import os
+import stat
 from collections.abc import Sequence
 from dataclasses import dataclass
 from pathlib import Path
@@ -20,7 +21,9 @@ from typing import Any
 from homeplan.errors import InputError, Problem
 from homeplan.plan.files import PlanFolder
 from homeplan.plan.load import load_for_editing, parse_document, parse_roundtrip, validate_document
+from homeplan.plan.migrate import upgrade_document
 from homeplan.plan.model import Plan
+from homeplan.plan.relocate import Rebased, rebase_paths
 from homeplan.plan.save import (
     ChangedOnDiskError,
     DiskStamp,
@@ -52,6 +55,8 @@ class PlanSession:
     def __init__(self, path: Path, document: Any, plan: Plan, migrated_from: int | None = None,
                  saved: bool = True):
         self.path = Path(path)
+        if migrated_from:  # saving writes the current format, the user's comments kept
+            upgrade_document(document, migrated_from)
         self.document = document
         self.plan = plan
         self.migrated_from = migrated_from
@@ -60,6 +65,8 @@ class PlanSession:
         self._saved_pos: int | None = 0 if saved else None
         self._disk: DiskStamp | None = disk_stamp(self.path) if saved else None
         self.folder = PlanFolder.of(self.path.parent)
+        self.last_backup: Path | None = None
+        self.last_rebased: list[Rebased] = []
 
     # ------------------------------------------------------------------ opening
 
@@ -172,11 +179,17 @@ class PlanSession:
 
     def save(self, path: str | os.PathLike | None = None, *, overwrite_changed: bool = False,
              replace_readonly: bool = False) -> Path:
-        """Write atomically (previous file kept as .bak); ``path`` saves as a new file.
+        """Write atomically (the previous file kept as .bak); ``path`` saves as a new file.
 
         Raises ChangedOnDiskError when the file changed on disk since it was read or written
         (unless ``overwrite_changed``), ReadOnlyFileError for a read-only file (unless
         ``replace_readonly``): the app asks the user, then calls again.
+
+        Saved in another folder, the plan's relative file paths are rewritten to name the same
+        files from there, in every state of the history (so undo keeps them right), and those
+        files stay allowed for this session; a new file gets the permissions of the file the
+        plan was opened from. ``last_backup`` is the .bak written (None when there was no file
+        to keep) and ``last_rebased`` the rewritten paths.
         """
         target = Path(path) if path is not None else self.path
         same = target == self.path
@@ -185,13 +198,42 @@ class PlanSession:
                                              "opened or last saved (another program edited it)",
                                              "overwrite it (the version on disk is kept as .bak), "
                                              "or save under another name"))
-        save_document(target, self.document, replace_readonly=replace_readonly)
+        rebased: list[Rebased] = []
+        new_dir = target.parent if str(target.parent) else Path(".")
+        if os.path.abspath(new_dir) != os.path.abspath(self.base_dir):
+            rebased = self._rebase_all(new_dir)
+        try:
+            mode = stat.S_IMODE(os.stat(self.path).st_mode)
+        except OSError:
+            mode = None  # a new plan: the umask decides
+        existed = target.exists()
+        save_document(target, self.document, replace_readonly=replace_readonly, mode=mode)
         if not same:
-            self.folder = PlanFolder(target.parent, self.folder.allowed)
+            folder = PlanFolder(new_dir, self.folder.allowed)
+            for r in rebased:  # the same files as before, now named from the new folder
+                folder = folder.allowing(new_dir / r.after)
+            self.folder = folder
         self.path = target
         self._saved_pos = self._pos
         self._disk = disk_stamp(target)
+        self.last_backup = target.with_name(target.name + ".bak") if existed else None
+        self.last_rebased = rebased
         return target
+
+    def _rebase_all(self, new_dir: Path) -> list[Rebased]:
+        """Rewrite relative file paths for ``new_dir`` in the current document and the history."""
+        old_dir = self.base_dir
+        done = rebase_paths(self.document, old_dir, new_dir)
+        if not done:
+            return []
+        for i, state in enumerate(self._states):
+            doc = state.document if i != self._pos else self.document
+            if i != self._pos:
+                rebase_paths(doc, old_dir, new_dir)
+            plan, _ = validate_document(doc, str(self.path))
+            self._states[i] = State(doc, plan, state.what)
+        self.plan = self._states[self._pos].plan
+        return done
 
 
 def _prune_empty(doc: Any, locs: Sequence[tuple]) -> None:

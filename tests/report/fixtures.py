@@ -104,7 +104,7 @@ def make_price_risk(first_year: int = 2027, years: int = 10) -> PriceRisk:
 
 
 def make_result(plan=None, label_suffix: str = "", steps=None, hostile_labels: bool = False) -> PlanResult:
-    """A roadmap of four steps over 2027-2036, with one milestone and a do-nothing baseline."""
+    """A roadmap of four steps over 2027-2036, with one milestone, a do-nothing and a like-for-like baseline."""
     plan = plan or make_plan()
     x = label_suffix
     bad = "<script>alert('step')</script> =1+1" if hostile_labels else ""
@@ -142,10 +142,17 @@ def make_result(plan=None, label_suffix: str = "", steps=None, hostile_labels: b
                                 energy={"electricity_kwh": 7000.0 + 900 * i}))
     base = Baseline("do_nothing", "do nothing", tuple(YearTotals(y.year, cumulative_usd=2900.0 * (k + 1))
                                         for k, y in enumerate(years)), 0.0)
+    # like for like: a new gas furnace in 2029 and bills a little above doing nothing's
+    lfl_years = tuple(YearTotals(y.year, spend_usd=6500.0 if y.year == 2029 else 0.0,
+                                 net_usd=6500.0 if y.year == 2029 else 0.0,
+                                 bills_usd={"electricity": 1400.0, "gas": 1500.0 + 60 * k},
+                                 cumulative_usd=2900.0 * (k + 1) + (6500.0 if y.year >= 2029 else 0.0))
+                      for k, y in enumerate(years))
+    lfl = Baseline("like_for_like", "like for like", lfl_years, -9800.0)
     road = Roadmap(plan.home.name or "", 2027, 10, steps=steps, years=years,
                    milestones=[Milestone(2031, "Gas service closed", "gas_service_closed"),
                                Milestone(2031, "Fully electric home", "fully_electric")],
-                   baselines=[base], npv_usd=6400.0,
+                   baselines=[base, lfl], npv_usd=6400.0,
                    assumptions={"discount_rate_pct": 3.0, "incentive_data_as_of": "2026-11-01"},
                    price_risk=make_price_risk())
     months = tuple(float(v) for v in (900, 800, 700, 500, 400, 450, 600, 620, 480, 500, 700, 880))

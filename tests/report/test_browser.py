@@ -3,8 +3,8 @@
 Needs Debian packages ``chromium`` and (for the text and page checks) ``poppler-utils``; on a
 developer's machine without them the tests are skipped with a clear reason, but under continuous
 integration (``CI`` set, as ``.ci/run`` does) a missing tool is a failure: ``.ci/run`` installs
-them, so a skip there would hide a test that did not run. The expected page count (3) is what the layout
-gives the invented fixture plan: page 1 holds the home, timeline and steps; blocks are kept whole
+them, so a skip there would hide a test that did not run. The expected page count (6 on Letter, 5 on A4) is
+what the layout gives the invented fixture plan: page 1 holds the home, timeline and steps; blocks are kept whole
 where they fit (CSS Fragmentation Module Level 3) without forced breaks, so no page before the
 last is half empty. It must hold on both US Letter (Chromium's default) and A4 (ISO 216).
 
@@ -100,14 +100,14 @@ def write_page(tmp: Path, name: str, result, paper: str | None = None) -> Path:
     return path
 
 
-@pytest.mark.parametrize("paper,size_pts", [(None, (612.0, 792.0)),       # US Letter 8.5 x 11 in
-                                            ("A4", (595.92, 842.88))])    # ISO 216: 210 x 297 mm
-def test_pdf_pages_and_text(tmp_path: Path, paper, size_pts) -> None:
+@pytest.mark.parametrize("paper,size_pts,n_pages", [(None, (612.0, 792.0), 6),    # US Letter 8.5 x 11 in
+                                                    ("A4", (595.92, 842.88), 5)])  # ISO 216: 210 x 297 mm
+def test_pdf_pages_and_text(tmp_path: Path, paper, size_pts, n_pages) -> None:
     result = make_result()
     page = write_page(tmp_path, "summary.html", result, paper)
     pdf = tmp_path / "summary.pdf"
     to_pdf(tmp_path, page, pdf)
-    assert pdf_pages(pdf) == 4  # glance, year by year, price risk, assumptions and safety
+    assert pdf_pages(pdf) == n_pages
     size = pdf_size_pts(pdf)
     if size is None:
         missing("pdfinfo (poppler-utils) is not installed: page size not checked")
@@ -116,14 +116,15 @@ def test_pdf_pages_and_text(tmp_path: Path, paper, size_pts) -> None:
     if text is None:
         missing("pdftotext (poppler-utils) not installed: page count checked, text not")
     pages = [p for p in text.split("\f") if p.strip()]
-    assert len(pages) == 4
+    assert len(pages) == n_pages
     # the first page is the one for the fridge: the home, the timeline and the steps
     assert "At a glance" in pages[0] and "The roadmap" in pages[0] and "Heat pump" in pages[0]
-    assert "page 1 of 4" in pages[0]                              # the page margin box
+    assert f"page 1 of {n_pages}" in pages[0]                             # the page margin box
     flat = " ".join(text.split())
-    order = ["At a glance", "The roadmap", "Steps", "Year by year", "Price risk",
-             "Energy and emissions, before and after",
-             "Electrical capacity", "Key assumptions", "Safety", "Plan content hash"]
+    order = ["At a glance", "Against replacing like for like", "Against doing nothing", "The roadmap",
+             "Steps", "Bills and money out, year by year", "Fuel still bought", "Year by year", "Price risk",
+             "Energy and emissions, before and after", "Electrical capacity", "Key assumptions",
+             "Safety", "Words used in this summary", "Plan content hash"]
     positions, at = [], 0
     for h in order:  # each heading after the one before (step lines also say "Safety:")
         at = flat.find(h, at)
@@ -169,7 +170,7 @@ def test_hostile_plan_renders_safely(tmp_path: Path) -> None:
     assert "&lt;script&gt;alert(\"by\")&lt;/script&gt;" in dom  # shown as text
     pdf = tmp_path / "hostile.pdf"
     to_pdf(tmp_path, page, pdf)
-    assert 3 <= pdf_pages(pdf) <= 5  # the very long name wraps, nothing breaks the layout
+    assert 5 <= pdf_pages(pdf) <= 7  # the very long name wraps, nothing breaks the layout
     text = pdf_text(pdf)
     if text is None:
         missing("pdftotext (poppler-utils) not installed: the hostile text was not checked")

@@ -18,7 +18,7 @@ from tests.report.fixtures import HOSTILE, LONG, make_plan, make_result
 ALLOWED_TAGS = {
     "html", "head", "meta", "title", "style", "body", "header", "p", "h1", "h2", "h3", "section",
     "dl", "dt", "dd", "ul", "li", "span", "div", "b", "table", "thead", "tbody", "tfoot", "tr", "th",
-    "td", "footer", "code", "svg", "rect", "text", "line", "g", "path", "polygon", "polyline",
+    "td", "footer", "code", "svg", "rect", "text", "line", "g", "path", "polygon", "polyline", "circle",
 }
 
 

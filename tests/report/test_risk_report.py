@@ -32,7 +32,8 @@ def test_risk_is_in_every_format() -> None:
         assert "$61,000" in out          # the plan's median total cost, rounded to $100
         assert "72 %" in out             # beats like-for-like
         assert "11.0 c/kWh" in out       # the solar's locked-in cost
-    assert html.count('<svg xmlns="http://www.w3.org/2000/svg" class="chart"') == 2
+    # the yearly bills and money out, the price bands, the tornado
+    assert html.count('<svg xmlns="http://www.w3.org/2000/svg" class="chart"') == 3
     assert "Weather &lt;b&gt;" in html and "Weather <b>" not in html
 
 

@@ -61,3 +61,21 @@ async def settle(pilot) -> None:
         if not app.planning:
             break
     await pilot.pause()
+
+
+async def form_ready(pilot) -> None:
+    """Wait until the form is open, its first field focused and its choice lists mounted (on
+    a loaded machine a key pressed sooner can close the form while they are still mounting)."""
+    from textual.widgets import Select
+    from textual.widgets._select import SelectOverlay
+
+    from homeplan.tui.screens.forms import FormScreen
+
+    for _ in range(100):
+        screen = pilot.app.screen
+        if isinstance(screen, FormScreen) and screen.focused is not None and all(
+                s.query(SelectOverlay) and s.query_one(SelectOverlay).option_count
+                for s in screen.query(Select)):
+            return
+        await pilot.pause(0.05)
+    raise AssertionError("the form did not finish opening")

@@ -8,12 +8,13 @@ from textual.widgets import DataTable, Input, Static
 
 from homeplan.errors import InputError, Problem
 from homeplan.plan.load import load_plan
+from homeplan.report.words import fit_labels
 from homeplan.tui.app import HomeplanApp, PlannerUnavailable
 from homeplan.tui.screens.forms import ChoiceScreen, FormScreen
 from homeplan.tui.widgets.home import HomeView
 from homeplan.tui.widgets.roadmap import RoadmapView, Timeline
 
-from .conftest import SAMPLE, make_app, settle, shared_planner
+from .conftest import SAMPLE, form_ready, make_app, settle, shared_planner
 
 
 def text_of(app, selector: str) -> str:
@@ -32,9 +33,12 @@ async def test_open_shows_the_three_answers(plan_file):
         assert app.result is not None and app.result.plan == app.session.plan
         first = app.result.roadmap.steps[0]
         next_box = text_of(app, "#next-box")
-        assert first.label[:20] in next_box and str(first.year) in next_box
+        assert fit_labels([first.label], 24)[0][:15] in next_box and str(first.year) in next_box
         assert f"{first.year}:" in text_of(app, "#year-box")
-        assert "fuel-burning items" in text_of(app, "#electric-box")
+        fuel = text_of(app, "#electric-box")
+        assert "Gas" in fuel and "Gasoline" in fuel  # one line per fuel still bought
+        closed = next(m for m in app.result.roadmap.milestones if m.kind == "gas_service_closed")
+        assert f"closed {closed.year}" in fuel
         assert "plan up to date" in text_of(app, "#status")
 
 
@@ -87,7 +91,7 @@ async def test_old_plan_stays_visible_while_replanning(plan_file):
         await pilot.press("plus")
         assert app.planning and app.result is old
         assert "planning" in text_of(app, "#status")
-        assert old.roadmap.steps[0].label[:20] in text_of(app, "#next-box")
+        assert fit_labels([old.roadmap.steps[0].label], 24)[0][:15] in text_of(app, "#next-box")
         gate.set()
         await settle(pilot)
         assert app.result is not old and not app.planning
@@ -188,9 +192,9 @@ async def test_edit_an_appliance(plan_file):
         form = app.screen
         assert isinstance(form, FormScreen)
         labels = [f.label for f in form.fields]
-        assert "UEF" in labels and "Tank" in labels
+        assert "Efficiency (UEF)" in labels and "Tank" in labels
         form.query_one("#field-0", Input).value = "2024"  # year installed
-        form.query_one(f"#field-{labels.index('UEF')}", Input).value = "0.67"
+        form.query_one(f"#field-{labels.index('Efficiency (UEF)')}", Input).value = "0.67"
         await pilot.press("enter")
         assert not isinstance(app.screen, FormScreen)
         wh = app.session.plan.appliances[2]
@@ -214,8 +218,9 @@ async def test_a_pre_2023_rating_is_edited_in_its_own_field(plan_file):
         form = app.screen
         assert isinstance(form, FormScreen)
         labels = [f.label for f in form.fields]
-        assert "SEER (pre-2023)" in labels and "SEER2" not in labels and "EER2" in labels
-        form.query_one(f"#field-{labels.index('SEER (pre-2023)')}", Input).value = "14"
+        assert "Cooling efficiency (SEER, pre-2023)" in labels and not any("SEER2" in x for x in labels)
+        assert "Cooling efficiency on a hot day (EER2)" in labels
+        form.query_one(f"#field-{labels.index('Cooling efficiency (SEER, pre-2023)')}", Input).value = "14"
         await pilot.press("enter")
         assert not isinstance(app.screen, FormScreen)
         ac = next(a for a in app.session.plan.appliances if a.key == "ac")
@@ -359,6 +364,7 @@ async def test_new_plan_form_writes_a_valid_plan(tmp_path: Path):
     app = HomeplanApp(session=None, planner=planner, new_path=target, light=False)
     async with app.run_test(size=(80, 24)) as pilot:
         await pilot.pause()
+        await form_ready(pilot)
         form = app.screen
         assert isinstance(form, FormScreen)
         keys = [f.key for f in form.fields]
@@ -388,10 +394,11 @@ async def test_new_plan_form_reports_missing_answers(tmp_path: Path):
     app = HomeplanApp(session=None, planner=shared_planner, new_path=tmp_path / "x.yaml",
                       light=False)
     async with app.run_test(size=(80, 24)) as pilot:
-        await pilot.pause()
+        await form_ready(pilot)
         await pilot.press("enter")
+        await pilot.pause()
         assert isinstance(app.screen, FormScreen)
-        assert "Latitude" in str(app.screen.query_one("#form-error", Static).render())
+        assert "floor area" in str(app.screen.query_one("#form-error", Static).render())
         await pilot.press("escape")  # cancelling the form with no plan open leaves the app
         await pilot.pause()
         assert not app.is_running

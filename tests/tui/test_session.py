@@ -2,12 +2,14 @@
 
 from __future__ import annotations
 
+import datetime as dt
 import subprocess
 import sys
 from pathlib import Path
 
 import pytest
 
+from homeplan import catalog
 from homeplan.errors import InputError
 from homeplan.plan.load import load_plan, load_plan_text
 from homeplan.tui import newplan
@@ -82,7 +84,8 @@ def test_save_is_atomic_with_backup(plan_file: Path, tmp_path: Path):
 def test_new_plan_text_validates_for_every_heating_choice():
     base = dict(name='A "quoted" home', latitude=40.0, longitude=-75.0, floor_area_ft2=1500,
                 service_amps=100, water_heater_fuel="gas", range_fuel="electric",
-                dryer_fuel="none", cars=2, usd_per_year=5000, first_year=2027, horizon_years=12)
+                dryer_fuel="none", cars="Blue sedan, Work truck", usd_per_year=5000,
+                first_year=2027, horizon_years=12, timezone="America/New_York")
     for heating in newplan.HEATING:
         text = newplan.new_plan_text({**base, "heating": heating, "central_ac": True})
         plan = load_plan_text(text, "new.yaml").plan
@@ -90,6 +93,8 @@ def test_new_plan_text_validates_for_every_heating_choice():
         assert kinds[0] == newplan.HEATING[heating][0]
         assert ("central_ac" in kinds) == (heating != "heat_pump")
         assert plan.home.name == 'A "quoted" home' and len(plan.vehicles) == 2
+        assert [(v.id, v.name) for v in plan.vehicles] == [("blue_sedan", "Blue sedan"),
+                                                            ("work_truck", "Work truck")]
         assert plan.budget.horizon_years == 12
 
 
@@ -105,9 +110,12 @@ def test_form_values_parse_as_people_type_them():
 
 
 def test_money_is_rounded_to_what_matters():
-    # the project's display rule (not an outside source): "$12,400, not $12,391.87"
-    assert usd(12391.87) == "$12,400" and usd(-1234) == "-$1,230" and usd(0) == "$0"
-    assert kusd(6240) == "6.2k" and kusd(23456) == "23k" and kusd(20) == "0" and kusd(-950) == "-950"
+    # the project's display rule (not an outside source): "$12,400, not $12,391.87"; the app rounds as the printout does (one figure, one
+    # value): nearest $10 under $1,000, nearest $100 above; compact cells agree and never show a
+    # non-zero amount as 0
+    assert usd(12391.87) == "$12,400" and usd(-1234) == "-$1,200" and usd(0) == "$0"
+    assert kusd(6240) == "6.2k" and kusd(23456) == "23k" and kusd(20) == "20" and kusd(-950) == "-950"
+    assert kusd(4) == "0" and usd(4) == "$0"
 
 
 def test_only_the_tui_imports_textual():
@@ -136,6 +144,66 @@ def test_open_command_reports_a_bad_file_without_starting_the_app(tmp_path: Path
                           cwd=ROOT, timeout=60)
     assert proc.returncode == 2
     assert f"{bad}:2:" in proc.stderr and "Traceback" not in proc.stderr
+
+
+@pytest.mark.parametrize("lat,lon,zone,words", [
+    # Minneapolis, 44.98 N 93.27 W (US Census Bureau Gazetteer), on Central time (IANA
+    # America/Chicago, UTC-6 in January): plausible.
+    (44.98, -93.27, "America/Chicago", None),
+    # the same house with the minus sign forgotten: 93.27 E is in Asia
+    (44.98, 93.27, "America/Chicago", "did you mean -93.27"),
+    # south of the equator with a North American zone
+    (-44.98, -93.27, "America/Chicago", "did you mean 44.98"),
+    # Boston (42.36 N 71.06 W, Census Gazetteer) with Pacific time: hours from its meridian
+    (42.36, -71.06, "America/Los_Angeles", "far from the Pacific"),
+    (42.36, -71.06, "America/New_York", None),
+    (95.0, -71.0, "America/New_York", "latitude goes from -90 to 90"),
+    (None, -71.0, "America/New_York", "choose the nearest city"),
+])
+def test_location_checked_against_the_time_zone(lat, lon, zone, words):
+    from zoneinfo import ZoneInfo
+
+    # the check's meridian is the zone's UTC offset times 15 degrees an hour (IANA tz database)
+    offset_h = dt.datetime(2025, 1, 15, tzinfo=ZoneInfo(zone)).utcoffset().total_seconds() / 3600
+    assert offset_h < 0  # every zone offered is west of Greenwich
+    problem = newplan.location_problem(lat, lon, zone)
+    if words is None:
+        assert problem is None
+    else:
+        assert problem is not None and words in problem
+
+
+def test_form_offers_only_zones_west_of_greenwich_and_north_american_cities():
+    from zoneinfo import ZoneInfo
+
+    for _, key in newplan.TIME_ZONES:  # IANA tz database offsets
+        assert dt.datetime(2025, 7, 1, tzinfo=ZoneInfo(key)).utcoffset() < dt.timedelta(0)
+    for label, name in newplan.place_choices()[1:]:
+        city = next(c for c in catalog.reference_climates() if c.name == name)
+        assert city.latitude > 0 and city.longitude < 0 and name in label
+        lat, lon = newplan.resolve_location({"near": name})
+        assert (lat, lon) == (city.latitude, city.longitude)
+    assert newplan.resolve_location({"near": "Chicago IL", "latitude": 41.0, "longitude": -88.0}) == (41.0, -88.0)
+
+
+def test_car_names_become_unique_ids():
+    assert newplan.car_entries("Blue sedan, Blue sedan, 2019 truck,, ") == [
+        ("blue_sedan", "Blue sedan"), ("blue_sedan_2", "Blue sedan"), ("car_2019_truck", "2019 truck")]
+    assert newplan.car_entries("") == [] and newplan.car_entries(None) == []
+
+
+def test_new_plan_text_carries_bills_roof_spaces_and_income():
+    base = dict(latitude=44.98, longitude=-93.27, timezone="America/Chicago", floor_area_ft2=1500,
+                service_amps=100, heating="gas_furnace", water_heater_fuel="gas", range_fuel="gas",
+                dryer_fuel="electric", cars="", usd_per_year=5000, free_spaces=2,
+                annual_kwh=7200.0, annual_therms=900.0, roof_facing="180", roof_year=2015,
+                ami_pct="70")
+    plan = load_plan_text(newplan.new_plan_text(base), "new.yaml").plan
+    assert plan.home.electrical.free_spaces == 2
+    assert plan.home.roof is not None and plan.home.roof.azimuth_deg == 180.0
+    assert plan.usage.electricity.annual_kwh == 7200 and plan.usage.gas.annual_therms == 900
+    assert plan.household.ami_pct == 70 and plan.vehicles == []
+    assert plan.home.location.timezone == "America/Chicago"
 
 
 def test_cut_names_keep_their_invented_mark():

@@ -31,6 +31,7 @@ class FieldSpec:
     optional: bool = False
     help: str = ""
     unit: str = ""
+    placeholder: str = ""   # shown in an empty text field (default: "(optional)"/"(blank: default)")
 
 
 class FormError(ValueError):
@@ -82,6 +83,7 @@ class FormScreen(ModalScreen[dict | None]):
         Binding("escape", "cancel", "Cancel"),
         Binding("ctrl+s", "apply", "Apply", show=False),
     ]
+    AUTO_FOCUS = "#field-0"  # keys typed while the form opens go to its first field
 
     def __init__(self, title: str, fields: Sequence[FieldSpec],
                  check: Callable[[dict], str | None] | None = None, note: str = "",
@@ -92,13 +94,14 @@ class FormScreen(ModalScreen[dict | None]):
         self.check = check
         self.note = note
         self.apply_label = apply_label
+        self._opened_with: list | None = None
 
     def compose(self) -> ComposeResult:
         with Vertical(id="form-box", classes="modal-box"):
             yield Static(Text(self.form_title, style="bold"), classes="modal-title")
             if self.note:
                 yield Static(Text(self.note), classes="form-note")
-            with VerticalScroll(id="form-fields"):
+            with VerticalScroll(id="form-fields", can_focus=False):
                 for i, spec in enumerate(self.fields):
                     with Horizontal(classes="form-row"):
                         unit = f" ({spec.unit})" if spec.unit else ""
@@ -124,8 +127,8 @@ class FormScreen(ModalScreen[dict | None]):
         if spec.kind == "bool":
             return Switch(value=bool(spec.value), id=wid, classes="form-input")
         inp = Input(_blank(spec.value), id=wid, classes="form-input", compact=True,
-                    placeholder=("(optional)" if spec.kind == "text" else "(blank: default)")
-                    if spec.optional else "")
+                    placeholder=spec.placeholder or (("(optional)" if spec.kind == "text" else
+                                                      "(blank: default)") if spec.optional else ""))
         inp.cursor_blink = False
         return inp
 
@@ -133,6 +136,7 @@ class FormScreen(ModalScreen[dict | None]):
         self._size_fields()
         if self.fields:
             self.query_one("#field-0").focus()
+        self._opened_with = self._raw()
 
     def on_resize(self) -> None:
         self._size_fields()
@@ -173,8 +177,27 @@ class FormScreen(ModalScreen[dict | None]):
                 return
         self.dismiss(values)
 
+    def _raw(self) -> list:
+        return [self.query_one(f"#field-{i}").value for i in range(len(self.fields))]
+
+    def typed(self) -> bool:
+        """Whether anything differs from what the form opened with."""
+        return self._opened_with is not None and self._raw() != self._opened_with
+
     def action_cancel(self) -> None:
-        self.dismiss(None)
+        """Escape: back out; when something was typed, ask first (typing is never lost
+        silently)."""
+        if not self.typed():
+            self.dismiss(None)
+            return
+
+        def answer(choice: str | None) -> None:
+            if choice == "d":
+                self.dismiss(None)
+
+        self.app.push_screen(ChoiceScreen(
+            "Discard what you typed?", f"The changes in '{self.form_title}' are not applied yet.",
+            [("d", "Discard them"), ("escape", "Keep editing")]), answer)
 
     @on(Input.Submitted)
     def _submitted(self, event: Input.Submitted) -> None:
@@ -189,7 +212,7 @@ class FormScreen(ModalScreen[dict | None]):
     @on(Button.Pressed, "#cancel")
     def _cancel_pressed(self, event: Button.Pressed) -> None:
         event.stop()
-        self.dismiss(None)
+        self.action_cancel()
 
 
 class ChoiceScreen(ModalScreen[str | None]):

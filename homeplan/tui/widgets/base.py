@@ -9,7 +9,7 @@ from typing import TYPE_CHECKING
 from rich.text import Text
 from textual.containers import Vertical
 
-from homeplan.report.view import emergency_lines
+from homeplan.report.view import assumption_lines, emergency_lines
 
 if TYPE_CHECKING:
     from homeplan.plan.model import Plan
@@ -27,6 +27,7 @@ class ViewData:
     result: PlanResult | None
     path: Path
     moved: dict[str, int | None] = field(default_factory=dict)  # id -> year before the last re-plan
+    changes: tuple[str, ...] = ()     # what the last re-plan changed, in words
     planning: bool = False
     error: str | None = None          # the last planner or edit error, in words
     unavailable: str | None = None    # why there is no planner at all
@@ -91,20 +92,20 @@ class View(Vertical):
 
     def where_from(self, data: ViewData) -> Text:
         """Where this view's numbers come from (shown with the 'w' key)."""
-        out = Text("Numbers on this view are computed by homeplan's engine from your plan file "
-                   "and the built-in catalog (each catalog row names its source). They are "
-                   "planning estimates.\n")
+        out = Text("Numbers on this view are computed by homeplan from your plan file and its "
+                   "built-in price and equipment lists. They are planning estimates.\n")
         return out.append_text(assumptions_text(data))
 
 
 def assumptions_text(data: ViewData) -> Text:
-    """The planner's recorded assumptions and warnings, as it wrote them."""
+    """The assumptions behind the result, in words (the printout's lines), and the planner's
+    notes."""
     out = Text()
-    rm = data.roadmap
-    if rm is not None and rm.assumptions:
-        out.append("Assumptions the planner used:\n", style="bold")
-        for k, v in rm.assumptions.items():
-            out.append(f"  {k.replace('_', ' ')}: {v}\n")
+    if data.result is not None:
+        out.append("Assumptions behind these numbers:\n", style="bold")
+        for what, value in assumption_lines(data.plan, data.result):
+            out.append(f"  {what}: ", style="bold")
+            out.append(f"{value}\n")
     if data.result is not None and data.result.warnings:
         out.append("Notes from the planner:\n", style="bold")
         for w in data.result.warnings:

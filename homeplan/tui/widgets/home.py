@@ -11,8 +11,9 @@ from textual.containers import VerticalScroll
 from textual.widgets import DataTable, Static
 
 from homeplan.plan.fuels import FOSSIL_FUELS, TANK_FUELS
+from homeplan.report.words import distinct_labels, life_source_words
 from homeplan.tui.actions import bindings
-from homeplan.tui.format import BLOCKS, num, trunc, usd
+from homeplan.tui.format import BLOCKS, num, usd
 from homeplan.tui.widgets.base import View, ViewData
 from homeplan.units import display_area
 
@@ -45,22 +46,31 @@ class Item:
 
 
 def inventory(data: ViewData) -> list[Item]:
+    """The home's appliances, vehicles and roof, each named in words (never by its id; two of
+    the same kind are told apart by the name the plan gives them). The roof is always listed:
+    the plan may not describe it yet (e adds it)."""
     plan = data.plan
     outs = {o.key: o for o in data.outlooks}
     failed = set(plan.choices.failed_now)
     items = []
     for i, a in enumerate(plan.appliances):
         o = outs.get(a.key)
-        items.append(Item(a.key, "appliance", i, o.label if o else a.kind, o,
+        label = (o.label if o else f"{a.fuel or ''} {a.kind.replace('_', ' ')}".strip())
+        items.append(Item(a.key, "appliance", i, label[:1].upper() + label[1:], o,
                           o.fuel if o else (a.fuel or ""), a.key in failed))
     for i, v in enumerate(plan.vehicles):
         key = plan.vehicle_key(i)
         o = outs.get(key)
-        items.append(Item(key, "vehicle", i, v.name or f"{v.fuel} {v.body}", o, v.fuel, False))
-    if plan.home.roof is not None:
-        o = outs.get("roof")
-        items.append(Item("roof", "roof", -1, o.label if o else "roof", o, "", False))
-    return items
+        name = v.name or f"{v.fuel.replace('_', ' ')} {v.body}"
+        items.append(Item(key, "vehicle", i, name[:1].upper() + name[1:], o, v.fuel, False))
+    o = outs.get("roof") if plan.home.roof is not None else None
+    items.append(Item("roof", "roof", -1, "Roof" if plan.home.roof is not None
+                      else "Roof (not described yet)", o, "", False))
+    labels = [it.label for it in items]
+    return [it if labels.count(it.label) == 1 else
+            Item(it.key, it.group, it.index, f"{it.label} ({it.key.replace('_', ' ')})", it.outlook,
+                 it.fuel, it.failed_now)
+            for it in items]
 
 
 class Inventory(DataTable):
@@ -88,25 +98,26 @@ class HomeView(View):
         keep = table.cursor_row
         wide = self.app.size.width >= 100
         table.clear(columns=True)
-        table.add_column("Item", width=16 if wide else 14, key="item")
-        table.add_column("What", width=24 if wide else 15, key="what")
+        self.items = inventory(data)
+        name_w = 30 if wide else 22
+        table.add_column("Item", width=name_w, key="item")
         table.add_column("Age", key="age")
         table.add_column("Likely end", key="end")
         if wide:
-            table.add_column(f"Replace by ({data.plan.choices.replace_at_risk_pct:.0f}% risk)",
+            table.add_column(f"Replace by ({data.plan.choices.replace_at_risk_pct:.0f} % risk)",
                              key="replace")
         first = data.plan.first_year
         table.add_column(f"Risk {first % 100:02d}-{(first + RISK_YEARS - 1) % 100:02d}",
                          width=RISK_YEARS, key="risk")
         table.add_column("Note", key="note")
-        self.items = inventory(data)
-        for it in self.items:
+        names = distinct_labels([it.label for it in self.items], name_w - 3)
+        for it, label in zip(self.items, names, strict=True):
             o = it.outlook
             fossil = it.fuel in FOSSIL_FUELS
-            name = Text(("◆ " if fossil else "  ") + it.key)
+            name = Text(("◆ " if fossil else "  ") + label)
             if o is None:
-                cells = [name, Text(trunc(it.label, 24 if wide else 15)), "-", "-"]
-                table.add_row(*cells, *(["-"] if wide else []), "", "electric", key=it.key)
+                note = "e: describe it" if it.group == "roof" else "electric"
+                table.add_row(name, "-", "-", *(["-"] if wide else []), "", note, key=it.key)
                 continue
             age = f"{o.age_years:.0f}" + ("?" if o.install_year_assumed else "")
             if it.failed_now:
@@ -117,7 +128,7 @@ class HomeView(View):
                 note = Text("replace soon", style="bold")
             else:
                 note = Text("")
-            cells = [name, Text(trunc(it.label, 24 if wide else 15)), age, str(o.expected_end_year)]
+            cells = [name, age, str(o.expected_end_year)]
             if wide:
                 cells.append(str(o.replace_by_year))
             table.add_row(*cells, risk_bar(o.yearly_failure_pct), note, key=it.key)
@@ -126,7 +137,7 @@ class HomeView(View):
         legend = Text()
         legend.append("◆", style="bold")
         legend.append(" burns fuel  ")
-        legend.append("Risk: chance it fails in each year ahead (█ 20%+)  ? age assumed")
+        legend.append("Risk: chance it fails each year ahead (█ 20 %+)  ? age assumed")
         self.query_one("#home-legend", Static).update(legend)
         self.query_one("#home-info-text", Static).update(self._info(data))
 
@@ -147,7 +158,8 @@ class HomeView(View):
         out.append("\n")
         out.append("Roof  ", style="bold")
         if h.roof is None:
-            out.append("not described (add a roof section to consider rooftop solar)\n")
+            out.append("not described: choose the Roof row and press e to describe it, so that "
+                       "rooftop solar can be considered\n")
         else:
             r = h.roof
             out.append(f"{r.material.replace('_', ' ')}, installed {r.year_installed or 'year unknown'}")
@@ -199,12 +211,13 @@ class HomeView(View):
         out = Text()
         if it is not None and it.outlook is not None:
             o = it.outlook
-            out.append(f"{it.key}: ", style="bold")
+            out.append(f"{it.label}: ", style="bold")
             out.append(f"installed {o.install_year}"
                        + (" (assumed: half-way through a typical life)" if o.install_year_assumed
                           else " (your input)") + ".\n")
-            out.append(f"Typical life {o.median_life_years:.0f} years: {o.source}.\n")
-            out.append(f"Likely end {o.expected_end_year}; replace by {o.replace_by_year} at "
-                       f"{o.risk_pct:.0f}% risk (Weibull model, computed).\n")
+            out.append(f"Typical life {o.median_life_years:.0f} years, from {life_source_words(o.source)}.\n")
+            out.append(f"Likely end {o.expected_end_year}; replace by {o.replace_by_year}, when "
+                       f"the chance it has failed reaches {o.risk_pct:.0f} % (worked out from how "
+                       "long such appliances usually last).\n")
         out.append("Service, roof and bills are your inputs from the plan file.")
         return out

@@ -9,8 +9,9 @@ from textual.app import ComposeResult
 from textual.containers import VerticalScroll
 from textual.widgets import DataTable, Static
 
+from homeplan.report.words import caps_words
 from homeplan.tui.actions import bindings
-from homeplan.tui.format import ESTIMATES, kusd, trunc, usd
+from homeplan.tui.format import ESTIMATES, kusd, usd, wrap_cell
 from homeplan.tui.widgets.base import View, ViewData, banner_text
 
 if TYPE_CHECKING:
@@ -30,8 +31,8 @@ def program_details(p: ProgramUse) -> Text:
         out.append(" - " + ", ".join(years))
     out.append(".\n")
     if p.caps_note:
-        out.append(f"Caps: {p.caps_note}\n")
-    out.append(f"Ends: {p.ends}\n" if p.ends else "No end date announced.\n")
+        out.append(f"How much it pays: {caps_words(p.caps_note)}\n")
+    out.append(f"Closes: {p.ends}\n" if p.ends else "No closing date announced.\n")
     return out
 
 
@@ -73,12 +74,13 @@ class IncentivesView(View):
             table.add_column(Text(str(y), justify="right"), key=str(y))
         table.add_column("Ends", key="ends")
         for i, p in enumerate(self.programs):
-            cells = [Text(trunc(p.name, name_w)),
+            name = wrap_cell(p.name, name_w)
+            cells = [Text(name),
                      Text(kusd(sum(p.paid_by_year.values())), justify="right", style="bold")]
             cells += [Text(kusd(p.paid_by_year.get(y, 0.0)) if p.paid_by_year.get(y) else "·",
                            justify="right") for y in years]
             cells.append(Text(p.ends or "-"))
-            table.add_row(*cells, key=str(i))
+            table.add_row(*cells, key=str(i), height=name.count("\n") + 1)
         if self.programs:
             table.move_cursor(row=min(max(keep, 0), len(self.programs) - 1), animate=False,
                               scroll=False)

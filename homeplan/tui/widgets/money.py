@@ -8,12 +8,13 @@ from textual.containers import VerticalScroll
 from textual.widgets import DataTable, Static
 
 from homeplan.report.risk import risk_lines
+from homeplan.report.view import comparison_lines
 from homeplan.tui.format import ESTIMATES, kusd, spark, usd
 from homeplan.tui.widgets.base import View, ViewData, banner_text
 
 __all__ = ["MoneyView", "band_chart", "running_chart"]
 
-BASELINES = (("do_nothing", "Do nothing"), ("like_for_like", "Replace when it breaks"))
+BASELINES = (("do_nothing", "Do nothing"), ("like_for_like", "Like for like"))
 
 
 def running_chart(data: ViewData, width: int) -> Text:
@@ -95,7 +96,7 @@ class MoneyView(View):
         loans = rm is not None and any(t.loan_payments_usd for t in rm.years)
         columns = [("year", "Year"), ("spend", "Projects"), ("back", "Back"),
                    ("loan", "Loans"), ("bills", "Bills"), ("plan", "Plan Σ"),
-                   ("none", "Nothing Σ"), ("lfl", "Replace Σ"), ("ahead", "Ahead")]
+                   ("none", "Nothing Σ"), ("lfl", "Like Σ"), ("ahead", "Ahead")]
         if not loans:
             columns.remove(("loan", "Loans"))
         for key, label in columns:
@@ -120,11 +121,13 @@ class MoneyView(View):
                                   scroll=False)
         chart = running_chart(data, self.app.size.width)
         if rm is not None:
-            chart.append(f"Net present value of the plan against doing nothing: {usd(rm.npv_usd)}"
-                         " (today's dollars).\n")
+            for what, value, _ in comparison_lines(data.result):  # like for like first
+                chart.append(f"{what}: ", style="bold")
+                chart.append(f"{value} (net present value, today's dollars)\n")
             chart.append("US dollars, k = thousand. Back: incentives arriving. Σ: running total "
                          "since the first year for this plan, doing nothing, and replacing each "
-                         "thing like-for-like when it breaks. Ahead: doing nothing minus this plan."
+                         "thing with the same kind on the same fuel when it wears out (like for like). Ahead: doing "
+                         "nothing minus this plan."
                          "\n")
             lines = risk_lines(rm)
             if lines:

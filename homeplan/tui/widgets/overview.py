@@ -1,4 +1,4 @@
-"""The first view: what do I do next, what does it cost me this year, how far from all-electric."""
+"""The first view: what do I do next, what does it cost me this year, what fuel is still bought."""
 
 from __future__ import annotations
 
@@ -7,44 +7,29 @@ from textual.app import ComposeResult
 from textual.containers import VerticalScroll
 from textual.widgets import Static
 
-from homeplan.plan.fuels import FOSSIL_FUELS, appliance_fuel
+from homeplan.report.fmt import money_short
+from homeplan.report.fossil import fossil_lines
 from homeplan.report.view import step_safety
-from homeplan.tui.format import ESTIMATES, trunc, usd
+from homeplan.report.words import fit_labels
+from homeplan.tui.format import ESTIMATES, usd, when
 from homeplan.tui.widgets.base import View, ViewData, banner_text
 
-__all__ = [
-    "OverviewView",
-    "electric_text",
-    "fossil_items",
-    "next_text",
-    "replaced_by_year",
-    "this_year_text",
-    "when",
-]
+__all__ = ["OverviewView", "changes_text", "fuel_text", "next_text", "this_year_text"]
 
 
-def fossil_items(data: ViewData) -> list[str]:
-    """Keys of the appliances and vehicles that burn fuel today (from the plan's own inputs)."""
-    plan = data.plan
-    keys = [a.key for a in plan.appliances if appliance_fuel(a) in FOSSIL_FUELS]
-    keys += [plan.vehicle_key(i) for i, v in enumerate(plan.vehicles) if v.fuel != "electric"]
-    return keys
-
-
-def replaced_by_year(data: ViewData) -> dict[str, int]:
-    """Item key -> the year a roadmap step replaces it."""
-    out: dict[str, int] = {}
-    if data.result is None:
-        return out
-    for s in data.result.roadmap.steps:
-        info = data.result.project(s.project_id)
-        for key in (info.replaces if info else ()):
-            out.setdefault(key, s.year)
+def changes_text(data: ViewData) -> Text:
+    """The last re-plan's change list (from :func:`homeplan.report.changes.change_list`)."""
+    out = Text()
+    for line in data.changes:
+        out.append("• ")
+        out.append(line + "\n")
+    out.rstrip()
     return out
 
 
 def next_text(data: ViewData, width: int = 80) -> Text:
-    """The first year's steps, one line each, with what the household pays and gets back."""
+    """The first year's steps, one line each: what the household pays after every incentive
+    (the step's net cost, as on every view) and how the incentives arrive."""
     out = Text()
     rm = data.roadmap
     if rm is None or not rm.steps:
@@ -53,17 +38,19 @@ def next_text(data: ViewData, width: int = 80) -> Text:
         return out
     first_year = rm.steps[0].year
     now = rm.steps_in(first_year)
-    label_w = max(16, min(36, width - 50))
-    for s in now[:4]:
+    label_w = max(16, min(36, width - 54))
+    labels = fit_labels([s.label for s in now[:4]], label_w)
+    out.append(f"{'':5}{'':{label_w}} {'you pay':>8}  incentives\n", style="dim")
+    for s, label in zip(now[:4], labels, strict=False):
         pos = sum(i.amount_usd for i in s.incentives if i.kind == "point_of_sale")
         later = [i for i in s.incentives if i.kind != "point_of_sale"]
         out.append(f"{s.year} ")
-        out.append(trunc(s.label, label_w).ljust(label_w), style="bold")
-        out.append(f" {usd(s.cost_usd - pos):>8}")
+        out.append(label.ljust(label_w), style="bold")
+        out.append(f" {usd(s.net_cost_usd):>8}")
         notes = []
         if pos:
             notes.append(f"{usd(pos)} off")
-        notes += [f"+{usd(i.amount_usd)} {when(i.arrives)}" for i in later]
+        notes += [f"{usd(i.amount_usd)} back {when(i.arrives)}" for i in later]
         if notes:
             out.append("  " + ", ".join(notes), style="italic")
         out.append("\n")
@@ -88,14 +75,9 @@ def next_text(data: ViewData, width: int = 80) -> Text:
     return out
 
 
-def when(arrives) -> str:
-    """A date as 'May 2027'; a year as itself."""
-    if hasattr(arrives, "strftime"):
-        return arrives.strftime("%b %Y")
-    return str(arrives)
-
-
 def this_year_text(data: ViewData) -> Text:
+    """The first year's money as the roadmap totals it: out of pocket (the year's ``net_usd``,
+    as on the Roadmap and Money views), projects and incentives in, bills."""
     out = Text()
     rm = data.roadmap
     plan = data.plan
@@ -104,16 +86,11 @@ def this_year_text(data: ViewData) -> Text:
         out.append(f"Budget {usd(plan.budget.usd_per_year)} a year from {year}.", style="italic")
         return out
     t = rm.years[0]
-    steps = rm.steps_in(year)
-    pos = sum(i.amount_usd for s in steps for i in s.incentives if i.kind == "point_of_sale")
-    later = sum(i.amount_usd for s in steps for i in s.incentives if i.kind != "point_of_sale")
     out.append(f"{year}: ", style="bold")
-    out.append(f"{usd(t.spend_usd - pos)} out of pocket", style="bold")
+    out.append(f"{usd(t.net_usd)} out of pocket", style="bold")
     budget = (plan.budget.by_year or {}).get(year, plan.budget.usd_per_year)
-    out.append(f" (budget {usd(budget)})")
-    if later:
-        out.append(f"; {usd(later)} comes back later")
-    out.append(".\n")
+    out.append(f" (budget {usd(budget)}): projects {usd(t.spend_usd)}, less {usd(t.incentives_usd)}"
+               " of incentives arriving this year.\n")
     if t.loan_payments_usd:
         out.append(f"Loan payments {usd(t.loan_payments_usd)}. ")
     saving = t.bill_savings_usd
@@ -123,29 +100,43 @@ def this_year_text(data: ViewData) -> Text:
     return out
 
 
-def electric_text(data: ViewData, width: int) -> Text:
+def fuel_text(data: ViewData, width: int) -> Text:
+    """One line per fossil fuel: what it costs each year it is still bought, and when its
+    service, tank or last car goes."""
     out = Text()
-    items = fossil_items(data)
-    if not items:
-        out.append("Already fully electric: nothing in the home burns fuel.", style="bold")
+    result = data.result
+    if result is None:
+        out.append("Waiting for the planner.", style="italic")
         return out
-    done = replaced_by_year(data)
-    rm = data.roadmap
-    n_done = sum(1 for k in items if k in done)
-    bar_w = max(10, min(30, width - 56))
-    filled = round(bar_w * n_done / len(items))
-    out.append("█" * filled, style="bold")
-    out.append("░" * (bar_w - filled), style="dim")
-    last = rm.last_year if rm else data.plan.first_year + data.plan.budget.horizon_years - 1
-    out.append(f"  {n_done} of {len(items)} fuel-burning items replaced by {last}\n")
-    if rm is not None:
-        if rm.milestones:
-            out.append(" · ".join(f"{m.year} {m.label.lower()}" for m in rm.milestones))
-            out.append("\n")
-        if not any(m.kind == "fully_electric" for m in rm.milestones):
-            left = [k for k in items if k not in done]
-            if left:
-                out.append(f"Still burning fuel after {last}: {', '.join(left)}\n")
+    lines = fossil_lines(result)
+    if not lines:
+        out.append("Already fully electric: the household buys no gas, oil, propane or gasoline.",
+                   style="bold")
+        return out
+    years = lines[0].years
+    last = max((ln.last_year or years[0]) for ln in lines)
+    shown = [y for y in years if y <= min(last + 1, years[-1])]
+    label_w, cell = 12, 5
+    long = width >= 100
+    end_w = 24 if long else 14
+    room = max(1, (width - 8 - label_w - end_w) // cell)
+    cut = len(shown) > room
+    shown = shown[:room]
+    out.append(" " * label_w + "".join(f"{y:>{cell}}" for y in shown) + (" …" if cut else ""),
+               style="dim")
+    out.append("\n")
+    for ln in lines:
+        out.append(ln.label.ljust(label_w), style="bold")
+        for y in shown:
+            cost = ln.costs_usd[ln.years.index(y)]
+            out.append(f"{money_short(cost) if cost > 0.5 else '·':>{cell}}",
+                       style="" if cost > 0.5 else "dim")
+        out.append("  " + ln.ending(long) + "\n")
+    out.append("US dollars a year (k = thousand), fixed charges included; · no longer bought.",
+               style="italic")
+    fully = next((m for m in data.roadmap.milestones if m.kind == "fully_electric"), None)
+    if fully is not None:
+        out.append(f" Fully electric in {fully.year}.", style="italic")
     return out
 
 
@@ -155,15 +146,17 @@ class OverviewView(View):
     def compose(self) -> ComposeResult:
         yield Static("", id="overview-banner", classes="banner")
         with VerticalScroll(id="overview-scroll"):
+            yield Static("", id="changes-box", classes="box")
             yield Static("", id="next-box", classes="box")
             yield Static("", id="year-box", classes="box")
             yield Static("", id="electric-box", classes="box")
             yield Static(Text(ESTIMATES, style="italic"), classes="estimates")
 
     def on_mount(self) -> None:
+        self.query_one("#changes-box").border_title = "What your last change did"
         self.query_one("#next-box").border_title = "What to do next"
         self.query_one("#year-box").border_title = "What it costs this year"
-        self.query_one("#electric-box").border_title = "How far from fully electric"
+        self.query_one("#electric-box").border_title = "Fuel still bought, and when it stops"
 
     def show(self, data: ViewData) -> None:
         banner = self.query_one("#overview-banner", Static)
@@ -171,8 +164,11 @@ class OverviewView(View):
         banner.update(text or "")
         banner.display = text is not None
         width = self.app.size.width
+        changes = self.query_one("#changes-box", Static)
+        changes.display = bool(data.changes) and not data.planning
+        changes.update(changes_text(data))
         for wid, text in (("#next-box", next_text(data, width)), ("#year-box", this_year_text(data)),
-                          ("#electric-box", electric_text(data, self.app.size.width))):
+                          ("#electric-box", fuel_text(data, width))):
             text.rstrip()
             self.query_one(wid, Static).update(text)
 

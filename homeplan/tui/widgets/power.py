@@ -11,7 +11,8 @@ from textual.widgets import DataTable, Static
 
 from homeplan.catalog import cautions
 from homeplan.report.fmt import service_verdict
-from homeplan.tui.format import num, trunc
+from homeplan.report.words import load_words, short_words
+from homeplan.tui.format import num, trunc, wrap_cell
 from homeplan.tui.widgets.base import View, ViewData, banner_text
 
 if TYPE_CHECKING:
@@ -39,12 +40,14 @@ def state_details(state: CapacityState, width: int) -> Text:
         return out
     name_w = max(18, min(40, width - 44))
     prefix = " ".join(state.method.split()[:2]) + " "  # "NEC 2023 "
-    out.append(f"{'Load':<{name_w}} {'VA':>8} {'factor':>7} {'counted':>9}  section\n",
+    out.append("Each load in VA (volt-amperes, about watts); the code counts a share of some.\n",
+               style="italic")
+    out.append(f"{'Load':<{name_w}} {'rated':>8} {'share':>7} {'counted':>9}  code section\n",
                style="bold")
     for r in state.rows:
-        factor = "" if r.factor is None else f"{r.factor:.2f}"
+        factor = "" if r.factor is None else f"{r.factor * 100:.0f} %"
         counted = "" if r.counted_va is None else f"{r.counted_va:,.0f}"
-        out.append(f"{trunc(r.name, name_w):<{name_w}} {r.va:>8,.0f} {factor:>7} "
+        out.append(f"{trunc(load_words(r.name), name_w):<{name_w}} {r.va:>8,.0f} {factor:>7} "
                    f"{counted:>9}  {r.section.removeprefix(prefix)}\n")
     out.append(f"{'Total':<{name_w}} {'':>8} {'':>7} {state.total_va:>9,.0f}  "
                f"= {state.amps:.0f} A on a {state.service_amps:.0f} A service: "
@@ -82,7 +85,8 @@ class PowerView(View):
         keep = table.cursor_row
         table.clear(columns=True)
         wide = self.app.size.width >= 100
-        table.add_column("When", width=34 if wide else 24, key="when")
+        when_w = 34 if wide else max(24, self.app.size.width - 46)  # the numbers take about 44
+        table.add_column("When", width=when_w, key="when")
         for key, label in (("load", "Load A"), ("service", "Service A"), ("head", "Headroom A"),
                            ("fits", "Fits")):
             table.add_column(Text(label, justify="right"), key=key)
@@ -92,12 +96,14 @@ class PowerView(View):
         for i, s in enumerate(self.states):
             fits = (Text("NO", style="bold reverse") if not s.fits else
                     Text(f"near {s.load_pct:.0f}%", style="bold") if s.near_limit else Text("yes"))
-            table.add_row(Text(trunc(s.label, 34 if wide else 24)),
+            label = wrap_cell(s.label if len(s.label) <= when_w else short_words(s.label), when_w)
+            table.add_row(Text(label),
                           Text(num(s.amps), justify="right"),
                           Text(num(s.service_amps), justify="right"),
                           Text(num(s.headroom_amps), justify="right",
                                style="" if s.headroom_amps is None or s.headroom_amps >= 0 else "bold"),
-                          fits, *([Text(trunc(s.remedy or "-", 40))] if wide else []), key=str(i))
+                          fits, *([Text(trunc(s.remedy or "-", 40))] if wide else []), key=str(i),
+                          height=label.count("\n") + 1)
         if self.states:
             table.move_cursor(row=min(max(keep, 0), len(self.states) - 1), animate=False,
                               scroll=False)

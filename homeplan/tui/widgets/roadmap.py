@@ -11,8 +11,9 @@ from textual.containers import VerticalScroll
 from textual.widgets import DataTable, Static
 
 from homeplan.catalog import cautions as caution_texts
+from homeplan.report.words import cost_source_words, fit_labels, size_words
 from homeplan.tui.actions import bindings
-from homeplan.tui.format import ESTIMATES, kusd_fit, trunc, usd
+from homeplan.tui.format import ESTIMATES, kusd_fit, trunc, usd, when
 from homeplan.tui.widgets.base import (
     View,
     ViewData,
@@ -78,7 +79,7 @@ def _money_lines(step: Step) -> list[str]:
         if inc.kind == "point_of_sale":
             continue
         lines.append(f"Then {usd(inc.amount_usd)} {inc.kind.replace('_', ' ')} from {inc.program}, "
-                     f"arriving {inc.arrives}.")
+                     f"arriving {when(inc.arrives)}.")
     lines.append(f"Net after all incentives: {usd(step.net_cost_usd)}.")
     if step.financed_usd:
         lines.append(f"Paid by a loan: {usd(step.financed_usd)}.")
@@ -98,9 +99,10 @@ def row_details(data: ViewData, row: Row) -> Text:
     out.append("\n")
     info = row.info
     if row.step and (row.step.variant or row.step.size):
-        out.append(" ".join(x for x in (row.step.variant, row.step.size) if x) + "\n")
+        out.append(", ".join(x for x in (row.step.variant, row.step.size) if x) + "\n")
     elif info and info.variant_label:
-        out.append(f"{info.variant_label}, {info.size:g} {info.size_unit}\n")
+        out.append(", ".join(x for x in (info.variant_label, size_words(info.size, info.size_unit))
+                             if x) + "\n")
     if row.pinned is not None:
         out.append(f"You pinned it to {row.pinned} (r releases it).\n")
     if row.excluded:
@@ -113,7 +115,8 @@ def row_details(data: ViewData, row: Row) -> Text:
             for reason in row.step.reasons:
                 out.append(f"  - {reason}\n")
     elif info is not None:
-        out.append(f"Cost today about {usd(info.cost_usd)} before incentives ({info.cost_source}).\n")
+        out.append(f"Cost today about {usd(info.cost_usd)} before incentives "
+                   f"({cost_source_words(info.cost_source)}).\n")
         if not row.excluded:
             out.append("The planner did not place it within the horizon; p pins it to a year.\n")
     texts = caution_texts(data.plan.home.electrical.code_edition)
@@ -213,10 +216,10 @@ class RoadmapView(View):
                   and r.id not in data.moved]
         self.rows = rows if self.show_all else [r for r in rows if r not in hidden]
         self.hidden_count = 0 if self.show_all else len(hidden)
-        for row in self.rows:
+        names = fit_labels([r.label for r in self.rows], label_w - 3)
+        for row, name in zip(self.rows, names, strict=True):
             mark = "▲ " if row.pinned is not None else "✕ " if row.excluded else "  "
-            label = Text(mark + trunc(row.label, label_w - 2),
-                         style="dim" if row.excluded or row.step is None else "")
+            label = Text(mark + name + " ", style="dim" if row.excluded or row.step is None else "")
             cells: list[Text] = [label]
             moved_from = data.moved.get(row.id, "absent") if row.id in data.moved else "absent"
             for y in years:
@@ -236,7 +239,7 @@ class RoadmapView(View):
             base = rm.baseline("do_nothing")
             base_cum = {t.year: t.cumulative_usd for t in base.years} if base else {}
             for key, label, _ in TOTAL_ROWS:
-                cells = [Text("Σ " + trunc(label, label_w - 2), style="bold")]
+                cells = [Text("Σ " + trunc(label, label_w - 3) + " ", style="bold")]
                 for y in years:
                     t = totals.get(y)
                     if t is None:
@@ -321,7 +324,8 @@ class RoadmapView(View):
         out = Text()
         row = self.current_row()
         if row is not None and row.info is not None:
-            out.append(f"{row.info.label}: cost {usd(row.info.cost_usd)} from {row.info.cost_source}.\n")
+            out.append(f"{row.info.label}: today's cost {usd(row.info.cost_usd)} before incentives, "
+                       f"from {cost_source_words(row.info.cost_source)}.\n")
         out.append_text(assumptions_text(data))
         out.append("Step years come from the scheduler; reasons are its own explanation.")
         return out
