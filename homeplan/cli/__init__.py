@@ -45,6 +45,8 @@ def _preflight(args) -> None:
     for path in paths:
         if path is None or (args.command == "open" and not os.path.lexists(path)):
             continue  # open without a file, or a new plan: nothing to read
+        if args.command == "open" and (os.path.isdir(path) or str(path).endswith(".sqlite")):
+            continue  # a portfolio's results: the app checks its store before opening it read-only
         preflight(path, allow, named=args.command in _READ_NAMED)
 
 
