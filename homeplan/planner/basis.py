@@ -409,8 +409,10 @@ def home_basis(plan: Plan, base_dir: PlanFolder | Path | None = None,
             notes = [f"heat loss fitted to your meter's daily use; the house needs heat below "
                      f"about {spec.heating_balance_f:g} F outdoors"]
     notes = [*notes, *fit_notes, *rating_notes(plan)]
-    if bill_weather:
+    if bill_weather and fits:
         wnote += f"; bills fitted under the billed year's weather ({bill_weather})"
+    elif bill_weather and meter_fit is not None:
+        wnote += f"; the meter's days fitted under the weather of the metered period ({bill_weather})"
     if not electric_bills and (meter_fit is None or "plug" not in meter_fit.calibrated):
         notes.append("no electric bills: other plug loads use the default "
                      f"{spec.plug_kwh_per_yr:,.0f} kWh a year")

@@ -645,7 +645,7 @@ def _calibrate_to_days(spec: HomeEnergySpec, site: SiteCache, metered: ChangePoi
             "the metered days hold no heating weather"))
     elif metered.heating_kwh_per_f_day > 0:
         notes.append(f"the meter's electric use rises {metered.heating_kwh_per_f_day:.2f} kWh per heating degree "
-                     f"day, the model's {model.heating_kwh_per_f_day:.2f} (furnace or boiler fans and pumps): "
+                     f"day, the model's {model.heating_kwh_per_f_day:.2f}: "
                      "the home is not heated by electricity, so only its base load is taken from the meter")
     if spec.cooling_load_multiplier != start.cooling_load_multiplier:
         taken.append("cooling")

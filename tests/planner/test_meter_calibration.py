@@ -170,3 +170,33 @@ def test_an_electrically_heated_homes_heat_loss_follows_the_meter(tmp_path) -> N
     model_base, model_slope = _line(model_daily, temp, m.heating_balance_f)
     assert model_slope == pytest.approx(m.heating_kwh_per_f_day, rel=0.05)
     assert model_base == pytest.approx(m.base_load_kw * 24, rel=0.05)
+
+
+def test_an_air_conditioned_homes_cooling_gains_follow_the_meter(tmp_path) -> None:
+    from homeplan.planner.basis import load_weather
+
+    path = _plan(tmp_path, "summer.csv")
+    weather, _ = load_weather(load_plan(path).plan, None)
+    first, days = 151, 92                                    # 1 June - 31 August
+    temp = np.asarray(weather.temp_f).reshape(365, 24).mean(axis=1)[first:first + days]
+    # invented summer days of the gas-heated home with central air: 14 kWh a day plus 1.2 kWh per
+    # degree day above 68 F, spread over the hours
+    base, slope, cool_f = 14.0, 1.2, 68.0
+    daily = base + slope * np.maximum(temp - cool_f, 0)
+    t0 = int((dt.datetime(2025, 6, 1) - EPOCH).total_seconds())
+    s = IntervalSeries(t0 + 3600 * np.arange(days * 24, dtype=np.int64), np.repeat(daily / 24, 24), 3600,
+                       -6 * 3600, "summer")
+    (tmp_path / "summer.csv").write_text(write_green_button_csv(s))
+    r = plan_roadmap(load_plan(path))
+    m = r.roadmap.meter
+    assert m.cooling_balance_f == pytest.approx(cool_f, abs=1.0)
+    assert m.cooling_kwh_per_f_day == pytest.approx(slope, rel=0.02)
+    assert "cooling" in m.calibrated and "heating" not in m.calibrated
+    assert any("cooling response scaled to the meter's" in w for w in r.warnings)
+    # the calibrated model on the same days, fitted by numpy least squares: the meter's line
+    (today,) = [h for h in r.hourly if h.label == "today"]
+    model_daily = np.asarray(today.grid_import_kw).reshape(365, 24).sum(axis=1)[first:first + days]
+    x = np.column_stack([np.ones(days), np.maximum(temp - m.cooling_balance_f, 0)])
+    (model_base, model_slope), *_ = np.linalg.lstsq(x, model_daily, rcond=None)
+    assert model_slope == pytest.approx(m.cooling_kwh_per_f_day, rel=0.05)
+    assert model_base == pytest.approx(m.base_load_kw * 24, rel=0.05)
