@@ -14,7 +14,8 @@ bills), :func:`fit_to_meter` calibrates the same parts from the meter's complete
 change-point model of the metered days against their weather gives the base load and the
 heating and cooling response, and the model of today's home, run under the same weather and
 fitted the same way, is scaled to match them (other plug loads from the base load; for an
-electrically heated or cooled home, the heat loss and the cooling gains from the slopes).
+electrically heated or cooled home, the heat loss and the cooling gains from the slopes; for a
+home heated by fuel, its furnace's or boiler's fan and pump electricity from the heating slope).
 
 Bills of a year with its own weather file are fitted under that weather and the fitted home is
 then run in the typical year (weather normalisation). Electric bills of a home with solar are
@@ -37,6 +38,7 @@ from homeplan.energy import calibrate
 from homeplan.energy._data import calibration_setting
 from homeplan.energy.appliances import cooking_annual_input, dryer_annual_input
 from homeplan.energy.calibrate import Calibration, fit_scales, fit_statistics
+from homeplan.energy.heating import FurnaceSpec
 from homeplan.energy.meter import (
     ChangePoint,
     IntervalSeries,
@@ -524,8 +526,9 @@ def fit_to_meter(series: IntervalSeries, spec: HomeEnergySpec, site: SiteCache,
     home is run under the same weather and fitted at the same balance points; then, each within
     the bounds of the bill fit: the other plug loads take the difference of the base loads; an
     electric heating system's heat loss (and balance temperature) and an electric cooling
-    system's gains are scaled by the ratio of the metered to the modelled slope. Three rounds,
-    since the parts interact. A response the metered days hold no weather for is left as it was.
+    system's gains are scaled by the ratio of the metered to the modelled slope; a furnace's or
+    boiler's fan and pump electricity per therm delivered takes the difference of the heating
+    slopes. Three rounds, since the parts interact. A response the metered days hold no weather for is left as it was.
 
     Parameters
     ----------
@@ -577,7 +580,8 @@ def fit_to_meter(series: IntervalSeries, spec: HomeEnergySpec, site: SiteCache,
     work = replace(spec, weather=fit_site.weather) if bill_site is not None else spec
     taken: list[str] = []
     if not calibrate_model:
-        notes.append("the electric bills calibrate the model; the meter's daily fit is shown, not used")
+        notes.append("the model is fitted to the year's electric use (twelve months of the meter, or the "
+                     "bills); the meter's daily fit is shown, not used")
     elif kwh.size < MIN_METER_DAYS:
         notes.append(f"the meter file holds {kwh.size} complete days; at least {MIN_METER_DAYS} are needed "
                      "to calibrate the model from them: the default plug loads stay")
@@ -600,7 +604,7 @@ def fit_to_meter(series: IntervalSeries, spec: HomeEnergySpec, site: SiteCache,
 
 def _calibrate_to_days(spec: HomeEnergySpec, site: SiteCache, metered: ChangePoint,
                        temp: np.ndarray, doy: np.ndarray) -> tuple[HomeEnergySpec, list[str], list[str]]:
-    """Scale plug loads, heat loss and cooling gains so that the model's change-point fit on the
+    """Scale plug loads, heat loss, fan use and cooling gains so that the model's change-point fit on the
     metered days matches the meter's: (spec, what was taken, notes)."""
     start = spec
     electric_heat = _heating_engine_fuel(spec) == "electricity"
@@ -613,6 +617,8 @@ def _calibrate_to_days(spec: HomeEnergySpec, site: SiteCache, metered: ChangePoi
     ua_lo, ua_hi = _bounds("ua")
     cool_lo, cool_hi = _bounds("cooling")
     floor = calibration_setting("plug_floor_kwh")
+    fan_max = calibration_setting("fan_max_kwh_per_therm")
+    fans = isinstance(spec.heating, FurnaceSpec) and metered.heating_kwh_per_f_day > 0 and heat_days
     for _ in range(3):
         model = change_point_fit(_model_days(spec, site, doy), temp, metered.heating_balance_f,
                                  metered.cooling_balance_f)
@@ -623,6 +629,11 @@ def _calibrate_to_days(spec: HomeEnergySpec, site: SiteCache, metered: ChangePoi
         if electric_heat and metered.heating_kwh_per_f_day > 0 and model.heating_kwh_per_f_day > 0:
             ua = spec.ua_btuh_f * metered.heating_kwh_per_f_day / model.heating_kwh_per_f_day
             changes["ua_btuh_f"] = float(np.clip(ua, start.ua_btuh_f * ua_lo, start.ua_btuh_f * ua_hi))
+        if fans:  # fuel heat: the furnace's blower or the boiler's pump is the electric heating response
+            therms_per_f_day = spec.ua_btuh_f * 24.0 / 1e5
+            aux = spec.heating.aux_kwh_per_therm_out + (
+                metered.heating_kwh_per_f_day - model.heating_kwh_per_f_day) / therms_per_f_day
+            changes["heating"] = replace(spec.heating, aux_kwh_per_therm_out=float(np.clip(aux, 0.0, fan_max)))
         if spec.cooling is not None and metered.cooling_kwh_per_f_day > 0 and model.cooling_kwh_per_f_day > 0:
             m = spec.cooling_load_multiplier * metered.cooling_kwh_per_f_day / model.cooling_kwh_per_f_day
             changes["cooling_load_multiplier"] = float(np.clip(m, cool_lo, cool_hi))
@@ -643,10 +654,12 @@ def _calibrate_to_days(spec: HomeEnergySpec, site: SiteCache, metered: ChangePoi
         notes.append("the heating response is not taken from the meter: " + (
             "the metered days show no rise of use in the cold" if heat_days else
             "the metered days hold no heating weather"))
-    elif metered.heating_kwh_per_f_day > 0:
-        notes.append(f"the meter's electric use rises {metered.heating_kwh_per_f_day:.2f} kWh per heating degree "
-                     f"day, the model's {model.heating_kwh_per_f_day:.2f}: "
-                     "the home is not heated by electricity, so only its base load is taken from the meter")
+    if spec.heating != start.heating and fans:
+        taken.append("heating_fan")
+        aux = spec.heating.aux_kwh_per_therm_out
+        capped = " (held at the most a fan plausibly uses)" if aux >= fan_max else ""
+        notes.append(f"the {spec.heating.kind}'s fan and pump electricity taken from the meter's heating response: "
+                     f"{aux:.2f} kWh per therm of heat delivered{capped}")
     if spec.cooling_load_multiplier != start.cooling_load_multiplier:
         taken.append("cooling")
         notes.append(f"cooling response scaled to the meter's: cooling gains "

@@ -79,7 +79,8 @@ class MeterSummary:
         period's weather, or ``typical year`` (matched by day of the year).
     calibrated : tuple of str
         What of the model of today's home was taken from the meter's days (``plug``,
-        ``heating``, ``cooling``; empty: nothing, e.g. twelve months or bills calibrate it).
+        ``heating``, ``heating_fan``, ``cooling``; empty: nothing, e.g. twelve months or bills
+        calibrate it).
     daily_nmbe_pct : float or None
         NMBE of the model's daily grid draw against the meter's complete days, % (same weather).
     daily_cv_rmse_pct : float or None

@@ -20,7 +20,7 @@ import numpy as np
 import pytest
 
 from homeplan import load_plan, plan_roadmap
-from homeplan.energy.meter import IntervalSeries, write_green_button_csv
+from homeplan.energy.meter import IntervalSeries, write_espi_xml, write_green_button_csv
 
 from ..conftest import ROOT
 from ..energy.meter_example import EXAMPLE, example_daily_mean_f, example_series
@@ -76,7 +76,7 @@ def january_weather(tmp_path_factory):
     path = _plan(tmp, "jan.xml")
     path.write_text(path.read_text().replace("  meter_file: jan.xml\n",
                                              "  meter_file: jan.xml\n  weather_file: jan_weather.csv\n"))
-    return plan_roadmap(load_plan(path))
+    return plan_roadmap(load_plan(path)), path
 
 
 @pytest.fixture(scope="module")
@@ -87,7 +87,7 @@ def january(tmp_path_factory):
 
 
 def test_the_daily_fit_uses_the_weather_of_the_metered_days(january_weather, january) -> None:
-    m = january_weather.roadmap.meter
+    m = january_weather[0].roadmap.meter
     daily = _daily_reference(example_series())
     temp = example_daily_mean_f()
     assert m.fit_weather == "jan_weather.csv"
@@ -103,14 +103,45 @@ def test_the_daily_fit_uses_the_weather_of_the_metered_days(january_weather, jan
     se = np.sqrt((resid ** 2).sum() / (x.size - 2) / ((x - x.mean()) ** 2).sum())
     assert m.heating_balance_f == 65.0 and abs(m.heating_kwh_per_f_day - 0.24) <= 2 * se
     assert m.fit_r2 > 0.3
-    # a gas-heated home: its fans' response is not scaled, and the note says how far apart they are
-    assert m.calibrated == ("plug",)
-    assert any("not heated by electricity, so only its base load" in n for n in m.notes)
+    # a gas-heated home: the furnace's fan electricity carries the heating response
+    assert m.calibrated == ("plug", "heating_fan")
+    assert any("furnace's fan and pump electricity taken from the meter" in n for n in m.notes)
     # against the typical year the same days show no heating response, and the notes say so
     t = january.roadmap.meter
     assert t.fit_weather == "typical year" and t.fit_r2 < 0.1
     assert any("typical weather year" in n and "not the weather of the metered days" in n for n in t.notes)
     assert any("weather of the metered period (jan_weather.csv" in n for n in m.notes)
+
+
+def test_the_calibrated_model_follows_the_meter_under_the_metered_weather(january_weather) -> None:
+    # the model of today's home as calibrated, run under the weather of the metered period: its
+    # January days fitted by numpy least squares at the meter's balance point give the meter's line
+    from dataclasses import replace
+
+    from homeplan.energy.simulate import SiteCache, simulate
+    from homeplan.planner.basis import home_basis, read_weather_file
+    from homeplan.planner.meter import read_meter
+
+    result, path = january_weather
+    m = result.roadmap.meter
+    loaded = load_plan(path)
+    plan, reading = read_meter(loaded.plan, loaded.folder)
+    basis = home_basis(plan, loaded.folder, meter=reading.series)
+    metered = read_weather_file(loaded.folder, "jan_weather.csv", ("usage", "weather_file"))
+    metered = replace(metered, heating_design_f=basis.weather.heating_design_f,
+                      cooling_design_f=basis.weather.cooling_design_f)
+    r = simulate(replace(basis.base, weather=metered), SiteCache(metered))
+    model_daily = np.asarray(r.grid_import_kw).reshape(365, 24).sum(axis=1)[:31]
+    temp = example_daily_mean_f()
+    base, slope = _line(model_daily, temp, m.heating_balance_f)
+    assert slope == pytest.approx(m.heating_kwh_per_f_day, rel=0.05)
+    assert base == pytest.approx(m.base_load_kw * 24, rel=0.05)
+    # graded as ASHRAE Guideline 14 grades a calibrated model (n - p, p = 1), computed here
+    daily = _daily_reference(example_series())
+    n = daily.size
+    assert m.daily_nmbe_pct == pytest.approx((daily - model_daily).sum() / ((n - 1) * daily.mean()) * 100, abs=0.05)
+    cv = np.sqrt(((daily - model_daily) ** 2).sum() / (n - 1)) / daily.mean() * 100
+    assert m.daily_cv_rmse_pct == pytest.approx(cv, abs=0.05)
 
 
 def test_under_twelve_months_the_plug_loads_come_from_the_meters_base_load(january) -> None:
@@ -200,3 +231,26 @@ def test_an_air_conditioned_homes_cooling_gains_follow_the_meter(tmp_path) -> No
     (model_base, model_slope), *_ = np.linalg.lstsq(x, model_daily, rcond=None)
     assert model_slope == pytest.approx(m.cooling_kwh_per_f_day, rel=0.05)
     assert model_base == pytest.approx(m.base_load_kw * 24, rel=0.05)
+
+
+def test_ten_days_are_fitted_but_do_not_calibrate(tmp_path) -> None:
+    # fewer than 14 complete days (common practice, no source): the fit is shown, the default
+    # plug loads stay, and the notes say why; the totals are pandas' daily sums
+    s = example_series(10)
+    (tmp_path / "ten.xml").write_text(write_espi_xml(s))
+    r = plan_roadmap(load_plan(_plan(tmp_path, "ten.xml")))
+    m = r.roadmap.meter
+    assert m.calibrated == () and m.base_load_kw is not None
+    assert m.total_kwh == pytest.approx(float(_daily_reference(s).sum()), abs=1e-6)
+    assert any("holds 10 complete days; at least 14" in w for w in r.warnings)
+    assert any("plug loads use the default" in w for w in r.warnings)
+
+
+def test_twelve_months_fit_the_bills_and_the_daily_fit_is_only_shown(tmp_path) -> None:
+    from .test_meter_plan import _year_hourly
+
+    (tmp_path / "year.csv").write_text(write_green_button_csv(_year_hourly()))
+    r = plan_roadmap(load_plan(_plan(tmp_path, "year.csv")))
+    m = r.roadmap.meter
+    assert m.monthly_kwh is not None and m.calibrated == ()
+    assert any("the meter's daily fit is shown, not used" in w for w in r.warnings)
