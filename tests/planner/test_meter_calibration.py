@@ -254,3 +254,17 @@ def test_twelve_months_fit_the_bills_and_the_daily_fit_is_only_shown(tmp_path) -
     m = r.roadmap.meter
     assert m.monthly_kwh is not None and m.calibrated == ()
     assert any("the meter's daily fit is shown, not used" in w for w in r.warnings)
+
+
+def test_metered_days_land_on_the_days_of_a_365_day_year() -> None:
+    # across a leap day: pandas' day_of_year is the reference; 29 February is left out
+    import pandas as pd
+
+    from homeplan.planner.calibration import _day_index
+
+    days = pd.date_range("2024-02-25", "2025-01-03", freq="D")
+    doy, keep = _day_index(tuple(d.date() for d in days))
+    kept = days[~((days.month == 2) & (days.day == 29))]
+    expected = kept.day_of_year - 1 - (kept.is_leap_year & (kept.month > 2))
+    np.testing.assert_array_equal(doy, expected.to_numpy())
+    assert keep.sum() == days.size - 1 and doy.max() == 364
