@@ -18,6 +18,7 @@ from pathlib import Path
 from types import MappingProxyType
 from typing import TYPE_CHECKING, Any, TypeVar
 
+from homeplan.energy.meter import IntervalSeries
 from homeplan.energy.simulate import EnergyResult, HomeEnergySpec
 from homeplan.plan.files import PlanFolder
 from homeplan.plan.model import Plan
@@ -81,13 +82,16 @@ class PlannerCache:
         self.max_states = max_states
         self.shared = shared
 
-    def basis(self, plan: Plan, base_dir: PlanFolder | Path | None) -> tuple[str, HomeBasis]:
-        """The home's basis (weather, heat loss, today's spec) and its content key."""
+    def basis(self, plan: Plan, base_dir: PlanFolder | Path | None,
+              meter: tuple[str, IntervalSeries] | None = None) -> tuple[str, HomeBasis]:
+        """The home's basis (weather, heat loss, today's spec) and its content key; ``meter`` is
+        the meter file's readings with their content key, when the plan names one."""
         key = content_key(plan.home.model_dump(mode="json"),
                           [a.model_dump(mode="json") for a in plan.appliances],
                           [v.model_dump(mode="json") for v in plan.vehicles],
                           plan.usage.model_dump(mode="json") if plan.usage else None,
-                          plan.prices.model_dump(mode="json", exclude=_NOT_IN_BASIS), str(base_dir))
+                          plan.prices.model_dump(mode="json", exclude=_NOT_IN_BASIS), str(base_dir),
+                          *((meter[0],) if meter else ()))
         with self._lock:
             hit = self._basis.get(key)
         if hit is None:
@@ -98,7 +102,7 @@ class PlannerCache:
             if self.shared is not None:
                 p = self.shared.place(plan, base_dir, make_year, keep)
                 place = (p.weather, p.note, p.solar)
-            hit = home_basis(plan, base_dir, make_year, keep, place)
+            hit = home_basis(plan, base_dir, make_year, keep, place, meter[1] if meter else None)
             with self._lock:
                 self._basis = {key: hit}  # one home per cache: drop other homes
                 self._states.clear()
