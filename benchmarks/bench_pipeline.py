@@ -33,8 +33,8 @@ from homeplan.plan.load import load_plan, validate_document  # noqa: E402
 from homeplan.plan.save import set_in  # noqa: E402
 
 
-def _child(args: list[str], store: str) -> tuple[float, float]:
-    """Wall seconds and max resident MB of ``homeplan ARGS`` in a fresh interpreter."""
+def _child(args: list[str], store: str) -> tuple[float, float, float]:
+    """Wall seconds, max resident MB and CPU seconds of ``homeplan ARGS`` in a fresh interpreter."""
     env = {**os.environ, "HOMEPLAN_CACHE_DIR": store}
     t = time.perf_counter()
     proc = subprocess.Popen([sys.executable, "-m", "homeplan.cli", *args], env=env,
@@ -44,7 +44,7 @@ def _child(args: list[str], store: str) -> tuple[float, float]:
     proc.returncode = os.waitstatus_to_exitcode(status)
     if proc.returncode != 0:
         raise SystemExit(f"homeplan {' '.join(args)} failed with exit code {proc.returncode}")
-    return wall, usage.ru_maxrss / 1024.0  # KiB on Linux
+    return wall, usage.ru_maxrss / 1024.0, usage.ru_utime + usage.ru_stime  # KiB on Linux
 
 
 def _stats(values: list[float], scale: float = 1000.0) -> str:
@@ -92,20 +92,25 @@ def main() -> None:
     print(f"{'sample':24s} {'first run':>17s} {'fresh plan':>17s} {'check':>17s} {'MB':>5s} "
           f"{'budget':>17s} {'pin':>17s} {'budget 30y':>17s} {'pin 30y':>17s}")
     for path in samples:
-        first, fresh, check, mem = [], [], [], []
+        first, fresh, check, mem, cpu_first, cpu_fresh, cpu_check = [], [], [], [], [], [], []
         for _ in range(args.runs):
             with tempfile.TemporaryDirectory() as store:
-                wall, _mb = _child(["plan", "--json", str(path)], store)
+                wall, _mb, cpu = _child(["plan", "--json", str(path)], store)
                 first.append(wall)
-                wall, mb = _child(["plan", "--json", str(path)], store)
+                cpu_first.append(cpu)
+                wall, mb, cpu = _child(["plan", "--json", str(path)], store)
                 fresh.append(wall)
+                cpu_fresh.append(cpu)
                 mem.append(mb)
-                check.append(_child(["check", str(path)], store)[0])
+                wall, _mb, cpu = _child(["check", str(path)], store)
+                check.append(wall)
+                cpu_check.append(cpu)
         budget, pin = _replans(path, None, args.replans)
         budget30, pin30 = _replans(path, 30, args.replans)
         print(f"{path.stem:24s} {_stats(first):>17s} {_stats(fresh):>17s} {_stats(check):>17s} "
               f"{max(mem):5.0f} {_stats(budget):>17s} {_stats(pin):>17s} {_stats(budget30):>17s} "
               f"{_stats(pin30):>17s}")
+        print(f"{'  CPU time':24s} {_stats(cpu_first):>17s} {_stats(cpu_fresh):>17s} {_stats(cpu_check):>17s}")
     print(f"load average at end {os.getloadavg()[0]:.2f}")
 
 

@@ -43,6 +43,7 @@ __all__ = [
     "IntervalSeries",
     "MeterFileError",
     "change_point_fit",
+    "change_point_search",
     "daily_kwh",
     "hourly_kwh",
     "monthly_kwh",
@@ -799,6 +800,12 @@ class ChangePoint:
         Coefficient of determination, dimensionless.
     days : int
         Days in the fit.
+    heating_balance_f : float
+        Base temperature of the heating degree days (the heating change point), F.
+    cooling_balance_f : float
+        Base temperature of the cooling degree days (the cooling change point), F.
+    sse : float
+        Sum of squared residuals, kWh^2.
     """
 
     base_kwh_per_day: float
@@ -806,6 +813,9 @@ class ChangePoint:
     cooling_kwh_per_f_day: float
     r2: float
     days: int
+    heating_balance_f: float = 65.0
+    cooling_balance_f: float = 65.0
+    sse: float = 0.0
 
     @property
     def base_load_kw(self) -> float:
@@ -813,8 +823,9 @@ class ChangePoint:
         return self.base_kwh_per_day / 24.0
 
 
-def change_point_fit(kwh_per_day: np.ndarray, mean_temp_f: np.ndarray, balance_f: float = 65.0) -> ChangePoint:
-    """Least-squares fit of daily use on heating and cooling degree days (fixed balance point);
+def change_point_fit(kwh_per_day: np.ndarray, mean_temp_f: np.ndarray, balance_f: float = 65.0,
+                     cooling_balance_f: float | None = None) -> ChangePoint:
+    """Least-squares fit of daily use on heating and cooling degree days (fixed balance points);
     a slope is dropped (0) when the days hold no degree days of its kind, or when it comes out
     negative (use that falls as it gets colder is not a heating response), and the rest refitted.
 
@@ -825,7 +836,10 @@ def change_point_fit(kwh_per_day: np.ndarray, mean_temp_f: np.ndarray, balance_f
     mean_temp_f : numpy.ndarray
         Mean outdoor temperature of each day, F.
     balance_f : float
-        Balance point of both degree days, F.
+        Base temperature of the heating degree days (and of the cooling ones unless
+        ``cooling_balance_f`` is given), F.
+    cooling_balance_f : float or None
+        Base temperature of the cooling degree days, F (None: ``balance_f``).
 
     Returns
     -------
@@ -845,8 +859,9 @@ def change_point_fit(kwh_per_day: np.ndarray, mean_temp_f: np.ndarray, balance_f
     t = np.asarray(mean_temp_f, float)
     if y.size < 7:
         raise ValueError("need at least 7 complete days")
+    cool_f = balance_f if cooling_balance_f is None else cooling_balance_f
     hdd = np.maximum(balance_f - t, 0.0)
-    cdd = np.maximum(t - balance_f, 0.0)
+    cdd = np.maximum(t - cool_f, 0.0)
     use = [hdd.sum() > 1.0, cdd.sum() > 1.0]
     while True:
         x = np.column_stack([np.ones_like(y)] + [c for c, u in zip((hdd, cdd), use, strict=True) if u])
@@ -857,9 +872,64 @@ def change_point_fit(kwh_per_day: np.ndarray, mean_temp_f: np.ndarray, balance_f
             break
         use = [u and v >= 0 for u, v in zip(use, signs, strict=True)]  # a falling response is not physical
     pred = x @ coef
+    sse = float(((y - pred) ** 2).sum())
     ss_tot = float(((y - y.mean()) ** 2).sum())
-    r2 = max(1.0 - float(((y - pred) ** 2).sum()) / ss_tot, 0.0) if ss_tot > 0 else 0.0
+    r2 = max(1.0 - sse / ss_tot, 0.0) if ss_tot > 0 else 0.0
     it = iter(coef[1:])
     h = float(next(it)) if use[0] else 0.0
     c = float(next(it)) if use[1] else 0.0
-    return ChangePoint(float(coef[0]), h, c, r2, int(y.size))
+    return ChangePoint(float(coef[0]), h, c, r2, int(y.size), float(balance_f), float(cool_f), sse)
+
+
+def change_point_search(kwh_per_day: np.ndarray, mean_temp_f: np.ndarray,
+                        heating_f: tuple[float, float] = (45.0, 70.0),
+                        cooling_f: tuple[float, float] = (55.0, 80.0), step_f: float = 1.0) -> ChangePoint:
+    """The change-point model of daily use with its balance points fitted: every heating and
+    cooling base temperature on a grid (the cooling one not below the heating one) is fitted by
+    :func:`change_point_fit` and the pair with the least squared error kept (a variable-base
+    degree-day model). Of equal fits (days that cannot tell the balance points apart, e.g. a
+    winter month colder than every base tried) the one nearest the conventional 65 F is kept.
+
+    Parameters
+    ----------
+    kwh_per_day : numpy.ndarray
+        Energy of each day, kWh.
+    mean_temp_f : numpy.ndarray
+        Mean outdoor temperature of each day, F.
+    heating_f : tuple of float
+        Lowest and highest heating base temperature tried, F.
+    cooling_f : tuple of float
+        Lowest and highest cooling base temperature tried, F.
+    step_f : float
+        Grid step, F.
+
+    Returns
+    -------
+    ChangePoint
+        Base, slopes, balance points and fit.
+
+    Raises
+    ------
+    ValueError
+        If fewer than 7 days are given.
+
+    References
+    ----------
+    ASHRAE Guideline 14-2014, change-point (3P, 4P, 5P) models of energy use against outdoor
+    temperature (from memory); Fels (1986), PRISM (the reference temperature fitted to the data).
+    """
+    t = np.asarray(mean_temp_f, float)
+    best: ChangePoint | None = None
+    heat_grid = np.arange(heating_f[0], heating_f[1] + step_f / 2, step_f)
+    cool_grid = np.arange(cooling_f[0], cooling_f[1] + step_f / 2, step_f)
+    def conventional(f: ChangePoint) -> float:
+        return abs(f.heating_balance_f - 65.0) + abs(f.cooling_balance_f - 65.0)
+
+    for tc in cool_grid:
+        for th in heat_grid[heat_grid <= tc]:
+            fit = change_point_fit(kwh_per_day, t, float(th), float(tc))
+            tol = 1e-9 * max(best.sse if best else 0.0, 1.0)
+            if (best is None or fit.sse < best.sse - tol
+                    or (fit.sse <= best.sse + tol and conventional(fit) < conventional(best))):
+                best = fit
+    return best if best is not None else change_point_fit(kwh_per_day, t, heating_f[0], cooling_f[1])

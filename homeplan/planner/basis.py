@@ -34,10 +34,11 @@ from homeplan.energy.heating import (
     HeatPumpSpec,
     ResistanceHeatSpec,
 )
+from homeplan.energy.meter import IntervalSeries
 from homeplan.energy.rates import ElectricRate, FuelPrice, FuelPrices, TouPeriod
 from homeplan.energy.ratings import eer2_from_eer, hspf2_from_hspf, seer2_from_seer
 from homeplan.energy.simulate import HomeEnergySpec, SiteCache, simulate
-from homeplan.energy.solar import ArrayKeeper, SolarArraySpec
+from homeplan.energy.solar import ArrayKeeper, SolarArraySpec, SolarSite
 from homeplan.energy.vehicles import VehicleSpec
 from homeplan.energy.water import WaterHeaterSpec
 from homeplan.energy.weather import Weather
@@ -47,9 +48,11 @@ from homeplan.plan.fuels import TANK_FUELS, appliance_fuel, engine_fuel
 from homeplan.plan.model import Appliance, Plan
 from homeplan.plan.text import clean
 from homeplan.planner.calibration import (
+    MeterFit,
     appliance_efficiency,
     first_heat_loss,
     fit_to_bills,
+    fit_to_meter,
     heating_appliance,
 )
 from homeplan.planner.lifecycle import appliance_type
@@ -314,6 +317,7 @@ class HomeBasis:
     notes: tuple[str, ...]
     bill_fits: tuple[BillFit, ...] = ()   # how the model reproduces each fuel's bills
     peak: PeakBasis | None = None         # today's peak demand and design-day demand
+    meter_fit: MeterFit | None = None     # the meter's days and what they calibrated
 
     @property
     def design_load_btuh(self) -> float:
@@ -355,9 +359,20 @@ def _bill_year_site(plan: Plan, base_dir: PlanFolder | Path | None,
 
 def home_basis(plan: Plan, base_dir: PlanFolder | Path | None = None,
                make_year: Callable[[wx.ClimateNormals], Weather] | None = None,
-               keep: ArrayKeeper | None = None) -> HomeBasis:
-    """Today's home: weather, solar geometry, heat loss and equipment, fitted to the bills."""
-    weather, wnote = load_weather(plan, base_dir, make_year)
+               keep: ArrayKeeper | None = None,
+               place: tuple[Weather, str, SolarSite] | None = None,
+               meter: IntervalSeries | None = None) -> HomeBasis:
+    """Today's home: weather, solar geometry, heat loss and equipment, fitted to the bills, or
+    to the meter's days (``meter``, the readings of the plan's meter file) when there are no
+    electric bills.
+
+    ``place`` gives the weather year, its note and its solar geometry when they are already
+    known (homes of one place share them: :mod:`homeplan.planner.shared`); otherwise they are
+    loaded for this home alone (``make_year``: see :func:`load_weather`; ``keep``: see
+    :class:`~homeplan.energy.simulate.SiteCache`)."""
+    weather, wnote, solar_site = (place if place is not None
+                                  else (*load_weather(plan, base_dir, make_year), None))
+
     parts = {"water_heater": water_spec_today(plan), "cooking": cooking_spec_today(plan),
              "dryer": dryer_spec_today(plan)}
     cal, notes = first_heat_loss(plan, weather, parts)
@@ -374,7 +389,7 @@ def home_basis(plan: Plan, base_dir: PlanFolder | Path | None = None,
     if plan.home.battery is not None:
         b = plan.home.battery
         battery = BatterySpec(capacity_kwh=b.capacity_kwh, power_kw=b.power_kw)
-    site = SiteCache(weather, keep)
+    site = SiteCache(weather, keep, solar_site)
     spec = HomeEnergySpec(
         weather=weather, ua_btuh_f=float(cal.ua_btuh_f),
         heating=heating_spec_today(plan, float(cal.design_load_btuh)),
@@ -395,10 +410,23 @@ def home_basis(plan: Plan, base_dir: PlanFolder | Path | None = None,
                                   f"{spec.heating_balance_f:g} F)", estimated=False)
         notes = [f"heat loss fitted to your {heat_fit.fuel} bills; the house needs heat below "
                  f"about {spec.heating_balance_f:g} F outdoors"]
+    meter_fit = None
+    electric_bills = any(f.fuel == "electricity" for f in fits)
+    if meter is not None:
+        spec, meter_fit, meter_notes = fit_to_meter(meter, spec, site, bill_site, bill_weather,
+                                                    calibrate_model=not electric_bills)
+        fit_notes = [*fit_notes, *meter_notes]
+        if "heating" in meter_fit.calibrated and heat_fit is None:  # the meter supersedes the first estimate
+            cal = replace(cal, method=f"the meter's daily use (heating needed below {spec.heating_balance_f:g} F)",
+                          estimated=False)
+            notes = [f"heat loss fitted to your meter's daily use; the house needs heat below "
+                     f"about {spec.heating_balance_f:g} F outdoors"]
     notes = [*notes, *fit_notes, *rating_notes(plan)]
-    if bill_weather:
+    if bill_weather and fits:
         wnote += f"; bills fitted under the billed year's weather ({bill_weather})"
-    if not any(f.fuel == "electricity" for f in fits):
+    elif bill_weather and meter_fit is not None:
+        wnote += f"; the meter's days fitted under the weather of the metered period ({bill_weather})"
+    if not electric_bills and (meter_fit is None or "plug" not in meter_fit.calibrated):
         notes.append("no electric bills: other plug loads use the default "
                      f"{spec.plug_kwh_per_yr:,.0f} kWh a year")
     if spec.ua_btuh_f != cal.ua_btuh_f or spec.heating_balance_f != 65.0:
@@ -408,7 +436,7 @@ def home_basis(plan: Plan, base_dir: PlanFolder | Path | None = None,
         cal = replace(cal, ua_btuh_f=spec.ua_btuh_f, design_load_btuh=spec.design_heating_load_btuh)
     peak = peak_basis(plan, spec, simulate(spec, site))
     return HomeBasis(weather=weather, site=site, calibration=cal, base=spec, weather_note=wnote,
-                     notes=tuple(notes), bill_fits=fits, peak=peak)
+                     notes=tuple(notes), bill_fits=fits, peak=peak, meter_fit=meter_fit)
 
 
 # ------------------------------------------------------------------------------ states

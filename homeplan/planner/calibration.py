@@ -9,6 +9,14 @@ so that each fuel's modelled year reproduces its bills - monthly where there are
 bills, the yearly total otherwise. The fit is graded as ASHRAE Guideline 14 grades a calibrated
 simulation (NMBE and CV(RMSE) of the monthly values).
 
+With fewer than twelve complete months of the household's own meter readings (and no electric
+bills), :func:`fit_to_meter` calibrates the same parts from the meter's complete days: a
+change-point model of the metered days against their weather gives the base load and the
+heating and cooling response, and the model of today's home, run under the same weather and
+fitted the same way, is scaled to match them (other plug loads from the base load; for an
+electrically heated or cooled home, the heat loss and the cooling gains from the slopes; for a
+home heated by fuel, its furnace's or boiler's fan and pump electricity from the heating slope).
+
 Bills of a year with its own weather file are fitted under that weather and the fitted home is
 then run in the typical year (weather normalisation). Electric bills of a home with solar are
 net of its production (or only what was bought, as the plan says): the home's gross use is
@@ -30,6 +38,14 @@ from homeplan.energy import calibrate
 from homeplan.energy._data import calibration_setting
 from homeplan.energy.appliances import cooking_annual_input, dryer_annual_input
 from homeplan.energy.calibrate import Calibration, fit_scales, fit_statistics
+from homeplan.energy.heating import FurnaceSpec
+from homeplan.energy.meter import (
+    ChangePoint,
+    IntervalSeries,
+    change_point_fit,
+    change_point_search,
+    daily_kwh,
+)
 from homeplan.energy.simulate import EnergyResult, HomeEnergySpec, SiteCache, simulate
 from homeplan.energy.units import FUEL_UNITS, btu_per_unit
 from homeplan.energy.water import hot_water_gal_per_day, water_heater_annual_input
@@ -40,6 +56,8 @@ from homeplan.result.roadmap import BillFit
 
 __all__ = [
     "BillSeries",
+    "MeterFit",
+    "fit_to_meter",
     "bill_series",
     "electric_bills_show",
     "first_heat_loss",
@@ -454,3 +472,202 @@ def fit_to_bills(plan: Plan, spec: HomeEnergySpec, site: SiteCache,
         notes.append("the billed year is taken as a typical year (add usage.weather_file with "
                      "that year's weather to normalise the bills)")
     return fitted, fits, notes
+
+
+# ------------------------------------------------------------------------------ the meter's days
+
+MIN_METER_DAYS = 14   # common practice, no source: two weeks of complete days before a daily fit is trusted
+
+
+@dataclass(frozen=True)
+class MeterFit:
+    """The change-point model of the meter's complete days and what it calibrated.
+
+    ``metered`` is the fit of the meter's days against ``weather`` (the file of the metered
+    period's weather, or the typical year matched by day of the year when ``weather_file`` is
+    None); ``modelled`` the same fit, at the same balance points, of the model of today's home
+    on the same days after calibration. ``calibrated`` lists what was taken from the meter
+    (empty: nothing, the reason is in the notes); ``daily_nmbe_pct`` and ``daily_cv_rmse_pct``
+    grade the model's daily use against the meter's (None when the model was not compared);
+    ``notes`` say the same in plain words.
+    """
+
+    metered: ChangePoint
+    modelled: ChangePoint | None
+    weather_file: str | None
+    calibrated: tuple[str, ...]
+    daily_nmbe_pct: float | None
+    daily_cv_rmse_pct: float | None
+    notes: tuple[str, ...] = ()
+
+
+def _day_index(dates: tuple) -> tuple[np.ndarray, np.ndarray]:
+    """Day of a 365-day year (0 = 1 January) of each date, 29 February left out: (index, kept)."""
+    keep = np.array([not (d.month == 2 and d.day == 29) for d in dates], bool)
+    doy = np.array([d.timetuple().tm_yday - 1 - (1 if (d.year % 4 == 0 and d.month > 2) else 0)
+                    for d in dates], dtype=np.int64)   # 1901-2099: every fourth year is a leap year
+    return doy[keep], keep
+
+
+def _model_days(spec: HomeEnergySpec, site: SiteCache, doy: np.ndarray) -> np.ndarray:
+    """The model's grid draw on the given days of the year, kWh per day (what a meter counts)."""
+    r = simulate(spec, site)
+    return np.asarray(r.grid_import_kw, float).reshape(365, 24).sum(axis=1)[doy]
+
+
+def fit_to_meter(series: IntervalSeries, spec: HomeEnergySpec, site: SiteCache,
+                 bill_site: SiteCache | None = None, bill_weather: str | None = None,
+                 calibrate_model: bool = True) -> tuple[HomeEnergySpec, MeterFit | None, list[str]]:
+    """Today's home calibrated to the meter's complete days.
+
+    The meter's daily use is fitted against the daily mean temperature of the metered days
+    (from ``bill_site``, the weather of the metered period, when the plan gives it; else the
+    typical year by day of the year) with both balance points fitted. The model of today's
+    home is run under the same weather and fitted at the same balance points; then, each within
+    the bounds of the bill fit: the other plug loads take the difference of the base loads; an
+    electric heating system's heat loss (and balance temperature) and an electric cooling
+    system's gains are scaled by the ratio of the metered to the modelled slope; a furnace's or
+    boiler's fan and pump electricity per therm delivered takes the difference of the heating
+    slopes. Three rounds, since the parts interact. A response the metered days hold no weather for is left as it was.
+
+    Parameters
+    ----------
+    series : IntervalSeries
+        The meter's readings, kWh per interval.
+    spec : HomeEnergySpec
+        Today's home in the typical year (after any fit to the bills).
+    site : SiteCache
+        The typical year's cache.
+    bill_site : SiteCache or None
+        The cache of the metered period's weather (``usage.weather_file``); None: the typical year.
+    bill_weather : str or None
+        That weather file's name, for the notes.
+    calibrate_model : bool
+        False to fit and grade only (electric bills already calibrate the model).
+
+    Returns
+    -------
+    spec : HomeEnergySpec
+        Today's home, calibrated when asked and possible, in the typical year.
+    fit : MeterFit or None
+        The fits (None with fewer than 7 complete days).
+    notes : list of str
+        What was taken from the meter, in plain words.
+
+    References
+    ----------
+    ASHRAE Guideline 14-2014, change-point models and calibrated simulation (from memory);
+    Fels (1986), PRISM (variable-base degree days).
+    """
+    dates, kwh = daily_kwh(series)
+    doy, keep = _day_index(dates)
+    kwh = np.asarray(kwh, float)[keep]
+    if kwh.size < 7:
+        return spec, None, ["fewer than 7 complete days in the meter file: no base load or heating "
+                            "and cooling response, and the model is not calibrated from it"]
+    fit_site = bill_site or site
+    temp = np.asarray(fit_site.weather.temp_f, float).reshape(365, 24).mean(axis=1)[doy]
+    metered = change_point_search(kwh, temp)
+    against = (f"the weather of the metered period ({bill_weather}, by day of the year)" if bill_site is not None
+               else "the typical weather year, matched by day of the year, not the weather of the metered "
+                    "days (add usage.weather_file with the weather of the metered period)")
+    heat = (f"{metered.heating_kwh_per_f_day:.2f} kWh per heating degree day below {metered.heating_balance_f:g} F"
+            if metered.heating_kwh_per_f_day >= 0.005 else "no heating response")
+    cool = (f"{metered.cooling_kwh_per_f_day:.2f} kWh per cooling degree day above {metered.cooling_balance_f:g} F"
+            if metered.cooling_kwh_per_f_day >= 0.005 else "no cooling response")
+    notes = [f"the meter's {kwh.size} complete days against {against}: base load "
+             f"{metered.base_load_kw:.2f} kW, {heat}, {cool} (R2 {metered.r2:.2f})"]
+    work = replace(spec, weather=fit_site.weather) if bill_site is not None else spec
+    taken: list[str] = []
+    if not calibrate_model:
+        notes.append("the model is fitted to the year's electric use (twelve months of the meter, or the "
+                     "bills); the meter's daily fit is shown, not used")
+    elif kwh.size < MIN_METER_DAYS:
+        notes.append(f"the meter file holds {kwh.size} complete days; at least {MIN_METER_DAYS} are needed "
+                     "to calibrate the model from them: the default plug loads stay")
+    else:
+        work, taken, why = _calibrate_to_days(work, fit_site, metered, temp, doy)
+        notes.extend(why)
+    model = _model_days(work, fit_site, doy)
+    modelled = change_point_fit(model, temp, metered.heating_balance_f, metered.cooling_balance_f)
+    nmbe = cv = None
+    if kwh.mean() > 0:
+        stats = fit_statistics(kwh, model, n_params=1)
+        nmbe, cv = stats.nmbe_pct, stats.cv_rmse_pct
+        if taken:
+            notes.append(f"the calibrated model against the meter's {kwh.size} days: NMBE {nmbe:+.1f} %, "
+                         f"CV(RMSE) {cv:.0f} % of daily use")
+    fitted = replace(work, weather=site.weather) if bill_site is not None else work
+    return fitted, MeterFit(metered, modelled, bill_weather if bill_site is not None else None,
+                            tuple(taken), nmbe, cv, tuple(notes)), notes
+
+
+def _calibrate_to_days(spec: HomeEnergySpec, site: SiteCache, metered: ChangePoint,
+                       temp: np.ndarray, doy: np.ndarray) -> tuple[HomeEnergySpec, list[str], list[str]]:
+    """Scale plug loads, heat loss, fan use and cooling gains so that the model's change-point fit on the
+    metered days matches the meter's: (spec, what was taken, notes)."""
+    start = spec
+    electric_heat = _heating_engine_fuel(spec) == "electricity"
+    heat_days = float(np.maximum(metered.heating_balance_f - temp, 0).sum()) > 1.0
+    cool_days = float(np.maximum(temp - metered.cooling_balance_f, 0).sum()) > 1.0
+    notes: list[str] = []
+    if electric_heat and metered.heating_kwh_per_f_day > 0:
+        lo, hi = calibration_setting("balance_min_f"), calibration_setting("balance_max_f")
+        spec = replace(spec, heating_balance_f=float(np.clip(metered.heating_balance_f, lo, hi)))
+    ua_lo, ua_hi = _bounds("ua")
+    cool_lo, cool_hi = _bounds("cooling")
+    floor = calibration_setting("plug_floor_kwh")
+    fan_max = calibration_setting("fan_max_kwh_per_therm")
+    fans = isinstance(spec.heating, FurnaceSpec) and metered.heating_kwh_per_f_day > 0 and heat_days
+    for _ in range(3):
+        model = change_point_fit(_model_days(spec, site, doy), temp, metered.heating_balance_f,
+                                 metered.cooling_balance_f)
+        changes: dict = {}
+        if spec.plug_kwh_per_yr > 0:
+            plug = spec.plug_kwh_per_yr + (metered.base_kwh_per_day - model.base_kwh_per_day) * 365.0
+            changes["plug_kwh_per_yr"] = max(plug, floor)
+        if electric_heat and metered.heating_kwh_per_f_day > 0 and model.heating_kwh_per_f_day > 0:
+            ua = spec.ua_btuh_f * metered.heating_kwh_per_f_day / model.heating_kwh_per_f_day
+            changes["ua_btuh_f"] = float(np.clip(ua, start.ua_btuh_f * ua_lo, start.ua_btuh_f * ua_hi))
+        if fans:  # fuel heat: the furnace's blower or the boiler's pump is the electric heating response
+            therms_per_f_day = spec.ua_btuh_f * 24.0 / 1e5
+            aux = spec.heating.aux_kwh_per_therm_out + (
+                metered.heating_kwh_per_f_day - model.heating_kwh_per_f_day) / therms_per_f_day
+            changes["heating"] = replace(spec.heating, aux_kwh_per_therm_out=float(np.clip(aux, 0.0, fan_max)))
+        if spec.cooling is not None and metered.cooling_kwh_per_f_day > 0 and model.cooling_kwh_per_f_day > 0:
+            m = spec.cooling_load_multiplier * metered.cooling_kwh_per_f_day / model.cooling_kwh_per_f_day
+            changes["cooling_load_multiplier"] = float(np.clip(m, cool_lo, cool_hi))
+        spec = replace(spec, **changes)
+    if spec.ua_btuh_f == start.ua_btuh_f:
+        spec = replace(spec, heating_balance_f=start.heating_balance_f)
+    taken: list[str] = []
+    if spec.plug_kwh_per_yr != start.plug_kwh_per_yr:
+        taken.append("plug")
+        floored = " (held at the floor of a home's plug loads)" if spec.plug_kwh_per_yr <= floor else ""
+        notes.append(f"other plug loads set from the meter's base load: {spec.plug_kwh_per_yr:,.0f} kWh a year "
+                     f"in place of the default {start.plug_kwh_per_yr:,.0f}{floored}")
+    if spec.ua_btuh_f != start.ua_btuh_f:
+        taken.append("heating")
+        notes.append(f"heating response scaled to the meter's: heat loss x{spec.ua_btuh_f / start.ua_btuh_f:.2f} "
+                     f"({spec.ua_btuh_f:,.0f} Btu/h-F), heat needed below {spec.heating_balance_f:g} F")
+    elif electric_heat:
+        notes.append("the heating response is not taken from the meter: " + (
+            "the metered days show no rise of use in the cold" if heat_days else
+            "the metered days hold no heating weather"))
+    if spec.heating != start.heating and fans:
+        taken.append("heating_fan")
+        aux = spec.heating.aux_kwh_per_therm_out
+        capped = " (held at the most a fan plausibly uses)" if aux >= fan_max else ""
+        notes.append(f"the {spec.heating.kind}'s fan and pump electricity taken from the meter's heating response: "
+                     f"{aux:.2f} kWh per therm of heat delivered{capped}")
+    if spec.cooling_load_multiplier != start.cooling_load_multiplier:
+        taken.append("cooling")
+        notes.append(f"cooling response scaled to the meter's: cooling gains "
+                     f"x{spec.cooling_load_multiplier / start.cooling_load_multiplier:.2f}")
+    elif spec.cooling is not None:
+        notes.append("the cooling response is not taken from the meter: " + (
+            "the metered days show no rise of use in the heat" if cool_days else
+            "the metered days hold no cooling weather"))
+    if not taken:
+        return start, [], notes
+    return spec, taken, notes

@@ -24,6 +24,7 @@ import numpy as np
 
 from homeplan import catalog
 from homeplan.energy import timegrid
+from homeplan.energy.meter import IntervalSeries
 from homeplan.errors import PlanRuleError
 from homeplan.plan.files import PlanFolder, as_folder
 from homeplan.plan.hashing import content_hash
@@ -99,7 +100,8 @@ def _run(plan: Plan, base_dir: PlanFolder, cache: PlannerCache | None,
     cache = cache or PlannerCache()
     original = plan
     plan, reading = read_meter(plan, base_dir, cache)
-    ctx = adjust.projects(size_projects(adjust.home(prepare_home(plan, base_dir, cache))))
+    meter = (reading.key, reading.series) if reading is not None else None
+    ctx = adjust.projects(size_projects(adjust.home(prepare_home(plan, base_dir, cache, meter))))
     capacity = plan_capacity(ctx)
     ctx = ctx.with_details(capacity.details).with_sizes(capacity.sizes)
     incentives = IncentiveModel(ctx, plan_programs(ctx))
@@ -116,16 +118,18 @@ def _run(plan: Plan, base_dir: PlanFolder, cache: PlannerCache | None,
         return result
     # the result is of the plan as written; what the meter file told is in the roadmap's meter
     today = next((h for h in result.hourly if h.label == "today"), None)
-    summary = meter_summary(reading, ctx.basis.weather, None if today is None else np.asarray(today.grid_import_kw))
+    summary = meter_summary(reading, ctx.basis.meter_fit, None if today is None else np.asarray(today.grid_import_kw))
     return replace(result, plan=original, content_hash=content_hash(original),
                    roadmap=replace(result.roadmap, meter=summary),
                    warnings=tuple(dict.fromkeys((*result.warnings, *summary.notes))))
 
 
-def prepare_home(plan: Plan, base_dir: PlanFolder | Path | None, cache: PlannerCache) -> Context:
-    """Stage "home": the upgrade graph, the home's basis (weather, heat loss) and the outlooks."""
+def prepare_home(plan: Plan, base_dir: PlanFolder | Path | None, cache: PlannerCache,
+                 meter: tuple[str, IntervalSeries] | None = None) -> Context:
+    """Stage "home": the upgrade graph, the home's basis (weather, heat loss, calibrated to the
+    bills or the meter's readings ``meter`` with their content key) and the outlooks."""
     g = candidates.build_graph(plan)
-    basis_key, basis = cache.basis(plan, base_dir)
+    basis_key, basis = cache.basis(plan, base_dir, meter)
     outlooks = {o.key: o for o in lifecycle.plan_outlooks(plan, max(plan.budget.horizon_years, 10))}
     return Context(plan, base_dir, cache, basis_key, basis, g, outlooks)
 

@@ -4,8 +4,10 @@ Before the home is modelled (:func:`read_meter`): twelve complete months of read
 plan's monthly electric use (which calibrates the plug loads, the cooling response and, for a
 home heated by resistance, the heat loss, as monthly bills do); a gap-free 15-minute record of a
 year, or of at least 30 days, gives the measured peak demand for the NEC 220.87 method when the
-plan states none. After the weather is known (:func:`meter_summary`): a degree-day change-point
-fit of the complete days gives the base load and the heating and cooling response.
+plan states none. With fewer than twelve complete months, the model of today's home is
+calibrated to the meter's complete days instead (:func:`homeplan.planner.calibration.fit_to_meter`,
+against the weather of the metered period when the plan gives it); :func:`meter_summary` reports
+that fit (base load, heating and cooling response) with the rest.
 
 Hourly readings average out the 15-minute peaks the code asks for, so they never stand in for
 the measured peak; gaps are reported and never filled (a month with a gap is not a complete
@@ -31,18 +33,16 @@ from homeplan.energy.calibrate import fit_statistics
 from homeplan.energy.meter import (
     IntervalSeries,
     MeterFileError,
-    change_point_fit,
-    daily_kwh,
     hourly_kwh,
     monthly_kwh,
     parse_green_button,
     peak_demand,
 )
-from homeplan.energy.weather import Weather
 from homeplan.errors import InputError, PlanRuleError, Problem
 from homeplan.plan.files import METER, PlanFolder, as_folder, decode_utf8
 from homeplan.plan.model import ElectricUsage, Plan
 from homeplan.plan.text import clean
+from homeplan.planner.calibration import MeterFit
 from homeplan.planner.context import PlannerCache, content_key
 from homeplan.result.meter import MeterGap, MeterSummary
 
@@ -66,6 +66,7 @@ class MeterReading:
     peak_start_s: int
     peak_period: str | None
     notes: tuple[str, ...]
+    key: str = ""           # content key of the file's bytes
 
 
 def _iso(seconds: int) -> str:
@@ -135,8 +136,8 @@ def read_meter(plan: Plan, base_dir: PlanFolder | Path | None, cache: PlannerCac
         else:
             notes.append("monthly electric use taken from the meter file (twelve complete months)")
     else:
-        notes.append("the meter file holds fewer than twelve complete months: the electric use is "
-                     "not calibrated from it")
+        notes.append("the meter file holds fewer than twelve complete months: the model is calibrated "
+                     "from its complete days instead (base load, heating and cooling response)")
     peak, peak_start, period = _measured_peak(series, notes)
     e = plan.home.electrical
     update = {"usage": usage}
@@ -153,7 +154,7 @@ def read_meter(plan: Plan, base_dir: PlanFolder | Path | None, cache: PlannerCac
     if plan.home.solar is not None or plan.home.battery is not None:
         notes.append("with solar or a battery the meter records what the grid delivers, not the "
                      "home's own use")
-    reading = MeterReading(series, path, months, peak, peak_start, period, tuple(notes))
+    reading = MeterReading(series, path, months, peak, peak_start, period, tuple(notes), key)
     return plan.model_copy(update=update), reading
 
 
@@ -199,25 +200,19 @@ def _hourly_grade(series: IntervalSeries, grid_kw: np.ndarray | None, notes: lis
     return int(index.size), round(stats.nmbe_pct, 2), round(stats.cv_rmse_pct, 2), ok
 
 
-def meter_summary(reading: MeterReading, weather: Weather, today_grid_kw: np.ndarray | None = None
+def meter_summary(reading: MeterReading, fit: MeterFit | None, today_grid_kw: np.ndarray | None = None
                   ) -> MeterSummary:
-    """The meter file in figures, with the change-point fit of its complete days against the
-    plan's weather (a typical year, matched by day of the year: a rough stand-in for the
-    weather of the metered days) and, given the model's hourly grid draw of today's home
+    """The meter file in figures, with the change-point fit of its complete days (``fit``, made
+    when the home was modelled: against the weather of the metered period when the plan gives
+    it, else the typical year) and, given the model's hourly grid draw of today's home
     (``today_grid_kw``, kW over the 8760 hours of the typical year), the hourly grade of that
     model against the meter's complete hours."""
     s = reading.series
     notes = list(reading.notes)
     hours, nmbe, cv, ok = _hourly_grade(s, today_grid_kw, notes)
-    dates, kwh = daily_kwh(s)
-    fit = None
-    if len(dates) >= 7:
-        daily_temp = np.asarray(weather.temp_f, float).reshape(365, 24).mean(axis=1)
-        doy = np.array([min(d.timetuple().tm_yday, 365) - 1 for d in dates])
-        fit = change_point_fit(kwh, daily_temp[doy])
-        notes.append(f"daily use against the plan's typical weather: base load {fit.base_load_kw:.2f} kW, "
-                     f"{fit.heating_kwh_per_f_day:.2f} kWh per heating degree day, "
-                     f"{fit.cooling_kwh_per_f_day:.2f} kWh per cooling degree day (R2 {fit.r2:.2f})")
+    cp = fit.metered if fit is not None else None
+    if fit is not None:
+        notes.extend(fit.notes)
     else:
         notes.append("fewer than 7 complete days: no base load or heating and cooling response")
     end = int(s.start_s[-1]) + s.interval_s
@@ -226,9 +221,16 @@ def meter_summary(reading: MeterReading, weather: Weather, today_grid_kw: np.nda
         days=round(s.span_days, 2), readings=int(s.kwh.size), total_kwh=round(s.total_kwh, 3),
         gaps=tuple(MeterGap(_iso(g.start_s), g.intervals * s.interval_s / 3600) for g in s.gaps),
         peak_kw=round(reading.peak_kw, 3), peak_at=_iso(reading.peak_start_s), peak_period=reading.peak_period,
-        monthly_kwh=reading.monthly_kwh, base_load_kw=None if fit is None else round(fit.base_load_kw, 3),
-        heating_kwh_per_f_day=None if fit is None else round(fit.heating_kwh_per_f_day, 3),
-        cooling_kwh_per_f_day=None if fit is None else round(fit.cooling_kwh_per_f_day, 3),
-        fit_r2=None if fit is None else round(fit.r2, 3), hourly_hours=hours, hourly_nmbe_pct=nmbe,
+        monthly_kwh=reading.monthly_kwh, base_load_kw=None if cp is None else round(cp.base_load_kw, 3),
+        heating_kwh_per_f_day=None if cp is None else round(cp.heating_kwh_per_f_day, 3),
+        cooling_kwh_per_f_day=None if cp is None else round(cp.cooling_kwh_per_f_day, 3),
+        fit_r2=None if cp is None else round(cp.r2, 3),
+        heating_balance_f=None if cp is None else cp.heating_balance_f,
+        cooling_balance_f=None if cp is None else cp.cooling_balance_f,
+        fit_weather=None if fit is None else (fit.weather_file or "typical year"),
+        calibrated=() if fit is None else fit.calibrated,
+        daily_nmbe_pct=None if fit is None or fit.daily_nmbe_pct is None else round(fit.daily_nmbe_pct, 2),
+        daily_cv_rmse_pct=None if fit is None or fit.daily_cv_rmse_pct is None else round(fit.daily_cv_rmse_pct, 2),
+        hourly_hours=hours, hourly_nmbe_pct=nmbe,
         hourly_cv_rmse_pct=cv, meets_hourly_guideline_14=ok, notes=tuple(notes),
     )

@@ -65,11 +65,26 @@ class MeterSummary:
     base_load_kw : float or None
         Use with no heating or cooling, as a steady power, kW (None: too few complete days).
     heating_kwh_per_f_day : float or None
-        Extra daily use per heating degree day (65 F), kWh per F-day.
+        Extra daily use per heating degree day (below ``heating_balance_f``), kWh per F-day.
     cooling_kwh_per_f_day : float or None
-        Extra daily use per cooling degree day (65 F), kWh per F-day.
+        Extra daily use per cooling degree day (above ``cooling_balance_f``), kWh per F-day.
     fit_r2 : float or None
         How well daily use follows the degree days, dimensionless.
+    heating_balance_f : float or None
+        The fitted heating change point (base of the heating degree days), F.
+    cooling_balance_f : float or None
+        The fitted cooling change point, F.
+    fit_weather : str or None
+        The weather the daily use was fitted against: the name of the file of the metered
+        period's weather, or ``typical year`` (matched by day of the year).
+    calibrated : tuple of str
+        What of the model of today's home was taken from the meter's days (``plug``,
+        ``heating``, ``heating_fan``, ``cooling``; empty: nothing, e.g. twelve months or bills
+        calibrate it).
+    daily_nmbe_pct : float or None
+        NMBE of the model's daily grid draw against the meter's complete days, % (same weather).
+    daily_cv_rmse_pct : float or None
+        CV(RMSE) of the same, %.
     hourly_hours : int
         Complete hours of the meter the model of today's home was graded against (0: not graded).
     hourly_nmbe_pct : float or None
@@ -98,6 +113,12 @@ class MeterSummary:
     heating_kwh_per_f_day: float | None = None
     cooling_kwh_per_f_day: float | None = None
     fit_r2: float | None = None
+    heating_balance_f: float | None = None
+    cooling_balance_f: float | None = None
+    fit_weather: str | None = None
+    calibrated: tuple[str, ...] = ()
+    daily_nmbe_pct: float | None = None
+    daily_cv_rmse_pct: float | None = None
     hourly_hours: int = 0
     hourly_nmbe_pct: float | None = None
     hourly_cv_rmse_pct: float | None = None
@@ -109,6 +130,7 @@ class MeterSummary:
         d["gaps"] = [asdict(g) for g in self.gaps]
         d["monthly_kwh"] = None if self.monthly_kwh is None else list(self.monthly_kwh)
         d["notes"] = list(self.notes)
+        d["calibrated"] = list(self.calibrated)
         return d
 
     @classmethod
@@ -117,5 +139,6 @@ class MeterSummary:
         d["gaps"] = tuple(MeterGap(str(g["start"]), float(g["hours"])) for g in d.get("gaps", ()))
         d["monthly_kwh"] = None if d.get("monthly_kwh") is None else tuple(float(v) for v in d["monthly_kwh"])
         d["notes"] = tuple(d.get("notes", ()))
+        d["calibrated"] = tuple(d.get("calibrated", ()))
         known = set(cls.__dataclass_fields__)
         return cls(**{k: v for k, v in d.items() if k in known})

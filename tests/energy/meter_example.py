@@ -43,6 +43,14 @@ def example_series(days: int = 31, seed: int = 2025) -> IntervalSeries:
     return IntervalSeries(start + 0, kwh, 900, TZ_CENTRAL_S, "invented")
 
 
+def example_daily_mean_f(days: int = 31, seed: int = 2025) -> np.ndarray:
+    """The synthetic outdoor daily mean temperature the invented readings follow, F (the same
+    draws as :func:`example_series`; the daily swing averages out over the hours of a day)."""
+    rng = np.random.default_rng(seed)
+    day = np.arange(days)
+    return 22.0 + 8.0 * np.sin(day / 5.0) + rng.normal(0, 4.0, days)
+
+
 def example_xml() -> str:
     return write_espi_xml(example_series(), "Interval electricity use, January 2025 (invented household)")
 

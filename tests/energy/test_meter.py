@@ -16,6 +16,7 @@ from homeplan.energy.meter import (
     IntervalSeries,
     MeterFileError,
     change_point_fit,
+    change_point_search,
     daily_kwh,
     hourly_kwh,
     monthly_kwh,
@@ -199,3 +200,46 @@ def test_hourly_energy_matches_pandas_resampling() -> None:
     np.testing.assert_array_equal(index, expected.to_numpy())
     # 27 and 28 February, 1 and 2 March kept (29 February left out); readings 50-52 leave hours 12 and 13
     assert 57 * 24 in index and 59 * 24 in index and kwh.size == 4 * 24 - 2
+
+
+def test_change_point_search_recovers_a_five_parameter_model() -> None:
+    # ASHRAE Guideline 14-2014 five-parameter change-point model (heating below one base, cooling
+    # above another; from memory); Fels (1986), PRISM: the base temperatures fitted to the data.
+    # Reference: scipy's nonlinear least squares of the same piecewise-linear model, started
+    # away from the answer, and numpy least squares at the balance points found.
+    from scipy.optimize import least_squares
+
+    rng = np.random.default_rng(11)
+    temp = rng.uniform(5, 95, 365)
+    truth = (11.0, 0.9, 1.6, 57.0, 72.0)      # base kWh/day, kWh per heating / cooling F-day, bases F
+
+    def model(p, t):
+        return p[0] + p[1] * np.maximum(p[3] - t, 0) + p[2] * np.maximum(t - p[4], 0)
+
+    use = model(truth, temp) + rng.normal(0, 0.8, temp.size)
+    fit = change_point_search(use, temp)
+    ref = least_squares(lambda p: model(p, temp) - use, x0=[use.mean(), 0.5, 0.5, 62.0, 68.0]).x
+    assert (fit.heating_balance_f, fit.cooling_balance_f) == pytest.approx((ref[3], ref[4]), abs=1.0)  # 1 F grid
+    assert (fit.heating_balance_f, fit.cooling_balance_f) == pytest.approx(truth[3:], abs=1.0)
+    assert (fit.base_kwh_per_day, fit.heating_kwh_per_f_day, fit.cooling_kwh_per_f_day) == pytest.approx(
+        ref[:3], rel=0.05)
+    hdd = np.maximum(fit.heating_balance_f - temp, 0)
+    cdd = np.maximum(temp - fit.cooling_balance_f, 0)
+    x = np.column_stack([np.ones_like(use), hdd, cdd])
+    coef, *_ = np.linalg.lstsq(x, use, rcond=None)
+    np.testing.assert_allclose([fit.base_kwh_per_day, fit.heating_kwh_per_f_day, fit.cooling_kwh_per_f_day],
+                               coef, rtol=1e-10)
+    assert fit.sse == pytest.approx(float(((use - x @ coef) ** 2).sum()))
+
+
+def test_change_point_search_keeps_65_f_when_the_days_cannot_tell() -> None:
+    # a month colder than every base tried: every heating base gives the same straight line, so
+    # the conventional 65 F degree-day base (ASHRAE Handbook - Fundamentals (2021 edition, ch. 14), from
+    # memory) is kept, and the slope is numpy's polyfit of use on 65 F degree days
+    rng = np.random.default_rng(5)
+    temp = rng.uniform(5, 40, 31)
+    use = 20.0 + 0.3 * (65 - temp) + rng.normal(0, 0.5, temp.size)
+    fit = change_point_search(use, temp)
+    slope, intercept = np.polyfit(65 - temp, use, 1)
+    assert fit.heating_balance_f == 65.0 and fit.cooling_kwh_per_f_day == 0.0
+    assert (fit.heating_kwh_per_f_day, fit.base_kwh_per_day) == pytest.approx((slope, intercept))
