@@ -17,7 +17,8 @@ from __future__ import annotations
 import datetime as dt
 from typing import Any
 
-from homeplan.report.fmt import clean, money
+from homeplan.plan.text import clean
+from homeplan.report.fmt import money
 
 __all__ = ["change_list", "closes_words"]
 
