@@ -11,9 +11,9 @@ from textual.containers import VerticalScroll
 from textual.widgets import DataTable, Static
 
 from homeplan.plan.fuels import FOSSIL_FUELS, TANK_FUELS
-from homeplan.report.words import distinct_labels, life_source_words
+from homeplan.report.words import life_source_words
 from homeplan.tui.actions import bindings
-from homeplan.tui.format import BLOCKS, num, usd
+from homeplan.tui.format import BLOCKS, num, usd, wrap_labels
 from homeplan.tui.widgets.base import View, ViewData
 from homeplan.units import display_area
 
@@ -99,7 +99,7 @@ class HomeView(View):
         wide = self.app.size.width >= 100
         table.clear(columns=True)
         self.items = inventory(data)
-        name_w = 30 if wide else 22
+        name_w = 30 if wide else 26
         table.add_column("Item", width=name_w, key="item")
         table.add_column("Age", key="age")
         table.add_column("Likely end", key="end")
@@ -110,14 +110,16 @@ class HomeView(View):
         table.add_column(f"Risk {first % 100:02d}-{(first + RISK_YEARS - 1) % 100:02d}",
                          width=RISK_YEARS, key="risk")
         table.add_column("Note", key="note")
-        names = distinct_labels([it.label for it in self.items], name_w - 3)
+        names = wrap_labels([it.label for it in self.items], name_w - 3)
         for it, label in zip(self.items, names, strict=True):
             o = it.outlook
             fossil = it.fuel in FOSSIL_FUELS
-            name = Text(("◆ " if fossil else "  ") + label)
+            name = Text(("◆ " if fossil else "  ") + label.replace("\n", "\n  "))
+            height = label.count("\n") + 1
             if o is None:
                 note = "e: describe it" if it.group == "roof" else "electric"
-                table.add_row(name, "-", "-", *(["-"] if wide else []), "", note, key=it.key)
+                table.add_row(name, "-", "-", *(["-"] if wide else []), "", note, key=it.key,
+                              height=height)
                 continue
             age = f"{o.age_years:.0f}" + ("?" if o.install_year_assumed else "")
             if it.failed_now:
@@ -131,7 +133,7 @@ class HomeView(View):
             cells = [name, age, str(o.expected_end_year)]
             if wide:
                 cells.append(str(o.replace_by_year))
-            table.add_row(*cells, risk_bar(o.yearly_failure_pct), note, key=it.key)
+            table.add_row(*cells, risk_bar(o.yearly_failure_pct), note, key=it.key, height=height)
         if self.items:
             table.move_cursor(row=min(max(keep, 0), len(self.items) - 1), animate=False, scroll=False)
         legend = Text()

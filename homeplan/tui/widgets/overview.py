@@ -10,8 +10,7 @@ from textual.widgets import Static
 from homeplan.report.fmt import money_short
 from homeplan.report.fossil import fossil_lines
 from homeplan.report.view import step_safety
-from homeplan.report.words import fit_labels
-from homeplan.tui.format import ESTIMATES, usd, when
+from homeplan.tui.format import ESTIMATES, usd, when, wrap_labels
 from homeplan.tui.widgets.base import View, ViewData, banner_text
 
 __all__ = ["OverviewView", "changes_text", "fuel_text", "next_text", "this_year_text"]
@@ -39,13 +38,17 @@ def next_text(data: ViewData, width: int = 80) -> Text:
     first_year = rm.steps[0].year
     now = rm.steps_in(first_year)
     label_w = max(16, min(36, width - 54))
-    labels = fit_labels([s.label for s in now[:4]], label_w)
+    labels = wrap_labels([s.label for s in now[:4]], label_w)
     out.append(f"{'':5}{'':{label_w}} {'you pay':>8}  incentives\n", style="dim")
     for s, label in zip(now[:4], labels, strict=False):
         pos = sum(i.amount_usd for i in s.incentives if i.kind == "point_of_sale")
         later = [i for i in s.incentives if i.kind != "point_of_sale"]
+        lines = label.split("\n")
         out.append(f"{s.year} ")
-        out.append(label.ljust(label_w), style="bold")
+        for more in lines[:-1]:  # a long label's first lines, then its last beside the figures
+            out.append(more, style="bold")
+            out.append(f"\n{'':5}")
+        out.append(lines[-1].ljust(label_w), style="bold")
         out.append(f" {usd(s.net_cost_usd):>8}")
         notes = []
         if pos:
