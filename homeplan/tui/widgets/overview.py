@@ -9,9 +9,10 @@ from textual.widgets import Static
 
 from homeplan.report.fmt import money_short
 from homeplan.report.fossil import fossil_lines
+from homeplan.report.sources import step_sources
 from homeplan.report.view import step_safety
 from homeplan.tui.format import ESTIMATES, usd, when, wrap_labels
-from homeplan.tui.widgets.base import View, ViewData, banner_text
+from homeplan.tui.widgets.base import View, ViewData, assumptions_text, banner_text, sources_text
 
 __all__ = ["OverviewView", "changes_text", "fuel_text", "next_text", "this_year_text"]
 
@@ -160,6 +161,16 @@ class OverviewView(View):
         self.query_one("#next-box").border_title = "What to do next"
         self.query_one("#year-box").border_title = "What it costs this year"
         self.query_one("#electric-box").border_title = "Fuel still bought, and when it stops"
+
+    def where_from(self, data: ViewData) -> Text:
+        """The first year's steps, each figure with its source, then the assumptions."""
+        out = Text()
+        rm = data.roadmap
+        if rm is not None and rm.steps and data.result is not None:
+            infos = {p.id: p for p in data.result.projects}
+            for s in rm.steps_in(rm.steps[0].year):
+                out.append_text(sources_text(step_sources(s, infos.get(s.project_id), data.plan)))
+        return out.append_text(assumptions_text(data))
 
     def show(self, data: ViewData) -> None:
         banner = self.query_one("#overview-banner", Static)

@@ -11,6 +11,7 @@ from textual.containers import VerticalScroll
 from textual.widgets import DataTable, Static
 
 from homeplan.catalog import cautions as caution_texts
+from homeplan.report.sources import catalog_source_words, step_sources
 from homeplan.report.words import cost_source_words, size_words
 from homeplan.tui.actions import bindings
 from homeplan.tui.format import ESTIMATES, kusd_fit, trunc, usd, when, wrap_labels
@@ -19,6 +20,7 @@ from homeplan.tui.widgets.base import (
     ViewData,
     assumptions_text,
     banner_text,
+    sources_text,
 )
 
 if TYPE_CHECKING:
@@ -324,9 +326,12 @@ class RoadmapView(View):
     def where_from(self, data: ViewData) -> Text:
         out = Text()
         row = self.current_row()
-        if row is not None and row.info is not None:
-            out.append(f"{row.info.label}: today's cost {usd(row.info.cost_usd)} before incentives, "
-                       f"from {cost_source_words(row.info.cost_source)}.\n")
+        if row is not None and row.step is not None:
+            out.append_text(sources_text(step_sources(row.step, row.info, data.plan)))
+        elif row is not None and row.info is not None:
+            out.append(f"{row.info.label}: ", style="bold")
+            out.append(f"today's price {usd(row.info.cost_usd)}\n")
+            out.append(f"    from {catalog_source_words(row.info.cost_source)}\n", style="italic")
         out.append_text(assumptions_text(data))
         out.append("Step years come from the scheduler; reasons are its own explanation.")
         return out
