@@ -53,3 +53,26 @@ async def test_roadmap_and_home_show_every_word_of_long_names(tmp_path):
             assert "2012 station wagon for the daily commute" in text
             assert "2017 station wagon for family trips" in text
             assert "…" not in text
+
+
+def test_next_box_wraps_a_long_first_step(tmp_path):
+    import dataclasses
+
+    from homeplan.plan.load import load_plan
+    from homeplan.tui.widgets.base import ViewData
+    from homeplan.tui.widgets.overview import next_text
+
+    from .conftest import shared_planner
+
+    path = long_names_plan(tmp_path)
+    plan = load_plan(path).plan
+    result = shared_planner(plan, tmp_path)
+    road = result.roadmap
+    long = "Electric vehicle (replaces 2012 station wagon for the daily commute)"
+    steps = (dataclasses.replace(road.steps[0], label=long), *road.steps[1:])
+    result = dataclasses.replace(result, roadmap=dataclasses.replace(road, steps=steps))
+    text = next_text(ViewData(plan=plan, result=result, path=path), 80).plain
+    assert "…" not in text.split("Then:")[0]
+    assert "EV for 2012 station wagon for the daily commute" in " ".join(text.split())
+    steps_part = text.split("Why now")[0]  # the rest is prose, wrapped by the box itself
+    assert all(len(line) <= 76 for line in steps_part.split("\n"))  # inside the box at 80
