@@ -90,7 +90,7 @@ def test_check_reports_every_unknown_id_and_bad_pin_in_one_run(tmp_path, capsys)
     assert cli.main(["check", str(path)]) == 2
     err = capsys.readouterr().err
     for words in ("'heat_pum'", "'solarr'", "'batery'", "'envelope2'", "'furnac'", "'envelop'",
-                  "pinned to 2050", "incentive file not found", "8 problems found"):
+                  "pinned to 2050", "incentive file nope.yaml: file not found", "8 problems found"):
         assert words in err, words
     lines = [ln for ln in err.splitlines() if ln.startswith(str(path))]
     positions = [tuple(int(x) for x in ln[len(str(path)) + 1:].split(":")[:2]) for ln in lines]

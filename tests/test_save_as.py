@@ -43,11 +43,15 @@ def test_save_as_in_another_folder_reopens_and_checks(home, tmp_path, capsys):
     assert [r.after for r in session.last_rebased] == ["../../original/incentives/demoland_invented.yaml"]
     reopened = PlanSession.open(target)
     assert reopened.plan.incentive_files == ["../../original/incentives/demoland_invented.yaml"]
-    assert cli.main(["check", str(target)]) == 0, capsys.readouterr().err
+    # a file outside the plan's folder is read only when allowed; without it, a clear message
+    outside = str(home.parent / "incentives" / "demoland_invented.yaml")
+    assert cli.main(["check", str(target)]) == 2
+    assert "--allow-outside" in capsys.readouterr().err
+    assert cli.main(["check", str(target), "--allow-outside", outside]) == 0, capsys.readouterr().err
     # undo keeps the paths right for the new folder, and saving again still checks
     assert session.undo() == "budget"
     session.save()
-    assert cli.main(["check", str(target)]) == 0, capsys.readouterr().err
+    assert cli.main(["check", str(target), "--allow-outside", outside]) == 0, capsys.readouterr().err
 
 
 def test_save_as_in_the_same_folder_keeps_paths(home):

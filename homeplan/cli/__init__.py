@@ -33,7 +33,9 @@ def debugging() -> bool:
     return os.environ.get("HOMEPLAN_DEBUG", "").strip().lower() in ("1", "true", "yes", "on")
 
 
-_READ_NAMED = {"check", "plan", "capacity", "costs", "print", "export", "diff", "open"}
+# Commands whose named files are checked here, before the heavy imports. ``check`` reads them
+# itself through the same safe readers, so that every problem of the file is listed in one run.
+_READ_NAMED = {"plan", "capacity", "costs", "print", "export", "diff", "open"}
 
 
 def _preflight(args) -> None:
@@ -43,6 +45,8 @@ def _preflight(args) -> None:
     for path in paths:
         if path is None or (args.command == "open" and not os.path.lexists(path)):
             continue  # open without a file, or a new plan: nothing to read
+        if args.command == "open" and (os.path.isdir(path) or str(path).endswith(".sqlite")):
+            continue  # a portfolio's results: the app checks its store before opening it read-only
         preflight(path, allow, named=args.command in _READ_NAMED)
 
 

@@ -10,6 +10,7 @@ from __future__ import annotations
 
 import argparse
 import math
+import os
 import sys
 from typing import NoReturn
 
@@ -46,6 +47,8 @@ COMMANDS: dict[str, tuple[str, str]] = {
     "print": ("outputs", "cmd_print"),
     "export": ("outputs", "cmd_export"),
     "diff": ("outputs", "cmd_diff"),
+    "portfolio": ("portfolio", "cmd_portfolio"),
+    "community": ("portfolio", "cmd_community"),
     "compare": ("outputs", "cmd_compare"),
 }
 """Command -> (module in ``homeplan.cli``, function taking the parsed arguments)."""
@@ -65,6 +68,23 @@ def _whole(text: str, most: int, what: str = "") -> int:
     if not 1 <= n <= most:
         raise argparse.ArgumentTypeError(f"{n}{what} is outside 1-{most}")
     return n
+
+
+def _count(text: str) -> int:
+    try:
+        n = int(text)
+    except ValueError:
+        raise argparse.ArgumentTypeError(f"{text!r} is not a whole number") from None
+    if not 0 <= n <= 512:
+        raise argparse.ArgumentTypeError(f"{n} is outside 0-512")
+    return n
+
+
+def _address(text: str) -> str:
+    scheme, sep, rest = text.partition("://")
+    if not sep or not scheme or not rest:
+        raise argparse.ArgumentTypeError(f"{text!r} is not a scheduler address like tcp://HOST:8786")
+    return text
 
 
 def _years(text: str) -> int:
@@ -146,8 +166,10 @@ def build_parser() -> argparse.ArgumentParser:
                                     "few seconds)")))
 
     sp = command("open", "open the plan in the terminal app (explore, edit, re-plan); "
-                 "a FILE that does not exist yet starts the guided new-plan form", file=False)
-    sp.add_argument("file", nargs="?", help="plan file (YAML); omit it to start a new plan")
+                 "a FILE that does not exist yet starts the guided new-plan form; a portfolio's "
+                 "results folder opens read-only", file=False)
+    sp.add_argument("file", nargs="?", help="plan file (YAML), or a portfolio's RESULTS folder; "
+                    "omit it to start a new plan")
     sp.add_argument("--light", action="store_true", help="light colours for a light terminal background")
     allow_outside(sp)
 
@@ -170,6 +192,41 @@ def build_parser() -> argparse.ArgumentParser:
     sp.add_argument("b", help="the later plan file (YAML)")
     sp.add_argument("--inputs-only", action="store_true", help="compare the inputs only (no planning)")
     allow_outside(sp)
+
+    sp = command("portfolio", "plan many homes (a folder of plan files, or a CSV of homes with a "
+                 "template plan) and add them up year by year", file=False)
+    sp.add_argument("input", help="a folder of plan files, or a CSV of homes (one row per home)")
+    sp.add_argument("-o", "--output", required=True, metavar="RESULTS",
+                    help="folder for the results: the store (portfolio.sqlite), CSV and Parquet "
+                    "exports and summary.html")
+    sp.add_argument("--template", metavar="PLAN", help="with a CSV: the plan that fills in what the "
+                    "columns do not")
+    sp.add_argument("--workers", type=_count, default=os.cpu_count() or 1,
+                    help="worker processes on this machine (default: one per core; 0: plan in "
+                    "this process)")
+    sp.add_argument("--scheduler", type=_address, metavar="tcp://HOST:PORT",
+                    help="run on this dask.distributed cluster instead of local processes")
+    sp.add_argument("--batch-size", type=lambda t: _whole(t, 10000, " homes"), default=200,
+                    help="most homes sent to a worker at once (default 200)")
+    sp.add_argument("--limit", type=lambda t: _whole(t, 10**9, " homes"), metavar="N",
+                    help="plan only N more homes (a quick look; --resume goes on later)")
+    sp.add_argument("--resume", action="store_true",
+                    help="go on with the run stored in RESULTS (homes already planned are kept)")
+    sp.add_argument("--coincidence", metavar="WINTER,SUMMER",
+                    help="coincidence factor of a very large group of homes for the diversified "
+                    "peaks (default 0.7,0.5)")
+    sp.add_argument("--program-budget", action="append", metavar="PROGRAM=USD",
+                    help="a program's total budget, to see the year it runs out (repeatable)")
+    sp.add_argument("--quiet", action="store_true", help="no progress bar")
+    sp = command("community", "write an invented demo community: homes.csv and template.yaml",
+                 file=False)
+    sp.add_argument("folder", help="folder to write into (created if needed)")
+    sp.add_argument("--homes", type=lambda t: _whole(t, 1_000_000, " homes"), default=1000,
+                    help="number of homes (default 1000)")
+    sp.add_argument("--seed", type=int, default=2027, help="random seed (default 2027): the same "
+                    "seed gives the same homes")
+    sp.add_argument("--incentives", metavar="FILE", help="an incentive catalog for the template to "
+                    "name (a path relative to the folder)")
     sp = command("compare", "lay options side by side: several plan files, and the named options "
                  "(alternatives) inside them", file=False)
     sp.add_argument("files", nargs="+", metavar="FILE", help="plan files (YAML); each brings its own options")

@@ -210,6 +210,8 @@ class SiteCache:
 
     Build once per home (``SiteCache(weather)``) and pass to every :func:`simulate` of that home.
     It memoises by value of small frozen specs; it is not thread-safe for concurrent first use.
+    Homes of one location may share one :class:`~homeplan.energy.solar.SolarSite` (it depends on
+    the weather only): pass it as ``solar``.
 
     Parameters
     ----------
@@ -218,11 +220,16 @@ class SiteCache:
     keep : ArrayKeeper or None
         Keeps weather-only hourly arrays (the solar output per kWdc) between runs; None keeps
         them in memory only.
+    solar : SolarSite, optional
+        The solar geometry of this weather, already built (default: a new one, with ``keep``).
     """
 
-    def __init__(self, weather: Weather, keep: ArrayKeeper | None = None) -> None:
+    def __init__(self, weather: Weather, keep: ArrayKeeper | None = None,
+                 solar: SolarSite | None = None) -> None:
+        if solar is not None and solar.weather is not weather:
+            raise ValueError("a shared SolarSite must be built on this same weather")
         self.weather = weather
-        self.solar = SolarSite(weather, keep)
+        self.solar = solar if solar is not None else SolarSite(weather, keep)
         self._memo: dict[tuple, object] = {}
         self.hour_of_day = timegrid.hour_of_day()
         self.month = timegrid.hour_month()

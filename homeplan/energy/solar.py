@@ -175,7 +175,8 @@ class SolarSite:
     """Per-home cache of weather-only solar quantities (built once, reused by every state).
 
     Holds the solar position (at mid-hour) and, memoised per array shape, plane-of-array
-    irradiance, cell temperature and the AC output per kWdc. Not shared between homes.
+    irradiance, cell temperature and the AC output per kWdc. It depends on the weather only, so
+    homes with the same weather year may share one.
 
     Parameters
     ----------

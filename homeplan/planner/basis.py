@@ -37,7 +37,7 @@ from homeplan.energy.heating import (
 from homeplan.energy.rates import ElectricRate, FuelPrice, FuelPrices, TouPeriod
 from homeplan.energy.ratings import eer2_from_eer, hspf2_from_hspf, seer2_from_seer
 from homeplan.energy.simulate import HomeEnergySpec, SiteCache, simulate
-from homeplan.energy.solar import ArrayKeeper, SolarArraySpec
+from homeplan.energy.solar import ArrayKeeper, SolarArraySpec, SolarSite
 from homeplan.energy.vehicles import VehicleSpec
 from homeplan.energy.water import WaterHeaterSpec
 from homeplan.energy.weather import Weather
@@ -353,9 +353,16 @@ def _bill_year_site(plan: Plan, base_dir: PlanFolder | Path | None,
 
 def home_basis(plan: Plan, base_dir: PlanFolder | Path | None = None,
                make_year: Callable[[wx.ClimateNormals], Weather] | None = None,
-               keep: ArrayKeeper | None = None) -> HomeBasis:
-    """Today's home: weather, solar geometry, heat loss and equipment, fitted to the bills."""
-    weather, wnote = load_weather(plan, base_dir, make_year)
+               keep: ArrayKeeper | None = None,
+               place: tuple[Weather, str, SolarSite] | None = None) -> HomeBasis:
+    """Today's home: weather, solar geometry, heat loss and equipment, fitted to the bills.
+
+    ``place`` gives the weather year, its note and its solar geometry when they are already
+    known (homes of one place share them: :mod:`homeplan.planner.shared`); otherwise they are
+    loaded for this home alone (``make_year``: see :func:`load_weather`; ``keep``: see
+    :class:`~homeplan.energy.simulate.SiteCache`)."""
+    weather, wnote, solar_site = (place if place is not None
+                                  else (*load_weather(plan, base_dir, make_year), None))
     parts = {"water_heater": water_spec_today(plan), "cooking": cooking_spec_today(plan),
              "dryer": dryer_spec_today(plan)}
     cal, notes = first_heat_loss(plan, weather, parts)
@@ -370,7 +377,7 @@ def home_basis(plan: Plan, base_dir: PlanFolder | Path | None = None,
     if plan.home.battery is not None:
         b = plan.home.battery
         battery = BatterySpec(capacity_kwh=b.capacity_kwh, power_kw=b.power_kw)
-    site = SiteCache(weather, keep)
+    site = SiteCache(weather, keep, solar_site)
     spec = HomeEnergySpec(
         weather=weather, ua_btuh_f=float(cal.ua_btuh_f),
         heating=heating_spec_today(plan, float(cal.design_load_btuh)),

@@ -20,6 +20,8 @@ from __future__ import annotations
 from dataclasses import dataclass, replace
 from typing import Any
 
+import numpy as np
+
 from homeplan import catalog
 from homeplan.energy.selection import HeatPumpSelection
 from homeplan.money.finance import Loan, discount_factor, loan_schedule, remaining_value_share
@@ -65,7 +67,7 @@ from homeplan.result.roadmap import Emergency, IncentiveLine, Milestone, Roadmap
 from homeplan.schedule.problem import evaluate
 from homeplan.units import BTUH_PER_TON, heat_output_words
 
-__all__ = ["assumptions", "build_result", "hourly_profiles", "milestones_of", "project_infos"]
+__all__ = ["assumptions", "build_result", "hourly_profiles", "milestones_of", "project_infos", "rounded"]
 
 MILESTONE_KIND = {"close_gas": "gas_service_closed", "remove_propane_tank": "propane_tank_removed",
                   "remove_oil_tank": "oil_tank_removed"}
@@ -505,12 +507,30 @@ def lfl_step(ctx: Context, outcome: ScheduleOutcome, pid: str, year: int) -> Ste
                 reasons=tuple(dict.fromkeys(reasons)), cautions=notes, replaces=(key,))
 
 
+def rounded(values: np.ndarray, digits: int) -> tuple[float, ...]:
+    """``tuple(round(float(v), digits) for v in values)``, vectorised.
+
+    numpy rounds ``v * 10**digits`` to the nearest integer and divides back, which gives the
+    same double as Python's correctly rounded ``round`` except where the scaled value lies
+    within rounding error of a half; those few values (and any that are not finite) are rounded
+    by ``round`` itself. The 8760-hour series of a result take ~1 ms this way instead of ~25.
+    """
+    a = np.asarray(values, dtype=float)
+    out = np.round(a, digits)
+    scaled = a * 10.0 ** digits
+    near = ~np.isfinite(scaled) | (np.abs(scaled) > 2.0**40) | (
+        np.abs(scaled - np.floor(scaled) - 0.5) < 1e-6)
+    for i in np.flatnonzero(near):
+        out[i] = round(float(a[i]), digits)
+    return tuple(out.tolist())
+
+
 def hourly_profiles(ctx: Context, done: dict[str, int]) -> tuple[HourlyProfile, ...]:
     """Hour-by-hour electricity of a typical year, today and after the plan (for the CSV export)."""
     out = []
     for label, ids in (("today", ()), ("after the plan", tuple(done))):
         r = ctx.simulate(ids, label)
-        series = {k: tuple(round(float(v), 4) for v in getattr(r, k))
+        series = {k: rounded(getattr(r, k), 4)
                   for k in ("load_kw", "solar_kw", "grid_import_kw", "grid_export_kw")}
         out.append(HourlyProfile(label=label, **series))
     return tuple(out)

@@ -24,6 +24,7 @@ from homeplan.plan.model import Plan
 from homeplan.planner.basis import HomeBasis, home_basis
 from homeplan.planner.peaks import meter_peak
 from homeplan.planner.projects import ProjectDetail
+from homeplan.planner.shared import SharedCache
 from homeplan.planner.states import (
     APPLY_ORDER,
     Choice,
@@ -61,18 +62,24 @@ class PlannerCache:
     """Per-home memo of the expensive, budget-independent parts. Thread-safe.
 
     One home at a time: asking for another home's basis drops everything kept for the last one.
+    ``shared``, when given, holds what homes of one place have in common (weather year, solar
+    geometry, incentive programs read from files; see :mod:`homeplan.planner.shared`): it is
+    asked first, and it is kept when the home changes. A shared cache is not thread-safe: give
+    each thread its own.
     With a ``store`` (:class:`~homeplan.planner.diskstore.DiskStore`), the built-in weather year
     is also kept on disk between runs (the command line and the app use the user's store unless
     ``--no-cache``; the library keeps nothing on disk by default).
     """
 
-    def __init__(self, max_states: int = 512, store: DiskStore | None = None):
+    def __init__(self, max_states: int = 512, store: DiskStore | None = None,
+                 shared: SharedCache | None = None):
         self.store = store
         self._lock = threading.Lock()
         self._basis: dict[str, HomeBasis] = {}
         self._states: dict[tuple[str, frozenset[Choice]], StateEnergy] = {}
         self._memo: dict[str, Any] = {}
         self.max_states = max_states
+        self.shared = shared
 
     def basis(self, plan: Plan, base_dir: PlanFolder | Path | None) -> tuple[str, HomeBasis]:
         """The home's basis (weather, heat loss, today's spec) and its content key."""
@@ -85,8 +92,13 @@ class PlannerCache:
             hit = self._basis.get(key)
         if hit is None:
             store = self.store
-            hit = home_basis(plan, base_dir, store.weather_year if store else None,
-                             store.keep_array if store else None)
+            make_year = store.weather_year if store else None
+            keep = store.keep_array if store else None
+            place = None
+            if self.shared is not None:
+                p = self.shared.place(plan, base_dir, make_year, keep)
+                place = (p.weather, p.note, p.solar)
+            hit = home_basis(plan, base_dir, make_year, keep, place)
             with self._lock:
                 self._basis = {key: hit}  # one home per cache: drop other homes
                 self._states.clear()
@@ -102,6 +114,13 @@ class PlannerCache:
             with self._lock:
                 self._memo[key] = hit
         return hit
+
+    def shared_memo(self, key: str, make: Callable[[], T]) -> T:
+        """A result that depends only on what ``key`` names, not on the home (kept in the shared
+        cache when there is one, else like :meth:`memo`)."""
+        if self.shared is not None:
+            return self.shared.memo(key, make)
+        return self.memo(key, make)
 
     def state(self, basis_key: str, choices: frozenset[Choice],
               make: Callable[[], StateEnergy]) -> StateEnergy:

@@ -139,7 +139,7 @@ def plan_programs(ctx: Context) -> tuple[Program, ...]:
         except (OSError, PlanRuleError):  # reported when the file is read
             stamps.append((name, None, None))
     key = "programs:" + json.dumps([ctx.plan.incentives, stamps], sort_keys=True, default=str)
-    return ctx.cache.memo(key, lambda: load_programs(ctx.plan, ctx.base_dir))
+    return ctx.cache.shared_memo(key, lambda: load_programs(ctx.plan, ctx.base_dir))
 
 
 class IncentiveModel:

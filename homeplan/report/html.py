@@ -35,7 +35,7 @@ from homeplan.report.fmt import short
 from homeplan.report.svg import PATH_COLOURS, chart_svg, legend_items, timeline_svg
 from homeplan.report.view import Report, Table
 
-__all__ = ["comparison_html", "comparison_page", "e", "render_html", "table_html"]
+__all__ = ["CSP", "CSS", "comparison_html", "comparison_page", "e", "render_html", "table_html"]
 
 
 def e(text: object) -> str:
@@ -124,7 +124,8 @@ footer code { font-size: 9pt; color: var(--ink); }
 """
 
 
-def _table(t: Table, cls: str = "") -> str:
+def table_html(t: Table, cls: str = "") -> str:
+    """A table of the page (numbers right-aligned, a closing total row, a note below)."""
     head = "".join(f'<th class="{a if a in ("r", "w") else "l"}" scope="col">{e(h)}</th>'
                    for h, a in zip(t.headers, t.align, strict=False))
     body = []
@@ -144,19 +145,15 @@ def _table(t: Table, cls: str = "") -> str:
             f"</table>{note}")
 
 
-table_html = _table
-"""A table of a printed view as HTML (user text escaped)."""
-
-
 def comparison_html(c: Comparison) -> str:
     """Options side by side as an HTML section (a printout's page, or a page of its own)."""
-    parts = ['<section class="compare"><h2>Options side by side</h2>', _table(c.headline, "compare")]
-    parts.append('<div class="keep"><h3>Steps by year</h3>' + _table(c.steps, "compare-steps") + "</div>")
+    parts = ['<section class="compare"><h2>Options side by side</h2>', table_html(c.headline, "compare")]
+    parts.append('<div class="keep"><h3>Steps by year</h3>' + table_html(c.steps, "compare-steps") + "</div>")
     if c.ranges:
         parts.append('<div class="keep"><h3>Total cost across the price paths</h3>')
         parts.append(range_chart_svg(c.ranges, "Total cost of each option: P10 to P90 bar, median mark"))
         parts.append('<p class="note">Each bar runs from P10 to P90 of the price paths; the mark is the median.</p>')
-        parts.append(_table(c.risk, "compare-risk") + "</div>")
+        parts.append(table_html(c.risk, "compare-risk") + "</div>")
     parts += [f'<p class="note">{e(n)}</p>' for n in c.notes]
     parts.append("</section>")
     return "\n".join(parts)
@@ -206,8 +203,8 @@ def _risk_sections(r: Report) -> list[str]:
                                     "dollars of each year"))
         parts.append(_legend([(SERIES_COLOURS[i], f"{s.label}: median, and P10 to P90 shaded")
                               for i, s in enumerate(k.series)]) + "</div>")
-        parts.append('<div class="keep">' + _table(k.totals, "risk-totals") + "</div>")
-        parts.append('<div class="keep">' + _table(k.shocks, "risk-shocks") + "</div>")
+        parts.append('<div class="keep">' + table_html(k.totals, "risk-totals") + "</div>")
+        parts.append('<div class="keep">' + table_html(k.shocks, "risk-shocks") + "</div>")
         parts.append("</section>")
     if r.sensitivity is not None:
         v = r.sensitivity
@@ -216,7 +213,7 @@ def _risk_sections(r: Report) -> list[str]:
         parts.append('<div class="keep">' + tornado_svg(v.bars, v.base_usd, "Net present value, one "
                                                         "assumption changed at a time") + "</div>")
         parts.append(_legend([(LOW_COLOUR, "low setting"), (HIGH_COLOUR, "high setting")]))
-        parts.append('<div class="keep">' + _table(v.table, "sensitivity") + "</div></section>")
+        parts.append('<div class="keep">' + table_html(v.table, "sensitivity") + "</div></section>")
     return parts
 
 
@@ -267,7 +264,7 @@ def render_html(r: Report) -> str:
         + "<li>Each bar is the year the work is done.</li></ul>")
     parts.append("</section>")
     parts.append('<section class="steps"><h2>Steps</h2>')
-    parts.append(_table(r.steps, "steps") + f'<p class="note">{e(r.money_note)}</p>')
+    parts.append(table_html(r.steps, "steps") + f'<p class="note">{e(r.money_note)}</p>')
     if r.warnings:
         parts.append('<div class="keep"><h3>Notes from the planner</h3><ul class="notes">'
                      + "".join(f"<li>{e(w)}</li>" for w in r.warnings) + "</ul></div>")
@@ -283,21 +280,21 @@ def render_html(r: Report) -> str:
                      "when it wears out.</li></ul></section>")
     if r.fossil is not None:
         parts.append('<section class="fossil keep"><h2>Fuel still bought, and when it stops</h2>'
-                     + _table(r.fossil, "fossil") + "</section>")
-    parts.append('<section class="years"><h2>Year by year</h2>' + _table(r.years, "years") + "</section>")
+                     + table_html(r.fossil, "fossil") + "</section>")
+    parts.append('<section class="years"><h2>Year by year</h2>' + table_html(r.years, "years") + "</section>")
     parts += _risk_sections(r)
     if r.comparison is not None:
         parts.append(comparison_html(r.comparison))
     parts.append('<section class="energy keep"><h2>Energy and emissions, before and after</h2>'
-                 + _table(r.energy, "energy") + "</section>")
-    parts.append('<section class="capacity"><h2>Electrical capacity</h2>' + _table(r.capacity, "capacity"))
+                 + table_html(r.energy, "energy") + "</section>")
+    parts.append('<section class="capacity"><h2>Electrical capacity</h2>' + table_html(r.capacity, "capacity"))
     if r.capacity_notes:
         parts.append("<ul>" + "".join(f"<li>{e(n)}</li>" for n in r.capacity_notes) + "</ul>")
     parts.append("</section>")
     # ---- page 3: assumptions and safety
     parts.append('<section class="assumptions"><h2>Key assumptions</h2>' + _facts(r.assumptions, "facts wide"))
     if r.programs.rows:
-        parts.append("<h3>Incentive programs</h3>" + _table(r.programs, "programs"))
+        parts.append("<h3>Incentive programs</h3>" + table_html(r.programs, "programs"))
     parts.append("</section>")
     parts.append('<section class="cautions"><h2>Safety</h2><ul class="cautions">' + "".join(
         f"<li><b>{e(t)}.</b> {e(text)}</li>" for t, text in r.cautions) + "</ul></section>")

@@ -13,7 +13,19 @@ from dataclasses import dataclass
 
 from textual.binding import Binding
 
-__all__ = ["ACTIONS", "APP", "VIEW_TABS", "Action", "bindings", "help_rows", "palette_entries"]
+__all__ = [
+    "ACTIONS",
+    "APP",
+    "PORTFOLIO_ACTIONS",
+    "READ_ONLY",
+    "VIEW_TABS",
+    "Action",
+    "bindings",
+    "help_rows",
+    "palette_entries",
+    "portfolio_bindings",
+    "portfolio_help_rows",
+]
 
 # The views, in tab order: id and label (``app.VIEWS`` adds the widget classes). Keys 1-7.
 VIEW_TABS: tuple[tuple[str, str], ...] = (
@@ -146,6 +158,49 @@ ACTIONS: tuple[Action, ...] = (
     Action("ctrl+q", "quit", "Quit", help_key="ctrl+q",
            help="quit (asks when there are unsaved changes)"),
 )
+
+
+# The portfolio viewer (``homeplan open RESULTS``): its own few keys. A home opened from it
+# shows the single-home views read-only, with the app keys of READ_ONLY (the views' own keys
+# that would edit the plan are switched off there).
+PORTFOLIO_ACTIONS: tuple[Action, ...] = (
+    Action("enter", "open_home", "Open home", help_key="enter",
+           help="open the home under the cursor (planned again from its stored plan; read-only)"),
+    Action("y", "tab('years')", "Years", help_key="y / h / p", help="years, homes, programs"),
+    Action("h", "tab('homes')", "Homes", help_key="y / h / p", help="years, homes, programs"),
+    Action("p", "tab('programs')", "Programs", help_key="y / h / p", help="years, homes, programs"),
+    Action("r", "reload", "Reload", help_key="r",
+           help="read the results again (a run may still be adding homes)"),
+    Action("escape", "back", "Back", help_key="esc", help="from a home, back to the portfolio"),
+    Action("t", "toggle_theme", "Light/dark", show=False, help_key="t",
+           help="switch light and dark colours"),
+    Action("question_mark", "help", "Keys", help_key="?", help="this list"),
+    Action("ctrl+q", "quit", "Quit", help_key="ctrl+q", help="quit"),
+)
+
+READ_ONLY = frozenset({"show", "where_from", "step_details", "toggle_all_steps"})
+"""App actions that only look (a home of a portfolio is shown with these and no others)."""
+
+
+def portfolio_bindings() -> list[Binding]:
+    """The ``BINDINGS`` of the portfolio viewer."""
+    return [Binding(a.keys, a.action, a.label, show=a.show) for a in PORTFOLIO_ACTIONS]
+
+
+def portfolio_help_rows() -> list[tuple[str, str]]:
+    """(key, what it does) rows of the portfolio viewer's Keys screen, then the read-only keys
+    of a home's views."""
+    rows: dict[str, str] = {}
+    for a in PORTFOLIO_ACTIONS:
+        rows.setdefault(a.help, a.help_key)
+    out = [(k, h) for h, k in rows.items()]
+    seen = set()
+    for a in ACTIONS:
+        name = a.action.removeprefix("app.").split("(")[0]
+        if name in READ_ONLY and a.help_key and a.help not in seen:
+            seen.add(a.help)
+            out.append((a.help_key, f"in a home: {a.help}"))
+    return out
 
 
 def bindings(scope: str = APP) -> list[Binding]:

@@ -174,7 +174,10 @@ def saved_words(target: Path, backup: Path | None, rebased: list) -> str:
     if rebased:
         text += " File paths rewritten for the new folder: " + "; ".join(
             f"{r.before} -> {r.after}" for r in rebased) + "."
-    return text
+        if any(r.after.startswith("../") for r in rebased):
+            text += (" Those files are outside the plan's new folder: copy them next to it, or "
+                     "allow them when you open the plan again (--allow-outside).")
+    return clean(text, one_line=False)
 
 
 def problem_words(err: InputError) -> str:

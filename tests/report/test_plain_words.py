@@ -172,7 +172,7 @@ def test_bad_advisor_block_is_a_clear_message(tmp_path: Path, capsys, advisor: s
     end = text.index("\nhome:")
     path = tmp_path / "home.yaml"
     path.write_text(text[:start] + f"advisor: {advisor}\n" + text[end:], encoding="utf-8")
-    shutil.copytree(COLD.parent / "incentives", tmp_path / "incentives")  # the plan's own files
+    shutil.copytree(COLD.parent / "incentives", tmp_path / "incentives")  # the files it names
     assert cli.main(["check", str(path)]) == 2
     out = capsys.readouterr()
     assert fix in out.out + out.err and "Traceback" not in out.err
