@@ -641,7 +641,8 @@ def assumption_lines(plan: Any, result: Any) -> list[tuple[str, str]]:
                 "estimates; each price's reference is in homeplan's catalog)"))
     if p.grid_kg_co2_per_kwh is not None:
         out.append(("Grid emissions", f"{p.grid_kg_co2_per_kwh:g} kg CO2e/kWh"))
-    quotes = [f"{clean(pid)}: {money(o.cost_usd)}" + (f" ({clean(o.contractor)}" if o.contractor else "")
+    labels = {q.id: q.label for q in (getattr(result, "projects", None) or ())}
+    quotes = [f"{clean(labels.get(pid) or caps_words(pid))}: {money(o.cost_usd)}" + (f" ({clean(o.contractor)}" if o.contractor else "")
               + (f", {o.quote_date.isoformat()}" if o.quote_date else "") + (")" if o.contractor else "")
               for pid, o in plan.options.items() if o.cost_usd is not None]
     if quotes:

@@ -36,7 +36,7 @@ from homeplan.plan.text import clean
 from homeplan.report.changes import change_list
 from homeplan.tui import newplan
 from homeplan.tui.actions import VIEW_TABS, bindings, help_rows, palette_entries
-from homeplan.tui.format import trunc, usd
+from homeplan.tui.format import trunc_words, usd
 from homeplan.tui.screens.forms import ChoiceScreen, FieldSpec, FormScreen, TextScreen
 from homeplan.tui.session import DELETE, PlanSession, check_new_plan
 from homeplan.tui.widgets.base import View, ViewData
@@ -143,7 +143,7 @@ def status_line(name: str, state: tuple[str, str], dirty: bool, budgets: tuple[s
     """The top line: the home, the planner's state, unsaved changes, the budget and the file.
 
     What does not fit goes in this order: the budget's details, the budget, then the home's name
-    is shortened; the file name and the state always show.
+    is shortened after a whole word; the file name and the state always show.
     """
     def line(name_text: str, budget: str) -> Text:
         text = Text(" ")
@@ -163,7 +163,7 @@ def status_line(name: str, state: tuple[str, str], dirty: bool, budgets: tuple[s
         if text.cell_len <= width:
             return text
     room = width - line("", "").cell_len
-    return line(trunc(name, max(room, 8)), "")
+    return line(trunc_words(name, max(room, 8)), "")
 
 
 def saved_words(target: Path, backup: Path | None, rebased: list) -> str:

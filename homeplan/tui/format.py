@@ -10,6 +10,7 @@ import textwrap
 from collections.abc import Sequence
 
 from homeplan.report.fmt import money, money_short
+from homeplan.report.words import short_words
 
 __all__ = [
     "BLOCKS",
@@ -22,7 +23,9 @@ __all__ = [
     "num",
     "spark",
     "trunc",
+    "trunc_words",
     "wrap_cell",
+    "wrap_labels",
     "usd",
     "when",
 ]
@@ -97,6 +100,22 @@ def trunc(text: str, width: int) -> str:
     return text[: max(0, width - 1)] + "…"
 
 
+def trunc_words(text: str, width: int) -> str:
+    """``text`` in ``width`` characters, shortened after a whole word (at a space or hyphen)
+    and marked with "…"; the "(invented)" mark of demo names is kept. A word is cut only when
+    not even the first one fits."""
+    if len(text) <= width:
+        return text
+    tail = INVENTED if text.endswith(INVENTED) and width > len(INVENTED) + 3 else ""
+    head = text[: -len(tail)] if tail else text
+    room = width - len(tail) - 1
+    cut = max(head.rfind(" ", 0, room + 1), head.rfind("-", 0, room))
+    if cut <= 0:
+        return trunc(text, width)
+    keep = head[: cut + 1] if head[cut] == "-" else head[:cut]
+    return keep.rstrip(" ,;:") + "…" + tail
+
+
 def wrap_cell(text: str, width: int, max_lines: int = 2) -> str:
     """Text for a table cell ``width`` wide: on up to ``max_lines`` lines broken at spaces
     (the row is made that tall), cut only beyond them."""
@@ -104,6 +123,13 @@ def wrap_cell(text: str, width: int, max_lines: int = 2) -> str:
     if len(lines) > max_lines:
         lines = [*lines[: max_lines - 1], trunc(" ".join(lines[max_lines - 1:]), width)]
     return "\n".join(lines)
+
+
+def wrap_labels(labels: Sequence[str], width: int, max_lines: int = 3) -> list[str]:
+    """Labels for a table column ``width`` wide, each on as many lines as it needs (up to
+    ``max_lines``, broken at spaces): as written when they fit on one line, else with the
+    upgrades' short names ("EV for ..."), so that two long labels never read the same."""
+    return [wrap_cell(t if len(t) <= width else short_words(t), width, max_lines) for t in labels]
 
 
 def fuel_label(key: str) -> str:

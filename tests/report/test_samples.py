@@ -106,3 +106,62 @@ def test_sample_homes_say_they_are_invented(path) -> None:
     assert who is None or who.endswith(" (invented)"), who
     header = [line for line in path.read_text(encoding="utf-8").splitlines()[:3] if line.startswith("#")]
     assert any("invented" in line.lower() for line in header)
+
+
+@pytest.mark.parametrize("path", SAMPLES, ids=[p.name for p in SAMPLES])
+def test_bills_npv_and_incentives_one_value_everywhere(path, capsys) -> None:
+    """Yearly bills, the money ahead or behind (net present value) and incentives read the same
+    on the printout, the command line, the JSON export and the app (Next view and its sources
+    panel, Money and Incentives panels)."""
+    from homeplan import cli
+    from homeplan.report.sources import money_sources, program_sources, step_sources
+    from homeplan.tui.widgets.base import ViewData
+    from homeplan.tui.widgets.overview import this_year_text
+
+    result = _result(path)
+    road = result.roadmap
+    data = ViewData(result.plan, result, path)
+    report = build_report(result, today=dt.date(2026, 12, 1))
+    assert cli.main(["plan", str(path)]) == 0
+    printed = capsys.readouterr().out.splitlines()
+    exported = json.loads(render_json(result))
+    years = {row[0]: row for row in report.years.rows}
+    bills_col = report.years.headers.index("Energy bills")
+    inc_col = report.years.headers.index("Incentives in")
+    for t in road.years:
+        bills, back = money(t.total_bills_usd), money(t.incentives_usd)
+        assert years[str(t.year)][bills_col] == bills                            # printout
+        assert years[str(t.year)][inc_col] == back
+        line = next(ln for ln in printed if ln.startswith(f"{t.year}  ") and "$" in ln
+                    and ln.split()[1].startswith("$"))                            # CLI years table
+        assert bills in line.split() and back in line.split()
+        panel = {x.what: x.value for x in money_sources(result.plan, result, t.year)}
+        assert panel["Bills"] == bills and panel["Back"] == back                 # app, Money 'w'
+    first = road.years[0]
+    assert f"Energy bills {money(first.total_bills_usd)}" in this_year_text(data).plain  # Next
+    # net present value: printout, CLI, app panel, JSON
+    panel = {x.what: x.value for x in money_sources(result.plan, result, None)}
+    for what, value, _ in report.against:
+        assert any(ln.startswith(f"{what}: {value}") for ln in printed)          # CLI
+        assert panel[what] == value                                             # app
+    if any(what == "Against doing nothing" for what, _, _ in report.against):
+        npv = exported["npv_usd"]
+        assert dict((w, v) for w, v, _ in report.against)["Against doing nothing"] == (
+            f"{money(abs(npv))} {'ahead' if npv >= 0 else 'behind'}")            # JSON
+    # incentives per step and per program
+    steps = {(row[1].split(" (")[0], row[0]): row for row in report.steps.rows}
+    inc = report.steps.headers.index("Incentives")
+    infos = {p.id: p for p in result.projects}
+    for s in road.steps:
+        row = steps[(s.label.split(" (")[0], str(s.year))]
+        assert row[inc] == money(s.incentives_usd)                               # printout
+        for line in s.incentives:                                                # app 'w'
+            assert any(x.what == line.program and x.value == money(line.amount_usd)
+                       for x in step_sources(s, infos.get(s.project_id), result.plan))
+    programs = {row[0]: row for row in report.programs.rows}
+    pays = report.programs.headers.index("Pays in this plan")
+    for p in result.programs:
+        total = money(sum(p.paid_by_year.values()))
+        if p.name in programs:
+            assert programs[p.name][pays] == total                               # printout
+        assert program_sources(result.plan, p)[0].value.startswith(total)        # app 'w'

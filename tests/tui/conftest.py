@@ -79,3 +79,29 @@ async def form_ready(pilot) -> None:
             return
         await pilot.pause(0.05)
     raise AssertionError("the form did not finish opening")
+
+
+# Long but realistic names, for the 80-column snapshots: what a household might type.
+LONG_NAMES = {
+    "name: Okafor-Lindqvist house": "name: Okafor-Lindqvist-Vandenberghe family house (invented)",
+    'place: "Snowdemo Falls (invented)"':
+        'place: "Snowdemo Falls Township, North Demo County (invented)"',
+    "name: 2012 sedan": "name: 2012 station wagon for the daily commute",
+    "name: 2017 wagon": "name: 2017 station wagon for family trips",
+    "incentive_files: [incentives/demoland_invented.yaml]":
+        "incentive_files: [incentives/demoland_invented.yaml, "
+        "incentives/federal_2023_2025_example.yaml]",
+}
+
+
+def long_names_plan(folder: Path) -> Path:
+    """The cold-climate demo home with the longest names of any sample (a long house name and
+    place, two cars whose names start alike, both incentive files) written into ``folder``."""
+    text = SAMPLE.read_text(encoding="utf-8")
+    for before, after in LONG_NAMES.items():
+        assert before in text, before
+        text = text.replace(before, after)
+    target = folder / "long_names_home.yaml"
+    target.write_text(text, encoding="utf-8")
+    shutil.copytree(SAMPLES / "incentives", folder / "incentives")
+    return target

@@ -1,4 +1,5 @@
-"""Snapshots of every view at 80x24 and 120x40 on the cold-climate demo home.
+"""Snapshots of every view at 80x24 and 120x40 on the cold-climate demo home, and of every view
+at 80x24 on the same home with the longest names (long labels wrap; no word is cut).
 
 Regenerate after an intended change with:
     .venv/bin/python -m pytest tests/tui/test_snapshots.py --snapshot-update
@@ -10,7 +11,7 @@ from __future__ import annotations
 
 import pytest
 
-from .conftest import SAMPLE, make_app, settle
+from .conftest import SAMPLE, long_names_plan, make_app, settle
 
 VIEWS = ["1", "2", "3", "4", "5", "6", "7"]
 NAMES = ["next", "home", "roadmap", "money", "power", "energy", "incentives"]
@@ -36,3 +37,9 @@ def test_light_theme_roadmap(snap_compare):
 def test_budget_form(snap_compare):
     app = make_app(SAMPLE)
     assert snap_compare(app, press=["b"], terminal_size=(80, 24), run_before=_ready)
+
+
+@pytest.mark.parametrize("key", VIEWS, ids=NAMES)
+def test_view_long_names(snap_compare, key, tmp_path):
+    app = make_app(long_names_plan(tmp_path))
+    assert snap_compare(app, press=[key], terminal_size=(80, 24), run_before=_ready)

@@ -2,6 +2,8 @@
 
 from __future__ import annotations
 
+import textwrap
+from collections.abc import Sequence
 from dataclasses import dataclass, field
 from pathlib import Path
 from typing import TYPE_CHECKING
@@ -9,14 +11,15 @@ from typing import TYPE_CHECKING
 from rich.text import Text
 from textual.containers import Vertical
 
-from homeplan.report.view import assumption_lines, emergency_lines
+from homeplan.report.sources import Sourced, assumption_sources
+from homeplan.report.view import emergency_lines
 
 if TYPE_CHECKING:
     from homeplan.plan.model import Plan
     from homeplan.result import PlanResult
     from homeplan.result.outlook import LifeOutlook
 
-__all__ = ["View", "ViewData", "assumptions_text", "banner_text"]
+__all__ = ["View", "ViewData", "assumptions_text", "banner_text", "sources_text"]
 
 
 @dataclass(frozen=True)
@@ -97,15 +100,37 @@ class View(Vertical):
         return out.append_text(assumptions_text(data))
 
 
+SOURCES_WIDTH = 70
+"""Width the sources panel's lines are wrapped to (with hanging indents); fits 80 columns."""
+
+
+def sources_text(lines: Sequence[Sourced]) -> Text:
+    """Figures with their sources: each figure's name and value on one line, "from ..." under
+    it; the figures of one step under the step's name."""
+    out = Text()
+    group = None
+    for x in lines:
+        if x.group != group:
+            group = x.group
+            if group:
+                out.append(f"{group}\n", style="bold underline")
+        first = textwrap.wrap(f"{x.what}: {x.value}", SOURCES_WIDTH, initial_indent="  ",
+                              subsequent_indent="      ")
+        out.append(first[0][: len(x.what) + 3], style="bold")
+        out.append("\n".join(first)[len(x.what) + 3:] + "\n")
+        where = x.source if x.source.startswith("computed") else f"from {x.source}"
+        out.append("\n".join(textwrap.wrap(where, SOURCES_WIDTH, initial_indent="    ",
+                                           subsequent_indent="      ")) + "\n", style="italic")
+    return out
+
+
 def assumptions_text(data: ViewData) -> Text:
-    """The assumptions behind the result, in words (the printout's lines), and the planner's
-    notes."""
+    """The assumptions behind the result, each with its source (the printout's lines), and the
+    planner's notes."""
     out = Text()
     if data.result is not None:
         out.append("Assumptions behind these numbers:\n", style="bold")
-        for what, value in assumption_lines(data.plan, data.result):
-            out.append(f"  {what}: ", style="bold")
-            out.append(f"{value}\n")
+        out.append_text(sources_text(assumption_sources(data.plan, data.result)))
     if data.result is not None and data.result.warnings:
         out.append("Notes from the planner:\n", style="bold")
         for w in data.result.warnings:

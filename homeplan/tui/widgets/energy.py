@@ -11,9 +11,10 @@ from textual.containers import VerticalScroll
 from textual.widgets import Static
 
 from homeplan.report.fmt import peak_demand_kw
+from homeplan.report.sources import energy_sources
 from homeplan.report.view import bill_fit_lines
 from homeplan.tui.format import ESTIMATES, bar, fuel_label, num, usd
-from homeplan.tui.widgets.base import View, ViewData, banner_text
+from homeplan.tui.widgets.base import View, ViewData, assumptions_text, banner_text, sources_text
 
 if TYPE_CHECKING:
     from homeplan.result import EnergySummary
@@ -152,6 +153,13 @@ class EnergyView(View):
                 bills.append(f"  {line}\n")
         bills.append(ESTIMATES, style="italic")
         self.query_one("#energy-bills", Static).update(bills)
+
+    def where_from(self, data: ViewData) -> Text:
+        """The yearly totals with their method, then the assumptions."""
+        out = Text()
+        if data.result is not None:
+            out.append_text(sources_text(energy_sources(data.result)))
+        return out.append_text(assumptions_text(data))
 
     def focus_main(self) -> None:
         self.query_one("#energy-scroll").focus()

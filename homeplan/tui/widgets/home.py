@@ -11,10 +11,10 @@ from textual.containers import VerticalScroll
 from textual.widgets import DataTable, Static
 
 from homeplan.plan.fuels import FOSSIL_FUELS, TANK_FUELS
-from homeplan.report.words import distinct_labels, life_source_words
+from homeplan.report.sources import PLAN_FILE, Sourced, catalog_source_words
 from homeplan.tui.actions import bindings
-from homeplan.tui.format import BLOCKS, num, usd
-from homeplan.tui.widgets.base import View, ViewData
+from homeplan.tui.format import BLOCKS, num, usd, wrap_labels
+from homeplan.tui.widgets.base import View, ViewData, assumptions_text, sources_text
 from homeplan.units import display_area
 
 if TYPE_CHECKING:
@@ -99,7 +99,7 @@ class HomeView(View):
         wide = self.app.size.width >= 100
         table.clear(columns=True)
         self.items = inventory(data)
-        name_w = 30 if wide else 22
+        name_w = 30 if wide else 26
         table.add_column("Item", width=name_w, key="item")
         table.add_column("Age", key="age")
         table.add_column("Likely end", key="end")
@@ -110,14 +110,16 @@ class HomeView(View):
         table.add_column(f"Risk {first % 100:02d}-{(first + RISK_YEARS - 1) % 100:02d}",
                          width=RISK_YEARS, key="risk")
         table.add_column("Note", key="note")
-        names = distinct_labels([it.label for it in self.items], name_w - 3)
+        names = wrap_labels([it.label for it in self.items], name_w - 3)
         for it, label in zip(self.items, names, strict=True):
             o = it.outlook
             fossil = it.fuel in FOSSIL_FUELS
-            name = Text(("◆ " if fossil else "  ") + label)
+            name = Text(("◆ " if fossil else "  ") + label.replace("\n", "\n  "))
+            height = label.count("\n") + 1
             if o is None:
                 note = "e: describe it" if it.group == "roof" else "electric"
-                table.add_row(name, "-", "-", *(["-"] if wide else []), "", note, key=it.key)
+                table.add_row(name, "-", "-", *(["-"] if wide else []), "", note, key=it.key,
+                              height=height)
                 continue
             age = f"{o.age_years:.0f}" + ("?" if o.install_year_assumed else "")
             if it.failed_now:
@@ -131,7 +133,7 @@ class HomeView(View):
             cells = [name, age, str(o.expected_end_year)]
             if wide:
                 cells.append(str(o.replace_by_year))
-            table.add_row(*cells, risk_bar(o.hazard_pct), note, key=it.key)
+            table.add_row(*cells, risk_bar(o.hazard_pct), note, key=it.key, height=height)
         if self.items:
             table.move_cursor(row=min(max(keep, 0), len(self.items) - 1), animate=False, scroll=False)
         legend = Text()
@@ -206,23 +208,34 @@ class HomeView(View):
     def focus_main(self) -> None:
         self.query_one(Inventory).focus()
 
-    def where_from(self, data: ViewData) -> Text:  # noqa: ARG002 - the View interface
+    def where_from(self, data: ViewData) -> Text:
+        """The selected item's figures with their sources, then the home's own inputs."""
         it = self.current_item()
-        out = Text()
+        lines: list[Sourced] = []
         if it is not None and it.outlook is not None:
             o = it.outlook
-            out.append(f"{it.label}: ", style="bold")
-            out.append(f"installed {o.install_year}"
-                       + (" (assumed: half-way through a typical life)" if o.install_year_assumed
-                          else " (your input)") + ".\n")
-            out.append(f"Typical life {o.median_life_years:.0f} years, from {life_source_words(o.source)}.\n")
-            out.append(f"Likely end {o.expected_end_year}; replace by {o.replace_by_year}, when "
-                       f"the chance it has failed reaches {o.risk_pct:.0f} % (worked out from how "
-                       "long such appliances usually last).\n")
+            label = it.label
+            lines.append(Sourced("Installed", str(o.install_year),
+                                 "computed: assumed half-way through a typical life (your plan "
+                                 "file gives no year)" if o.install_year_assumed else PLAN_FILE,
+                                 label))
+            lines.append(Sourced("Typical life", f"{o.median_life_years:.0f} years",
+                                 catalog_source_words(o.source), label))
+            lines.append(Sourced("Likely end", str(o.expected_end_year),
+                                 "computed: the year it is more likely than not to have failed, "
+                                 "from its age, the typical life and its condition", label))
+            lines.append(Sourced("Replace by", str(o.replace_by_year),
+                                 f"computed: the year the chance it has failed reaches "
+                                 f"{o.risk_pct:.0f} % (the risk level in your plan file)", label))
             if o.hazard_pct and o.cumulative_failure_pct:
                 n = min(RISK_YEARS, len(o.hazard_pct)) - 1
-                out.append(f"Chance it fails in {o.first_year}: {o.hazard_pct[0]:.0f} %; in {o.first_year + n}: "
-                           f"{o.hazard_pct[n]:.0f} % if it lasts that long; {o.cumulative_failure_pct[n]:.0f} % "
-                           f"chance it has failed by the end of {o.first_year + n}.\n")
-        out.append("Service, roof and bills are your inputs from the plan file.")
-        return out
+                lines.append(Sourced("Chance it fails",
+                                     f"{o.hazard_pct[0]:.0f} % in {o.first_year}, {o.hazard_pct[n]:.0f} % in "
+                                     f"{o.first_year + n} if it lasts that long; "
+                                     f"{o.cumulative_failure_pct[n]:.0f} % that it has failed by the end of "
+                                     f"{o.first_year + n}",
+                                     "computed: from its age, the typical life and its condition", label))
+        out = sources_text(lines)
+        out.append("Electrical service, roof, bills and budget: ", style="bold")
+        out.append("your plan file (the load today is computed as on the Power view).\n")
+        return out.append_text(assumptions_text(data))

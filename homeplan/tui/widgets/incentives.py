@@ -9,10 +9,11 @@ from textual.app import ComposeResult
 from textual.containers import VerticalScroll
 from textual.widgets import DataTable, Static
 
+from homeplan.report.sources import program_sources
 from homeplan.report.words import caps_words
 from homeplan.tui.actions import bindings
 from homeplan.tui.format import ESTIMATES, kusd, usd, wrap_cell
-from homeplan.tui.widgets.base import View, ViewData, banner_text
+from homeplan.tui.widgets.base import View, ViewData, assumptions_text, banner_text, sources_text
 
 if TYPE_CHECKING:
     from homeplan.result import ProgramUse
@@ -103,6 +104,14 @@ class IncentivesView(View):
         body.append(ESTIMATES + " Programs change: check each one before you count on it.",
                     style="italic")
         widget.update(body)
+
+    def where_from(self, data: ViewData) -> Text:
+        """The program under the cursor, each figure with its source, then the assumptions."""
+        out = Text()
+        i = self.query_one("#incentives-table", DataTable).cursor_row
+        if 0 <= i < len(self.programs):
+            out.append_text(sources_text(program_sources(data.plan, self.programs[i])))
+        return out.append_text(assumptions_text(data))
 
     def focus_main(self) -> None:
         self.query_one("#incentives-table").focus()

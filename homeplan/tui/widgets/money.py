@@ -8,9 +8,10 @@ from textual.containers import VerticalScroll
 from textual.widgets import DataTable, Static
 
 from homeplan.report.risk import risk_lines
+from homeplan.report.sources import money_sources
 from homeplan.report.view import comparison_lines
 from homeplan.tui.format import ESTIMATES, kusd, spark, usd
-from homeplan.tui.widgets.base import View, ViewData, banner_text
+from homeplan.tui.widgets.base import View, ViewData, assumptions_text, banner_text, sources_text
 
 __all__ = ["MoneyView", "band_chart", "running_chart"]
 
@@ -139,6 +140,16 @@ class MoneyView(View):
                 chart.append_text(band_chart(data, self.app.size.width))
         chart.append(ESTIMATES, style="italic")
         self.query_one("#money-chart-text", Static).update(chart)
+
+    def where_from(self, data: ViewData) -> Text:
+        """The year under the cursor, each figure with its source, then the assumptions."""
+        out = Text()
+        if data.result is not None and data.roadmap is not None:
+            table = self.query_one("#money-table", DataTable)
+            years = [t.year for t in data.roadmap.years]
+            year = years[table.cursor_row] if 0 <= table.cursor_row < len(years) else None
+            out.append_text(sources_text(money_sources(data.plan, data.result, year)))
+        return out.append_text(assumptions_text(data))
 
     def focus_main(self) -> None:
         self.query_one("#money-table").focus()

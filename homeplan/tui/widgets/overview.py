@@ -9,10 +9,10 @@ from textual.widgets import Static
 
 from homeplan.report.fmt import money_short
 from homeplan.report.fossil import fossil_lines
+from homeplan.report.sources import step_sources
 from homeplan.report.view import step_safety
-from homeplan.report.words import fit_labels
-from homeplan.tui.format import ESTIMATES, usd, when
-from homeplan.tui.widgets.base import View, ViewData, banner_text
+from homeplan.tui.format import ESTIMATES, usd, when, wrap_labels
+from homeplan.tui.widgets.base import View, ViewData, assumptions_text, banner_text, sources_text
 
 __all__ = ["OverviewView", "changes_text", "fuel_text", "next_text", "this_year_text"]
 
@@ -39,13 +39,17 @@ def next_text(data: ViewData, width: int = 80) -> Text:
     first_year = rm.steps[0].year
     now = rm.steps_in(first_year)
     label_w = max(16, min(36, width - 54))
-    labels = fit_labels([s.label for s in now[:4]], label_w)
+    labels = wrap_labels([s.label for s in now[:4]], label_w)
     out.append(f"{'':5}{'':{label_w}} {'you pay':>8}  incentives\n", style="dim")
     for s, label in zip(now[:4], labels, strict=False):
         pos = sum(i.amount_usd for i in s.incentives if i.kind == "point_of_sale")
         later = [i for i in s.incentives if i.kind != "point_of_sale"]
+        lines = label.split("\n")
         out.append(f"{s.year} ")
-        out.append(label.ljust(label_w), style="bold")
+        for more in lines[:-1]:  # a long label's first lines, then its last beside the figures
+            out.append(more, style="bold")
+            out.append(f"\n{'':5}")
+        out.append(lines[-1].ljust(label_w), style="bold")
         out.append(f" {usd(s.net_cost_usd):>8}")
         notes = []
         if pos:
@@ -157,6 +161,16 @@ class OverviewView(View):
         self.query_one("#next-box").border_title = "What to do next"
         self.query_one("#year-box").border_title = "What it costs this year"
         self.query_one("#electric-box").border_title = "Fuel still bought, and when it stops"
+
+    def where_from(self, data: ViewData) -> Text:
+        """The first year's steps, each figure with its source, then the assumptions."""
+        out = Text()
+        rm = data.roadmap
+        if rm is not None and rm.steps and data.result is not None:
+            infos = {p.id: p for p in data.result.projects}
+            for s in rm.steps_in(rm.steps[0].year):
+                out.append_text(sources_text(step_sources(s, infos.get(s.project_id), data.plan)))
+        return out.append_text(assumptions_text(data))
 
     def show(self, data: ViewData) -> None:
         banner = self.query_one("#overview-banner", Static)

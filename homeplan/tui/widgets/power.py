@@ -11,9 +11,10 @@ from textual.widgets import DataTable, Static
 
 from homeplan.catalog import cautions
 from homeplan.report.fmt import service_verdict
+from homeplan.report.sources import capacity_sources
 from homeplan.report.words import load_words, short_words
 from homeplan.tui.format import num, trunc, wrap_cell
-from homeplan.tui.widgets.base import View, ViewData, banner_text
+from homeplan.tui.widgets.base import View, ViewData, assumptions_text, banner_text, sources_text
 
 if TYPE_CHECKING:
     from homeplan.result import CapacityState
@@ -124,7 +125,12 @@ class PowerView(View):
     def focus_main(self) -> None:
         self.query_one("#power-table").focus()
 
-    def where_from(self, data: ViewData) -> Text:  # noqa: ARG002 - the View interface
-        return Text("The load calculation follows the method named on each row (NEC article 220). "
-                    "Nameplate values are yours where given, otherwise catalog defaults. "
-                    "A licensed electrician must confirm it before any work.")
+    def where_from(self, data: ViewData) -> Text:
+        """The row under the cursor, each figure with its source, then the assumptions."""
+        out = Text()
+        i = self.query_one("#power-table", DataTable).cursor_row
+        if 0 <= i < len(self.states):
+            out.append_text(sources_text(capacity_sources(self.states[i])))
+        out.append("The load calculation follows the method named on each row (NEC article "
+                   "220). A licensed electrician must confirm it before any work.\n")
+        return out.append_text(assumptions_text(data))

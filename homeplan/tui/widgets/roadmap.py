@@ -11,14 +11,16 @@ from textual.containers import VerticalScroll
 from textual.widgets import DataTable, Static
 
 from homeplan.catalog import cautions as caution_texts
-from homeplan.report.words import cost_source_words, fit_labels, size_words
+from homeplan.report.sources import catalog_source_words, step_sources
+from homeplan.report.words import cost_source_words, size_words
 from homeplan.tui.actions import bindings
-from homeplan.tui.format import ESTIMATES, kusd_fit, trunc, usd, when
+from homeplan.tui.format import ESTIMATES, kusd_fit, trunc, usd, when, wrap_labels
 from homeplan.tui.widgets.base import (
     View,
     ViewData,
     assumptions_text,
     banner_text,
+    sources_text,
 )
 
 if TYPE_CHECKING:
@@ -224,10 +226,11 @@ class RoadmapView(View):
                   and r.id not in data.moved]
         self.rows = rows if self.show_all else [r for r in rows if r not in hidden]
         self.hidden_count = 0 if self.show_all else len(hidden)
-        names = fit_labels([r.label for r in self.rows], label_w - 3)
+        names = wrap_labels([r.label for r in self.rows], label_w - 3)
         for row, name in zip(self.rows, names, strict=True):
             mark = "▲ " if row.pinned is not None else "✕ " if row.excluded else "  "
-            label = Text(mark + name + " ", style="dim" if row.excluded or row.step is None else "")
+            label = Text(mark + name.replace("\n", "\n  ") + " ",
+                         style="dim" if row.excluded or row.step is None else "")
             cells: list[Text] = [label]
             moved_from = data.moved.get(row.id, "absent") if row.id in data.moved else "absent"
             for y in years:
@@ -241,7 +244,7 @@ class RoadmapView(View):
                     cells.append(Text("▲".rjust(year_w - 1) + " "))
                 else:
                     cells.append(Text("·".rjust(year_w - 1) + " ", style="dim"))
-            table.add_row(*cells, key=row.id)
+            table.add_row(*cells, key=row.id, height=name.count("\n") + 1)
         if rm is not None:
             totals = {t.year: t for t in rm.years}
             base = rm.baseline("like_for_like") or rm.baseline("do_nothing")
@@ -331,9 +334,12 @@ class RoadmapView(View):
     def where_from(self, data: ViewData) -> Text:
         out = Text()
         row = self.current_row()
-        if row is not None and row.info is not None:
-            out.append(f"{row.info.label}: today's cost {usd(row.info.cost_usd)} before incentives, "
-                       f"from {cost_source_words(row.info.cost_source)}.\n")
+        if row is not None and row.step is not None:
+            out.append_text(sources_text(step_sources(row.step, row.info, data.plan)))
+        elif row is not None and row.info is not None:
+            out.append(f"{row.info.label}: ", style="bold")
+            out.append(f"today's price {usd(row.info.cost_usd)}\n")
+            out.append(f"    from {catalog_source_words(row.info.cost_source)}\n", style="italic")
         out.append_text(assumptions_text(data))
         out.append("Step years come from the scheduler; reasons are its own explanation.")
         return out
