@@ -27,7 +27,6 @@ __all__ = [
     "distinct_labels",
     "fit_labels",
     "heat_output_words",
-    "life_source_words",
     "load_words",
     "short_words",
     "size_words",
@@ -115,16 +114,6 @@ def distinct_labels(labels: Sequence[str], width: int) -> list[str]:
                 end = end[end.index(" ") + 1:]
             out[i] = text[:head].rstrip() + "…" + end
     return out
-
-
-def life_source_words(source: str) -> str:
-    """Where a typical service life comes from, without the catalog's working notes: the
-    published table it names, or "typical lives in the trade (an estimate)"."""
-    main = source.split(";")[0]
-    main = re.sub(r"\s*\([^)]*from memory[^)]*\)", "", main).strip(" ,")
-    if not main or "from memory" in main or main.lower().startswith(("reference notes", "money reference")):
-        return "typical service lives in the trade (an estimate)"
-    return main
 
 
 def load_words(name: str) -> str:
