@@ -138,7 +138,7 @@ def median_time(fn, runs: int = RUNS) -> tuple[float, float, object]:
 
 def main() -> None:
     solver = MilpSolver(time_limit_s=60.0)
-    MilpSolver().solve(instance(objective="max_npv"))  # warm the scipy import
+    MilpSolver().solve(instance(objective="max_npv"))  # warm the solver's import
     load = os.getloadavg()[0] if hasattr(os, "getloadavg") else float("nan")
     print(
         f"solver benchmark: {len(CATALOG)} projects x {N_YEARS} years, median of {RUNS} runs "
@@ -148,8 +148,8 @@ def main() -> None:
     w, c, model = median_time(lambda: build_model(pr))
     print(
         f"  {'model build':48s} {w * 1000:8.1f} / {c * 1000:8.1f} ms  "
-        f"({model.a_matrix.shape[0]} rows, {model.a_matrix.shape[1]} columns, "
-        f"{model.a_matrix.nnz} nonzeros)"
+        f"({model.shape[0]} rows, {model.shape[1]} columns, "
+        f"{len(model.a_value)} nonzeros)"
     )
     cases = [
         ("max_npv", instance()),

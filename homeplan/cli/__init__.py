@@ -13,6 +13,7 @@ import importlib
 import os
 from collections.abc import Sequence
 
+from homeplan.cli.c_output import c_output_aside
 from homeplan.cli.parser import (
     COMMANDS,
     EXIT_BAD_INPUT,
@@ -62,7 +63,8 @@ def main(argv: Sequence[str] | None = None) -> int:
         _preflight(args)
         # the command's group is imported only now: it loads the planner and its libraries
         run = getattr(importlib.import_module(f"homeplan.cli.{module}"), function)
-        return int(run(args) or 0)
+        with c_output_aside():  # a C library's stray printf stays off the command's output
+            return int(run(args) or 0)
     except InputError as exc:
         for problem in exc.problems:
             say(str(problem) if problem.path else f"homeplan: {problem.message}", err=True)

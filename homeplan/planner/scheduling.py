@@ -49,7 +49,7 @@ from homeplan.planner.context import Context
 from homeplan.planner.incentives import IncentiveModel
 from homeplan.planner.projects import ProjectDetail, cost_in_year_usd
 from homeplan.planner.risk import price_paths, scenario_base_usd, scenario_values
-from homeplan.schedule.explain import diagnose_infeasible, explain
+from homeplan.schedule.explain import diagnose_infeasible, explain, first_true
 from homeplan.schedule.milp import MilpSolver, Solution
 from homeplan.schedule.problem import (
     ExclusiveGroup,
@@ -196,10 +196,13 @@ def all_electric_by(ctx: Context, implicit_target: bool) -> int | None:
 def build_problem(ctx: Context, co: dict[str, Coefficients], capacity: CapacityModel,
                   implicit_target: bool = True, delay: int | None = 0,
                   groups: tuple[IncentiveGroup, ...] = (),
-                  alternatives: dict[str, ProjectDetail] | None = None) -> Problem:
+                  alternatives: dict[str, ProjectDetail] | None = None,
+                  series: dict[str, tuple] | None = None) -> Problem:
     """The scheduling problem. ``delay``: years allowed past each appliance's replace-by year
     (None: no replace-by windows). ``alternatives``: other sizes of the sized projects (id
-    ``<project>@<size>`` -> detail), offered beside the project itself, at most one of them."""
+    ``<project>@<size>`` -> detail), offered beside the project itself, at most one of them.
+    ``series``: a dict kept by a caller that builds the problem again with the same context and
+    coefficients (another ``delay`` or target): each project's yearly values, computed once."""
     plan = ctx.plan
     years = ctx.years
     T = len(years)
@@ -214,13 +217,18 @@ def build_problem(ctx: Context, co: dict[str, Coefficients], capacity: CapacityM
         pid = d.id
         c = co[entry]
         life = d.life_years
-        value = [_value(ctx, c, t, life) for t in range(T)]
-        scenarios = () if paths is None else tuple(
-            tuple(v) for v in scenario_values(ctx, c.savings_by_fuel, value, paths).tolist())
-        savings = [sum(s * (1 + ctx.escalation(f)) ** t for f, s in c.savings_by_fuel.items())
-                   + c.maintenance_usd_per_year * (1 + plan.prices.inflation_pct / 100.0) ** t
-                   for t in range(T)]
-        emissions = [c.emissions_saved_kg * (T - t) for t in range(T)]
+        if series is not None and entry in series:
+            value, scenarios, savings, emissions = series[entry]
+        else:
+            value = [_value(ctx, c, t, life) for t in range(T)]
+            scenarios = () if paths is None else tuple(
+                tuple(v) for v in scenario_values(ctx, c.savings_by_fuel, value, paths).tolist())
+            savings = [sum(s * (1 + ctx.escalation(f)) ** t for f, s in c.savings_by_fuel.items())
+                       + c.maintenance_usd_per_year * (1 + plan.prices.inflation_pct / 100.0) ** t
+                       for t in range(T)]
+            emissions = [c.emissions_saved_kg * (T - t) for t in range(T)]
+            if series is not None:
+                series[entry] = (value, scenarios, savings, emissions)
         penalty = [0.0] * T
         cumulative = [0.0] * T
         item = ""
@@ -708,20 +716,35 @@ def _solve_relaxing(ctx: Context, co: dict[str, Coefficients], capacity: Capacit
                     alternatives: dict[str, ProjectDetail] | None = None
                     ) -> tuple[Problem, Solution, int | None]:
     """Solve with the replace-by windows; if the budget cannot meet them, allow the fewest
-    extra years that make it feasible, and finally drop the windows (saying so in ``notes``)."""
-    delays: list[int | None] = list(range(0, len(ctx.years))) + [None]
-    for delay in delays:
-        problem = build_problem(ctx, co, capacity, implicit_target=implicit, delay=delay, groups=groups,
-                                alternatives=alternatives)
-        solution = solve(problem)
-        if solution.feasible:
-            if delay:
-                notes.append(f"the budget cannot replace every appliance by its replace-by year; "
-                             f"the plan allows up to {delay} more year(s)")
-            elif delay is None:
-                notes.append("the budget cannot replace the appliances before their likely "
-                             "failure; the plan accepts the risk")
-            return problem, solution, delay
-        if not any(p.latest_year for p in problem.projects):
-            break
-    return problem, solution, None
+    extra years that make it feasible, and finally drop the windows (saying so in ``notes``).
+
+    Each extra year only widens the windows, so the fewest is found by bisection with
+    feasibility tests (:meth:`MilpSolver.feasible`, a few ms each), and only the problem
+    chosen is solved in full."""
+
+    series: dict[str, tuple] = {}
+
+    def build(delay: int | None) -> Problem:
+        return build_problem(ctx, co, capacity, implicit_target=implicit, delay=delay, groups=groups,
+                             alternatives=alternatives, series=series)
+
+    problem = build(0)
+    solution = solve(problem)
+    if solution.feasible:
+        return problem, solution, 0
+    if not any(p.latest_year for p in problem.projects):
+        return problem, solution, None
+    delay = first_true(1, len(ctx.years) - 1, lambda d: PLAN_SOLVER.feasible(build(d)))
+    problem = build(delay)
+    if delay is None and not PLAN_SOLVER.feasible(problem):
+        return problem, Solution("infeasible", solver="highs",
+                                 message="no plan meets every constraint, even without the windows"), None
+    solution = solve(problem)
+    if solution.feasible:
+        if delay:
+            notes.append(f"the budget cannot replace every appliance by its replace-by year; "
+                         f"the plan allows up to {delay} more year(s)")
+        else:
+            notes.append("the budget cannot replace the appliances before their likely "
+                         "failure; the plan accepts the risk")
+    return problem, solution, delay if solution.feasible else None

@@ -25,13 +25,14 @@ or the earliest workable target year.
 from __future__ import annotations
 
 import dataclasses
+import time
 from collections.abc import Callable
 from dataclasses import dataclass
 
 from homeplan.schedule.milp import MilpSolver, Solution, Solver
 from homeplan.schedule.problem import FAMILIES, Problem, evaluate, evaluate_batch, placement_of
 
-__all__ = ["Diagnosis", "diagnose", "diagnose_infeasible", "explain", "minimum_extra_budget"]
+__all__ = ["Diagnosis", "diagnose", "diagnose_infeasible", "explain", "first_true", "minimum_extra_budget"]
 
 _SOFT = {"window", "pin", "target"}
 
@@ -246,7 +247,8 @@ class Diagnosis:
 
     ``blocking``: constraint families whose relaxation alone makes the problem feasible.
     ``extra_budget_usd_per_year``: smallest extra money per year (same for every year) found by
-    bisection, rounded up to $10; re-solving with it is feasible. ``target_year``: the earliest
+    bisection, rounded up to $10 (or, when the search ran out of time, an amount found to be
+    enough); re-solving with it is feasible. ``target_year``: the earliest
     year every target can be moved to (all targets moved by the same number of years).
 
     Attributes
@@ -355,7 +357,8 @@ def _feasibility_problem(problem: Problem) -> Problem:
 
 
 def minimum_extra_budget(
-    problem: Problem, feasible: Callable[[Problem], bool], step_usd: float = 10.0
+    problem: Problem, feasible: Callable[[Problem], bool] | None = None, step_usd: float = 10.0,
+    with_extra: Callable[[float], bool] | None = None, deadline: float | None = None,
 ) -> float | None:
     """Smallest extra budget per year (multiple of ``step_usd``) that makes ``problem``
     feasible, by bisection, or ``None`` if even a very large budget does not.
@@ -364,86 +367,165 @@ def minimum_extra_budget(
     ----------
     problem : Problem
         The problem.
-    feasible : callable
+    feasible : callable or None
         Returns True if a :class:`Problem` is feasible.
     step_usd : float
         Resolution of the search, USD per year.
+    with_extra : callable or None
+        Instead of ``feasible``: returns True if ``problem`` with that many USD added to every
+        year's budget is feasible (e.g. :meth:`MilpSolver.feasible_with_extra_budget`).
+    deadline : float or None
+        A ``time.perf_counter()`` value: past it the bisection stops and returns the smallest
+        amount found to be enough so far.
 
     Returns
     -------
     float or None
         Extra budget, USD per year.
     """
+    if with_extra is None:
+        if feasible is None:
+            raise TypeError("minimum_extra_budget needs feasible or with_extra")
+        test = feasible
 
-    def with_extra(e: float) -> Problem:
-        return problem.replace(budget_usd=tuple(b + e for b in problem.budget_usd))
+        def with_extra(e: float) -> bool:
+            return test(problem.replace(budget_usd=tuple(b + e for b in problem.budget_usd)))
 
     hi = sum(max(p.cost_usd) for p in problem.projects) + 1.0
     hi += problem.loan_limit_usd * (1.0 + problem.loan_interest_per_usd())
     hi = step_usd * -(-hi // step_usd)
-    if not feasible(with_extra(hi)):
+    if not with_extra(hi):
         return None
     lo = 0.0
-    if feasible(problem):
+    if with_extra(0.0):
         return 0.0
     while hi - lo > step_usd:
+        if deadline is not None and time.perf_counter() > deadline:
+            break  # hi is known to be enough
         mid = step_usd * ((lo + hi) / 2 // step_usd)
         if mid <= lo:
             mid = lo + step_usd
         if mid >= hi:
             break
-        if feasible(with_extra(mid)):
+        if with_extra(mid):
             hi = mid
         else:
             lo = mid
     return hi
 
 
-def diagnose(problem: Problem, solver: Solver | None = None) -> Diagnosis:
+def first_true(lo: int, hi: int, test: Callable[[int], bool]) -> int | None:
+    """The smallest ``k`` in ``lo..hi`` with ``test(k)`` true, for a test that stays true once it
+    is (monotone); None when none is. Galloping search (``lo``, ``lo + 1``, ``lo + 3``, ... then
+    bisection): about ``2 log2(k - lo)`` tests, few when the answer is near ``lo``, as it
+    usually is."""
+    below, step, k = lo - 1, 1, lo  # test(below) is false (or below is out of range)
+    while k <= hi:
+        if test(k):
+            break
+        below, k, step = k, k + step, step * 2
+    else:
+        if below >= hi or not test(hi):
+            return None
+        k = hi
+    while k - below > 1:  # test(k) true, test(below) false
+        mid = (below + k) // 2
+        if test(mid):
+            k = mid
+        else:
+            below = mid
+    return k
+
+
+class _OutOfTime(Exception):
+    """The diagnosis used up its time."""
+
+
+def diagnose(problem: Problem, solver: Solver | None = None, time_budget_s: float = 1.5) -> Diagnosis:
     """Explain why ``problem`` is infeasible and the smallest change that makes it feasible.
+
+    Near the edge of feasibility a test can be a hard problem of its own (tight budgets over
+    30 years: seconds a test), so the search has a time budget: each test gets at most the
+    solver's time limit (a test stopped by it counts as infeasible, so an amount reported is
+    always enough) and, once the budget is spent, the diagnosis reports what it has found and
+    says that the search stopped.
 
     Parameters
     ----------
     problem : Problem
         The problem.
     solver : Solver or None
-        Solver for the feasibility checks; None uses a fast :class:`MilpSolver`.
+        Solver for the feasibility checks; None uses a fast :class:`MilpSolver` (1 s a test).
+    time_budget_s : float
+        Time for the whole search, s.
 
     Returns
     -------
     Diagnosis
         Blocking families, conflicts and the smallest changes found.
     """
-    solver = solver or MilpSolver(time_limit_s=10.0, mip_rel_gap=1.0)
+    solver = solver or MilpSolver(time_limit_s=1.0, mip_rel_gap=1.0)
     base = _feasibility_problem(problem)
+    deadline = time.perf_counter() + time_budget_s
 
-    def feasible(pr: Problem) -> bool:
-        return solver.solve(pr).feasible
+    def timed() -> Solver:
+        left = deadline - time.perf_counter()
+        if left <= 0:
+            raise _OutOfTime
+        if isinstance(solver, MilpSolver) and solver.time_limit_s > left:
+            return dataclasses.replace(solver, time_limit_s=max(left, 0.05))
+        return solver
 
-    if feasible(base):
+    def feasible(pr: Problem, s: Solver | None = None) -> bool:
+        s = s or timed()
+        # a solver that can test the constraints alone does so (a few ms a test); others solve
+        check = getattr(s, "feasible", None)
+        return bool(check(pr)) if check is not None else s.solve(pr).feasible
+
+    if feasible(base, solver):  # always asked, whatever the time budget
         return Diagnosis(True, "The request is feasible.")
     conflicts = _structural_conflicts(problem)
-    blocking = tuple(name for name, relax in _relaxations(base).items() if feasible(relax(base)))
+    blocking: list[str] = []
+    stopped = False
+    try:
+        for name, relax in _relaxations(base).items():
+            if feasible(relax(base)):
+                blocking.append(name)
+    except _OutOfTime:
+        stopped = True
     fixes: list[str] = []
     extra = None
     target_year = None
-    if "budget" in blocking:
-        extra = minimum_extra_budget(base, feasible)
+    if "budget" in blocking and not stopped:
+        by_budget = hasattr(solver, "feasible_with_extra_budget")
+        try:
+            extra = (minimum_extra_budget(base, feasible) if not by_budget
+                     else minimum_extra_budget(base, with_extra=timed().feasible_with_extra_budget(base), deadline=deadline))
+        except _OutOfTime:
+            stopped = True
+        stopped = stopped or time.perf_counter() > deadline
         if extra is not None:
             lo_b, hi_b = min(base.budget_usd), max(base.budget_usd)
             now = _money(lo_b) if lo_b == hi_b else f"{_money(lo_b)}-{_money(hi_b)}"
             fixes.append(f"raise the budget by about {_money(extra)} a year (from {now} a year)")
-    if "target" in blocking and base.targets:
+    if "target" in blocking and base.targets and not stopped:
         last = base.first_year + base.n_years - 1
-        for k in range(1, base.n_years + 1):
-            moved = tuple(dataclasses.replace(t, by_year=min(t.by_year + k, last)) for t in base.targets)
-            if feasible(base.replace(targets=moved)):
-                target_year = max(t.by_year for t in moved)
+
+        def moved(k: int) -> tuple:
+            return tuple(dataclasses.replace(t, by_year=min(t.by_year + k, last)) for t in base.targets)
+
+        # a later target only loosens the problem: the fewest years by bisection
+        try:
+            k = first_true(1, base.n_years, lambda k: feasible(base.replace(targets=moved(k))))
+        except _OutOfTime:
+            stopped = True
+        else:
+            if k is None:
+                fixes.append("drop the target (no year within the horizon works)")
+            else:
+                target_year = max(t.by_year for t in moved(k))
                 for t in base.targets:
                     fixes.append(f"move the '{t.label}' target from {t.by_year} to {min(t.by_year + k, last)}")
-                break
-        else:
-            fixes.append("drop the target (no year within the horizon works)")
     for name in blocking:
         if name not in ("budget", "target"):
             fixes.append(f"relax {_NAMES[name]}")
@@ -456,9 +538,12 @@ def diagnose(problem: Problem, solver: Solver | None = None) -> Diagnosis:
         msg += " Conflicts: " + "; ".join(conflicts) + "."
     if fixes:
         msg += " Smallest changes that make it feasible: " + "; or ".join(fixes) + "."
-    elif not blocking:
+    elif not blocking and not stopped:
         msg += " Several constraints must be relaxed together."
-    return Diagnosis(False, msg, blocking, tuple(conflicts), extra, target_year)
+    if stopped:
+        msg += (f" (The search for what to change stopped at its {time_budget_s:g} s limit: the "
+                "changes named are enough, but there may be smaller ones or others.)")
+    return Diagnosis(False, msg, tuple(blocking), tuple(conflicts), extra, target_year)
 
 
 def diagnose_infeasible(problem: Problem, solver: Solver | None = None) -> str:

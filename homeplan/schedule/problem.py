@@ -69,6 +69,7 @@ from __future__ import annotations
 import dataclasses
 from collections.abc import Iterable, Mapping, Sequence
 from dataclasses import dataclass, field
+from functools import cached_property
 
 import numpy as np
 
@@ -98,7 +99,11 @@ TOL_USD = 1e-6
 
 
 def _floats(values: Iterable[float] | None) -> tuple[float, ...]:
-    return tuple(float(v) for v in values) if values is not None else ()
+    if values is None:
+        return ()
+    if type(values) is tuple and all(type(v) is float for v in values):
+        return values  # already converted (a copy made by dataclasses.replace)
+    return tuple(float(v) for v in values)
 
 
 @dataclass(frozen=True)
@@ -495,10 +500,14 @@ class Problem:
         """Calendar years of the horizon."""
         return tuple(range(self.first_year, self.first_year + self.n_years))
 
-    @property
+    @cached_property
     def ids(self) -> tuple[str, ...]:
         """Project ids, in project order."""
         return tuple(p.id for p in self.projects)
+
+    @cached_property
+    def _positions(self) -> dict[str, int]:
+        return {pid: i for i, pid in enumerate(self.ids)}
 
     def index(self, project_id: str) -> int:
         """Position of a project.
@@ -518,7 +527,10 @@ class Problem:
         ValueError
             If there is no such project.
         """
-        return self.ids.index(project_id)
+        try:
+            return self._positions[project_id]
+        except KeyError:
+            raise ValueError(f"{project_id!r} is not a project of this problem") from None
 
     def project(self, project_id: str) -> Project:
         """A project by id.
