@@ -2,9 +2,12 @@
 benchmarks/baseline_loop_energy.py (the baseline that bench_energy.py times it against).
 
 Outside reference: that independent implementation - the same hourly model written a second
-time, hour by hour in plain Python with its own heat pump rating lines, battery dispatch, export
-curtailment, bill netting and fuel totals (it shares with ``simulate`` only the weather-only inputs
-of the per-home cache, whose solar chain tests/energy/test_energy_solar.py checks against pvlib).
+time, hour by hour in plain Python with its own degree-hour loads, heat pump rating lines, daily
+profiles, EV charging window, battery dispatch, export curtailment, bill netting, fuel totals and
+emissions. It shares with ``simulate`` only the cache's inputs that do not depend on the plan state
+(temperatures, mains water temperature, the tariff's hourly price, the array's output per kWdc,
+whose PVWatts chain tests/energy/test_energy_solar.py checks against pvlib), the appliances'
+annual ratings and the data tables.
 Every figure the loop produces is compared, to 0.01 kWh (0.01 kW, USD, kg CO2; fuel to the
 therm or gallon worth 0.01 kWh of heat). The homes are invented.
 """
