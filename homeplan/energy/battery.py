@@ -114,19 +114,29 @@ def clamped_cumsum(x: np.ndarray, lo: float, hi: float, s0: float) -> np.ndarray
     associative operators); composition of clamp maps is associative.
     """
     n = x.size
-    a = np.array(x, dtype=float)
-    lo_a = np.full(n, float(lo))
-    hi_a = np.full(n, float(hi))
+    a, lo_a, hi_a = np.array(x, dtype=float), np.full(n, float(lo)), np.full(n, float(hi))
+    a2, lo2, hi2 = np.empty(n), np.empty(n), np.empty(n)  # the next level, then swapped
     k = 1
     while k < n:
-        a_prev, l_prev, h_prev = a[:-k], lo_a[:-k], hi_a[:-k]
+        m = n - k
         a_cur, l_cur, h_cur = a[k:], lo_a[k:], hi_a[k:]
-        new_l = np.minimum(np.maximum(l_prev + a_cur, l_cur), h_cur)
-        new_h = np.minimum(np.maximum(h_prev + a_cur, l_cur), h_cur)
-        a = np.concatenate([a[:k], a_prev + a_cur])
-        lo_a = np.concatenate([lo_a[:k], new_l])
-        hi_a = np.concatenate([hi_a[:k], new_h])
+        # step t (>= k) composes the map of steps t-2k+1..t-k with its own s -> min(max(s + a, l), h)
+        nl, nh = lo2[k:], hi2[k:]
+        np.add(lo_a[:m], a_cur, out=nl)
+        np.maximum(nl, l_cur, out=nl)
+        np.minimum(nl, h_cur, out=nl)
+        np.add(hi_a[:m], a_cur, out=nh)
+        np.maximum(nh, l_cur, out=nh)
+        np.minimum(nh, h_cur, out=nh)
+        np.add(a[:m], a_cur, out=a2[k:])
+        a2[:k], lo2[:k], hi2[:k] = a[:k], lo_a[:k], hi_a[:k]  # steps before k are finished
+        a, a2, lo_a, lo2, hi_a, hi2 = a2, a, lo2, lo_a, hi2, hi_a
         k *= 2
+        # A map with l == h is constant (the state hit a bound inside its window): composing it
+        # with earlier maps changes nothing the result reads, so once every unfinished step's map
+        # is constant the scan is done (the same numbers as running it to the end).
+        if k < n and np.array_equal(lo_a[k:], hi_a[k:]):
+            break
     return np.minimum(np.maximum(s0 + a, lo_a), hi_a)
 
 
@@ -170,7 +180,9 @@ def dispatch(spec: BatterySpec, net_load_kw: np.ndarray, hour_of_day: np.ndarray
     hi = spec.capacity_kwh
     s0 = min(max(spec.initial_frac * hi, lo), hi)
     soc = clamped_cumsum(x, lo, hi, s0)
-    dsoc = np.diff(soc, prepend=s0)
+    dsoc = np.empty_like(soc)  # np.diff(soc, prepend=s0), without building the longer array
+    dsoc[:1] = soc[:1] - s0
+    np.subtract(soc[1:], soc[:-1], out=dsoc[1:])
     charge = np.maximum(dsoc, 0.0) / eta
     discharge = np.maximum(-dsoc, 0.0) * eta
     return BatteryResult(charge, discharge, soc)

@@ -32,6 +32,22 @@ def test_clamped_cumsum_equals_loop(xs, lo, span, start):
     np.testing.assert_allclose(clamped_cumsum(np.array(xs), lo, hi, s0), ref, atol=1e-9)
 
 
+@pytest.mark.parametrize("quiet_hours", [0, 3000])
+def test_clamped_cumsum_equals_loop_over_a_year(quiet_hours):
+    """A year of daily fill-and-drain cycles (every window of a few days hits a bound, so the
+    scan may stop early), optionally ending in a long stretch of tiny steps that never hits one."""
+    rng = np.random.default_rng(7)
+    day = np.r_[np.full(8, -1.5), np.full(6, 3.0), np.full(10, -2.0)]
+    xs = np.tile(day, 365) + rng.normal(0, 0.3, 8760)
+    if quiet_hours:
+        xs[-quiet_hours:] = rng.normal(0, 0.001, quiet_hours)
+    ref, s = [], 6.75
+    for x in xs.tolist():  # the textbook recursion (reference)
+        s = min(max(s + x, 2.7), 13.5)
+        ref.append(s)
+    np.testing.assert_allclose(clamped_cumsum(xs, 2.7, 13.5, 6.75), ref, atol=1e-9)
+
+
 def test_round_trip_efficiency_day():
     # Definition of AC round-trip efficiency: 10 kWh stored -> 0.9 x 10 kWh delivered.
     net = np.zeros(48)
