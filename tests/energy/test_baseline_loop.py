@@ -1,8 +1,9 @@
 """The vectorised model agrees with an independent implementation: the per-hour Python loop of
 benchmarks/baseline_loop_energy.py (the baseline that bench_energy.py times it against).
 
-Outside reference: that independent implementation - the same hourly model written a second
-time, hour by hour in plain Python with its own degree-hour loads, heat pump rating lines, daily
+This is a consistency check between two implementations in this project, not a check against an
+outside source (the physics are checked against published sources in the other energy tests):
+the loop is the same hourly model written a second time, hour by hour in plain Python with its own degree-hour loads, heat pump rating lines, daily
 profiles, EV charging window, battery dispatch, export curtailment, bill netting, fuel totals and
 emissions. It shares with ``simulate`` only the cache's inputs that do not depend on the plan state
 (temperatures, mains water temperature, the tariff's hourly price, the array's output per kWdc,
