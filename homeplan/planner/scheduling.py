@@ -511,9 +511,9 @@ gap is well below a dollar on these plans. Graded against exhaustive enumeration
 benchmarks/bench_solver_agreement.py and tests/schedule/test_agreement.py."""
 
 
-def solve(problem: Problem) -> Solution:
-    """Solve with :data:`PLAN_SOLVER`."""
-    return PLAN_SOLVER.solve(problem)
+def solve(problem: Problem, start: dict[str, int | None] | None = None) -> Solution:
+    """Solve with :data:`PLAN_SOLVER`, from the plan ``start`` when given (project id -> year)."""
+    return PLAN_SOLVER.solve(problem, start=start)
 
 
 def work_order(ctx: Context, placed: dict[str, int]) -> list[str]:
@@ -624,7 +624,8 @@ def schedule(ctx: Context, capacity: CapacityModel, incentives: IncentiveModel) 
         co2.update(_alt_coefficients(ctx, alts, incentives, before))
         problem2 = build_problem(ctx, co2, capacity, implicit_target=implicit, delay=delay, groups=groups,
                                  alternatives=alts)
-        solution2 = solve(problem2)
+        # from the first answer: every project of the second problem, done in the year it was
+        solution2 = solve(problem2, start={p: None for p in problem2.ids} | _as_projects(solution, alts))
         if solution2.feasible:
             problem, solution, co, passes = problem2, solution2, co2, 2
             size_values = _size_values(ctx, problem2, solution2, alts)
