@@ -15,9 +15,7 @@ from homeplan.plan.model import Plan
 from homeplan.plan.save import write_atomic
 from homeplan.plan.schema import plan_json_schema
 from homeplan.planner import candidates, lifecycle
-from homeplan.planner.basis import BILL_YEAR_WEATHER_KEY, read_weather_file
-from homeplan.planner.incentives import load_programs
-from homeplan.planner.meter import read_meter
+from homeplan.planner.programs import load_programs
 from homeplan.report.table import text_table, usd
 from homeplan.units import display_area, display_temp
 
@@ -46,20 +44,31 @@ def _check_files(loaded: LoadedPlan) -> tuple[list[PlanRuleError], tuple[str, ..
         load_programs(plan, folder)
     except PlanRuleError as err:
         errors.append(err)
-    try:
-        _, reading = read_meter(plan, folder)
-    except PlanRuleError as err:
-        errors.append(err)
-    try:
-        if plan.home.climate.weather_file:
-            read_weather_file(folder, plan.home.climate.weather_file)
-    except PlanRuleError as err:
-        errors.append(err)
-    try:
-        if plan.usage is not None and plan.usage.weather_file:
-            read_weather_file(folder, plan.usage.weather_file, BILL_YEAR_WEATHER_KEY)
-    except PlanRuleError as err:
-        errors.append(err)
+    u = plan.usage
+    if u is not None and u.meter_file:
+        # the meter's readings are numpy arrays: its reader is loaded only when a file is named
+        from homeplan.planner.meter import read_meter
+
+        try:
+            _, reading = read_meter(plan, folder)
+        except PlanRuleError as err:
+            errors.append(err)
+    bill_year = u.weather_file if u is not None else None
+    if plan.home.climate.weather_file or bill_year:
+        # a weather year is read by the energy engine (numpy, pandas, pvlib): only when named
+        from homeplan.planner.basis import (
+            BILL_YEAR_WEATHER_KEY,
+            CLIMATE_WEATHER_KEY,
+            read_weather_file,
+        )
+
+        for name, loc in ((plan.home.climate.weather_file, CLIMATE_WEATHER_KEY),
+                          (bill_year, BILL_YEAR_WEATHER_KEY)):
+            try:
+                if name:
+                    read_weather_file(folder, name, loc)
+            except PlanRuleError as err:
+                errors.append(err)
     if reading is None:
         return errors, ()
     m = reading.series
