@@ -73,7 +73,8 @@ _PLAIN_TAGS = {f"tag:yaml.org,2002:{t}"
 # YAML 1.2.2 section 5.1: c-printable (plus the byte-order mark, allowed anywhere) is x09, x0A,
 # x0D, x20-x7E, x85, xA0-xD7FF, xE000-xFFFD and x10000-x10FFFF; these are the characters left.
 # Written as the few ranges outside it: the negated class of the wide ranges takes about 7 ms to
-# compile, paid by every command at import
+# compile at import (PyYAML's reader compiles that class too, but only commands that read YAML
+# import it; `schema` and `--help` do not)
 _NOT_PRINTABLE = re.compile("[\x00-\x08\x0b\x0c\x0e-\x1f\x7f-\x84\x86-\x9f\ud800-\udfff\ufffe\uffff]")
 
 
