@@ -21,13 +21,11 @@ common practice, no source: air sealing before heat pump sizing, roof before sol
 from __future__ import annotations
 
 import difflib
-import inspect
 from collections.abc import Mapping
 from dataclasses import dataclass, field
 from typing import Any
 
 from homeplan import catalog
-from homeplan.electrical.remedies import find_remedy
 from homeplan.errors import PlanRuleError
 from homeplan.plan.fuels import HOME_FUELS, appliance_fuel
 from homeplan.plan.model import Appliance, Plan
@@ -36,6 +34,7 @@ from homeplan.planner import lifecycle
 __all__ = [
     "CAPACITY_GROUP",
     "INSTALL_ORDER",
+    "REMEDY_COMBINATIONS",
     "MILESTONE_FOR_FUEL",
     "Candidate",
     "UpgradeOrder",
@@ -56,6 +55,10 @@ HEATING_KINDS = ("furnace", "boiler", "central_ac", "room_ac", "baseboard")
 CAPACITY_GROUP = "any_of:capacity"
 LOWER_POWER = "lower_power_variants"
 MILESTONE_FOR_FUEL = {"gas": "close_gas", "propane": "remove_propane_tank", "oil": "remove_oil_tank"}
+REMEDY_COMBINATIONS = 50_000
+"""How many mixes of the new loads' variants and service remedies the capacity stage weighs at
+most (its limit for :func:`homeplan.electrical.remedies.find_remedy`); a plan with more is refused
+here, where ``check`` sees it."""
 
 INSTALL_ORDER: dict[str, int] = {
     "panel_upgrade": 0, "service_upgrade": 0, "load_management": 0, "panel_space": 0,
@@ -358,7 +361,7 @@ def _check_capacity_choices(plan: Plan, cands: list[Candidate]) -> None:
         if k.capacity_load and c.id not in plan.choices.exclude:
             opt = plan.options.get(c.id)
             mixes *= 1 if (opt is not None and opt.variant) else max(1, len(k.variants))
-    most = inspect.signature(find_remedy).parameters["max_combinations"].default
+    most = REMEDY_COMBINATIONS
     remedies_per_mix = 12  # service as is or upgraded, x 3 solar connections, x with/without EMS
     if mixes * remedies_per_mix > most:
         raise PlanRuleError(("appliances",), f"the new electric loads can be chosen in {mixes:,} ways, "
