@@ -21,7 +21,7 @@ from homeplan.errors import InputError, PlanRuleError
 from homeplan.plan.files import PlanFolder
 from homeplan.plan.load import load_plan, load_plan_text
 from homeplan.planner.basis import read_weather_file
-from homeplan.planner.incentives import read_incentive_file
+from homeplan.planner.programs import read_incentive_file
 from tests import fuzzing
 
 SEEDS = st.integers(min_value=0, max_value=2**32 - 1)

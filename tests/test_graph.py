@@ -90,3 +90,39 @@ def test_dot_export_is_valid_shape():
     dot = graph.to_dot(graph.build_graph(sample("cold_gas_100a.yaml")))
     assert dot.startswith("digraph upgrades {") and dot.rstrip().endswith("}")
     assert '"ev_charger" -> "ev:sedan"' in dot
+
+
+@pytest.mark.parametrize("path", SAMPLES, ids=[p.name for p in SAMPLES])
+def test_the_plain_order_is_the_graph(path):
+    # check reads upgrade_order (no networkx); the planner and `homeplan graph` read the graph
+    plan = load_plan(path).plan
+    order, g = graph.upgrade_order(plan), graph.build_graph(plan)
+    assert order.project_ids == graph.project_nodes(g)
+    # the same edges in the same order: networkx lists them by their first node, each node's in
+    # the order they were added
+    place = {n: i for i, n in enumerate(g)}
+    assert list(g.edges) == sorted(order.edges, key=lambda e: place[e[0]])
+    assert all(g.edges[e] == dict(d) for e, d in order.edges.items())
+    assert {n: dict(d) for n, d in order.groups.items()} == {
+        n: d for n, d in g.nodes(data=True) if d.get("kind") == "any_of"}
+
+
+def test_user_order_cycle_is_found_without_the_graph():
+    with pytest.raises(PlanRuleError, match="the order makes a cycle: "):
+        graph.upgrade_order(load_plan_text(USER_CYCLE).plan)
+
+
+def test_cycle_test_agrees_with_networkx():
+    # networkx.is_directed_acyclic_graph as the reference, on random small directed graphs
+    import random
+
+    rng = random.Random(7)
+    seen = set()
+    for _ in range(400):
+        nodes = [f"n{i}" for i in range(rng.randint(1, 8))]
+        edges = [(rng.choice(nodes), rng.choice(nodes)) for _ in range(rng.randint(0, 12))]
+        edges = [(u, v) for u, v in edges if u != v]
+        expected = not nx.is_directed_acyclic_graph(nx.DiGraph(edges)) if edges else False
+        assert graph._has_cycle(set(nodes), edges) == expected, edges
+        seen.add(expected)
+    assert seen == {True, False}

@@ -44,7 +44,8 @@ DEFERRED = {
     ("homeplan.tui.app", "homeplan.planner.chain"),         # numpy, scipy, pvlib, networkx
     ("homeplan.tui.app", "homeplan.planner.context"),
     ("homeplan.tui.app", "homeplan.planner.diskstore"),       # numpy
-    ("homeplan.tui.widgets.base", "homeplan.planner.lifecycle"),  # numpy
+    ("homeplan.cli.describe", "homeplan.planner.basis"),    # a named weather file: numpy, pandas, pvlib
+    ("homeplan.cli.describe", "homeplan.planner.meter"),    # a named meter file: numpy
     ("homeplan.tui.app", "homeplan.planner.diskstore"),     # with the planner, after the first paint
 }
 

@@ -106,3 +106,43 @@ def test_outlook_shows_the_rising_conditional_risk_beside_the_cumulative():
     # survival multiplies: 1 - cumulative = product of (1 - hazard) (definition of conditional risk)
     surv = np.cumprod(1 - np.array(o.hazard_pct) / 100)
     np.testing.assert_allclose(1 - surv, np.array(o.cumulative_failure_pct) / 100, rtol=1e-9)
+
+
+@pytest.mark.parametrize(("age", "median", "shape"), [
+    (0.0, 15, 2.5), (10.0, 18, 3.0), (30.0, 12, 3.0), (5.0, 15, 0.8), (50.0, 15, 0.8),
+    (211.0, 20, 4.0),  # a roof laid in 1900: far past its median life, a few days left on average
+])
+def test_mean_remaining_life_against_numerical_integration(age, median, shape):
+    # E[T - a | T > a] = integral over t >= 0 of S(a + t) / S(a) (definition of the mean
+    # residual life, e.g. Meeker & Escobar 1998, ch. 4), integrated by scipy.integrate.quad over
+    # scipy.stats.weibull_min's log survival function
+    from scipy import integrate
+    from scipy.stats import weibull_min
+
+    eta = lifecycle.weibull_scale(median, shape)
+    log_sf_a = weibull_min.logsf(age, shape, scale=eta)
+    expected, _ = integrate.quad(lambda t: math.exp(weibull_min.logsf(age + t, shape, scale=eta) - log_sf_a),
+                                 0, math.inf, epsabs=1e-13, epsrel=1e-12, limit=200)
+    assert lifecycle.mean_remaining_life(age, eta, shape) == pytest.approx(expected, rel=1e-9)
+
+
+def test_mean_remaining_life_of_exponential_is_its_scale_at_any_age():
+    # beta = 1 is memoryless: the mean remaining life is eta whatever the age (closed form)
+    for age in (0.0, 3.0, 40.0, 400.0):
+        assert lifecycle.mean_remaining_life(age, 12.0, 1.0) == pytest.approx(12.0, rel=1e-12)
+
+
+@pytest.mark.parametrize(("s", "x"), [(1.2, 0.0), (1.25, 0.5), (1.4, 2.3), (2.25, 3.0), (1.33, 40.0),
+                                      (1.25, 1500.0)])
+def test_upper_gamma_against_scipy(s, x):
+    # scipy.special.gammaincc is the regularised upper incomplete gamma Q(s, x) = Gamma(s, x) / Gamma(s);
+    # compared in logs, since Gamma(s, x) underflows for large x while exp(x) Gamma(s, x) does not
+    from scipy.special import gammaincc
+
+    got = lifecycle.upper_gamma_scaled(s, x)
+    q = gammaincc(s, x)
+    if q > 0:
+        assert got == pytest.approx(math.exp(x) * math.gamma(s) * q, rel=1e-11)
+    else:  # beyond double range: exp(x) Gamma(s, x) ~ x^(s-1) (1 + (s-1)/x + ...), A&S 6.5.32
+        assert got == pytest.approx(x ** (s - 1) * (1 + (s - 1) / x + (s - 1) * (s - 2) / x ** 2), rel=1e-6)
+

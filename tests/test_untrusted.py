@@ -148,6 +148,21 @@ def test_yaml_core_schema_values():
     assert doc["a"][9] == "12" and doc["a"][10] == dt.date(2027, 1, 5)
 
 
+def test_refused_characters_are_those_yaml_does_not_print():
+    # YAML 1.2.2 section 5.1, c-printable: x09 | x0A | x0D | [x20-x7E] | x85 | [xA0-xD7FF] |
+    # [xE000-xFFFD] | [x10000-x10FFFF]; every other code point is refused, each one checked
+    from homeplan.plan.yamlread import _NOT_PRINTABLE
+
+    printable = [(0x09, 0x09), (0x0A, 0x0A), (0x0D, 0x0D), (0x20, 0x7E), (0x85, 0x85), (0xA0, 0xD7FF),
+                 (0xE000, 0xFFFD), (0x10000, 0x10FFFF)]
+    allowed = set().union(*(range(lo, hi + 1) for lo, hi in printable))
+    everything = "".join(map(chr, range(0x110000)))
+    refused = {m.start() for m in _NOT_PRINTABLE.finditer(everything)}
+    assert refused == set(range(0x110000)) - allowed
+    with pytest.raises(InputError, match=r"U\+FFFE"):
+        read_yaml("a: b\ufffe\n", "f.yaml")
+
+
 # ------------------------------------------------------------------ files a plan names
 
 

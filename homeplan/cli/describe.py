@@ -15,9 +15,7 @@ from homeplan.plan.model import Plan
 from homeplan.plan.save import write_atomic
 from homeplan.plan.schema import plan_json_schema
 from homeplan.planner import candidates, lifecycle
-from homeplan.planner.basis import BILL_YEAR_WEATHER_KEY, read_weather_file
-from homeplan.planner.incentives import load_programs
-from homeplan.planner.meter import read_meter
+from homeplan.planner.programs import load_programs
 from homeplan.report.table import text_table, usd
 from homeplan.units import display_area, display_temp
 
@@ -34,6 +32,14 @@ def _graph_checked(loaded: LoadedPlan) -> nx.DiGraph:
         raise loaded.locate(err) from None
 
 
+def _order_checked(loaded: LoadedPlan) -> candidates.UpgradeOrder:
+    """The upgrade graph's projects and order, checked, without building the graph (networkx)."""
+    try:
+        return candidates.upgrade_order(loaded.plan)
+    except PlanRuleError as err:
+        raise loaded.locate(err) from None
+
+
 def _check_files(loaded: LoadedPlan) -> tuple[list[PlanRuleError], tuple[str, ...]]:
     """The files a plan names must be readable and hold valid data (incentives, weather, meter),
     read the way the planner reads them: every problem found, and what the meter file tells,
@@ -46,20 +52,31 @@ def _check_files(loaded: LoadedPlan) -> tuple[list[PlanRuleError], tuple[str, ..
         load_programs(plan, folder)
     except PlanRuleError as err:
         errors.append(err)
-    try:
-        _, reading = read_meter(plan, folder)
-    except PlanRuleError as err:
-        errors.append(err)
-    try:
-        if plan.home.climate.weather_file:
-            read_weather_file(folder, plan.home.climate.weather_file)
-    except PlanRuleError as err:
-        errors.append(err)
-    try:
-        if plan.usage is not None and plan.usage.weather_file:
-            read_weather_file(folder, plan.usage.weather_file, BILL_YEAR_WEATHER_KEY)
-    except PlanRuleError as err:
-        errors.append(err)
+    u = plan.usage
+    if u is not None and u.meter_file:
+        # the meter's readings are numpy arrays: its reader is loaded only when a file is named
+        from homeplan.planner.meter import read_meter
+
+        try:
+            _, reading = read_meter(plan, folder)
+        except PlanRuleError as err:
+            errors.append(err)
+    bill_year = u.weather_file if u is not None else None
+    if plan.home.climate.weather_file or bill_year:
+        # a weather year is read by the energy engine (numpy, pandas, pvlib): only when named
+        from homeplan.planner.basis import (
+            BILL_YEAR_WEATHER_KEY,
+            CLIMATE_WEATHER_KEY,
+            read_weather_file,
+        )
+
+        for name, loc in ((plan.home.climate.weather_file, CLIMATE_WEATHER_KEY),
+                          (bill_year, BILL_YEAR_WEATHER_KEY)):
+            try:
+                if name:
+                    read_weather_file(folder, name, loc)
+            except PlanRuleError as err:
+                errors.append(err)
     if reading is None:
         return errors, ()
     m = reading.series
@@ -68,8 +85,9 @@ def _check_files(loaded: LoadedPlan) -> tuple[list[PlanRuleError], tuple[str, ..
                     *reading.notes)
 
 
-def plan_summary(plan: Plan, g: nx.DiGraph | None = None) -> str:
-    """A few lines describing a plan: the home, its service, appliances, cars and budget."""
+def plan_summary(plan: Plan, order: candidates.UpgradeOrder | None = None) -> str:
+    """A few lines describing a plan: the home, its service, appliances, cars and budget (and
+    the upgrades that apply, given its ``order``)."""
     h = plan.home
     units = plan.display.units
     where = (h.location.place if h.location and h.location.place else
@@ -98,8 +116,8 @@ def plan_summary(plan: Plan, g: nx.DiGraph | None = None) -> str:
     b = plan.budget
     lines.append(f"  budget:     {usd(b.usd_per_year)} a year from {plan.first_year} for "
                  f"{b.horizon_years} years" + (", unspent money carries over" if b.carryover else ""))
-    if g is not None:
-        ids = candidates.project_nodes(g)
+    if order is not None:
+        ids = order.project_ids
         lines.append(f"  upgrades:   {len(ids)} candidates: {', '.join(ids)}")
     if plan.usage is None:
         lines.append("  note:       no bills given; energy use will be estimated from floor area")
@@ -111,9 +129,9 @@ def cmd_check(args) -> int:
     choices name and the files it names."""
     loaded = load_plan(args.file, allow=args.allow_outside)
     errors, meter = _check_files(loaded)
-    g = None
+    order = None
     try:
-        g = candidates.build_graph(loaded.plan)
+        order = candidates.upgrade_order(loaded.plan)
     except PlanRuleError as err:
         errors.insert(0, err)
     if errors:
@@ -123,9 +141,9 @@ def cmd_check(args) -> int:
             raise loaded.locate(err) from None
     named = options(loaded)[1:]  # each option validated, its problems located in the file
     for _, opt in named:
-        _graph_checked(opt)
+        _order_checked(opt)
     say(f"{args.file}: ok")
-    say(plan_summary(loaded.plan, g))
+    say(plan_summary(loaded.plan, order))
     if named:
         say(f"options: {', '.join(name for name, _ in named)} (compare them: homeplan compare {args.file})")
     for line in meter:

@@ -16,7 +16,8 @@ year). Modules, from the bottom up:
 - ``compare``: what a step costs beyond the like-for-like purchase it avoids;
 - ``backup``: the battery a plan's critical loads need to ride through an outage;
 - ``capacity``: NEC load calculations of every state and the remedy;
-- ``incentives``: the plan's incentive programs, estimated and evaluated exactly;
+- ``programs``: the incentive programs the plan lists, read and checked (``check`` reads them too);
+- ``incentives``: what those programs pay, estimated and evaluated exactly;
 - ``scheduling``: the scheduling problem, solved and refined;
 - ``solar_words``: why solar, the roof and the battery are where they are (or left out);
 - ``finance``, ``baselines``, ``build``: the result;

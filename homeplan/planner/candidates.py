@@ -1,7 +1,9 @@
 """Which upgrades apply to a home, and what must come before what.
 
 The graph is a plain ``networkx.DiGraph`` whose nodes are candidate projects (data: the
-``Candidate`` record) plus any-of group nodes, and whose edges carry ``kind``:
+``Candidate`` record) plus any-of group nodes, and whose edges carry ``kind``. It is built from
+:func:`upgrade_order`, the same nodes and edges as plain data, which ``homeplan check`` reads
+without loading networkx. Edge kinds:
 
 - ``requires``: hard order, the head cannot be done before the tail (a charger before the car);
 - ``better_before``: soft order worth following (air sealing before sizing a heat pump; the roof
@@ -19,12 +21,11 @@ common practice, no source: air sealing before heat pump sizing, roof before sol
 from __future__ import annotations
 
 import difflib
-import inspect
 from collections.abc import Mapping
 from dataclasses import dataclass, field
+from typing import Any
 
 from homeplan import catalog
-from homeplan.electrical.remedies import find_remedy
 from homeplan.errors import PlanRuleError
 from homeplan.plan.fuels import HOME_FUELS, appliance_fuel
 from homeplan.plan.model import Appliance, Plan
@@ -33,8 +34,10 @@ from homeplan.planner import lifecycle
 __all__ = [
     "CAPACITY_GROUP",
     "INSTALL_ORDER",
+    "REMEDY_COMBINATIONS",
     "MILESTONE_FOR_FUEL",
     "Candidate",
+    "UpgradeOrder",
     "any_of_groups",
     "build_graph",
     "candidates",
@@ -45,12 +48,17 @@ __all__ = [
     "prerequisites_closure",
     "project_nodes",
     "to_dot",
+    "upgrade_order",
 ]
 
 HEATING_KINDS = ("furnace", "boiler", "central_ac", "room_ac", "baseboard")
 CAPACITY_GROUP = "any_of:capacity"
 LOWER_POWER = "lower_power_variants"
 MILESTONE_FOR_FUEL = {"gas": "close_gas", "propane": "remove_propane_tank", "oil": "remove_oil_tank"}
+REMEDY_COMBINATIONS = 50_000
+"""How many mixes of the new loads' variants and service remedies the capacity stage weighs at
+most (its limit for :func:`homeplan.electrical.remedies.find_remedy`); a plan with more is refused
+here, where ``check`` sees it."""
 
 INSTALL_ORDER: dict[str, int] = {
     "panel_upgrade": 0, "service_upgrade": 0, "load_management": 0, "panel_space": 0,
@@ -173,27 +181,39 @@ def _unique(existing: list[Candidate], base: str, key: str) -> str:
     return base if base not in ids else f"{base}:{key}"
 
 
-def build_graph(plan: Plan):
-    """The upgrade graph for this home (see the module docstring for node and edge kinds).
+@dataclass(frozen=True)
+class UpgradeOrder:
+    """The upgrade graph as plain data, checked: what :func:`build_graph` turns into a networkx
+    graph. ``check`` needs no more than this, and so does not load networkx."""
+
+    candidates: tuple[Candidate, ...]
+    groups: Mapping[str, Mapping[str, Any]]             # any-of group node -> its attributes
+    edges: Mapping[tuple[str, str], Mapping[str, str]]  # (before, after) -> kind, why; in the order added
+
+    @property
+    def project_ids(self) -> list[str]:
+        return [c.id for c in self.candidates]
+
+
+def upgrade_order(plan: Plan) -> UpgradeOrder:
+    """The projects of the upgrade graph, its any-of groups and its edges (see the module
+    docstring for their kinds), in the order :func:`build_graph` adds them.
 
     Raises PlanRuleError for unknown project ids in the plan's choices and for cycles that the
     user's extra order creates, naming the cycle.
     """
-    import networkx as nx
-
     kinds = catalog.upgrade_kinds()
     cands = candidates(plan)
-    g = nx.DiGraph()
-    for c in cands:
-        g.add_node(c.id, candidate=c, kind="project")
     ids = {c.id for c in cands}
     by_kind: dict[str, list[str]] = {}
     for c in cands:
         by_kind.setdefault(c.kind, []).append(c.id)
+    edges: dict[tuple[str, str], dict[str, str]] = {}
+    groups: dict[str, dict[str, Any]] = {}
 
     def edge(a: str, b: str, kind: str, why: str) -> None:
         if a in ids and b in ids and a != b:
-            g.add_edge(a, b, kind=kind, why=why)
+            edges[a, b] = {"kind": kind, "why": why}
 
     for c in cands:
         k = kinds[c.kind]
@@ -205,22 +225,20 @@ def build_graph(plan: Plan):
                 edge(r, c.id, "better_before", f"{kinds[bb].label} is better done before {k.label.lower()}")
     # battery with existing solar needs no new array
     if plan.home.solar is not None and "battery" in ids:
-        for u in list(g.predecessors("battery")):
-            if u == "solar":
-                g.remove_edge(u, "battery")
+        edges.pop(("solar", "battery"), None)
     # the roof before solar: hard when the roof is near its end, soft when it has less life than panels
     if "roof" in ids and "solar" in ids and plan.home.roof is not None:
         o = lifecycle.roof_outlook(plan.home.roof, plan.first_year)
         left = o.expected_end_year - plan.first_year
         if left < 10:
-            g.add_edge("roof", "solar", kind="requires",
-                       why=f"the roof has about {left} years left; replace it before adding panels")
+            edge("roof", "solar", "requires",
+                 f"the roof has about {left} years left; replace it before adding panels")
         elif left < kinds["solar"].life_years:
-            g.add_edge("roof", "solar", kind="better_before",
-                       why=f"the roof has about {left} years left, less than the panels' "
-                           f"{kinds['solar'].life_years:.0f}")
+            edge("roof", "solar", "better_before",
+                 f"the roof has about {left} years left, less than the panels' "
+                 f"{kinds['solar'].life_years:.0f}")
         else:
-            g.remove_edge("roof", "solar") if g.has_edge("roof", "solar") else None
+            edges.pop(("roof", "solar"), None)
     # closing a fuel needs every appliance on that fuel replaced
     for fuel, milestone in MILESTONE_FOR_FUEL.items():
         if milestone not in ids:
@@ -231,32 +249,82 @@ def build_graph(plan: Plan):
             for key in c.replaces:
                 a = next((x for x in plan.appliances if x.key == key), None)
                 if a is not None and appliance_fuel(a) == fuel:
-                    g.add_edge(c.id, milestone, kind="requires",
-                               why=f"the {a.key.replace('_', ' ')} burns {fuel}")
+                    edge(c.id, milestone, "requires", f"the {a.key.replace('_', ' ')} burns {fuel}")
     # any-of capacity alternatives for the big new loads
     remedies = [r for r in ("panel_upgrade", "service_upgrade", "load_management") if r in ids]
     loads = [c.id for c in cands if kinds[c.kind].capacity_load]
     if remedies and loads:
-        g.add_node(CAPACITY_GROUP, kind="any_of", label="enough electrical capacity",
-                   alternatives=(*remedies, LOWER_POWER))
+        groups[CAPACITY_GROUP] = {"kind": "any_of", "label": "enough electrical capacity",
+                                  "alternatives": (*remedies, LOWER_POWER)}
         for r in remedies:
-            g.add_edge(r, CAPACITY_GROUP, kind="any_of", why="one way to make room on the service")
+            edges[r, CAPACITY_GROUP] = {"kind": "any_of", "why": "one way to make room on the service"}
         for load in loads:
-            g.add_edge(CAPACITY_GROUP, load, kind="any_of",
-                       why="needs room on the service if the load calculation says so")
-    PlanRuleError.gather(_apply_user_order(g, plan, ids) + _check_choice_ids(plan, ids))
+            edges[CAPACITY_GROUP, load] = {"kind": "any_of",
+                                           "why": "needs room on the service if the load calculation says so"}
+    PlanRuleError.gather(_apply_user_order(edges, plan, ids) + _check_choice_ids(plan, ids))
     _check_option_variants(plan, {c.id: c.kind for c in cands})
     _check_capacity_choices(plan, cands)
-    hard = nx.DiGraph((u, v) for u, v, d in g.edges(data=True) if d["kind"] != "any_of")
-    hard.add_nodes_from(ids)
-    try:
-        cycle = nx.find_cycle(hard)
-    except nx.NetworkXNoCycle:
-        cycle = None
-    if cycle:
+    order = UpgradeOrder(tuple(cands), groups, edges)
+    hard = [e for e, d in edges.items() if d["kind"] != "any_of"]
+    if _has_cycle(ids, hard):
+        # networkx names the cycle; only a plan whose order makes one gets here
+        import networkx as nx
+
+        cycle = nx.find_cycle(_hard_graph(nx, order))
         names = " -> ".join([u for u, _ in cycle] + [cycle[0][0]])
         raise PlanRuleError(("choices", "require_before"), f"the order makes a cycle: {names}",
                             "remove one of these entries from choices.require_before")
+    return order
+
+
+def _has_cycle(nodes: set[str], edges: list[tuple[str, str]]) -> bool:
+    """Whether the directed edges make a cycle: Kahn's algorithm (A. B. Kahn, "Topological
+    sorting of large networks", CACM 5(11), 1962) removes every node once the graph has none."""
+    into = dict.fromkeys(nodes, 0)
+    out: dict[str, list[str]] = {n: [] for n in nodes}
+    for u, v in edges:
+        out[u].append(v)
+        into[v] += 1
+    ready = [n for n, k in into.items() if k == 0]
+    seen = 0
+    while ready:
+        n = ready.pop()
+        seen += 1
+        for v in out[n]:
+            into[v] -= 1
+            if into[v] == 0:
+                ready.append(v)
+    return seen < len(into)
+
+
+def _hard_graph(nx, order: UpgradeOrder):
+    """The hard order as networkx searches it for a cycle: the edges in the order the upgrade
+    graph lists them (by their first project, as added), then the other projects. The cycle
+    networkx names follows this order."""
+    place = {n: i for i, n in enumerate([*order.project_ids, *order.groups])}
+    hard = sorted((e for e, d in order.edges.items() if d["kind"] != "any_of"), key=lambda e: place[e[0]])
+    g = nx.DiGraph(hard)
+    g.add_nodes_from(order.project_ids)
+    return g
+
+
+def build_graph(plan: Plan):
+    """The upgrade graph for this home: a networkx ``DiGraph`` of :func:`upgrade_order` (see the
+    module docstring for node and edge kinds).
+
+    Raises PlanRuleError for unknown project ids in the plan's choices and for cycles that the
+    user's extra order creates, naming the cycle.
+    """
+    import networkx as nx
+
+    order = upgrade_order(plan)
+    g = nx.DiGraph()
+    for c in order.candidates:
+        g.add_node(c.id, candidate=c, kind="project")
+    for n, attrs in order.groups.items():
+        g.add_node(n, **attrs)
+    for (u, v), attrs in order.edges.items():
+        g.add_edge(u, v, **attrs)
     return g
 
 
@@ -265,7 +333,8 @@ def _suggest(name: str, ids: set[str], what: str = "projects for this home") -> 
     return f"did you mean '{close[0]}'?" if close else f"{what}: {', '.join(sorted(ids))}"
 
 
-def _apply_user_order(g, plan: Plan, ids: set[str]) -> list[PlanRuleError]:
+def _apply_user_order(edges: dict[tuple[str, str], dict[str, str]], plan: Plan,
+                      ids: set[str]) -> list[PlanRuleError]:
     """Add the user's order to the graph; the unknown ids it names, as errors (all of them)."""
     errors = []
     for after, befores in plan.choices.require_before.items():
@@ -278,7 +347,7 @@ def _apply_user_order(g, plan: Plan, ids: set[str]) -> list[PlanRuleError]:
                 errors.append(PlanRuleError(("choices", "require_before", after, i),
                                             f"unknown project '{before}'", _suggest(before, ids)))
                 continue
-            g.add_edge(before, after, kind="requires", why="your choice")
+            edges[before, after] = {"kind": "requires", "why": "your choice"}
     return errors
 
 
@@ -292,7 +361,7 @@ def _check_capacity_choices(plan: Plan, cands: list[Candidate]) -> None:
         if k.capacity_load and c.id not in plan.choices.exclude:
             opt = plan.options.get(c.id)
             mixes *= 1 if (opt is not None and opt.variant) else max(1, len(k.variants))
-    most = inspect.signature(find_remedy).parameters["max_combinations"].default
+    most = REMEDY_COMBINATIONS
     remedies_per_mix = 12  # service as is or upgraded, x 3 solar connections, x with/without EMS
     if mixes * remedies_per_mix > most:
         raise PlanRuleError(("appliances",), f"the new electric loads can be chosen in {mixes:,} ways, "

@@ -40,6 +40,7 @@ from homeplan.electrical.tables import practice
 from homeplan.electrical.upgrade_loads import loads_for_upgrade
 from homeplan.plan.fuels import appliance_fuel
 from homeplan.plan.model import Plan
+from homeplan.planner.candidates import REMEDY_COMBINATIONS
 from homeplan.planner.context import Context
 from homeplan.planner.lifecycle import appliance_type
 from homeplan.planner.projects import ProjectDetail, with_variant
@@ -247,11 +248,13 @@ def _plan_capacity(ctx: Context) -> CapacityPlan:
     # the loads decide the service; the solar and battery connection is decided for each set of
     # them the plan may end with (solar_connection.py). With a measured peak, the existing
     # service is checked both ways and the method that needs the cheaper remedy is used.
-    remedy = find_remedy(dwelling, base, service, proposed, costs, edition=edition)
+    remedy = find_remedy(dwelling, base, service, proposed, costs, edition=edition,
+                         max_combinations=REMEDY_COMBINATIONS)
     method = "220.83"
     if measured is not None:
         by_peak = find_remedy(dwelling, base, service, proposed, costs, edition=edition,
-                              measured=measured, continuous_new_load_at_125=cont)
+                              max_combinations=REMEDY_COMBINATIONS, measured=measured,
+                              continuous_new_load_at_125=cont)
         if _remedy_cost(by_peak) < _remedy_cost(remedy):
             remedy, method = by_peak, "220.87"
             today = nec220_87(measured, [], service, edition=edition, continuous_new_load_at_125=cont)

@@ -4,6 +4,9 @@ The scale comes from the catalog's median service life and the shape (wear-out) 
 table. Condition shortens life by accelerated ageing: an appliance in "poor" condition ages
 faster by the factor in data/condition_factors.csv.
 
+Plain Python (``math``): a plan has a handful of items and at most 30 years of risk each, so
+``check``, ``lifecycle`` and the app's first paint need no numpy.
+
 References
 ----------
 W. Weibull (1951), "A statistical distribution function of wide applicability", J. Appl. Mech.
@@ -11,14 +14,14 @@ ASHRAE Handbook - HVAC Applications, "Owning and Operating Costs", service-life 
 For a Weibull distribution S(t) = exp(-(t/eta)^beta), the median is eta (ln 2)^(1/beta), and the
 conditional survival after age a is S(a + t) / S(a) (any reliability text, e.g. Meeker &
 Escobar, "Statistical Methods for Reliability Data", 1998, ch. 4).
+Abramowitz & Stegun (1964), "Handbook of Mathematical Functions", 6.5.3 (upper incomplete gamma
+function), 6.5.29 (its series) and 6.5.31 (its continued fraction), for the mean remaining life.
 """
 
 from __future__ import annotations
 
 import math
 from dataclasses import replace
-
-import numpy as np
 
 from homeplan import catalog
 from homeplan.plan.fuels import appliance_fuel, vehicle_fuel
@@ -37,6 +40,7 @@ __all__ = [
     "remaining_life_at_risk",
     "roof_outlook",
     "survival",
+    "upper_gamma_scaled",
     "vehicle_outlook",
     "weibull_scale",
     "yearly_failure_probability",
@@ -47,46 +51,44 @@ def weibull_scale(median_years: float, shape: float) -> float:
     return median_years / math.log(2.0) ** (1.0 / shape)
 
 
-def survival(age_years: np.ndarray | float, scale: float, shape: float) -> np.ndarray:
+def survival(age_years: float, scale: float, shape: float) -> float:
     """S(t) = exp(-(t/eta)^beta): the chance of still working at age t."""
-    t = np.maximum(np.asarray(age_years, dtype=float), 0.0)
-    return np.exp(-((t / scale) ** shape))
+    t = max(float(age_years), 0.0)
+    return math.exp(-((t / scale) ** shape))
 
 
-def conditional_survival(age_years: np.ndarray | float, from_age_years: np.ndarray | float,
-                         scale: float, shape: float) -> np.ndarray:
+def conditional_survival(age_years: float, from_age_years: float, scale: float, shape: float) -> float:
     """S(t) / S(a): the chance of still working at age t given it works at age a (t >= a).
 
     Computed as exp((a/eta)^beta - (t/eta)^beta), so an age far past the median life (a roof
     laid in 1900) gives a small number, not 0/0: each S underflows to zero long before the
     ratio does.
     """
-    t = np.maximum(np.asarray(age_years, dtype=float), 0.0)
-    a = np.maximum(np.asarray(from_age_years, dtype=float), 0.0)
-    with np.errstate(over="ignore"):
-        return np.exp(np.minimum((a / scale) ** shape - (t / scale) ** shape, 0.0))
+    t = max(float(age_years), 0.0)
+    a = max(float(from_age_years), 0.0)
+    return math.exp(min((a / scale) ** shape - (t / scale) ** shape, 0.0))
 
 
-def yearly_failure_probability(age_years: float, years: int, scale: float, shape: float) -> np.ndarray:
+def yearly_failure_probability(age_years: float, years: int, scale: float, shape: float) -> tuple[float, ...]:
     """P(fails during future year k | works today), k = 1..years (unconditional on years between).
 
     Element k-1 is (S(a+k-1) - S(a+k)) / S(a); the elements sum to the cumulative risk.
     """
-    t = age_years + np.arange(years + 1, dtype=float)
-    s = conditional_survival(t, age_years, scale, shape)
-    return s[:-1] - s[1:]
+    s = [conditional_survival(age_years + k, age_years, scale, shape) for k in range(years + 1)]
+    return tuple(s[k] - s[k + 1] for k in range(years))
 
 
-def hazard_by_year(age_years: float, years: int, scale: float, shape: float) -> np.ndarray:
+def hazard_by_year(age_years: float, years: int, scale: float, shape: float) -> tuple[float, ...]:
     """P(fails during future year k | still works at the start of that year)."""
-    t = age_years + np.arange(years + 1, dtype=float)
-    return 1.0 - conditional_survival(t[1:], t[:-1], scale, shape)
+    return tuple(1.0 - conditional_survival(age_years + k + 1, age_years + k, scale, shape)
+                 for k in range(years))
 
 
-def cumulative_failure_probability(age_years: float, years: int, scale: float, shape: float) -> np.ndarray:
+def cumulative_failure_probability(age_years: float, years: int, scale: float,
+                                   shape: float) -> tuple[float, ...]:
     """P(has failed by the end of future year k | works today), k = 1..years."""
-    t = age_years + np.arange(1, years + 1, dtype=float)
-    return 1.0 - conditional_survival(t, age_years, scale, shape)
+    return tuple(1.0 - conditional_survival(age_years + k, age_years, scale, shape)
+                 for k in range(1, years + 1))
 
 
 def remaining_life_at_risk(age_years: float, risk: float, scale: float, shape: float) -> float:
@@ -101,11 +103,56 @@ def remaining_life_at_risk(age_years: float, risk: float, scale: float, shape: f
     return scale * ((a / scale) ** shape - math.log(1.0 - risk)) ** (1.0 / shape) - a
 
 
+def upper_gamma_scaled(s: float, x: float) -> float:
+    """exp(x) Gamma(s, x), the upper incomplete gamma function scaled so that it does not
+    underflow for large x (s > 0, x >= 0).
+
+    Below x = s + 1 by the series of the lower function (A&S 6.5.29):
+    gamma(s, x) = exp(-x) x^s sum_n x^n / (s (s+1) ... (s+n)), and Gamma(s, x) = Gamma(s) - gamma(s, x);
+    above it by the continued fraction of A&S 6.5.31, evaluated by the modified Lentz method,
+    whose value times x^s exp(-x) is Gamma(s, x). Relative error about 1e-14.
+    """
+    if s <= 0 or x < 0:
+        raise ValueError("needs s > 0 and x >= 0")
+    if x == 0:
+        return math.gamma(s)
+    tiny, eps = 1e-300, 1e-15
+    if x < s + 1:
+        term = total = 1.0 / s
+        n = 0
+        while abs(term) > abs(total) * eps:
+            n += 1
+            term *= x / (s + n)
+            total += term
+        return math.exp(x) * math.gamma(s) - x ** s * total
+    b = x + 1.0 - s
+    c, d = 1.0 / tiny, 1.0 / b
+    h = d
+    for i in range(1, 10_000):
+        an = -i * (i - s)
+        b += 2.0
+        d = an * d + b
+        d = tiny if abs(d) < tiny else d
+        c = b + an / c
+        c = tiny if abs(c) < tiny else c
+        d = 1.0 / d
+        delta = d * c
+        h *= delta
+        if abs(delta - 1.0) < eps:
+            break
+    return x ** s * h
+
+
 def mean_remaining_life(age_years: float, scale: float, shape: float) -> float:
-    """E[T - a | T > a] = integral of S(a + t) / S(a) dt, by the trapezoid rule on a fine grid."""
-    t = np.linspace(0.0, 6.0 * scale + 1.0, 20001)
-    s = conditional_survival(age_years + t, age_years, scale, shape)
-    return float(np.sum((s[1:] + s[:-1]) * 0.5 * np.diff(t)))
+    """E[T - a | T > a] = integral of S(a + t) / S(a) dt over t >= 0, in closed form.
+
+    With x = (a/eta)^beta the integral is eta exp(x) Gamma(1 + 1/beta, x) - a (substitute
+    u = (t/eta)^beta in the integral of S, then A&S 6.5.3); at a = 0 it is the Weibull mean
+    eta Gamma(1 + 1/beta).
+    """
+    a = max(float(age_years), 0.0)
+    x = (a / scale) ** shape
+    return max(scale * upper_gamma_scaled(1.0 + 1.0 / shape, x) - a, 0.0)
 
 
 def outlook(
@@ -123,10 +170,8 @@ def outlook(
     eff_age = age / factor if factor > 0 else age
     scale = weibull_scale(life.median_life_years, life.weibull_shape)
     if failed:
-        yearly = np.zeros(years)
-        yearly[0] = 1.0
-        cumulative = np.ones(years)
-        hazard = np.ones(years)
+        yearly = (1.0, *(0.0,) * (years - 1)) if years else ()
+        cumulative = hazard = (1.0,) * years
         end = replace_by = today_year
         mean_rem = 0.0
     else:

@@ -21,7 +21,7 @@ from homeplan.plan.load import load_plan
 from homeplan.plan.model import Plan
 from homeplan.planner.chain import plan_roadmap
 from homeplan.planner.context import PlannerCache
-from homeplan.planner.incentives import load_programs
+from homeplan.planner.programs import load_programs
 from homeplan.planner.shared import SharedCache
 from homeplan.portfolio.inputs import HomeInput, plan_of_row
 from homeplan.portfolio.record import HomeRecord, failed_record, home_record

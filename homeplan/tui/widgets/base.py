@@ -11,6 +11,7 @@ from typing import TYPE_CHECKING
 from rich.text import Text
 from textual.containers import Vertical
 
+from homeplan.planner.lifecycle import plan_outlooks
 from homeplan.report.sources import Sourced, assumption_sources
 from homeplan.report.view import emergency_lines
 
@@ -43,9 +44,6 @@ class ViewData:
             if self.result is not None and self.result.plan == self.plan:
                 self._cache["outlooks"] = tuple(self.result.outlooks)
             else:
-                # the planner's modules load numpy: not before the first paint
-                from homeplan.planner.lifecycle import plan_outlooks
-
                 self._cache["outlooks"] = tuple(plan_outlooks(self.plan))
         return self._cache["outlooks"]
 
