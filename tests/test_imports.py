@@ -4,7 +4,7 @@
 needs numpy, pandas, scipy and pvlib (and a plan that names a weather or meter file, whose
 readings are arrays), and of them only ``graph`` needs networkx. Each command runs in a fresh
 interpreter on every sample, and the modules it loaded are listed afterwards. A structural check
-of docs/developing.md's rule that heavy libraries are imported lazily, not a timing.
+of the rule that heavy libraries are imported only where they are needed, not a timing.
 """
 
 from __future__ import annotations
