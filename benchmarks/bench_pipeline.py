@@ -17,6 +17,7 @@ from __future__ import annotations
 
 import argparse
 import copy
+import json
 import os
 import statistics
 import subprocess
@@ -32,6 +33,18 @@ from homeplan import PlannerCache, plan_roadmap  # noqa: E402
 from homeplan.plan.load import load_plan, validate_document  # noqa: E402
 from homeplan.plan.save import set_in  # noqa: E402
 
+LAUNCHER = r"""
+import json, os, subprocess, sys, time
+t = time.perf_counter()
+proc = subprocess.Popen(sys.argv[1:], stdout=subprocess.DEVNULL, stderr=subprocess.DEVNULL)
+_, status, usage = os.wait4(proc.pid, 0)
+print(json.dumps([time.perf_counter() - t, usage.ru_maxrss, usage.ru_utime + usage.ru_stime,
+                  os.waitstatus_to_exitcode(status)]))
+"""
+"""Runs the command and reports its wall time, peak resident size (KiB) and CPU time. A small
+launcher starts it, because Linux counts in a child's peak resident size the memory of the
+process it was started from (the benchmark's own, several hundred MB once it has planned)."""
+
 
 def _child(args: list[str], store: str) -> tuple[float, float, float]:
     """Wall seconds, max resident MB and CPU seconds of ``homeplan ARGS`` in a fresh interpreter."""
@@ -39,15 +52,12 @@ def _child(args: list[str], store: str) -> tuple[float, float, float]:
     # PYTHONDONTWRITEBYTECODE, which makes every process compile homeplan again, ~0.3 s)
     env = {k: v for k, v in os.environ.items() if k != "PYTHONDONTWRITEBYTECODE"}
     env["HOMEPLAN_CACHE_DIR"] = store
-    t = time.perf_counter()
-    proc = subprocess.Popen([sys.executable, "-m", "homeplan.cli", *args], env=env,
-                            stdout=subprocess.DEVNULL, stderr=subprocess.DEVNULL)
-    _, status, usage = os.wait4(proc.pid, 0)  # this child's own resource use
-    wall = time.perf_counter() - t
-    proc.returncode = os.waitstatus_to_exitcode(status)
-    if proc.returncode != 0:
-        raise SystemExit(f"homeplan {' '.join(args)} failed with exit code {proc.returncode}")
-    return wall, usage.ru_maxrss / 1024.0, usage.ru_utime + usage.ru_stime  # KiB on Linux
+    out = subprocess.run([sys.executable, "-c", LAUNCHER, sys.executable, "-m", "homeplan.cli", *args],
+                         env=env, capture_output=True, text=True, check=True).stdout
+    wall, maxrss_kib, cpu, code = json.loads(out)
+    if code != 0:
+        raise SystemExit(f"homeplan {' '.join(args)} failed with exit code {code}")
+    return wall, maxrss_kib / 1024.0, cpu
 
 
 def _stats(values: list[float], scale: float = 1000.0) -> str:
