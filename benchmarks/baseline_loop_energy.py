@@ -340,3 +340,29 @@ def simulate_loop(spec, cache) -> dict[str, object]:  # noqa: C901, PLR0912, PLR
         "monthly_import_kwh": m_imp,
         "monthly_export_kwh": m_exp,
     }
+
+
+def bench_states(weather):
+    """The two invented states bench_energy.py times: a gas home, and the same home all-electric
+    with a heat pump, heat pump water heater, induction, heat pump dryer, an EV, 7 kW of solar
+    and a battery."""
+    from dataclasses import replace
+
+    from homeplan.energy.appliances import CookingSpec, DryerSpec
+    from homeplan.energy.battery import BatterySpec
+    from homeplan.energy.heating import CoolingSpec, size_heat_pump
+    from homeplan.energy.simulate import HomeEnergySpec, with_heat_pump
+    from homeplan.energy.solar import SolarArraySpec
+    from homeplan.energy.vehicles import VehicleSpec
+    from homeplan.energy.water import WaterHeaterSpec
+
+    base = HomeEnergySpec(weather=weather, ua_btuh_f=450.0, cooling=CoolingSpec(13.4),
+                          vehicles=(VehicleSpec(),), label="invented demo home")
+    hp = size_heat_pump(base.design_heating_load_btuh, float(weather.heating_design_f))
+    electric = replace(
+        with_heat_pump(base, hp), water_heater=WaterHeaterSpec.heat_pump(),
+        cooking=CookingSpec("induction"), dryer=DryerSpec("heat_pump"),
+        vehicles=(VehicleSpec("electricity"),), solar=SolarArraySpec(7.0),
+        battery=BatterySpec(), gas_service_open=False,
+    )
+    return base, electric

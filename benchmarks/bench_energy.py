@@ -14,21 +14,14 @@ import os
 import statistics
 import sys
 import time
-from dataclasses import replace
 from pathlib import Path
 
 sys.path.insert(0, str(Path(__file__).resolve().parent))
 sys.path.insert(0, str(Path(__file__).resolve().parents[1]))
 
-from baseline_loop_energy import simulate_loop  # noqa: E402
+from baseline_loop_energy import bench_states, simulate_loop  # noqa: E402
 
-from homeplan.energy.appliances import CookingSpec, DryerSpec  # noqa: E402
-from homeplan.energy.battery import BatterySpec  # noqa: E402
-from homeplan.energy.heating import CoolingSpec, size_heat_pump  # noqa: E402
-from homeplan.energy.simulate import HomeEnergySpec, SiteCache, simulate, with_heat_pump  # noqa: E402
-from homeplan.energy.solar import SolarArraySpec  # noqa: E402
-from homeplan.energy.vehicles import VehicleSpec  # noqa: E402
-from homeplan.energy.water import WaterHeaterSpec  # noqa: E402
+from homeplan.energy.simulate import SiteCache, simulate  # noqa: E402
 from homeplan.energy.weather import read_tmy3  # noqa: E402
 
 TARGET_MS = 5.0
@@ -68,15 +61,7 @@ def main() -> None:
     t0 = time.perf_counter()
     weather = read_tmy3(os.path.join(os.path.dirname(pvlib.__file__), "data", "723170TYA.CSV"))
     cache = SiteCache(weather)
-    base = HomeEnergySpec(weather=weather, ua_btuh_f=450.0, cooling=CoolingSpec(13.4),
-                          vehicles=(VehicleSpec(),), label="invented demo home")
-    hp = size_heat_pump(base.design_heating_load_btuh, float(weather.heating_design_f))
-    electric = replace(
-        with_heat_pump(base, hp), water_heater=WaterHeaterSpec.heat_pump(),
-        cooking=CookingSpec("induction"), dryer=DryerSpec("heat_pump"),
-        vehicles=(VehicleSpec("electricity"),), solar=SolarArraySpec(7.0),
-        battery=BatterySpec(), gas_service_open=False,
-    )
+    base, electric = bench_states(weather)
     simulate(base, cache)
     simulate(electric, cache)
     setup = time.perf_counter() - t0

@@ -27,10 +27,9 @@ from homeplan.energy.heating import (
     FurnaceSpec,
     HeatPumpSpec,
     ResistanceHeatSpec,
-    size_heat_pump,
 )
 from homeplan.energy.rates import ElectricRate, TouPeriod
-from homeplan.energy.simulate import HomeEnergySpec, SiteCache, simulate, with_heat_pump
+from homeplan.energy.simulate import HomeEnergySpec, SiteCache, simulate
 from homeplan.energy.solar import SolarArraySpec
 from homeplan.energy.units import btu_per_kwh, btu_per_unit
 from homeplan.energy.vehicles import VehicleSpec
@@ -48,24 +47,12 @@ def _load_loop():
     mod_spec = importlib.util.spec_from_file_location("baseline_loop_energy", path)
     module = importlib.util.module_from_spec(mod_spec)
     mod_spec.loader.exec_module(module)
-    return module.simulate_loop
+    return module
 
 
-simulate_loop = _load_loop()
-
-
-def _bench_states(weather):
-    """The two states bench_energy.py times (same construction)."""
-    base = HomeEnergySpec(weather=weather, ua_btuh_f=450.0, cooling=CoolingSpec(13.4),
-                          vehicles=(VehicleSpec(),), label="invented demo home")
-    hp = size_heat_pump(base.design_heating_load_btuh, float(weather.heating_design_f))
-    electric = replace(
-        with_heat_pump(base, hp), water_heater=WaterHeaterSpec.heat_pump(),
-        cooking=CookingSpec("induction"), dryer=DryerSpec("heat_pump"),
-        vehicles=(VehicleSpec("electricity"),), solar=SolarArraySpec(7.0),
-        battery=BatterySpec(), gas_service_open=False,
-    )
-    return base, electric
+_loop_module = _load_loop()
+simulate_loop = _loop_module.simulate_loop
+_bench_states = _loop_module.bench_states  # the two states bench_energy.py times
 
 
 @pytest.fixture(scope="module")
