@@ -719,7 +719,7 @@ def _solve_relaxing(ctx: Context, co: dict[str, Coefficients], capacity: Capacit
     """Solve with the replace-by windows; if the budget cannot meet them, allow the fewest
     extra years that make it feasible, and finally drop the windows (saying so in ``notes``).
 
-    Each extra year only widens the windows, so the fewest is found by bisection with
+    Each extra year only widens the windows, so the fewest is found by galloping search with
     feasibility tests (:meth:`MilpSolver.feasible`, a few ms each), and only the problem
     chosen is solved in full."""
 
