@@ -77,11 +77,12 @@ def refuse_outputs_over_inputs(loaded: LoadedPlan, outputs: Sequence[str | os.Pa
                                              "--force to replace it"))
 
 
-def with_sensitivity(loaded: LoadedPlan, result: PlanResult) -> PlanResult:
-    """The result with its sensitivity ranking (the home re-planned about twenty times)."""
+def with_sensitivity(loaded: LoadedPlan, result: PlanResult, use_store: bool = True) -> PlanResult:
+    """The result with its sensitivity ranking (the home re-planned about twenty times);
+    ``use_store`` False (``--no-cache``) keeps nothing on disk."""
     if result.roadmap.status != "ok":
         return result
-    return replace(result, sensitivity=sensitivity(loaded, result, cache=planner_cache()))
+    return replace(result, sensitivity=sensitivity(loaded, result, cache=planner_cache(use_store)))
 
 
 def now_utc() -> dt.datetime:

@@ -62,7 +62,7 @@ def cmd_print(args) -> int:
     loaded, result = load_and_plan(args.file, allow=args.allow_outside, outputs=outputs, force=args.force,
                                    use_store=not args.no_cache)
     if not getattr(args, "quick", False):
-        result = with_sensitivity(loaded, result)
+        result = with_sensitivity(loaded, result, use_store=not args.no_cache)
     comparison = None
     if result.plan.alternatives:
         comparison = build_comparison([(name, r) for name, _, r in

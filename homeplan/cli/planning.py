@@ -249,11 +249,12 @@ def cmd_costs(args) -> int:
 
 
 def cmd_sensitivity(args) -> int:
-    loaded, result = load_and_plan(args.file, allow=args.allow_outside)
+    use_store = not getattr(args, "no_cache", False)
+    loaded, result = load_and_plan(args.file, allow=args.allow_outside, use_store=use_store)
     if result.roadmap.status != "ok":
         say(result.roadmap.infeasibility or "No plan meets every requirement.", err=True)
         return EXIT_BAD_INPUT
-    result = with_sensitivity(loaded, result)
+    result = with_sensitivity(loaded, result, use_store=use_store)
     if args.json:
         say(json.dumps(result.sensitivity.to_dict(), indent=2, allow_nan=False))
         return 0

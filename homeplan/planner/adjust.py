@@ -45,7 +45,10 @@ class Adjustments:
         w = b.weather
         shifted = replace(w, temp_f=w.temp_f + self.weather_shift_f, heating_design_f=w.heating_design_f,
                           cooling_design_f=w.cooling_design_f)
-        basis = replace(b, weather=shifted, site=SiteCache(shifted), base=replace(b.base, weather=shifted))
+        # the home's keeper of solar output too: content-keyed by the weather, so the shifted
+        # year's output is kept apart from the typical year's
+        site = SiteCache(shifted, b.site.solar.keep)
+        basis = replace(b, weather=shifted, site=site, base=replace(b.base, weather=shifted))
         return replace(ctx, basis=basis, basis_key=f"{ctx.basis_key}:weather{self.weather_shift_f:+g}")
 
     def projects(self, ctx: Context) -> Context:

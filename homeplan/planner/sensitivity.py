@@ -155,7 +155,10 @@ def sensitivity(plan: Plan | LoadedPlan, result: PlanResult, base_dir: Path | st
     labels: dict[tuple[str, str], str] = {}
     notes: list[str] = []
     for case in cases(plan, result):
-        r = plan_roadmap(case.plan, base_dir, PlannerCache() if case.own_cache else shared, case.adjust)
+        # a case that changes the home's basis gets a cache of its own; what the disk store
+        # keeps (weather years, solar output, content-keyed) it may still share
+        own = PlannerCache(store=shared.store) if case.own_cache else shared
+        r = plan_roadmap(case.plan, base_dir, own, case.adjust)
         info.setdefault(case.key, case)
         labels[(case.key, case.side)] = case.setting
         if r.roadmap.status != "ok":

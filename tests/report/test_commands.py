@@ -34,7 +34,7 @@ def run(monkeypatch):
     assert _wired(), "the CLI must register print, export and diff"
     monkeypatch.setattr(outputs, "load_and_plan", lambda _path, **_options: (None, make_result()))
     monkeypatch.setattr(cli, "preflight", lambda *_args, **_options: None)  # no file: a fixture result
-    monkeypatch.setattr(outputs, "with_sensitivity", lambda _loaded, result: result)  # no re-planning
+    monkeypatch.setattr(outputs, "with_sensitivity", lambda _loaded, result, **_options: result)  # no re-planning
     monkeypatch.setenv("SOURCE_DATE_EPOCH", "1796083200")  # 2026-12-01T00:00:00Z
     return cli.main
 
