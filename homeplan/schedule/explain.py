@@ -25,7 +25,6 @@ or the earliest workable target year.
 from __future__ import annotations
 
 import dataclasses
-import time
 from collections.abc import Callable
 from dataclasses import dataclass
 
@@ -358,7 +357,7 @@ def _feasibility_problem(problem: Problem) -> Problem:
 
 def minimum_extra_budget(
     problem: Problem, feasible: Callable[[Problem], bool] | None = None, step_usd: float = 10.0,
-    with_extra: Callable[[float], bool] | None = None, deadline: float | None = None,
+    with_extra: Callable[[float], bool] | None = None, stop: Callable[[], bool] | None = None,
 ) -> float | None:
     """Smallest extra budget per year (multiple of ``step_usd``) that makes ``problem``
     feasible, by bisection, or ``None`` if even a very large budget does not.
@@ -374,9 +373,9 @@ def minimum_extra_budget(
     with_extra : callable or None
         Instead of ``feasible``: returns True if ``problem`` with that many USD added to every
         year's budget is feasible (e.g. :meth:`MilpSolver.feasible_with_extra_budget`).
-    deadline : float or None
-        A ``time.perf_counter()`` value: past it the bisection stops and returns the smallest
-        amount found to be enough so far.
+    stop : callable or None
+        Asked before each step of the bisection: when it returns True the bisection stops and
+        returns the smallest amount found to be enough so far.
 
     Returns
     -------
@@ -400,7 +399,7 @@ def minimum_extra_budget(
     if with_extra(0.0):
         return 0.0
     while hi - lo > step_usd:
-        if deadline is not None and time.perf_counter() > deadline:
+        if stop is not None and stop():
             break  # hi is known to be enough
         mid = step_usd * ((lo + hi) / 2 // step_usd)
         if mid <= lo:
@@ -437,47 +436,47 @@ def first_true(lo: int, hi: int, test: Callable[[int], bool]) -> int | None:
     return k
 
 
-class _OutOfTime(Exception):
-    """The diagnosis used up its time."""
+class _OutOfTests(Exception):
+    """The diagnosis used up its tests."""
 
 
-def diagnose(problem: Problem, solver: Solver | None = None, time_budget_s: float = 1.5) -> Diagnosis:
+def diagnose(problem: Problem, solver: Solver | None = None, max_tests: int = 30) -> Diagnosis:
     """Explain why ``problem`` is infeasible and the smallest change that makes it feasible.
 
     Near the edge of feasibility a test can be a hard problem of its own (tight budgets over
-    30 years: seconds a test), so the search has a time budget: each test gets at most the
-    solver's time limit (a test stopped by it counts as infeasible, so an amount reported is
-    always enough) and, once the budget is spent, the diagnosis reports what it has found and
-    says that the search stopped.
+    30 years: seconds a test), so the search is bounded, and bounded by work rather than by the
+    clock so that the same plan always gets the same words: at most ``max_tests`` feasibility
+    tests after the first, each stopped after a number of branch-and-bound nodes (a test
+    stopped that way counts as infeasible, so an amount reported is always enough). When the
+    tests run out, the diagnosis reports what it has found and says that the search stopped.
 
     Parameters
     ----------
     problem : Problem
         The problem.
     solver : Solver or None
-        Solver for the feasibility checks; None uses a fast :class:`MilpSolver` (1 s a test).
-    time_budget_s : float
-        Time for the whole search, s.
+        Solver for the feasibility checks; None uses a fast :class:`MilpSolver` (20 nodes a
+        test).
+    max_tests : int
+        Feasibility tests after the first.
 
     Returns
     -------
     Diagnosis
         Blocking families, conflicts and the smallest changes found.
     """
-    solver = solver or MilpSolver(time_limit_s=1.0, mip_rel_gap=1.0)
+    solver = solver or MilpSolver(time_limit_s=10.0, mip_rel_gap=1.0, node_limit=20)
     base = _feasibility_problem(problem)
-    deadline = time.perf_counter() + time_budget_s
+    done = [0]
 
-    def timed() -> Solver:
-        left = deadline - time.perf_counter()
-        if left <= 0:
-            raise _OutOfTime
-        if isinstance(solver, MilpSolver) and solver.time_limit_s > left:
-            return dataclasses.replace(solver, time_limit_s=max(left, 0.05))
+    def counted() -> Solver:
+        if done[0] >= max_tests:
+            raise _OutOfTests
+        done[0] += 1
         return solver
 
     def feasible(pr: Problem, s: Solver | None = None) -> bool:
-        s = s or timed()
+        s = s or counted()
         # a solver that can test the constraints alone does so (a few ms a test); others solve
         check = getattr(s, "feasible", None)
         return bool(check(pr)) if check is not None else s.solve(pr).feasible
@@ -491,7 +490,7 @@ def diagnose(problem: Problem, solver: Solver | None = None, time_budget_s: floa
         for name, relax in _relaxations(base).items():
             if feasible(relax(base)):
                 blocking.append(name)
-    except _OutOfTime:
+    except _OutOfTests:
         stopped = True
     fixes: list[str] = []
     extra = None
@@ -499,11 +498,19 @@ def diagnose(problem: Problem, solver: Solver | None = None, time_budget_s: floa
     if "budget" in blocking and not stopped:
         by_budget = hasattr(solver, "feasible_with_extra_budget")
         try:
-            extra = (minimum_extra_budget(base, feasible) if not by_budget
-                     else minimum_extra_budget(base, with_extra=timed().feasible_with_extra_budget(base), deadline=deadline))
-        except _OutOfTime:
+            if by_budget:
+                test = solver.feasible_with_extra_budget(base)  # type: ignore[attr-defined]
+
+                def with_extra(e: float) -> bool:
+                    counted()
+                    return test(e)
+
+                extra = minimum_extra_budget(base, with_extra=with_extra, stop=lambda: done[0] >= max_tests)
+            else:
+                extra = minimum_extra_budget(base, feasible, stop=lambda: done[0] >= max_tests)
+        except _OutOfTests:
             stopped = True
-        stopped = stopped or time.perf_counter() > deadline
+        stopped = stopped or done[0] >= max_tests
         if extra is not None:
             lo_b, hi_b = min(base.budget_usd), max(base.budget_usd)
             now = _money(lo_b) if lo_b == hi_b else f"{_money(lo_b)}-{_money(hi_b)}"
@@ -517,7 +524,7 @@ def diagnose(problem: Problem, solver: Solver | None = None, time_budget_s: floa
         # a later target only loosens the problem: the fewest years by bisection
         try:
             k = first_true(1, base.n_years, lambda k: feasible(base.replace(targets=moved(k))))
-        except _OutOfTime:
+        except _OutOfTests:
             stopped = True
         else:
             if k is None:
@@ -541,7 +548,7 @@ def diagnose(problem: Problem, solver: Solver | None = None, time_budget_s: floa
     elif not blocking and not stopped:
         msg += " Several constraints must be relaxed together."
     if stopped:
-        msg += (f" (The search for what to change stopped at its {time_budget_s:g} s limit: the "
+        msg += (f" (The search for what to change stopped after {max_tests} tests: the "
                 "changes named are enough, but there may be smaller ones or others.)")
     return Diagnosis(False, msg, tuple(blocking), tuple(conflicts), extra, target_year)
 

@@ -595,12 +595,16 @@ class MilpSolver:
     retry_without_presolve : bool
         With presolve on: solve a stage again without presolve when its answer does not hold up
         (see the module notes).
+    node_limit : int or None
+        Branch-and-bound nodes after which HiGHS stops (a limit that, unlike the clock, gives
+        the same answer on a busy machine); None for no limit.
     """
 
     time_limit_s: float = 30.0
     mip_rel_gap: float = 1e-7
     presolve: bool = False
     retry_without_presolve: bool = True
+    node_limit: int | None = None
 
     def _highs(self, model: _Model, time_limit_s: float, presolve: bool) -> _Result:
         import highspy
@@ -609,6 +613,8 @@ class MilpSolver:
         for name, value in (("output_flag", False), ("time_limit", max(time_limit_s, 1e-3)),
                             ("mip_rel_gap", self.mip_rel_gap), ("presolve", "on" if presolve else "off")):
             h.setOptionValue(name, value)
+        if self.node_limit is not None:
+            h.setOptionValue("mip_max_nodes", int(self.node_limit))
         n_rows, n_cols = model.shape
         h.passModel(n_cols, n_rows, len(model.a_value), int(highspy.MatrixFormat.kColwise),
                     int(highspy.ObjSense.kMinimize), 0.0, model.c, model.lb, model.ub,
