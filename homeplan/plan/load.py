@@ -15,7 +15,7 @@ from __future__ import annotations
 import copy
 import difflib
 import os
-from collections.abc import Iterable, Mapping
+from collections.abc import Callable, Iterable, Mapping
 from dataclasses import dataclass
 from pathlib import Path
 from typing import Any
@@ -377,20 +377,18 @@ def load_plan(path: str | os.PathLike, allow: Iterable[str | os.PathLike] = ()) 
 
     ``allow`` names files outside the plan's folder that the plan may name (the user's say-so).
     """
-    p = Path(path)
-    text = read_text(p)
-    doc = parse_document(text, str(p))
-    plan, migrated_from = validate_document(doc, str(p))
-    return LoadedPlan(plan=plan, document=doc, path=p, migrated_from=migrated_from,
-                      allow=tuple(Path(a) for a in allow))
+    return _load(Path(path), allow, parse_document)
 
 
 def load_for_editing(path: str | os.PathLike, allow: Iterable[str | os.PathLike] = ()) -> LoadedPlan:
     """Like :func:`load_plan`, with a round-trip document (comments and key order kept) that
     :func:`homeplan.plan.save.save_document` writes back."""
-    p = Path(path)
-    text = read_text(p)
-    doc = parse_roundtrip(text, str(p))
+    return _load(Path(path), allow, parse_roundtrip)
+
+
+def _load(p: Path, allow: Iterable[str | os.PathLike], parse: Callable[[str, str], Any]) -> LoadedPlan:
+    """Read ``p`` safely, parse it with ``parse`` (text, name) and validate it."""
+    doc = parse(read_text(p), str(p))
     plan, migrated_from = validate_document(doc, str(p))
     return LoadedPlan(plan=plan, document=doc, path=p, migrated_from=migrated_from,
                       allow=tuple(Path(a) for a in allow))

@@ -724,10 +724,13 @@ def _solve_relaxing(ctx: Context, co: dict[str, Coefficients], capacity: Capacit
     chosen is solved in full."""
 
     series: dict[str, tuple] = {}
+    built: dict[int | None, Problem] = {}  # the problem a feasibility test found is solved as built
 
     def build(delay: int | None) -> Problem:
-        return build_problem(ctx, co, capacity, implicit_target=implicit, delay=delay, groups=groups,
-                             alternatives=alternatives, series=series)
+        if delay not in built:
+            built[delay] = build_problem(ctx, co, capacity, implicit_target=implicit, delay=delay,
+                                         groups=groups, alternatives=alternatives, series=series)
+        return built[delay]
 
     problem = build(0)
     solution = solve(problem)
